@@ -1,0 +1,12 @@
+import type { Request, Response } from "express";
+import { databaseReachable } from "~/db/client.server";
+
+/** Liveness plus database reachability, for load balancers and people. */
+export async function health(_req: Request, res: Response): Promise<void> {
+  const database = (await databaseReachable()) ? "reachable" : "unreachable";
+  res.status(database === "reachable" ? 200 : 503).json({
+    status: database === "reachable" ? "ok" : "degraded",
+    database,
+    time: new Date().toISOString(),
+  });
+}

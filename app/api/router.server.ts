@@ -1,0 +1,31 @@
+import express, { Router } from "express";
+import { evaluateEnergy, EVALUATE_BODY_LIMIT } from "./evaluate.server";
+import { health } from "./health.server";
+import { openApiDocument } from "./openapi.server";
+import { requirePrincipal } from "./principal.server";
+import { apiErrorHandler, sendError } from "./respond.server";
+
+/** The JSON API under /api/v1. */
+export function apiRouter(): Router {
+  const router = Router();
+  router.get("/health", health);
+  router.get("/openapi.json", (_req, res) => {
+    res.json(openApiDocument());
+  });
+  router.post(
+    "/energy/evaluate",
+    requirePrincipal({ allowSession: true }),
+    express.json({ limit: EVALUATE_BODY_LIMIT, strict: true }),
+    evaluateEnergy,
+  );
+  router.use((_req, res) => {
+    sendError(
+      res,
+      404,
+      "not_found",
+      "No such API route. See /api/v1/openapi.json.",
+    );
+  });
+  router.use(apiErrorHandler);
+  return router;
+}

@@ -1,0 +1,78 @@
+import { and, asc, eq } from "drizzle-orm";
+import { data } from "react-router";
+import type { User } from "lucia";
+import { db } from "~/db/client.server";
+import { memberships, organizations } from "~/db/schema";
+import { can, type Permission, type Role } from "./permissions";
+import { requireUser } from "./session.server";
+
+export interface OrganizationContext {
+  user: User;
+  organization: { id: string; name: string };
+  role: Role;
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export function notFound(message = "Not found"): never {
+  throw data({ message }, { status: 404 });
+}
+
+export function forbidden(message = "Your role does not allow this."): never {
+  throw data({ message }, { status: 403 });
+}
+
+export async function findMembership(userId: string, organizationId: string) {
+  if (!UUID.test(organizationId)) return null;
+  const [row] = await db
+    .select({
+      id: organizations.id,
+      name: organizations.name,
+      role: memberships.role,
+    })
+    .from(memberships)
+    .innerJoin(organizations, eq(organizations.id, memberships.organizationId))
+    .where(
+      and(
+        eq(memberships.organizationId, organizationId),
+        eq(memberships.userId, userId),
+      ),
+    );
+  return row ?? null;
+}
+
+/**
+ * The signed-in user's membership of the organisation in the URL, checked for
+ * a permission. An organisation the user is not a member of answers 404, the
+ * same as one that does not exist, so ids reveal nothing.
+ */
+export async function requireMembership(
+  request: Request,
+  organizationId: string | undefined,
+  permission: Permission = "organization.view",
+): Promise<OrganizationContext> {
+  const user = await requireUser(request);
+  const row = organizationId
+    ? await findMembership(user.id, organizationId)
+    : null;
+  if (!row) notFound("No such organisation.");
+  if (!can(row.role, permission)) forbidden();
+  return {
+    user,
+    organization: { id: row.id, name: row.name },
+    role: row.role,
+  };
+}
+
+export async function listMemberships(userId: string) {
+  return db
+    .select({
+      id: organizations.id,
+      name: organizations.name,
+      role: memberships.role,
+    })
+    .from(memberships)
+    .innerJoin(organizations, eq(organizations.id, memberships.organizationId))
+    .where(eq(memberships.userId, userId))
+    .orderBy(asc(organizations.name));
+}

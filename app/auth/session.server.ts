@@ -1,0 +1,88 @@
+import { redirect } from "react-router";
+import type { Session, User } from "lucia";
+import { lucia } from "./lucia.server";
+
+export type SignedInUser = User;
+
+/** Secure cookies whenever the request reached us over TLS. */
+function isTls(request: Request): boolean {
+  return new URL(request.url).protocol === "https:";
+}
+
+function serializeCookie(
+  request: Request,
+  cookie: ReturnType<typeof lucia.createBlankSessionCookie>,
+): string {
+  const serialized = cookie.serialize();
+  return isTls(request) ? `${serialized}; Secure` : serialized;
+}
+
+function sessionIdFrom(request: Request): string | null {
+  return lucia.readSessionCookie(request.headers.get("cookie") ?? "");
+}
+
+export interface CurrentSession {
+  user: User;
+  session: Session;
+  /** Set when lucia extended the session and the cookie must be re-sent. */
+  refreshCookie: string | null;
+}
+
+export async function getCurrentSession(
+  request: Request,
+): Promise<CurrentSession | null> {
+  const sessionId = sessionIdFrom(request);
+  if (!sessionId) return null;
+  const { session, user } = await lucia.validateSession(sessionId);
+  if (!session || !user) return null;
+  const refreshCookie = session.fresh
+    ? serializeCookie(request, lucia.createSessionCookie(session.id))
+    : null;
+  return { user, session, refreshCookie };
+}
+
+export async function getUser(request: Request): Promise<User | null> {
+  return (await getCurrentSession(request))?.user ?? null;
+}
+
+/** The signed-in user, or a redirect to sign-in that comes back here after. */
+export async function requireUser(request: Request): Promise<User> {
+  const user = await getUser(request);
+  if (user) return user;
+  const url = new URL(request.url);
+  const redirectTo = `${url.pathname}${url.search}`;
+  throw redirect(`/sign-in?redirectTo=${encodeURIComponent(redirectTo)}`);
+}
+
+/** Starts a session and returns the Set-Cookie header value. */
+export async function startSession(
+  request: Request,
+  userId: string,
+): Promise<string> {
+  const session = await lucia.createSession(userId, {});
+  return serializeCookie(request, lucia.createSessionCookie(session.id));
+}
+
+export async function endSession(request: Request): Promise<string> {
+  const sessionId = sessionIdFrom(request);
+  if (sessionId) await lucia.invalidateSession(sessionId);
+  return serializeCookie(request, lucia.createBlankSessionCookie());
+}
+
+/** Ends every session of a user (password change or reset). */
+export async function endAllSessions(userId: string): Promise<void> {
+  await lucia.invalidateUserSessions(userId);
+}
+
+/** Only same-site paths are followed after sign-in, never another host. */
+export function safeRedirectPath(value: unknown, fallback = "/"): string {
+  if (typeof value !== "string") return fallback;
+  if (
+    !value.startsWith("/") ||
+    value.startsWith("//") ||
+    value.startsWith("/\\")
+  ) {
+    return fallback;
+  }
+  return value;
+}

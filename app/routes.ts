@@ -1,0 +1,24 @@
+import {
+  type RouteConfig,
+  index,
+  layout,
+  route,
+} from "@react-router/dev/routes";
+
+export default [
+  index("routes/home.tsx"),
+  route("sign-in", "routes/sign-in.tsx"),
+  route("sign-out", "routes/sign-out.tsx"),
+  route("forgot-password", "routes/forgot-password.tsx"),
+  route("reset-password/:token", "routes/reset-password.tsx"),
+  route("invitations/:token", "routes/accept-invitation.tsx"),
+  layout("routes/app-layout.tsx", [
+    route("account", "routes/account.tsx"),
+    route("outbox", "routes/outbox.tsx"),
+    route("o/:orgId", "routes/org-layout.tsx", [
+      index("routes/org-home.tsx"),
+      route("members", "routes/members.tsx"),
+    ]),
+  ]),
+  route("*", "routes/not-found.tsx"),
+] satisfies RouteConfig;

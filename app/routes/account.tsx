@@ -1,0 +1,158 @@
+import { data, Form, Link } from "react-router";
+import { z } from "zod";
+import { changePassword } from "~/auth/change-password.server";
+import { listMemberships } from "~/auth/membership.server";
+import { roleLabels } from "~/auth/permissions";
+import { requireUser } from "~/auth/session.server";
+import {
+  Badge,
+  Button,
+  Card,
+  EmptyState,
+  Field,
+  Notice,
+  PageHeader,
+} from "~/components/ui";
+import { newPasswordField, parseForm } from "~/lib/forms";
+import type { Route } from "./+types/account";
+
+export const meta: Route.MetaFunction = () => [
+  { title: "Account · Joulebook" },
+];
+
+const schema = z
+  .strictObject({
+    current: z.string().min(1, "Enter your current password.").max(200),
+    password: newPasswordField,
+    confirm: z.string().max(200),
+  })
+  .refine((v) => v.password === v.confirm, {
+    path: ["confirm"],
+    message: "The two passwords differ.",
+  });
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  return {
+    user: { name: user.name, email: user.email },
+    organizations: await listMemberships(user.id),
+  };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const user = await requireUser(request);
+  const form = parseForm(await request.formData(), schema);
+  if (!form.ok)
+    return data({ errors: form.errors, changed: false }, { status: 400 });
+  const result = await changePassword(
+    request,
+    user.id,
+    form.data.current,
+    form.data.password,
+  );
+  if (!result.ok) {
+    return data(
+      {
+        errors: { current: "That is not your current password." } as Record<
+          string,
+          string
+        >,
+        changed: false,
+      },
+      { status: 400 },
+    );
+  }
+  return data(
+    { errors: {} as Record<string, string>, changed: true },
+    { headers: { "Set-Cookie": result.cookie } },
+  );
+}
+
+export default function Account({
+  loaderData,
+  actionData,
+}: Route.ComponentProps) {
+  const errors: Record<string, string | undefined> = actionData?.errors ?? {};
+  const { user, organizations } = loaderData;
+  return (
+    <>
+      <PageHeader
+        title="Account"
+        description={`${user.name} · ${user.email}`}
+      />
+      <div className="grid gap-6 lg:grid-cols-2">
+        <Card aria-labelledby="orgs-heading">
+          <h2 id="orgs-heading" className="text-lg">
+            Your organisations
+          </h2>
+          {organizations.length === 0 ? (
+            <div className="mt-3">
+              <EmptyState title="No organisation yet">
+                Ask an owner to invite you by e-mail.
+              </EmptyState>
+            </div>
+          ) : (
+            <ul className="mt-3 divide-y divide-line">
+              {organizations.map((org) => (
+                <li
+                  key={org.id}
+                  className="flex items-center justify-between py-3"
+                >
+                  <Link
+                    to={`/o/${org.id}`}
+                    className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+                  >
+                    {org.name}
+                  </Link>
+                  <Badge tone="spruce">{roleLabels[org.role]}</Badge>
+                </li>
+              ))}
+            </ul>
+          )}
+        </Card>
+        <Card aria-labelledby="password-heading">
+          <h2 id="password-heading" className="text-lg">
+            Change password
+          </h2>
+          <p className="mt-1 text-ink-muted">
+            Every other device signed in to your account is signed out.
+          </p>
+          <Form method="post" className="mt-4 flex flex-col gap-4" noValidate>
+            {actionData?.changed ? (
+              <Notice tone="success">
+                Password changed. Other sessions have ended.
+              </Notice>
+            ) : null}
+            {errors.form ? <Notice tone="error">{errors.form}</Notice> : null}
+            <Field
+              label="Current password"
+              name="current"
+              type="password"
+              autoComplete="current-password"
+              required
+              error={errors.current}
+            />
+            <Field
+              label="New password"
+              name="password"
+              type="password"
+              autoComplete="new-password"
+              hint="At least 10 characters."
+              required
+              error={errors.password}
+            />
+            <Field
+              label="Repeat the new password"
+              name="confirm"
+              type="password"
+              autoComplete="new-password"
+              required
+              error={errors.confirm}
+            />
+            <Button type="submit">Change password</Button>
+          </Form>
+        </Card>
+      </div>
+    </>
+  );
+}

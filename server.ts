@@ -1,0 +1,134 @@
+/**
+ * The process: validates the environment, sets security headers, serves the
+ * built assets (or Vite in development), mounts the Express app from
+ * app/app.server.ts and shuts down cleanly on SIGTERM.
+ */
+import { createServer } from "node:http";
+import path from "node:path";
+import { pathToFileURL } from "node:url";
+import compression from "compression";
+import express, {
+  type NextFunction,
+  type Request,
+  type Response,
+} from "express";
+import helmet from "helmet";
+import { parseEnv, type Env } from "./app/env.server";
+
+type ExpressApp = (req: Request, res: Response, next: NextFunction) => void;
+
+function loadEnv(): Env {
+  try {
+    return parseEnv(process.env);
+  } catch (error) {
+    console.error((error as Error).message);
+    process.exit(1);
+  }
+}
+
+const env = loadEnv();
+const development = env.NODE_ENV === "development";
+const app = express();
+const httpServer = createServer(app);
+
+app.disable("x-powered-by");
+if (env.TRUST_PROXY === "1") app.set("trust proxy", 1);
+
+app.use(
+  helmet({
+    // Vite's dev client injects inline modules and a websocket; the built app
+    // gets a policy that allows nothing from another origin.
+    contentSecurityPolicy: development
+      ? false
+      : {
+          useDefaults: false,
+          directives: {
+            defaultSrc: ["'self'"],
+            // React Router inlines its hydration data and module loader.
+            scriptSrc: ["'self'", "'unsafe-inline'"],
+            styleSrc: ["'self'", "'unsafe-inline'"],
+            imgSrc: ["'self'", "data:", "blob:"],
+            fontSrc: ["'self'"],
+            connectSrc: ["'self'"],
+            frameAncestors: ["'none'"],
+            formAction: ["'self'"],
+            baseUri: ["'self'"],
+            objectSrc: ["'none'"],
+          },
+        },
+    hsts: false,
+  }),
+);
+app.use(compression());
+
+// Cross-site form posts are refused: a state-changing request from a browser
+// must come from this origin (SameSite=Lax cookies are the second guard).
+app.use((req, res, next) => {
+  if (["GET", "HEAD", "OPTIONS"].includes(req.method)) return next();
+  const origin = req.get("origin");
+  if (origin && origin !== "null" && new URL(origin).host !== req.get("host")) {
+    res.status(403).type("text/plain").send("Cross-origin request refused.");
+    return;
+  }
+  next();
+});
+
+async function mountDevelopment(): Promise<void> {
+  const vite = await import("vite");
+  const viteServer = await vite.createServer({
+    server: { middlewareMode: true, ws: { server: httpServer } },
+  });
+  app.use(viteServer.middlewares);
+  app.use(async (req, res, next) => {
+    try {
+      const mod = (await viteServer.ssrLoadModule("./app/app.server.ts")) as {
+        app: ExpressApp;
+      };
+      mod.app(req, res, next);
+    } catch (error) {
+      if (error instanceof Error) viteServer.ssrFixStacktrace(error);
+      next(error);
+    }
+  });
+}
+
+async function mountProduction(): Promise<() => Promise<void>> {
+  const buildDir = path.resolve("build");
+  app.use(
+    "/assets",
+    express.static(path.join(buildDir, "client/assets"), {
+      immutable: true,
+      maxAge: "1y",
+    }),
+  );
+  app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h" }));
+  // A runtime path, so typechecking server.ts does not need a build.
+  const entry = pathToFileURL(path.join(buildDir, "server/index.js")).href;
+  const mod = (await import(entry)) as {
+    app: ExpressApp;
+    closeResources: () => Promise<void>;
+  };
+  app.use(mod.app);
+  return mod.closeResources;
+}
+
+const closeResources = development
+  ? (await mountDevelopment(), async () => {})
+  : await mountProduction();
+
+httpServer.listen(env.PORT, env.HOST, () => {
+  console.log(
+    `[joulebook] serving on http://${env.HOST}:${env.PORT} (${env.NODE_ENV})`,
+  );
+});
+
+function shutdown(signal: string) {
+  console.log(`[joulebook] ${signal}: closing`);
+  httpServer.close(() => {
+    closeResources().finally(() => process.exit(0));
+  });
+  httpServer.closeIdleConnections();
+  setTimeout(() => process.exit(0), 5000).unref();
+}
+process.on("SIGTERM", () => shutdown("SIGTERM"));
+process.on("SIGINT", () => shutdown("SIGINT"));
