@@ -73,16 +73,3 @@ export async function endSession(request: Request): Promise<string> {
 export async function endAllSessions(userId: string): Promise<void> {
   await lucia.invalidateUserSessions(userId);
 }
-
-/** Only same-site paths are followed after sign-in, never another host. */
-export function safeRedirectPath(value: unknown, fallback = "/"): string {
-  if (typeof value !== "string") return fallback;
-  if (
-    !value.startsWith("/") ||
-    value.startsWith("//") ||
-    value.startsWith("/\\")
-  ) {
-    return fallback;
-  }
-  return value;
-}

@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { Form, NavLink } from "react-router";
+import { Form, NavLink, useLocation } from "react-router";
 import {
   can,
   roleLabels,
@@ -147,6 +147,7 @@ export function AppShell(props: {
   outbox: boolean;
   children: ReactNode;
 }) {
+  const { pathname } = useLocation();
   const sidebar = (
     <div className="flex h-full flex-col gap-6 p-4">
       <OrganizationSwitcher
@@ -167,13 +168,16 @@ export function AppShell(props: {
       >
         Skip to content
       </a>
-      <aside className="hidden bg-spruce-900 lg:sticky lg:top-0 lg:flex lg:h-screen lg:flex-col">
-        <div className="px-5 pt-5 [&_span]:text-white">
-          <Wordmark inverted />
+      <aside className="hidden bg-spruce-900 lg:block">
+        <div className="sticky top-0 flex h-screen flex-col">
+          <div className="px-5 pt-5">
+            <Wordmark inverted />
+          </div>
+          {sidebar}
         </div>
-        {sidebar}
       </aside>
-      <details className="bg-spruce-900 lg:hidden">
+      {/* Keyed by path so the phone menu closes after each navigation. */}
+      <details key={pathname} className="bg-spruce-900 lg:hidden">
         <summary className="flex cursor-pointer list-none items-center justify-between px-4 py-3">
           <Wordmark inverted />
           <span className="rounded-lg px-3 py-1.5 font-semibold text-white ring-1 ring-spruce-600">

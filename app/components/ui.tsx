@@ -111,14 +111,20 @@ export function Field({ label, error, hint, className, ...input }: FieldProps) {
 export function SelectField({
   label,
   error,
+  hideLabel = false,
   children,
   className,
   ...select
-}: ComponentProps<"select"> & { label: string; error?: string }) {
+}: ComponentProps<"select"> & {
+  label: string;
+  error?: string;
+  /** For rows where a column heading already says what the field is. */
+  hideLabel?: boolean;
+}) {
   const id = useId();
   return (
     <div className={cx("flex flex-col gap-1", className)}>
-      <label htmlFor={id} className="font-semibold">
+      <label htmlFor={id} className={hideLabel ? "sr-only" : "font-semibold"}>
         {label}
       </label>
       <select

@@ -1,4 +1,4 @@
-import { data, Form, Link } from "react-router";
+import { data, Form, Link, redirect } from "react-router";
 import { z } from "zod";
 import { changePassword } from "~/auth/change-password.server";
 import { listMemberships } from "~/auth/membership.server";
@@ -34,6 +34,7 @@ const schema = z
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   return {
+    changed: new URL(request.url).searchParams.get("changed") === "1",
     user: { name: user.name, email: user.email },
     organizations: await listMemberships(user.id),
   };
@@ -62,10 +63,11 @@ export async function action({ request }: Route.ActionArgs) {
       { status: 400 },
     );
   }
-  return data(
-    { errors: {} as Record<string, string>, changed: true },
-    { headers: { "Set-Cookie": result.cookie } },
-  );
+  // A redirect: the old session is gone, so the page must load afresh with
+  // the new cookie rather than revalidate with the old one.
+  throw redirect("/account?changed=1", {
+    headers: { "Set-Cookie": result.cookie },
+  });
 }
 
 export default function Account({
@@ -118,7 +120,7 @@ export default function Account({
             Every other device signed in to your account is signed out.
           </p>
           <Form method="post" className="mt-4 flex flex-col gap-4" noValidate>
-            {actionData?.changed ? (
+            {loaderData.changed && !actionData ? (
               <Notice tone="success">
                 Password changed. Other sessions have ended.
               </Notice>

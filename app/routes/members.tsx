@@ -279,6 +279,7 @@ function MemberRow({
           <input type="hidden" name="userId" value={member.userId} />
           <SelectField
             label={`Role of ${member.name}`}
+            hideLabel
             name="role"
             defaultValue={member.role}
             className="grow"

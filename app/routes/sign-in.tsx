@@ -2,11 +2,16 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { AuthFrame } from "~/components/auth-frame";
 import { Button, Field, Notice } from "~/components/ui";
-import { getUser, safeRedirectPath, startSession } from "~/auth/session.server";
+import { getUser, startSession } from "~/auth/session.server";
+import { safeRedirectPath } from "~/lib/redirect";
 import { signIn } from "~/auth/sign-in.server";
 import { emailField, parseForm } from "~/lib/forms";
 import { requestInfoContext } from "~/request-context";
 import type { Route } from "./+types/sign-in";
+
+// Carries Retry-After of a throttled attempt onto the page's response.
+export const headers: Route.HeadersFunction = ({ actionHeaders }) =>
+  actionHeaders;
 
 export const meta: Route.MetaFunction = () => [
   { title: "Sign in · Joulebook" },

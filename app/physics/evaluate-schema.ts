@@ -1,0 +1,271 @@
+// Request and result schemas of POST /api/v1/energy/evaluate (design.md,
+// "Gateway API"), in zod 4, plus the OpenAPI 3.1 components generated from
+// them so the served document cannot drift from what is enforced.
+//
+// Items are shaped like readings without `meter`. Objects are strict
+// (unknown fields are rejected) and numbers must be JSON numbers: zod 4's
+// z.number() rejects strings, NaN and ±Infinity.
+//
+// Optional EN 1434 fields on water_heat items (an extension of design.md):
+// meter_class (1, 2 or 3), delta_theta_min_k (the meter's Δθmin),
+// qp_m3_per_h (the flow sensor's permanent flow rate) and flow_m3_per_h (the
+// flow rate in the interval; derived as volume / duration when absent). When
+// meter_class is given the result carries the meter's MPE as a ± band.
+
+import { z } from "zod";
+
+export const QUANTITIES = [
+  "water_heat",
+  "steam_heat",
+  "sensible_heat",
+  "electric_work",
+  "electric_register",
+  "heat_register",
+] as const;
+
+function describeInput(input: unknown): string {
+  if (typeof input === "number") {
+    return Number.isNaN(input) ? "NaN" : String(input);
+  }
+  if (input === null) return "null";
+  return `a ${typeof input}`;
+}
+
+// A finite JSON number; the message names what arrived instead.
+function num(description: string) {
+  return z
+    .number({
+      error: (issue) =>
+        issue.input === undefined
+          ? "is required"
+          : `expected a finite number, got ${describeInput(issue.input)}`,
+    })
+    .describe(description);
+}
+
+const isoTime = z.iso
+  .datetime({ offset: true, error: "expected an ISO 8601 date-time" })
+  .describe("ISO 8601 date-time with offset, e.g. 2026-03-01T00:00:00Z");
+
+// Durations: `seconds`, or `start` and `end` (end − start); both may be given
+// if they agree.
+const timing = {
+  start: isoTime.optional(),
+  end: isoTime.optional(),
+  seconds: num("Duration of the interval, s").min(0).optional(),
+};
+
+const pressures = {
+  pressure_bar_abs: num("Absolute pressure, bar").optional(),
+  pressure_bar_g: num(
+    "Gauge pressure, bar; absolute = gauge + 1.01325 bar",
+  ).optional(),
+};
+
+export const waterHeatItemSchema = z
+  .strictObject({
+    quantity: z.literal("water_heat"),
+    ...timing,
+    volume_m3: num("Volume registered by the flow sensor, m³").min(0),
+    flow_temp_c: num("Flow (supply) temperature, °C"),
+    return_temp_c: num("Return temperature, °C"),
+    ...pressures,
+    sensor_at: z
+      .enum(["flow", "return"])
+      .describe("Pipe the flow sensor sits in (required here: no meter)"),
+    meter_class: z
+      .literal([1, 2, 3])
+      .optional()
+      .describe("EN 1434 accuracy class, for the MPE band"),
+    delta_theta_min_k: num("Meter's Δθmin, K").positive().optional(),
+    flow_m3_per_h: num("Flow rate in the interval, m³/h").positive().optional(),
+    qp_m3_per_h: num("Flow sensor's permanent flow qp, m³/h")
+      .positive()
+      .optional(),
+  })
+  .describe(
+    "Heat carried by water: exactly one of pressure_bar_abs and " +
+      "pressure_bar_g; meter_class needs delta_theta_min_k and qp_m3_per_h.",
+  );
+
+export const steamHeatItemSchema = z
+  .strictObject({
+    quantity: z.literal("steam_heat"),
+    ...timing,
+    mass_kg: num("Condensate collected, kg").min(0),
+    ...pressures,
+    saturation_temp_c: num("Saturation temperature, °C").optional(),
+    condensate_temp_c: num("Condensate temperature, °C").optional(),
+  })
+  .describe(
+    "Condensing saturated steam: at least one of pressure_bar_abs, " +
+      "pressure_bar_g, saturation_temp_c; several must agree (phase rule).",
+  );
+
+export const sensibleHeatItemSchema = z.strictObject({
+  quantity: z.literal("sensible_heat"),
+  ...timing,
+  mass_kg: num("Mass of the medium, kg").min(0),
+  specific_heat_kj_per_kg_k: num(
+    "Declared specific heat, kJ/(kg·K)",
+  ).positive(),
+  inlet_temp_c: num("Inlet temperature, °C"),
+  outlet_temp_c: num("Outlet temperature, °C"),
+});
+
+export const electricWorkItemSchema = z
+  .strictObject({
+    quantity: z.literal("electric_work"),
+    ...timing,
+    circuit: z.enum(["dc", "single_phase", "three_phase"]),
+    volts: num("RMS volts (DC volts for dc)").min(0),
+    voltage_basis: z
+      .enum(["line_to_line", "line_to_neutral"])
+      .optional()
+      .describe("Three-phase only; default line_to_line"),
+    amps: num("RMS amps per line").min(0),
+    power_factor: num("cos φ, AC only, default 1").gt(0).max(1).optional(),
+  })
+  .describe("Electrical work; the duration is `seconds` or end − start.");
+
+const registerFields = {
+  start: isoTime.optional(),
+  end: isoTime.optional(),
+  register_start_kwh: num("Register at the start, kWh").min(0),
+  register_end_kwh: num("Register at the end, kWh").min(0),
+  multiplier: num("CT/VT ratio or meter multiplier, default 1")
+    .positive()
+    .optional(),
+  register_capacity_kwh: num("Roll-over point of the register, kWh")
+    .positive()
+    .optional(),
+};
+
+export const electricRegisterItemSchema = z.strictObject({
+  quantity: z.literal("electric_register"),
+  ...registerFields,
+});
+
+export const heatRegisterItemSchema = z.strictObject({
+  quantity: z.literal("heat_register"),
+  ...registerFields,
+});
+
+export const evaluateItemSchema = z.discriminatedUnion("quantity", [
+  waterHeatItemSchema,
+  steamHeatItemSchema,
+  sensibleHeatItemSchema,
+  electricWorkItemSchema,
+  electricRegisterItemSchema,
+  heatRegisterItemSchema,
+]);
+
+export type EvaluateItem = z.infer<typeof evaluateItemSchema>;
+
+export const MAX_EVALUATE_ITEMS = 10000;
+
+// `items` stays an array of unknown: each item is parsed on its own so that
+// one bad item is reported in its place and never fails the others.
+export const evaluateRequestSchema = z.strictObject({
+  items: z.array(z.unknown()).min(1).max(MAX_EVALUATE_ITEMS),
+});
+
+const detailValue = z.union([z.number(), z.string(), z.null()]);
+
+export const evaluateSuccessSchema = z.strictObject({
+  ok: z.literal(true),
+  energy_kwh: z.number().describe("Energy delivered to the load, kWh"),
+  energy_mj: z.number().describe("The same energy, MJ"),
+  method: z.string().describe('e.g. "iapws-if97/water-heat"'),
+  details: z.record(z.string(), detailValue),
+});
+
+export const evaluateFailureSchema = z.strictObject({
+  ok: z.literal(false),
+  error: z.string().describe("Plain reason, with the field path"),
+});
+
+export const evaluateResultSchema = z.discriminatedUnion("ok", [
+  evaluateSuccessSchema,
+  evaluateFailureSchema,
+]);
+
+export type EvaluateResult = z.infer<typeof evaluateResultSchema>;
+
+export const evaluateResponseSchema = z.strictObject({
+  results: z.array(evaluateResultSchema),
+});
+
+const COMPONENTS = {
+  DateTime: isoTime,
+  WaterHeatItem: waterHeatItemSchema,
+  SteamHeatItem: steamHeatItemSchema,
+  SensibleHeatItem: sensibleHeatItemSchema,
+  ElectricWorkItem: electricWorkItemSchema,
+  ElectricRegisterItem: electricRegisterItemSchema,
+  HeatRegisterItem: heatRegisterItemSchema,
+  EvaluateItem: evaluateItemSchema,
+  EvaluateSuccess: evaluateSuccessSchema,
+  EvaluateFailure: evaluateFailureSchema,
+  EvaluateResult: evaluateResultSchema,
+  EvaluateResponse: evaluateResponseSchema,
+} as const;
+
+type JsonObject = { [key: string]: unknown };
+
+// OpenAPI's discriminator lets clients pick the item schema by `quantity`.
+const ITEM_COMPONENT: Record<(typeof QUANTITIES)[number], string> = {
+  water_heat: "WaterHeatItem",
+  steam_heat: "SteamHeatItem",
+  sensible_heat: "SensibleHeatItem",
+  electric_work: "ElectricWorkItem",
+  electric_register: "ElectricRegisterItem",
+  heat_register: "HeatRegisterItem",
+};
+
+function discriminator(): JsonObject {
+  const mapping: Record<string, string> = {};
+  for (const [quantity, id] of Object.entries(ITEM_COMPONENT)) {
+    mapping[quantity] = `#/components/schemas/${id}`;
+  }
+  return { propertyName: "quantity", mapping };
+}
+
+// OpenAPI 3.1 uses JSON Schema 2020-12; a component carries neither its own
+// $schema nor an $id. EvaluateRequest is written by hand so that its items
+// point at EvaluateItem while the parser itself accepts unknown items.
+function buildComponents(): Record<string, JsonObject> {
+  const registry = z.registry<{ id: string }>();
+  for (const [id, schema] of Object.entries(COMPONENTS)) {
+    registry.add(schema, { id });
+  }
+  const generated = z.toJSONSchema(registry, {
+    uri: (id) => `#/components/schemas/${id}`,
+    io: "input",
+  }).schemas;
+  const out: Record<string, JsonObject> = {};
+  for (const [id, schema] of Object.entries(generated)) {
+    const { $schema: _s, $id: _i, ...rest } = schema as JsonObject;
+    out[id] = rest;
+  }
+  out.EvaluateItem = { ...out.EvaluateItem, discriminator: discriminator() };
+  out.EvaluateRequest = {
+    type: "object",
+    properties: {
+      items: {
+        type: "array",
+        minItems: 1,
+        maxItems: MAX_EVALUATE_ITEMS,
+        items: { $ref: "#/components/schemas/EvaluateItem" },
+      },
+    },
+    required: ["items"],
+    additionalProperties: false,
+  };
+  return out;
+}
+
+/** OpenAPI 3.1 fragment: `components.schemas` for the evaluate endpoint. */
+export const evaluateOpenApi = {
+  components: { schemas: buildComponents() },
+} as const;

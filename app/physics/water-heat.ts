@@ -1,0 +1,75 @@
+// Heat carried by a water circuit past a heat meter:
+//   Q = V · ρ(t_sensor, p) · (h(t_flow, p) − h(t_return, p))
+// V is the volume the flow sensor registers at line conditions, so the
+// density belongs to the pipe the sensor sits in; h comes from IAPWS-IF97
+// region 1. Positive Q is heat delivered to the load downstream of the meter;
+// chilled water (flow colder than return) comes out negative by itself.
+
+import { requireNonNegative } from "./errors";
+import { liquidWater } from "./water-properties";
+
+export type SensorPosition = "flow" | "return";
+
+export interface WaterHeatInput {
+  volumeM3: number;
+  flowTempC: number;
+  returnTempC: number;
+  pressureBarAbs: number;
+  sensorAt: SensorPosition;
+}
+
+export interface WaterHeatResult {
+  energyKj: number;
+  massKg: number;
+  densityAtSensorKgPerM3: number;
+  flowEnthalpyKjPerKg: number;
+  returnEnthalpyKjPerKg: number;
+  /** EN 1434 heat coefficient k; null when flow and return are equal. */
+  kFactorKwhPerM3K: number | null;
+}
+
+const KJ_PER_KWH = 3600;
+
+export function waterHeat(input: WaterHeatInput): WaterHeatResult {
+  requireNonNegative("volumeM3", input.volumeM3);
+  const p = input.pressureBarAbs;
+  const flow = liquidWater(p, input.flowTempC, { temperature: "flowTempC" });
+  const ret = liquidWater(p, input.returnTempC, {
+    temperature: "returnTempC",
+  });
+  const rho = (input.sensorAt === "flow" ? flow : ret).densityKgPerM3;
+  const dh = flow.enthalpyKjPerKg - ret.enthalpyKjPerKg;
+  const massKg = input.volumeM3 * rho;
+  return {
+    energyKj: massKg * dh,
+    massKg,
+    densityAtSensorKgPerM3: rho,
+    flowEnthalpyKjPerKg: flow.enthalpyKjPerKg,
+    returnEnthalpyKjPerKg: ret.enthalpyKjPerKg,
+    kFactorKwhPerM3K: kFactor(rho, dh, input.flowTempC - input.returnTempC),
+  };
+}
+
+// k = ρ · (h_f − h_r) / (Θ_f − Θ_r), the heat coefficient of EN 1434-1 /
+// OIML R 75 (references.md §3), here in kWh/(m³·K). Undefined at ΔΘ = 0.
+function kFactor(rho: number, dhKjPerKg: number, dThetaK: number) {
+  if (dThetaK === 0) return null;
+  return (rho * dhKjPerKg) / dThetaK / KJ_PER_KWH;
+}
+
+/** The heat coefficient alone, for a meter with the sensor at `sensorAt`. */
+export function heatCoefficientKwhPerM3K(
+  flowTempC: number,
+  returnTempC: number,
+  pressureBarAbs: number,
+  sensorAt: SensorPosition,
+): number | null {
+  const r = waterHeat({
+    volumeM3: 1,
+    flowTempC,
+    returnTempC,
+    pressureBarAbs,
+    sensorAt,
+  });
+  return r.kFactorKwhPerM3K;
+}

@@ -1,0 +1,227 @@
+// Meter-facing water and steam properties: IAPWS-IF97 (see if97.ts) behind a
+// range and phase guard sized to what heat and steam meters meet. Inputs are
+// in the units gateways send (bar, °C); a value outside the range, or in the
+// wrong phase, throws a PhysicsRangeError naming the valid range instead of
+// returning an extrapolated number.
+
+import { PhysicsRangeError, requireFinite } from "./errors";
+import {
+  IF97_SATURATION_MIN_PRESSURE_MPA,
+  region1Properties,
+  region2Properties,
+  saturationPressureMpa,
+  saturationTemperatureK,
+} from "./if97";
+import type { WaterProperties } from "./if97";
+
+export type { WaterProperties } from "./if97";
+
+// Heating, chilled-water and process-steam meters: 0-250 °C covers pressurised
+// hot water and saturated steam up to 40 bar a (T_s(40 bar) = 250.4 °C).
+// 0.006 bar a reaches down to the triple point (611.657 Pa [memory]).
+export const METER_RANGE = {
+  minTemperatureC: 0,
+  maxTemperatureC: 250,
+  minPressureBarAbs: 0.006,
+  maxPressureBarAbs: 40,
+} as const;
+
+// The standard atmosphere, used to turn gauge into absolute pressure (common
+// practice; a site may use its local barometric pressure instead).
+export const STANDARD_ATMOSPHERE_BAR = 1.01325;
+
+// T/K = t/°C + 273.15 exactly (the kelvin and degree Celsius definitions).
+export const CELSIUS_OFFSET_K = 273.15;
+
+// p_s(0 °C) = 611.213 Pa: the saturation line (IF97 region 4) ends there, so
+// a saturation state needs at least this pressure.
+const SATURATION_MIN_PRESSURE_BAR = IF97_SATURATION_MIN_PRESSURE_MPA * 10;
+
+// Same rounding allowance as if97.ts for states exactly on the saturation line.
+const SATURATION_RELATIVE_TOLERANCE = 1e-9;
+
+export interface FieldNames {
+  pressure?: string;
+  temperature?: string;
+}
+
+export function absolutePressureBar(gaugePressureBar: number): number {
+  return gaugePressureBar + STANDARD_ATMOSPHERE_BAR;
+}
+
+function range(min: number, max: number, unit: string): string {
+  return `${min} ${unit} to ${max} ${unit}`;
+}
+
+export function requireMeterPressureBar(field: string, pBarAbs: number): void {
+  requireFinite(field, pBarAbs);
+  const { minPressureBarAbs: min, maxPressureBarAbs: max } = METER_RANGE;
+  if (pBarAbs < min || pBarAbs > max) {
+    throw new PhysicsRangeError(
+      `${pBarAbs} bar a is outside the meter range ${range(min, max, "bar a")}`,
+      field,
+    );
+  }
+}
+
+export function requireMeterTemperatureC(field: string, tC: number): void {
+  requireFinite(field, tC);
+  const { minTemperatureC: min, maxTemperatureC: max } = METER_RANGE;
+  if (tC < min || tC > max) {
+    throw new PhysicsRangeError(
+      `${tC} °C is outside the meter range ${range(min, max, "°C")}`,
+      field,
+    );
+  }
+}
+
+function mpa(pBar: number): number {
+  return pBar / 10;
+}
+
+function round(value: number, digits: number): number {
+  return Number(value.toFixed(digits));
+}
+
+/**
+ * Liquid water at (p, t) from IF97 region 1. The water must be liquid: t at
+ * or below the saturation temperature at p, i.e. p ≥ p_s(t).
+ */
+export function liquidWater(
+  pressureBarAbs: number,
+  temperatureC: number,
+  fields: FieldNames = {},
+): WaterProperties {
+  const pField = fields.pressure ?? "pressureBarAbs";
+  const tField = fields.temperature ?? "temperatureC";
+  requireMeterPressureBar(pField, pressureBarAbs);
+  requireMeterTemperatureC(tField, temperatureC);
+  const psBar = saturationPressureMpa(temperatureC + CELSIUS_OFFSET_K) * 10;
+  if (pressureBarAbs < psBar * (1 - SATURATION_RELATIVE_TOLERANCE)) {
+    throw new PhysicsRangeError(
+      `${temperatureC} °C is not liquid at ${pressureBarAbs} bar a: liquid ` +
+        `water at ${temperatureC} °C needs at least its saturation pressure ` +
+        `${round(psBar, 5)} bar a (IF97 region 1)`,
+      tField,
+    );
+  }
+  return region1Properties(
+    mpa(pressureBarAbs),
+    temperatureC + CELSIUS_OFFSET_K,
+  );
+}
+
+/**
+ * Steam at (p, t) from IF97 region 2: saturated or superheated vapour, t at
+ * or above the saturation temperature at p, i.e. p ≤ p_s(t).
+ */
+export function steam(
+  pressureBarAbs: number,
+  temperatureC: number,
+  fields: FieldNames = {},
+): WaterProperties {
+  const pField = fields.pressure ?? "pressureBarAbs";
+  const tField = fields.temperature ?? "temperatureC";
+  requireMeterPressureBar(pField, pressureBarAbs);
+  requireMeterTemperatureC(tField, temperatureC);
+  const psBar = saturationPressureMpa(temperatureC + CELSIUS_OFFSET_K) * 10;
+  if (pressureBarAbs > psBar * (1 + SATURATION_RELATIVE_TOLERANCE)) {
+    throw new PhysicsRangeError(
+      `${temperatureC} °C is below saturation at ${pressureBarAbs} bar a: ` +
+        `steam at ${temperatureC} °C exists only up to its saturation ` +
+        `pressure ${round(psBar, 5)} bar a (IF97 region 2)`,
+      tField,
+    );
+  }
+  return region2Properties(
+    mpa(pressureBarAbs),
+    temperatureC + CELSIUS_OFFSET_K,
+  );
+}
+
+function requireSaturationPressureBar(field: string, pBarAbs: number): void {
+  requireMeterPressureBar(field, pBarAbs);
+  if (pBarAbs < SATURATION_MIN_PRESSURE_BAR) {
+    throw new PhysicsRangeError(
+      `${pBarAbs} bar a is below the saturation line, which starts at ` +
+        `${round(SATURATION_MIN_PRESSURE_BAR, 8)} bar a (0 °C); saturation ` +
+        `states need ${round(SATURATION_MIN_PRESSURE_BAR, 8)} bar a to ` +
+        `${METER_RANGE.maxPressureBarAbs} bar a`,
+      field,
+    );
+  }
+}
+
+/** Saturation temperature T_s(p) in °C, IF97 Eq. 31, p within meter range. */
+export function saturationTemperatureC(
+  pressureBarAbs: number,
+  field = "pressureBarAbs",
+): number {
+  requireSaturationPressureBar(field, pressureBarAbs);
+  return saturationTemperatureK(mpa(pressureBarAbs)) - CELSIUS_OFFSET_K;
+}
+
+/** Saturation pressure p_s(t) in bar a, IF97 Eq. 30, t within meter range. */
+export function saturationPressureBarAbs(
+  temperatureC: number,
+  field = "temperatureC",
+): number {
+  requireMeterTemperatureC(field, temperatureC);
+  const pBar = saturationPressureMpa(temperatureC + CELSIUS_OFFSET_K) * 10;
+  if (pBar > METER_RANGE.maxPressureBarAbs) {
+    throw new PhysicsRangeError(
+      `${temperatureC} °C saturates at ${round(pBar, 4)} bar a, above the ` +
+        `meter range's ${METER_RANGE.maxPressureBarAbs} bar a`,
+      field,
+    );
+  }
+  return pBar;
+}
+
+export interface SaturationState {
+  pressureBarAbs: number;
+  temperatureC: number;
+  /** h′ = h_f, saturated liquid (IF97 region 1 at T_s(p)). */
+  liquidEnthalpyKjPerKg: number;
+  /** h″ = h_g, saturated vapour (IF97 region 2 at T_s(p)). */
+  vapourEnthalpyKjPerKg: number;
+  /** h_fg = h″ − h′, the latent heat of vaporization. */
+  latentHeatKjPerKg: number;
+  liquidDensityKgPerM3: number;
+  vapourDensityKgPerM3: number;
+}
+
+/** Both saturated phases at a pressure (IF97 regions 1 and 2 at T_s(p)). */
+export function saturationAtPressure(
+  pressureBarAbs: number,
+  field = "pressureBarAbs",
+): SaturationState {
+  const tsC = saturationTemperatureC(pressureBarAbs, field);
+  const tsK = tsC + CELSIUS_OFFSET_K;
+  const liquid = region1Properties(mpa(pressureBarAbs), tsK);
+  const vapour = region2Properties(mpa(pressureBarAbs), tsK);
+  return {
+    pressureBarAbs,
+    temperatureC: tsC,
+    liquidEnthalpyKjPerKg: liquid.enthalpyKjPerKg,
+    vapourEnthalpyKjPerKg: vapour.enthalpyKjPerKg,
+    latentHeatKjPerKg: vapour.enthalpyKjPerKg - liquid.enthalpyKjPerKg,
+    liquidDensityKgPerM3: liquid.densityKgPerM3,
+    vapourDensityKgPerM3: vapour.densityKgPerM3,
+  };
+}
+
+/** h_f, saturated liquid enthalpy at p, kJ/kg. */
+export function saturatedLiquidEnthalpyKjPerKg(pressureBarAbs: number): number {
+  return saturationAtPressure(pressureBarAbs).liquidEnthalpyKjPerKg;
+}
+
+/** h_g, saturated vapour enthalpy at p, kJ/kg. */
+export function saturatedVapourEnthalpyKjPerKg(pressureBarAbs: number): number {
+  return saturationAtPressure(pressureBarAbs).vapourEnthalpyKjPerKg;
+}
+
+/** h_fg = h_g − h_f at p, kJ/kg. */
+export function latentHeatKjPerKg(pressureBarAbs: number): number {
+  return saturationAtPressure(pressureBarAbs).latentHeatKjPerKg;
+}

@@ -1,0 +1,44 @@
+/**
+ * Takes screenshots of the main pages of a running server, to look at them
+ * as a new user would: `node --import tsx scripts/screenshots.ts [baseUrl]`.
+ */
+import { mkdirSync } from "node:fs";
+import { launchBrowser } from "../tests/support/browser";
+
+const base = process.argv[2] ?? "http://127.0.0.1:3000";
+const out = "screenshots";
+mkdirSync(out, { recursive: true });
+
+const browser = await launchBrowser();
+for (const [label, viewport] of [
+  ["desktop", { width: 1366, height: 900 }],
+  ["phone", { width: 390, height: 844 }],
+] as const) {
+  const page = await browser.newPage({ viewport });
+  await page.goto(`${base}/sign-in`);
+  await page.screenshot({
+    path: `${out}/${label}-sign-in.png`,
+    fullPage: true,
+  });
+  await page.getByLabel("E-mail address").fill("owner@larchmere.example");
+  await page.getByLabel("Password").fill("larchmere-demo-2026");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.waitForURL(/\/o\//);
+  await page.screenshot({
+    path: `${out}/${label}-organisation.png`,
+    fullPage: true,
+  });
+  const orgPath = new URL(page.url()).pathname;
+  for (const path of ["members", "../../outbox", "../../account"]) {
+    await page.goto(new URL(path, `${base}${orgPath}/`).href);
+    await page.screenshot({
+      path: `${out}/${label}-${path.replaceAll("../", "")}.png`,
+      fullPage: true,
+    });
+  }
+  await page.goto(`${base}/o/00000000-0000-0000-0000-000000000000`);
+  await page.screenshot({ path: `${out}/${label}-404.png`, fullPage: true });
+  await page.close();
+}
+await browser.close();
+console.log(`screenshots in ${out}/`);

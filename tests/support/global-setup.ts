@@ -1,0 +1,87 @@
+/**
+ * Starts what the integration and browser suites talk to: the demo data in the
+ * fresh test database (npm test created and migrated it), the local e-mail
+ * fake, and the production server built by npm test, on free loopback ports.
+ */
+import { spawn, type ChildProcess } from "node:child_process";
+import type { AddressInfo } from "node:net";
+import { drizzle } from "drizzle-orm/node-postgres";
+import pg from "pg";
+import type { TestProject } from "vitest/node";
+import * as schema from "../../app/db/schema";
+import { createResendFake } from "../../fakes/resend-fake";
+import { seedDemo } from "../../seeds/seed-demo";
+
+declare module "vitest" {
+  export interface ProvidedContext {
+    baseUrl: string;
+    resendUrl: string;
+  }
+}
+
+async function freePort(): Promise<number> {
+  const { createServer } = await import("node:net");
+  return new Promise((resolve) => {
+    const server = createServer().listen(0, "127.0.0.1", () => {
+      const { port } = server.address() as AddressInfo;
+      server.close(() => resolve(port));
+    });
+  });
+}
+
+async function waitForHealth(url: string, child: ChildProcess): Promise<void> {
+  const deadline = Date.now() + 60_000;
+  while (Date.now() < deadline) {
+    if (child.exitCode !== null)
+      throw new Error(`server exited with ${child.exitCode}`);
+    try {
+      const response = await fetch(`${url}/api/v1/health`);
+      if (response.ok) return;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error("server did not become healthy within 60 s");
+}
+
+export default async function setup(project: TestProject) {
+  const databaseUrl = process.env.DATABASE_URL;
+  if (!databaseUrl)
+    throw new Error("DATABASE_URL is not set: run the tests with npm test");
+
+  const pool = new pg.Pool({ connectionString: databaseUrl, max: 1 });
+  await seedDemo(drizzle(pool, { schema }));
+  await pool.end();
+
+  const fake = createResendFake().listen(0, "127.0.0.1");
+  await new Promise((r) => fake.once("listening", r));
+  const resendUrl = `http://127.0.0.1:${(fake.address() as AddressInfo).port}`;
+
+  const port = await freePort();
+  const baseUrl = `http://127.0.0.1:${port}`;
+  const childEnv: NodeJS.ProcessEnv = {
+    ...process.env,
+    NODE_ENV: "production",
+    PORT: String(port),
+    HOST: "127.0.0.1",
+    RESEND_BASE_URL: resendUrl,
+    RESEND_API_KEY: "re_test_key",
+  };
+  // A server spawned from vitest must not think it runs under vitest.
+  delete childEnv.VITEST;
+  const server = spawn(process.execPath, ["--import", "tsx", "server.ts"], {
+    env: childEnv,
+    stdio: ["ignore", "inherit", "inherit"],
+  });
+  await waitForHealth(baseUrl, server);
+
+  project.provide("baseUrl", baseUrl);
+  project.provide("resendUrl", resendUrl);
+
+  return async () => {
+    server.kill("SIGTERM");
+    await new Promise((r) => server.once("exit", r));
+    await new Promise((r) => fake.close(r));
+  };
+}
