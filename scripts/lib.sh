@@ -5,7 +5,7 @@ set -euo pipefail
 ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 DATA_DIR="${JOULEBOOK_DATA_DIR:-$ROOT/.data}"
 PG_DIR="$DATA_DIR/postgres"
-PG_PORT="${JOULEBOOK_PG_PORT:-54329}"
+PG_PORT_FILE="$DATA_DIR/pg-port"
 PG_USER="joulebook"
 PG_PASSWORD_FILE="$DATA_DIR/db-password"
 
@@ -68,12 +68,25 @@ ensure_traversable() {
   done
 }
 
+port_in_use() { (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null; }
+
+# The cluster keeps the port it was created with (recorded beside it); a new
+# cluster takes the first free port from 54329 up, so two checkouts coexist.
+choose_pg_port() {
+  if [ -f "$PG_PORT_FILE" ]; then PG_PORT="$(cat "$PG_PORT_FILE")"; return; fi
+  PG_PORT="${JOULEBOOK_PG_PORT:-54329}"
+  while port_in_use "$PG_PORT"; do PG_PORT=$((PG_PORT + 1)); done
+  echo "$PG_PORT" >"$PG_PORT_FILE"
+}
+
 ensure_cluster() {
   ensure_postgres_binaries
   mkdir -p "$DATA_DIR"
   chmod 755 "$DATA_DIR"
   ensure_traversable
   if [ ! -f "$PG_DIR/PG_VERSION" ]; then
+    rm -f "$PG_PORT_FILE"
+    choose_pg_port
     log "Creating a private PostgreSQL cluster in $PG_DIR"
     umask 077
     head -c 24 /dev/urandom | base64 | tr -dc 'A-Za-z0-9' >"$PG_PASSWORD_FILE"
@@ -94,9 +107,11 @@ unix_socket_directories = '$PG_DIR'
 fsync = on
 CONF
   fi
+  choose_pg_port
   if ! as_pg "$PG_BIN/pg_ctl" -D "$PG_DIR" status >/dev/null 2>&1; then
     log "Starting PostgreSQL on 127.0.0.1:$PG_PORT"
-    as_pg "$PG_BIN/pg_ctl" -D "$PG_DIR" -l "$PG_DIR/server.log" -w -t 60 start >/dev/null
+    as_pg "$PG_BIN/pg_ctl" -D "$PG_DIR" -l "$PG_DIR/server.log" -w -t 60 start >/dev/null ||
+      { tail -n 20 "$PG_DIR/server.log" >&2; die "PostgreSQL did not start (log above)"; }
   fi
 }
 
