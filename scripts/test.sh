@@ -26,7 +26,9 @@ npm run --silent build >"$DATA_DIR/build-test.log" 2>&1 || { cat "$DATA_DIR/buil
 
 log "Unit tests"
 npx vitest run --project unit
-log "Integration and browser tests"
-npx vitest run --project integration --project browser
+log "Integration tests"
+npx vitest run --project integration
+log "Browser tests"
+npx vitest run --project browser
 
 log "All tests passed in $((SECONDS - started)) s"

@@ -1,4 +1,4 @@
-import { eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import type { NodePgDatabase } from "drizzle-orm/node-postgres";
 import { createUser } from "../app/auth/create-user.server";
 import { gatewayKeyPrefix } from "../app/auth/gateway-keys.server";
@@ -14,6 +14,8 @@ import {
 
 type Db = NodePgDatabase<typeof schema>;
 
+const DEMO_SEED_LOCK = 4_2026_1201;
+
 /**
  * Creates the demo organisations, people and gateway in one transaction.
  * Returns false without writing when the demo is already there.
@@ -23,6 +25,9 @@ export async function seedDemo(
   gatewayKey = DEFAULT_DEMO_GATEWAY_KEY,
 ): Promise<boolean> {
   return db.transaction(async (tx) => {
+    // Two seeders at once (two test projects, two terminals) must not both
+    // find the database empty: the second waits here and then sees the demo.
+    await tx.execute(sql`select pg_advisory_xact_lock(${DEMO_SEED_LOCK})`);
     const [existing] = await tx
       .select({ id: schema.organizations.id })
       .from(schema.organizations)
