@@ -29,12 +29,24 @@ async function signInAs(
   // Keyboard only: Enter submits the form.
   await page.getByLabel("Password").press("Enter");
   await page.waitForURL(/\/o\/[0-9a-f-]{36}$/);
-  await page.getByRole("heading", { level: 1 }).waitFor();
+  // The shell's navigation exists only on signed-in pages (hidden in the
+  // closed phone menu, hence "attached").
+  await page
+    .getByRole("navigation", { name: "Main", includeHidden: true })
+    .first()
+    .waitFor({ state: "attached" });
   return page;
 }
 
 const nav = (page: Page) =>
   page.getByRole("navigation", { name: "Main" }).filter({ visible: true });
+/** Waits for the text to show, then checks it shows exactly once. */
+async function expectVisibleOnce(page: Page, text: string) {
+  const locator = visibleText(page, text);
+  await locator.first().waitFor();
+  expect(await locator.count(), text).toBe(1);
+}
+
 const visibleText = (page: Page, text: string) =>
   page.getByText(text, { exact: false }).filter({ visible: true });
 
@@ -66,11 +78,11 @@ describe("what each role sees", () => {
   ] as const) {
     it(`${label} sees the members read-only`, async () => {
       const page = await signInAs(email);
-      expect(await visibleText(page, `You are ${label} here`).count()).toBe(1);
+      await expectVisibleOnce(page, `You are ${label} here`);
       await nav(page).getByRole("link", { name: "Members" }).click();
       await page.waitForURL(/\/members$/);
       await page.getByRole("heading", { name: "Members", level: 1 }).waitFor();
-      expect(await visibleText(page, "Ruth Okafor").count()).toBe(1);
+      await expectVisibleOnce(page, "Ruth Okafor");
       expect(
         await page.getByRole("heading", { name: "Invite someone" }).count(),
       ).toBe(0);
@@ -84,14 +96,10 @@ describe("what each role sees", () => {
 
   it("gateways are listed for managers, not for finance", async () => {
     const manager = await signInAs("manager@larchmere.example");
-    expect(await visibleText(manager, "Larchmere demo gateway").count()).toBe(
-      1,
-    );
+    await expectVisibleOnce(manager, "Larchmere demo gateway");
     await manager.close();
     const finance = await signInAs("finance@larchmere.example");
-    expect(
-      await visibleText(finance, "Gateways are managed by owners").count(),
-    ).toBe(1);
+    await expectVisibleOnce(finance, "Gateways are managed by owners");
     expect(await visibleText(finance, "Larchmere demo gateway").count()).toBe(
       0,
     );
@@ -125,9 +133,7 @@ describe("what each role sees", () => {
         name: "Hollowmead Housing Co-operative",
       })
       .waitFor();
-    expect(await visibleText(page, "You are Energy manager here").count()).toBe(
-      1,
-    );
+    await expectVisibleOnce(page, "You are Energy manager here");
     await page.close();
   });
 
@@ -139,7 +145,7 @@ describe("what each role sees", () => {
     await page.getByText("Menu").click();
     await nav(page).getByRole("link", { name: "Members" }).click();
     await page.getByRole("heading", { name: "Members", level: 1 }).waitFor();
-    expect(await visibleText(page, "Glen Abbott").count()).toBe(1);
+    await expectVisibleOnce(page, "Glen Abbott");
     await page.close();
   });
 });
@@ -181,7 +187,7 @@ describe("an invitation from the owner to a new person, end to end", () => {
     await invitee
       .getByRole("heading", { level: 1, name: "Larchmere Borough Estates" })
       .waitFor();
-    expect(await visibleText(invitee, "You are Finance here").count()).toBe(1);
+    await expectVisibleOnce(invitee, "You are Finance here");
     await invitee.close();
   });
 
