@@ -34,6 +34,11 @@ const envSchema = z
       .min(24, "DEMO_GATEWAY_KEY must be at least 24 characters")
       .optional(),
     TRUST_PROXY: z.enum(["0", "1"]).default("0"),
+    GATEWAY_RATE_LIMIT_PER_MINUTE: z.coerce
+      .number({ error: "GATEWAY_RATE_LIMIT_PER_MINUTE must be a number" })
+      .int()
+      .min(1, "GATEWAY_RATE_LIMIT_PER_MINUTE must be at least 1")
+      .default(600),
   })
   .refine(
     (env) => env.RESEND_BASE_URL || env.RESEND_API_KEY !== "re_local_fake_key",

@@ -3,6 +3,7 @@ import { evaluateEnergy, EVALUATE_BODY_LIMIT } from "./evaluate.server";
 import { health } from "./health.server";
 import { openApiDocument } from "./openapi.server";
 import { requirePrincipal } from "./principal.server";
+import { gatewayRateLimit, postReadings, READINGS_BODY_LIMIT } from "./readings.server";
 import { apiErrorHandler, sendError } from "./respond.server";
 
 /** The JSON API under /api/v1. */
@@ -17,6 +18,13 @@ export function apiRouter(): Router {
     requirePrincipal({ allowSession: true }),
     express.json({ limit: EVALUATE_BODY_LIMIT, strict: true }),
     evaluateEnergy,
+  );
+  router.post(
+    "/readings",
+    requirePrincipal({ allowSession: false }),
+    gatewayRateLimit(),
+    express.json({ limit: READINGS_BODY_LIMIT, strict: true }),
+    postReadings,
   );
   router.use((_req, res) => {
     sendError(

@@ -2,8 +2,11 @@ import { sql } from "drizzle-orm";
 import {
   bigserial,
   boolean,
+  foreignKey,
   index,
+  integer,
   jsonb,
+  numeric,
   pgEnum,
   pgTable,
   primaryKey,
@@ -181,3 +184,222 @@ export const auditLog = pgTable(
 );
 
 export type Role = (typeof roleEnum.enumValues)[number];
+
+// ---------------------------------------------------------------------------
+// Sites, meters and what they measure
+// ---------------------------------------------------------------------------
+
+export const quantityEnum = pgEnum("meter_quantity", [
+  "water_heat",
+  "steam_heat",
+  "sensible_heat",
+  "electric_work",
+  "electric_register",
+  "heat_register",
+]);
+export const carrierEnum = pgEnum("energy_carrier", [
+  "heat",
+  "cooling",
+  "steam",
+  "electricity",
+]);
+export const orientationEnum = pgEnum("boundary_orientation", [
+  "import",
+  "export",
+]);
+export const sensorPositionEnum = pgEnum("sensor_position", ["flow", "return"]);
+export const intervalQualityEnum = pgEnum("interval_quality", [
+  "measured",
+  "estimated",
+  "edited",
+  "missing",
+]);
+
+export const sites = pgTable(
+  "sites",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    name: text("name").notNull(),
+    timeZone: text("time_zone").notNull(),
+    floorAreaM2: numeric("floor_area_m2", { precision: 12, scale: 2 }),
+    degreeDayBaseC: numeric("degree_day_base_c", { precision: 4, scale: 1 })
+      .notNull()
+      .default("15.5"),
+    address: text("address").notNull().default(""),
+    createdAt: createdAt(),
+    archivedAt: timestamp("archived_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("sites_name_unique").on(
+      t.organizationId,
+      sql`lower(${t.name})`,
+    ),
+  ],
+);
+
+export const meters = pgTable(
+  "meters",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: uuid("id").notNull().defaultRandom(),
+    siteId: uuid("site_id").notNull(),
+    /** The name gateways use for the meter in readings (`meter` field). */
+    code: text("code").notNull(),
+    name: text("name").notNull(),
+    quantity: quantityEnum("quantity").notNull(),
+    carrier: carrierEnum("carrier").notNull(),
+    orientation: orientationEnum("orientation").notNull(),
+    parentMeterId: uuid("parent_meter_id"),
+    serial: text("serial").notNull().default(""),
+    multiplier: numeric("multiplier", { precision: 12, scale: 4 })
+      .notNull()
+      .default("1"),
+    rolloverKwh: numeric("rollover_kwh", { precision: 16, scale: 3 }),
+    sensorAt: sensorPositionEnum("sensor_at"),
+    defaultPressureBarAbs: numeric("default_pressure_bar_abs", {
+      precision: 6,
+      scale: 3,
+    }),
+    /** An hour above this multiple of the meter's typical value is a spike. */
+    spikeFactor: numeric("spike_factor", { precision: 6, scale: 2 })
+      .notNull()
+      .default("10"),
+    installedAt: timestamp("installed_at", { withTimezone: true }).notNull(),
+    removedAt: timestamp("removed_at", { withTimezone: true }),
+    replacedByMeterId: uuid("replaced_by_meter_id"),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("meters_code_unique").on(t.organizationId, t.code),
+    index("meters_site_idx").on(t.organizationId, t.siteId),
+    foreignKey({
+      columns: [t.organizationId, t.siteId],
+      foreignColumns: [sites.organizationId, sites.id],
+    }).onDelete("cascade"),
+    foreignKey({
+      columns: [t.organizationId, t.parentMeterId],
+      foreignColumns: [t.organizationId, t.id],
+    }),
+    foreignKey({
+      columns: [t.organizationId, t.replacedByMeterId],
+      foreignColumns: [t.organizationId, t.id],
+    }),
+  ],
+);
+
+// ---------------------------------------------------------------------------
+// Readings as received, and the hourly intervals derived from them. Both are
+// partitioned by month of their time (see the migration and docs/scaling.md).
+// ---------------------------------------------------------------------------
+
+export const ingestBatches = pgTable(
+  "ingest_batches",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    source: text("source").notNull(),
+    gatewayId: uuid("gateway_id"),
+    userId: text("user_id"),
+    receivedAt: timestamp("received_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+    accepted: integer("accepted").notNull(),
+    repeats: integer("repeats").notNull(),
+    rejected: integer("rejected").notNull(),
+    conflicts: integer("conflicts").notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.organizationId, t.id] })],
+);
+
+/** Immutable: exactly what arrived, keyed by meter and time (idempotency). */
+export const rawReadings = pgTable(
+  "raw_readings",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    readingTime: timestamp("reading_time", {
+      withTimezone: true,
+      mode: "date",
+    }).notNull(),
+    endTime: timestamp("end_time", { withTimezone: true, mode: "date" }),
+    payload: jsonb("payload").$type<Record<string, unknown>>().notNull(),
+    payloadHash: text("payload_hash").notNull(),
+    /** Signed energy of an interval reading, computed once at ingest. */
+    energyKwh: numeric("energy_kwh", { precision: 20, scale: 6 }),
+    registerKwh: numeric("register_kwh", { precision: 20, scale: 4 }),
+    batchId: uuid("batch_id").notNull(),
+    receivedAt: timestamp("received_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId, t.readingTime] }),
+  ],
+);
+
+/** A reading that disagreed with one already stored: kept for review. */
+export const readingConflicts = pgTable(
+  "reading_conflicts",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: bigserial("id", { mode: "number" }).notNull(),
+    meterId: uuid("meter_id").notNull(),
+    readingTime: timestamp("reading_time", {
+      withTimezone: true,
+      mode: "date",
+    }).notNull(),
+    payload: jsonb("payload").$type<Record<string, unknown>>().notNull(),
+    batchId: uuid("batch_id").notNull(),
+    receivedAt: timestamp("received_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+    resolvedAt: timestamp("resolved_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("reading_conflicts_meter_idx").on(t.organizationId, t.meterId),
+  ],
+);
+
+export const intervals = pgTable(
+  "intervals",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    hourStart: timestamp("hour_start", {
+      withTimezone: true,
+      mode: "date",
+    }).notNull(),
+    /** Signed by the boundary convention: into the site positive. */
+    energyKwh: numeric("energy_kwh", { precision: 20, scale: 6 }).notNull(),
+    quality: intervalQualityEnum("quality").notNull(),
+    flags: text("flags")
+      .array()
+      .notNull()
+      .default(sql`'{}'::text[]`),
+    /** reading_time of the raw readings this hour was computed from. */
+    sourceReadingTimes: timestamp("source_reading_times", {
+      withTimezone: true,
+      mode: "date",
+    })
+      .array()
+      .notNull()
+      .default(sql`'{}'::timestamptz[]`),
+    estimateMethod: text("estimate_method"),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.organizationId, t.meterId, t.hourStart] })],
+);
+
+export type Quantity = (typeof quantityEnum.enumValues)[number];
+export type Carrier = (typeof carrierEnum.enumValues)[number];
+export type IntervalQuality = (typeof intervalQualityEnum.enumValues)[number];

@@ -1,0 +1,178 @@
+// Estimates for the missing hours of one meter's hourly series. Short gaps
+// are bridged in a straight line between the known hours on either side;
+// long gaps take the meter's own weekly shape (weekday × local hour), because
+// a straight line across several days would erase nights and weekends.
+
+import { HOUR_MS, floorToHour } from "./hours";
+import { weekHourSlot } from "./local-time";
+import { knownPoints } from "./series";
+import type { HourlyPoint } from "./series";
+
+export interface EstimateOptions {
+  /** Gaps of at most this many hours are interpolated linearly. */
+  shortGapMaxHours?: number;
+  /** IANA zone of the site: occupancy follows local time, not UTC. */
+  timeZone?: string;
+  /** Weeks of history before the gap that make up the profile. */
+  profileWeeks?: number;
+}
+
+export interface Estimate {
+  hourStart: Date;
+  energyKwh: number;
+  method: "linear" | "profile";
+}
+
+const WEEK_MS = 7 * 24 * HOUR_MS;
+
+interface Anchor {
+  t: number;
+  value: number;
+}
+
+interface Resolved {
+  shortGapMaxHours: number;
+  timeZone: string;
+  profileWeeks: number;
+}
+
+function resolve(options: EstimateOptions): Resolved {
+  const r = {
+    shortGapMaxHours: options.shortGapMaxHours ?? 6,
+    timeZone: options.timeZone ?? "UTC",
+    profileWeeks: options.profileWeeks ?? 8,
+  };
+  if (!(r.shortGapMaxHours >= 0)) {
+    throw new RangeError("shortGapMaxHours must be 0 or more");
+  }
+  if (!(r.profileWeeks > 0)) {
+    throw new RangeError("profileWeeks must be greater than 0");
+  }
+  return r;
+}
+
+// One anchor per UTC hour; if a series repeats an hour, the later entry wins
+// (a re-sent reading replaces the earlier one).
+function anchorsOf(series: readonly HourlyPoint[]): Anchor[] {
+  const byHour = new Map<number, number>();
+  for (const p of knownPoints(series)) {
+    byHour.set(floorToHour(p.hourStart).getTime(), p.energyKwh);
+  }
+  return [...byHour.entries()]
+    .sort((a, b) => a[0] - b[0])
+    .map(([t, value]) => ({ t, value }));
+}
+
+/** Straight line between two known hours, at hour k of the n missing ones. */
+export function interpolate(a: number, b: number, k: number, n: number) {
+  return a + ((b - a) * k) / (n + 1);
+}
+
+/** Weekly profile: mean value per weekday × local hour slot (0–167). */
+class Profiles {
+  private slots: number[] | undefined;
+
+  constructor(
+    private readonly anchors: readonly Anchor[],
+    private readonly o: Resolved,
+  ) {}
+
+  // Local slots cost an Intl call each: computed once, and only when a long
+  // gap needs them.
+  private slotOf(i: number): number {
+    this.slots ??= this.anchors.map((a) =>
+      weekHourSlot(new Date(a.t), this.o.timeZone),
+    );
+    return this.slots[i];
+  }
+
+  means(fromT: number, toT: number): (number | undefined)[] {
+    const sum = new Array<number>(168).fill(0);
+    const count = new Array<number>(168).fill(0);
+    for (let i = 0; i < this.anchors.length; i++) {
+      const t = this.anchors[i].t;
+      if (t < fromT || t >= toT) continue;
+      sum[this.slotOf(i)] += this.anchors[i].value;
+      count[this.slotOf(i)] += 1;
+    }
+    return sum.map((s, i) => (count[i] > 0 ? s / count[i] : undefined));
+  }
+
+  slotAt(t: number): number {
+    return weekHourSlot(new Date(t), this.o.timeZone);
+  }
+}
+
+function fillShort(a: Anchor, b: Anchor, n: number): Estimate[] {
+  const out: Estimate[] = [];
+  for (let k = 1; k <= n; k++) {
+    out.push({
+      hourStart: new Date(a.t + k * HOUR_MS),
+      energyKwh: interpolate(a.value, b.value, k, n),
+      method: "linear",
+    });
+  }
+  return out;
+}
+
+// Profile of the weeks before the gap; a slot with no data there falls back
+// to the whole series, and a slot never seen at all to the straight line.
+function fillLong(
+  a: Anchor,
+  b: Anchor,
+  n: number,
+  profiles: Profiles,
+  o: Resolved,
+): Estimate[] {
+  const gapStart = a.t + HOUR_MS;
+  const recent = profiles.means(gapStart - o.profileWeeks * WEEK_MS, gapStart);
+  let overall: (number | undefined)[] | undefined;
+  const out: Estimate[] = [];
+  for (let k = 1; k <= n; k++) {
+    const t = a.t + k * HOUR_MS;
+    const slot = profiles.slotAt(t);
+    let value = recent[slot];
+    if (value === undefined) {
+      overall ??= profiles.means(-Infinity, Infinity);
+      value = overall[slot];
+    }
+    out.push(
+      value === undefined
+        ? { hourStart: new Date(t), energyKwh: interpolate(a.value, b.value, k, n), method: "linear" }
+        : { hourStart: new Date(t), energyKwh: value, method: "profile" },
+    );
+  }
+  return out;
+}
+
+/**
+ * Estimates every hour strictly between the first and the last known hour
+ * (measured or edited) that has no known value. Known hours are never
+ * estimated over; hours after the last known hour are left alone, since a
+ * silent meter may yet send them. Known hours also anchor the straight lines
+ * and make up the profile: an edited value is a person's correction of a
+ * measurement and is the better number for that hour.
+ */
+export function estimateGaps(
+  series: readonly HourlyPoint[],
+  options: EstimateOptions = {},
+): Estimate[] {
+  const o = resolve(options);
+  const anchors = anchorsOf(series);
+  const profiles = new Profiles(anchors, o);
+  const out: Estimate[] = [];
+  for (let i = 1; i < anchors.length; i++) {
+    const a = anchors[i - 1];
+    const b = anchors[i];
+    const n = Math.round((b.t - a.t) / HOUR_MS) - 1;
+    if (n < 1) continue;
+    const filled =
+      n <= o.shortGapMaxHours
+        ? fillShort(a, b, n)
+        : fillLong(a, b, n, profiles, o);
+    // A loop, not push(...filled): a gap of months would exceed the
+    // engine's argument limit.
+    for (const e of filled) out.push(e);
+  }
+  return out;
+}

@@ -1,0 +1,72 @@
+import { randomUUID } from "node:crypto";
+import { pool } from "~/db/client.server";
+import { findMetersByCode } from "./meter-lookup.server";
+import { codesIn, prepareReadings, type Rejection } from "./prepare-readings.server";
+import { storeReadings } from "./store-readings.server";
+import { afterIngest } from "./after-ingest.server";
+
+export interface IngestRequest {
+  organizationId: string;
+  source: "api" | "csv" | "seed";
+  gatewayId?: string | null;
+  userId?: string | null;
+  readings: readonly unknown[];
+  now?: Date;
+}
+
+export interface IngestResult {
+  batchId: string;
+  accepted: number;
+  repeats: number;
+  rejected: Rejection[];
+  conflicts: Rejection[];
+}
+
+/**
+ * Checks, stores and derives one batch. Nothing is acknowledged before the
+ * transaction commits; if it fails, nothing of the batch is stored.
+ */
+export async function ingestReadings(request: IngestRequest): Promise<IngestResult> {
+  const { organizationId } = request;
+  const meters = await findMetersByCode(organizationId, codesIn(request.readings));
+  const { prepared, rejected } = prepareReadings(
+    request.readings,
+    new Map(meters.map((m) => [m.code, m])),
+    request.now,
+  );
+  const batchId = randomUUID();
+  const client = await pool.connect();
+  try {
+    await client.query("begin");
+    const outcome = await storeReadings(client, organizationId, batchId, prepared);
+    await client.query(
+      `insert into ingest_batches (organization_id, id, source, gateway_id, user_id, accepted, repeats, rejected, conflicts)
+       values ($1, $2, $3, $4, $5, $6, $7, $8, $9)`,
+      [
+        organizationId,
+        batchId,
+        request.source,
+        request.gatewayId ?? null,
+        request.userId ?? null,
+        outcome.accepted,
+        outcome.repeats,
+        rejected.length,
+        outcome.conflicts.length,
+      ],
+    );
+    await client.query("commit");
+    afterIngest(organizationId, outcome.touched);
+    return {
+      batchId,
+      accepted: outcome.accepted,
+      repeats: outcome.repeats,
+      rejected: rejected.sort((a, b) => a.index - b.index),
+      conflicts: outcome.conflicts.sort((a, b) => a.index - b.index),
+    };
+  } catch (error) {
+    await client.query("rollback").catch(() => undefined);
+    throw error;
+  } finally {
+    client.release();
+  }
+}

@@ -1,0 +1,126 @@
+import { createHash } from "node:crypto";
+import { evaluateItem } from "~/physics/evaluate";
+import { parseReading, type ParsedReading } from "./reading-schema";
+import type { IngestMeter } from "./meter-lookup.server";
+
+/** A reading ready to store: its key, what arrived and its signed energy. */
+export interface PreparedReading {
+  index: number;
+  meter: IngestMeter;
+  readingTime: Date;
+  endTime: Date | null;
+  payload: Record<string, unknown>;
+  payloadHash: string;
+  energyKwh: string | null;
+  registerKwh: number | null;
+}
+
+export interface Rejection {
+  index: number;
+  meter?: string;
+  reason: string;
+}
+
+/** JSON with sorted keys, so the same reading in another key order is a repeat. */
+function canonicalJson(value: unknown): string {
+  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(",")}]`;
+  if (value && typeof value === "object") {
+    const entries = Object.entries(value as Record<string, unknown>).sort(([a], [b]) =>
+      a < b ? -1 : a > b ? 1 : 0,
+    );
+    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
+  }
+  return JSON.stringify(value);
+}
+
+export function hashPayload(payload: unknown): string {
+  return createHash("sha256").update(canonicalJson(payload)).digest("hex");
+}
+
+/** Export meters measure what leaves the site: the sign flips (design.md). */
+export function orientationSign(meter: Pick<IngestMeter, "orientation">): 1 | -1 {
+  return meter.orientation === "export" ? -1 : 1;
+}
+
+/** The meter's configured sensor position and pressure fill what a reading leaves out. */
+function withMeterDefaults(item: Record<string, unknown>, meter: IngestMeter) {
+  const filled = { ...item };
+  if (filled.quantity === "water_heat" && filled.sensor_at === undefined && meter.sensorAt) {
+    filled.sensor_at = meter.sensorAt;
+  }
+  const hasPressure =
+    filled.pressure_bar_abs !== undefined ||
+    filled.pressure_bar_g !== undefined ||
+    filled.saturation_temp_c !== undefined;
+  const needsPressure = filled.quantity === "water_heat" || filled.quantity === "steam_heat";
+  if (needsPressure && !hasPressure && meter.defaultPressureBarAbs !== null) {
+    filled.pressure_bar_abs = Number(meter.defaultPressureBarAbs);
+  }
+  return filled;
+}
+
+function installedAt(meter: IngestMeter, time: Date): boolean {
+  return time >= meter.installedAt && (!meter.removedAt || time <= meter.removedAt);
+}
+
+function prepareOne(
+  index: number,
+  raw: unknown,
+  reading: ParsedReading,
+  meter: IngestMeter,
+): PreparedReading | Rejection {
+  const at = reading.kind === "interval" ? reading.start : reading.time;
+  if (reading.quantity !== meter.quantity) {
+    return { index, meter: meter.code, reason: `quantity: meter ${meter.code} measures ${meter.quantity}` };
+  }
+  if (!installedAt(meter, at)) {
+    return { index, meter: meter.code, reason: `meter ${meter.code} was not installed at ${at.toISOString()}` };
+  }
+  const payload = raw as Record<string, unknown>;
+  const base = { index, meter, payload, payloadHash: hashPayload(payload) };
+  if (reading.kind === "register") {
+    return { ...base, readingTime: reading.time, endTime: null, energyKwh: null, registerKwh: reading.registerKwh };
+  }
+  const result = evaluateItem(withMeterDefaults(reading.item, meter));
+  if (!result.ok) return { index, meter: meter.code, reason: result.error };
+  const signed = result.energy_kwh * orientationSign(meter);
+  return { ...base, readingTime: reading.start, endTime: reading.end, energyKwh: signed.toFixed(6), registerKwh: null };
+}
+
+/**
+ * Checks every reading on its own and computes interval energies; a bad
+ * reading is rejected with its index and a plain reason, never failing others.
+ */
+export function prepareReadings(
+  raws: readonly unknown[],
+  metersByCode: Map<string, IngestMeter>,
+  now = new Date(),
+): { prepared: PreparedReading[]; rejected: Rejection[] } {
+  const prepared: PreparedReading[] = [];
+  const rejected: Rejection[] = [];
+  raws.forEach((raw, index) => {
+    const parsed = parseReading(raw, now);
+    if (!parsed.ok) return void rejected.push({ index, reason: parsed.error });
+    const meter = metersByCode.get(parsed.reading.meter);
+    if (!meter) {
+      return void rejected.push({
+        index,
+        meter: parsed.reading.meter,
+        reason: `meter: no meter ${parsed.reading.meter} in this organisation`,
+      });
+    }
+    const outcome = prepareOne(index, raw, parsed.reading, meter);
+    if ("reason" in outcome) rejected.push(outcome);
+    else prepared.push(outcome);
+  });
+  return { prepared, rejected };
+}
+
+export function codesIn(raws: readonly unknown[]): string[] {
+  const codes = new Set<string>();
+  for (const raw of raws) {
+    const code = (raw as { meter?: unknown } | null)?.meter;
+    if (typeof code === "string" && code.trim()) codes.add(code.trim());
+  }
+  return [...codes];
+}

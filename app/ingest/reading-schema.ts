@@ -1,0 +1,124 @@
+/**
+ * The envelope of one gateway reading (design.md, "Gateway API"): which
+ * meter, which quantity and when. The measured fields themselves are checked
+ * by the physics item schemas when the energy is computed.
+ */
+import { z } from "zod";
+import { QUANTITIES } from "../physics/evaluate-schema";
+
+export const MAX_READINGS_PER_BATCH = 5000;
+export const EARLIEST_READING = new Date("1990-01-01T00:00:00Z");
+/** Gateway clocks drift; a reading this far ahead of ours is still taken. */
+export const CLOCK_SKEW_MS = 10 * 60_000;
+/** One reading may cover at most this long an interval. */
+export const MAX_INTERVAL_MS = 31 * 86_400_000;
+
+export const REGISTER_QUANTITIES = ["electric_register", "heat_register"] as const;
+export type RegisterQuantity = (typeof REGISTER_QUANTITIES)[number];
+
+export function isRegisterQuantity(q: string): q is RegisterQuantity {
+  return (REGISTER_QUANTITIES as readonly string[]).includes(q);
+}
+
+const meterCode = z
+  .string({ error: "meter: expected the meter's code as a string" })
+  .trim()
+  .min(1, "meter: must not be empty")
+  .max(64, "meter: at most 64 characters");
+
+const instant = (field: string) =>
+  z.iso
+    .datetime({ offset: true, error: `${field}: expected an ISO 8601 date-time with offset` })
+    .transform((s) => new Date(s));
+
+const envelopeSchema = z.looseObject({
+  meter: meterCode,
+  quantity: z.enum(QUANTITIES, {
+    error: `quantity: expected one of ${QUANTITIES.join(", ")}`,
+  }),
+});
+
+const intervalTimes = z.looseObject({ start: instant("start"), end: instant("end") });
+
+const registerSchema = z.strictObject({
+  meter: meterCode,
+  quantity: z.enum(REGISTER_QUANTITIES),
+  time: instant("time"),
+  register_kwh: z
+    .number({ error: "register_kwh: expected a finite number" })
+    .min(0, "register_kwh: must not be negative"),
+});
+
+export type ParsedReading =
+  | {
+      kind: "interval";
+      meter: string;
+      quantity: string;
+      start: Date;
+      end: Date;
+      /** The reading without `meter`: a physics evaluate item. */
+      item: Record<string, unknown>;
+    }
+  | {
+      kind: "register";
+      meter: string;
+      quantity: RegisterQuantity;
+      time: Date;
+      registerKwh: number;
+    };
+
+function checkTime(field: string, at: Date, now: Date): string | null {
+  if (at < EARLIEST_READING) return `${field}: before 1990-01-01 is not accepted`;
+  if (at.getTime() > now.getTime() + CLOCK_SKEW_MS) return `${field}: is in the future`;
+  return null;
+}
+
+function firstIssue(error: z.ZodError): string {
+  const issue = error.issues[0];
+  const path = issue.path.map(String).join(".");
+  return issue.message.includes(":") || !path ? issue.message : `${path}: ${issue.message}`;
+}
+
+/** Parses one reading's envelope; the error is a plain sentence with the field. */
+export function parseReading(
+  raw: unknown,
+  now = new Date(),
+): { ok: true; reading: ParsedReading } | { ok: false; error: string } {
+  if (typeof raw !== "object" || raw === null || Array.isArray(raw)) {
+    return { ok: false, error: "expected a JSON object" };
+  }
+  const envelope = envelopeSchema.safeParse(raw);
+  if (!envelope.success) return { ok: false, error: firstIssue(envelope.error) };
+  if (isRegisterQuantity(envelope.data.quantity)) return parseRegister(raw, now);
+  const times = intervalTimes.safeParse(raw);
+  if (!times.success) return { ok: false, error: firstIssue(times.error) };
+  const { start, end } = times.data;
+  const timeError = checkTime("start", start, now) ?? checkTime("end", end, now);
+  if (timeError) return { ok: false, error: timeError };
+  if (end <= start) return { ok: false, error: "end: must be after start" };
+  if (end.getTime() - start.getTime() > MAX_INTERVAL_MS) {
+    return { ok: false, error: "end: one reading may cover at most 31 days" };
+  }
+  const { meter: _meter, ...item } = raw as Record<string, unknown>;
+  return {
+    ok: true,
+    reading: { kind: "interval", meter: envelope.data.meter, quantity: envelope.data.quantity, start, end, item },
+  };
+}
+
+function parseRegister(raw: object, now: Date) {
+  const parsed = registerSchema.safeParse(raw);
+  if (!parsed.success) return { ok: false as const, error: firstIssue(parsed.error) };
+  const timeError = checkTime("time", parsed.data.time, now);
+  if (timeError) return { ok: false as const, error: timeError };
+  return {
+    ok: true as const,
+    reading: {
+      kind: "register" as const,
+      meter: parsed.data.meter,
+      quantity: parsed.data.quantity,
+      time: parsed.data.time,
+      registerKwh: parsed.data.register_kwh,
+    },
+  };
+}

@@ -1,0 +1,26 @@
+// The hourly series of one meter, as the ingest modules pass it around.
+// Hours are UTC: an interval's hourStart is the start of its UTC hour.
+
+export type Quality = "measured" | "estimated" | "edited" | "missing";
+
+export interface HourlyPoint {
+  hourStart: Date;
+  energyKwh: number;
+  quality: Quality;
+}
+
+/**
+ * A value someone stands behind: what the meter registered, or what a person
+ * edited it to. Estimates and missing hours are not known values, so they are
+ * never used to estimate other hours and never count as data in a gap check.
+ */
+export function isKnown(point: HourlyPoint): boolean {
+  return point.quality === "measured" || point.quality === "edited";
+}
+
+/** The known points, sorted by hour (the input may come in any order). */
+export function knownPoints(series: readonly HourlyPoint[]): HourlyPoint[] {
+  return series
+    .filter(isKnown)
+    .sort((a, b) => a.hourStart.getTime() - b.hourStart.getTime());
+}

@@ -1,0 +1,120 @@
+import { describe, expect, it } from "vitest";
+import type { HourlyPoint, Quality } from "./series";
+import {
+  detectNegative,
+  detectSpikes,
+  findGaps,
+  typicalHourlyValue,
+} from "./validate";
+
+// Check values are arithmetic on the definitions in validate.ts (median of
+// |value| over non-zero measured hours; factor × median; sign; runs of hours
+// without a known value).
+
+const at = (h: number) => new Date(Date.UTC(2026, 0, 1, h));
+
+function series(values: (number | null)[], quality: Quality = "measured") {
+  const out: HourlyPoint[] = [];
+  values.forEach((v, h) => {
+    if (v !== null) out.push({ hourStart: at(h), energyKwh: v, quality });
+  });
+  return out;
+}
+
+describe("typicalHourlyValue", () => {
+  it("is the median of |measured|, zeros left out", () => {
+    // |−4|, 2, 6, 8 → sorted 2, 4, 6, 8 → median (4 + 6) / 2 = 5.
+    expect(typicalHourlyValue(series([0, -4, 2, 0, 6, 8]))).toBe(5);
+    expect(typicalHourlyValue(series([3, 1, 2]))).toBe(2);
+  });
+
+  it("ignores estimated and edited hours, and is null with no data", () => {
+    const s = [
+      ...series([10]),
+      { hourStart: at(1), energyKwh: 1000, quality: "estimated" as const },
+      { hourStart: at(2), energyKwh: 1000, quality: "edited" as const },
+    ];
+    expect(typicalHourlyValue(s)).toBe(10);
+    expect(typicalHourlyValue(series([0, 0]))).toBeNull();
+    expect(typicalHourlyValue([])).toBeNull();
+  });
+});
+
+describe("detectSpikes", () => {
+  it("flags |value| above factor × typical (default 10)", () => {
+    // Typical 5 (median of 4, 5, 5, 6, 60, 51 sorted: 4 5 5 6 51 60 → 5.5).
+    const s = series([4, 5, 5, 6, 60, 51]);
+    expect(typicalHourlyValue(s)).toBe(5.5);
+    // Limit 55: only 60 is above it.
+    expect(detectSpikes(s).map((p) => p.energyKwh)).toEqual([60]);
+    // Factor 5 → limit 27.5: 60 and 51.
+    expect(detectSpikes(s, 5).map((p) => p.energyKwh)).toEqual([60, 51]);
+  });
+
+  it("flags negative spikes by magnitude", () => {
+    const s = series([-3, -3, -3, -300]);
+    expect(detectSpikes(s).map((p) => p.energyKwh)).toEqual([-300]);
+  });
+
+  it("checks only measured hours", () => {
+    const s = [
+      ...series([3, 3, 3]),
+      { hourStart: at(5), energyKwh: 999, quality: "edited" as const },
+    ];
+    expect(detectSpikes(s)).toEqual([]);
+  });
+
+  it("rejects a factor that is not positive", () => {
+    expect(() => detectSpikes(series([1]), 0)).toThrow(RangeError);
+  });
+});
+
+describe("detectNegative", () => {
+  it("flags measured values against the expected sign", () => {
+    const s = series([2, -1, 0, 3]);
+    expect(detectNegative(s).map((p) => p.energyKwh)).toEqual([-1]);
+    // Chilled water: values should be ≤ 0; the positive ones are wrong.
+    expect(detectNegative(s, -1).map((p) => p.energyKwh)).toEqual([2, 3]);
+  });
+
+  it("leaves estimated hours alone", () => {
+    expect(detectNegative(series([-5], "estimated"))).toEqual([]);
+  });
+});
+
+describe("findGaps", () => {
+  it("finds runs of hours without a known value", () => {
+    // Hours 0..9: known at 0, 1, 4, 9 → gaps 2–3 (2 h) and 5–8 (4 h).
+    const s = series([1, 1, null, null, 1, null, null, null, null, 1]);
+    expect(findGaps(s, at(0), at(10))).toEqual([
+      { start: at(2), hours: 2, edge: null },
+      { start: at(5), hours: 4, edge: null },
+    ]);
+  });
+
+  it("marks gaps at the edges of the window", () => {
+    const s = series([null, null, 1, 1, null]);
+    expect(findGaps(s, at(0), at(6))).toEqual([
+      { start: at(0), hours: 2, edge: "leading" },
+      { start: at(4), hours: 2, edge: "trailing" },
+    ]);
+  });
+
+  it("counts missing and estimated hours as gaps, edited as data", () => {
+    const s: HourlyPoint[] = [
+      { hourStart: at(0), energyKwh: 1, quality: "measured" },
+      { hourStart: at(1), energyKwh: 0, quality: "missing" },
+      { hourStart: at(2), energyKwh: 1, quality: "estimated" },
+      { hourStart: at(3), energyKwh: 1, quality: "edited" },
+    ];
+    expect(findGaps(s, at(0), at(4))).toEqual([
+      { start: at(1), hours: 2, edge: null },
+    ]);
+  });
+
+  it("reports a window with no known hour as one leading gap", () => {
+    expect(findGaps([], at(0), at(3))).toEqual([
+      { start: at(0), hours: 3, edge: "leading" },
+    ]);
+  });
+});

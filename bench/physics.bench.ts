@@ -1,0 +1,181 @@
+// Throughput of the water-heat path, measured side by side in one run:
+//
+//   evaluateItem  the API item path: zod parse, range and phase guards,
+//                 two IF97 region-1 states, details
+//   waterHeat     the physics function alone (guards + two region-1 states)
+//   IF97 region 1 one bare region1Properties call, the unit of cost
+//
+// Water heat needs two region-1 states (flow and return), so an evaluation
+// can never be cheaper than two bare calls; the ratio shows what parsing and
+// guards add on top. The inputs are realistic and varied (heating and chilled
+// water circuits), drawn from a seeded generator so every run sees the same.
+
+import { performance } from "node:perf_hooks";
+import os from "node:os";
+import { evaluateItem } from "../app/physics/evaluate";
+import { region1Properties } from "../app/physics/if97";
+import { waterHeat } from "../app/physics/water-heat";
+import type { WaterHeatInput } from "../app/physics/water-heat";
+
+const ITEMS = 200_000;
+const WARM_UP_ITEMS = 20_000;
+const ROUNDS = 3;
+
+// mulberry32: a small seeded PRNG, enough for spreading bench inputs.
+function random(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+interface Case {
+  item: Record<string, unknown>;
+  input: WaterHeatInput;
+  flowPressureMpa: number;
+  flowTemperatureK: number;
+}
+
+// Nine in ten are heating circuits (flow 40-95 °C, ΔT 5-30 K), one in ten
+// chilled water (flow 5-12 °C, return 4-8 K warmer); 1.5-16 bar a; hourly
+// volumes 0.01-5 m³; the flow sensor in either pipe.
+function cases(n: number): Case[] {
+  const r = random(20260301);
+  const out: Case[] = [];
+  for (let i = 0; i < n; i++) {
+    const chilled = r() < 0.1;
+    const flowTempC = chilled ? 5 + 7 * r() : 40 + 55 * r();
+    const returnTempC = chilled
+      ? flowTempC + 4 + 4 * r()
+      : flowTempC - 5 - 25 * r();
+    const pressureBarAbs = 1.5 + 14.5 * r();
+    const volumeM3 = 0.01 + 4.99 * r();
+    const sensorAt = r() < 0.5 ? "flow" : "return";
+    out.push({
+      item: {
+        quantity: "water_heat",
+        volume_m3: volumeM3,
+        flow_temp_c: flowTempC,
+        return_temp_c: returnTempC,
+        pressure_bar_abs: pressureBarAbs,
+        sensor_at: sensorAt,
+      },
+      input: { volumeM3, flowTempC, returnTempC, pressureBarAbs, sensorAt },
+      flowPressureMpa: pressureBarAbs / 10,
+      flowTemperatureK: flowTempC + 273.15,
+    });
+  }
+  return out;
+}
+
+interface Loop {
+  name: string;
+  what: string;
+  // Runs over cases[0, n) and returns a checksum, so no work is optimised away.
+  run: (cs: Case[], n: number) => number;
+}
+
+const LOOPS: Loop[] = [
+  {
+    name: "evaluateItem",
+    what: "API item: parse + physics + details",
+    run: (cs, n) => {
+      let sum = 0;
+      for (let i = 0; i < n; i++) {
+        const r = evaluateItem(cs[i].item);
+        if (!r.ok) throw new Error(`bench item ${i} failed: ${r.error}`);
+        sum += r.energy_kwh;
+      }
+      return sum;
+    },
+  },
+  {
+    name: "waterHeat",
+    what: "physics function alone",
+    run: (cs, n) => {
+      let sum = 0;
+      for (let i = 0; i < n; i++) sum += waterHeat(cs[i].input).energyKj;
+      return sum;
+    },
+  },
+  {
+    name: "IF97 region 1",
+    what: "one bare region1Properties call",
+    run: (cs, n) => {
+      let sum = 0;
+      for (let i = 0; i < n; i++) {
+        const c = cs[i];
+        sum += region1Properties(
+          c.flowPressureMpa,
+          c.flowTemperatureK,
+        ).enthalpyKjPerKg;
+      }
+      return sum;
+    },
+  },
+];
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.floor(s.length / 2)];
+}
+
+function formatRate(opsPerSecond: number): string {
+  return Math.round(opsPerSecond).toLocaleString("en-GB");
+}
+
+/** Prints water-heat evaluations per second beside bare IF97 region-1 calls. */
+export async function benchPhysics(): Promise<void> {
+  const cs = cases(ITEMS);
+  let sink = 0;
+
+  // Warm-up: let the JIT compile every path before anything is timed.
+  for (const loop of LOOPS) sink += loop.run(cs, WARM_UP_ITEMS);
+
+  // Rounds interleave the loops so a slow spell of the machine hits all alike.
+  const times = new Map<string, number[]>(LOOPS.map((l) => [l.name, []]));
+  for (let round = 0; round < ROUNDS; round++) {
+    for (const loop of LOOPS) {
+      const t0 = performance.now();
+      sink += loop.run(cs, ITEMS);
+      times.get(loop.name)!.push(performance.now() - t0);
+      // Yield between loops so the event loop and GC are not starved.
+      await new Promise((resolve) => setImmediate(resolve));
+    }
+  }
+
+  const rows = LOOPS.map((loop) => {
+    const ms = median(times.get(loop.name)!);
+    return { loop, ms, opsPerSecond: (ITEMS / ms) * 1000 };
+  });
+  const region1 = rows[rows.length - 1].opsPerSecond;
+
+  const cpu = os.cpus()[0]?.model ?? "unknown CPU";
+  console.log(
+    `physics: ${ITEMS.toLocaleString("en-GB")} varied water-heat items, ` +
+      `${WARM_UP_ITEMS.toLocaleString("en-GB")} warm-up, median of ${ROUNDS} ` +
+      `rounds (Node ${process.version}, ${cpu})`,
+  );
+  console.table(
+    rows.map(({ loop, ms, opsPerSecond }) => ({
+      loop: loop.name,
+      measures: loop.what,
+      "median ms": Number(ms.toFixed(1)),
+      "ops/s": formatRate(opsPerSecond),
+      "µs/op": Number(((1000 * ms) / ITEMS).toFixed(3)),
+      "× region-1 rate": Number((opsPerSecond / region1).toFixed(3)),
+      "region-1 calls of time": Number((region1 / opsPerSecond).toFixed(2)),
+    })),
+  );
+  const evaluate = rows[0].opsPerSecond;
+  console.log(
+    `ratio: one evaluateItem costs ${(region1 / evaluate).toFixed(2)} bare ` +
+      `region-1 calls (2 at the least: flow and return states).`,
+  );
+  // Printing the checksum keeps every timed result observable.
+  console.log(`checksum ${sink.toExponential(6)}`);
+}
