@@ -18,6 +18,13 @@ export default [
     route("o/:orgId", "routes/org-layout.tsx", [
       index("routes/org-home.tsx"),
       route("members", "routes/members.tsx"),
+      route("sites", "routes/sites.tsx"),
+      route("sites/:siteId", "routes/site.tsx"),
+      route("sites/:siteId/meters/new", "routes/meter-new.tsx"),
+      route("meters/:meterId", "routes/meter.tsx"),
+      route("meters/:meterId/readings", "routes/meter-readings.tsx"),
+      route("readings", "routes/readings.tsx"),
+      route("gateways", "routes/gateways.tsx"),
     ]),
   ]),
   route("*", "routes/not-found.tsx"),

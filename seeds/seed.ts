@@ -1,4 +1,4 @@
-/** `npm start` runs this once per database: the demo goes in only if absent. */
+/** `npm start` runs this on every start: each part goes in only if absent. */
 import { drizzle } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import * as schema from "../app/db/schema";
@@ -17,9 +17,25 @@ try {
   );
   console.log(
     created
-      ? "[joulebook] demo data seeded"
-      : "[joulebook] demo data already present",
+      ? "[joulebook] demo people seeded"
+      : "[joulebook] demo people already present",
   );
 } finally {
   await pool.end();
+}
+
+// The estate goes through the app's own ingest modules, which read the
+// validated environment; no e-mail is sent while seeding.
+process.env.RESEND_BASE_URL ??= "http://127.0.0.1:9";
+const { seedEstate } = await import("./seed-estate");
+const { pool: appPool } = await import("../app/db/client.server");
+try {
+  const seeded = await seedEstate();
+  console.log(
+    seeded
+      ? "[joulebook] demo estate seeded"
+      : "[joulebook] demo estate already present",
+  );
+} finally {
+  await appPool.end();
 }

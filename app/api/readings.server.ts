@@ -9,7 +9,9 @@ import { sendError, sendValidationError } from "./respond.server";
 export const READINGS_BODY_LIMIT = "5mb";
 
 const batchSchema = z.strictObject({
-  readings: z.array(z.unknown(), { error: "readings: expected an array of readings" }).min(1, "readings: send at least one reading"),
+  readings: z
+    .array(z.unknown(), { error: "readings: expected an array of readings" })
+    .min(1, "readings: send at least one reading"),
 });
 
 /**
@@ -28,21 +30,40 @@ export function gatewayRateLimit() {
     },
     handler: (_req, res, _next, options) => {
       res.setHeader("Retry-After", String(Math.ceil(options.windowMs / 1000)));
-      sendError(res, 429, "rate_limited", "Too many batches from this gateway; retry after the time in Retry-After.");
+      sendError(
+        res,
+        429,
+        "rate_limited",
+        "Too many batches from this gateway; retry after the time in Retry-After.",
+      );
     },
   });
 }
 
 /** POST /api/v1/readings: a gateway's batch; acknowledged only after commit. */
-export async function postReadings(req: Request, res: Response, next: NextFunction): Promise<void> {
+export async function postReadings(
+  req: Request,
+  res: Response,
+  next: NextFunction,
+): Promise<void> {
   const principal = res.locals.principal;
   if (principal?.kind !== "gateway") {
-    return sendError(res, 401, "unauthenticated", "Readings are posted with a gateway key.");
+    return sendError(
+      res,
+      401,
+      "unauthenticated",
+      "Readings are posted with a gateway key.",
+    );
   }
   const parsed = batchSchema.safeParse(req.body);
   if (!parsed.success) return sendValidationError(res, parsed.error);
   if (parsed.data.readings.length > MAX_READINGS_PER_BATCH) {
-    return sendError(res, 413, "batch_too_large", `A batch holds at most ${MAX_READINGS_PER_BATCH} readings; split it.`);
+    return sendError(
+      res,
+      413,
+      "batch_too_large",
+      `A batch holds at most ${MAX_READINGS_PER_BATCH} readings; split it.`,
+    );
   }
   try {
     const result = await ingestReadings({

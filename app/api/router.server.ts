@@ -1,9 +1,16 @@
 import express, { Router } from "express";
 import { evaluateEnergy, EVALUATE_BODY_LIMIT } from "./evaluate.server";
 import { health } from "./health.server";
+import { getIntervals } from "./intervals.server";
+import { requireOrgMember } from "./org-member.server";
+import { uploadReadings } from "./upload-readings.server";
 import { openApiDocument } from "./openapi.server";
 import { requirePrincipal } from "./principal.server";
-import { gatewayRateLimit, postReadings, READINGS_BODY_LIMIT } from "./readings.server";
+import {
+  gatewayRateLimit,
+  postReadings,
+  READINGS_BODY_LIMIT,
+} from "./readings.server";
 import { apiErrorHandler, sendError } from "./respond.server";
 
 /** The JSON API under /api/v1. */
@@ -25,6 +32,17 @@ export function apiRouter(): Router {
     gatewayRateLimit(),
     express.json({ limit: READINGS_BODY_LIMIT, strict: true }),
     postReadings,
+  );
+  router.get(
+    "/orgs/:orgId/meters/:meterId/intervals",
+    requireOrgMember("readings.view"),
+    getIntervals,
+  );
+  router.post(
+    "/orgs/:orgId/readings",
+    requireOrgMember("readings.edit"),
+    express.json({ limit: READINGS_BODY_LIMIT, strict: true }),
+    uploadReadings,
   );
   router.use((_req, res) => {
     sendError(

@@ -29,6 +29,9 @@ const areas: Area[] = [
     permission: "organization.view",
     end: true,
   },
+  { label: "Sites", path: "/sites", permission: "organization.view" },
+  { label: "Readings", path: "/readings", permission: "readings.view" },
+  { label: "Gateways", path: "/gateways", permission: "gateways.manage" },
   { label: "Members", path: "/members", permission: "members.view" },
 ];
 

@@ -6,15 +6,23 @@
 import { estimateMeter } from "./estimate-meter.server";
 
 type Range = { from: Date; to: Date };
-const pending = new Map<string, { organizationId: string; meterId: string; range: Range }>();
+const pending = new Map<
+  string,
+  { organizationId: string; meterId: string; range: Range }
+>();
 let running: Promise<void> | null = null;
 let timer: NodeJS.Timeout | null = null;
-const listeners = new Set<(organizationId: string, meterIds: string[]) => void>();
+const listeners = new Set<
+  (organizationId: string, meterIds: string[]) => void
+>();
 
 /** Debounce: a stream of batches becomes one estimation pass per meter. */
 const SETTLE_MS = 250;
 
-export function afterIngest(organizationId: string, touched: Map<string, Range>): void {
+export function afterIngest(
+  organizationId: string,
+  touched: Map<string, Range>,
+): void {
   if (touched.size === 0) return;
   for (const [meterId, range] of touched) {
     const key = `${organizationId}|${meterId}`;
@@ -23,11 +31,16 @@ export function afterIngest(organizationId: string, touched: Map<string, Range>)
       organizationId,
       meterId,
       range: current
-        ? { from: current.range.from < range.from ? current.range.from : range.from, to: current.range.to > range.to ? current.range.to : range.to }
+        ? {
+            from:
+              current.range.from < range.from ? current.range.from : range.from,
+            to: current.range.to > range.to ? current.range.to : range.to,
+          }
         : range,
     });
   }
-  for (const listener of listeners) listener(organizationId, [...touched.keys()]);
+  for (const listener of listeners)
+    listener(organizationId, [...touched.keys()]);
   if (timer) clearTimeout(timer);
   timer = setTimeout(() => void drain(), SETTLE_MS);
 }
@@ -43,7 +56,12 @@ async function drain(): Promise<void> {
     while (pending.size > 0) {
       const [key, job] = pending.entries().next().value!;
       pending.delete(key);
-      await estimateMeter(job.organizationId, job.meterId, job.range.from, job.range.to).catch((error: unknown) =>
+      await estimateMeter(
+        job.organizationId,
+        job.meterId,
+        job.range.from,
+        job.range.to,
+      ).catch((error: unknown) =>
         console.error("[estimate] meter", job.meterId, error),
       );
     }
@@ -64,7 +82,9 @@ export async function estimationIdle(): Promise<void> {
 }
 
 /** Lets the readings page hear that a meter got new data. */
-export function onIngest(listener: (organizationId: string, meterIds: string[]) => void): () => void {
+export function onIngest(
+  listener: (organizationId: string, meterIds: string[]) => void,
+): () => void {
   listeners.add(listener);
   return () => listeners.delete(listener);
 }

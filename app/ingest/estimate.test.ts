@@ -121,21 +121,37 @@ describe("estimateGaps: long gaps", () => {
     // Only Monday 09:00 of week 0 is known before the gap; week 5 has data.
     const s = [
       { hourStart: at(9), energyKwh: 7, quality: "measured" as const },
-      { hourStart: at(3 * 168 + 8), energyKwh: 1, quality: "measured" as const },
-      { hourStart: at(5 * 168 + 9), energyKwh: 9, quality: "measured" as const },
-      { hourStart: at(5 * 168 + 10), energyKwh: 1, quality: "measured" as const },
+      {
+        hourStart: at(3 * 168 + 8),
+        energyKwh: 1,
+        quality: "measured" as const,
+      },
+      {
+        hourStart: at(5 * 168 + 9),
+        energyKwh: 9,
+        quality: "measured" as const,
+      },
+      {
+        hourStart: at(5 * 168 + 10),
+        energyKwh: 1,
+        quality: "measured" as const,
+      },
     ];
     const e = estimateGaps(s, { profileWeeks: 1 });
     // Monday 09:00 of week 4 falls in the long gap between hours 3·168+8 and
     // 5·168+9: no Monday 09:00 in the week before, so all data: (7 + 9) / 2.
-    const monday9 = e.find((x) => x.hourStart.getTime() === at(4 * 168 + 9).getTime());
+    const monday9 = e.find(
+      (x) => x.hourStart.getTime() === at(4 * 168 + 9).getTime(),
+    );
     expect(monday9).toEqual({
       hourStart: at(4 * 168 + 9),
       energyKwh: 8,
       method: "profile",
     });
     // A slot never seen anywhere falls back to the straight line.
-    const other = e.find((x) => x.hourStart.getTime() === at(4 * 168 + 11).getTime());
+    const other = e.find(
+      (x) => x.hourStart.getTime() === at(4 * 168 + 11).getTime(),
+    );
     expect(other?.method).toBe("linear");
   });
 
@@ -202,7 +218,9 @@ describe("estimateGaps: properties", () => {
         fc.integer({ min: 0, max: 12 }),
         (cells, shortGapMaxHours) => {
           const known = cells
-            .map((c, h) => (c.quality === "measured" || c.quality === "edited" ? h : -1))
+            .map((c, h) =>
+              c.quality === "measured" || c.quality === "edited" ? h : -1,
+            )
             .filter((h) => h >= 0);
           const e = estimateGaps(seriesOf(cells), { shortGapMaxHours });
           const got = e.map((x) => (x.hourStart.getTime() - MONDAY) / HOUR_MS);
@@ -227,7 +245,10 @@ describe("estimateGaps: properties", () => {
         const knownAt = new Map<number, number>();
         for (const p of s) {
           if (p.quality === "measured" || p.quality === "edited") {
-            knownAt.set((p.hourStart.getTime() - MONDAY) / HOUR_MS, p.energyKwh);
+            knownAt.set(
+              (p.hourStart.getTime() - MONDAY) / HOUR_MS,
+              p.energyKwh,
+            );
           }
         }
         const e = estimateGaps(s, { shortGapMaxHours: 1000 });

@@ -138,7 +138,11 @@ function fillLong(
     }
     out.push(
       value === undefined
-        ? { hourStart: new Date(t), energyKwh: interpolate(a.value, b.value, k, n), method: "linear" }
+        ? {
+            hourStart: new Date(t),
+            energyKwh: interpolate(a.value, b.value, k, n),
+            method: "linear",
+          }
         : { hourStart: new Date(t), energyKwh: value, method: "profile" },
     );
   }

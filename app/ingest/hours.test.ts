@@ -124,9 +124,7 @@ describe("splitAcrossHours", () => {
 
   it("throws on a non-finite energy", () => {
     const a = t("2026-01-01T10:00:00Z");
-    expect(() => splitAcrossHours(a, addHours(a, 1), NaN)).toThrow(
-      RangeError,
-    );
+    expect(() => splitAcrossHours(a, addHours(a, 1), NaN)).toThrow(RangeError);
   });
 
   it("property: the pieces, added in order, equal the input exactly", () => {
@@ -149,9 +147,13 @@ describe("splitAcrossHours", () => {
           // One piece per overlapped hour, consecutive, none outside.
           expect(pieces[0].hourStart).toEqual(floorToHour(start));
           for (let i = 1; i < pieces.length; i++) {
-            expect(hoursBetween(pieces[i - 1].hourStart, pieces[i].hourStart)).toBe(1);
+            expect(
+              hoursBetween(pieces[i - 1].hourStart, pieces[i].hourStart),
+            ).toBe(1);
           }
-          expect(pieces.at(-1)!.hourStart.getTime()).toBeLessThan(end.getTime());
+          expect(pieces.at(-1)!.hourStart.getTime()).toBeLessThan(
+            end.getTime(),
+          );
         },
       ),
       { numRuns: 2000 },

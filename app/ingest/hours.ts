@@ -73,7 +73,10 @@ export function splitAcrossHours(
     pieces.push({ hourStart: hours[i], energyKwh: piece });
     sum += piece;
   }
-  pieces.push({ hourStart: hours[hours.length - 1], energyKwh: energyKwh - sum });
+  pieces.push({
+    hourStart: hours[hours.length - 1],
+    energyKwh: energyKwh - sum,
+  });
   return pieces;
 }
 

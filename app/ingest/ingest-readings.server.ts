@@ -1,7 +1,11 @@
 import { randomUUID } from "node:crypto";
 import { pool } from "~/db/client.server";
 import { findMetersByCode } from "./meter-lookup.server";
-import { codesIn, prepareReadings, type Rejection } from "./prepare-readings.server";
+import {
+  codesIn,
+  prepareReadings,
+  type Rejection,
+} from "./prepare-readings.server";
 import { storeReadings } from "./store-readings.server";
 import { afterIngest } from "./after-ingest.server";
 
@@ -26,9 +30,14 @@ export interface IngestResult {
  * Checks, stores and derives one batch. Nothing is acknowledged before the
  * transaction commits; if it fails, nothing of the batch is stored.
  */
-export async function ingestReadings(request: IngestRequest): Promise<IngestResult> {
+export async function ingestReadings(
+  request: IngestRequest,
+): Promise<IngestResult> {
   const { organizationId } = request;
-  const meters = await findMetersByCode(organizationId, codesIn(request.readings));
+  const meters = await findMetersByCode(
+    organizationId,
+    codesIn(request.readings),
+  );
   const { prepared, rejected } = prepareReadings(
     request.readings,
     new Map(meters.map((m) => [m.code, m])),
@@ -38,7 +47,12 @@ export async function ingestReadings(request: IngestRequest): Promise<IngestResu
   const client = await pool.connect();
   try {
     await client.query("begin");
-    const outcome = await storeReadings(client, organizationId, batchId, prepared);
+    const outcome = await storeReadings(
+      client,
+      organizationId,
+      batchId,
+      prepared,
+    );
     await client.query(
       `insert into ingest_batches (organization_id, id, source, gateway_id, user_id, accepted, repeats, rejected, conflicts)
        values ($1, $2, $3, $4, $5, $6, $7, $8, $9)`,

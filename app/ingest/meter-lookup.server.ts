@@ -5,7 +5,10 @@ import { meters } from "~/db/schema";
 export type IngestMeter = Awaited<ReturnType<typeof findMetersByCode>>[number];
 
 /** The organisation's meters with these codes; others' meters are invisible. */
-export async function findMetersByCode(organizationId: string, codes: string[]) {
+export async function findMetersByCode(
+  organizationId: string,
+  codes: string[],
+) {
   if (codes.length === 0) return [];
   return db
     .select({
@@ -21,5 +24,10 @@ export async function findMetersByCode(organizationId: string, codes: string[]) 
       removedAt: meters.removedAt,
     })
     .from(meters)
-    .where(and(eq(meters.organizationId, organizationId), inArray(meters.code, codes)));
+    .where(
+      and(
+        eq(meters.organizationId, organizationId),
+        inArray(meters.code, codes),
+      ),
+    );
 }

@@ -25,8 +25,8 @@ export interface Rejection {
 function canonicalJson(value: unknown): string {
   if (Array.isArray(value)) return `[${value.map(canonicalJson).join(",")}]`;
   if (value && typeof value === "object") {
-    const entries = Object.entries(value as Record<string, unknown>).sort(([a], [b]) =>
-      a < b ? -1 : a > b ? 1 : 0,
+    const entries = Object.entries(value as Record<string, unknown>).sort(
+      ([a], [b]) => (a < b ? -1 : a > b ? 1 : 0),
     );
     return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
   }
@@ -38,21 +38,28 @@ export function hashPayload(payload: unknown): string {
 }
 
 /** Export meters measure what leaves the site: the sign flips (design.md). */
-export function orientationSign(meter: Pick<IngestMeter, "orientation">): 1 | -1 {
+export function orientationSign(
+  meter: Pick<IngestMeter, "orientation">,
+): 1 | -1 {
   return meter.orientation === "export" ? -1 : 1;
 }
 
 /** The meter's configured sensor position and pressure fill what a reading leaves out. */
 function withMeterDefaults(item: Record<string, unknown>, meter: IngestMeter) {
   const filled = { ...item };
-  if (filled.quantity === "water_heat" && filled.sensor_at === undefined && meter.sensorAt) {
+  if (
+    filled.quantity === "water_heat" &&
+    filled.sensor_at === undefined &&
+    meter.sensorAt
+  ) {
     filled.sensor_at = meter.sensorAt;
   }
   const hasPressure =
     filled.pressure_bar_abs !== undefined ||
     filled.pressure_bar_g !== undefined ||
     filled.saturation_temp_c !== undefined;
-  const needsPressure = filled.quantity === "water_heat" || filled.quantity === "steam_heat";
+  const needsPressure =
+    filled.quantity === "water_heat" || filled.quantity === "steam_heat";
   if (needsPressure && !hasPressure && meter.defaultPressureBarAbs !== null) {
     filled.pressure_bar_abs = Number(meter.defaultPressureBarAbs);
   }
@@ -60,7 +67,9 @@ function withMeterDefaults(item: Record<string, unknown>, meter: IngestMeter) {
 }
 
 function installedAt(meter: IngestMeter, time: Date): boolean {
-  return time >= meter.installedAt && (!meter.removedAt || time <= meter.removedAt);
+  return (
+    time >= meter.installedAt && (!meter.removedAt || time <= meter.removedAt)
+  );
 }
 
 function prepareOne(
@@ -71,20 +80,40 @@ function prepareOne(
 ): PreparedReading | Rejection {
   const at = reading.kind === "interval" ? reading.start : reading.time;
   if (reading.quantity !== meter.quantity) {
-    return { index, meter: meter.code, reason: `quantity: meter ${meter.code} measures ${meter.quantity}` };
+    return {
+      index,
+      meter: meter.code,
+      reason: `quantity: meter ${meter.code} measures ${meter.quantity}`,
+    };
   }
   if (!installedAt(meter, at)) {
-    return { index, meter: meter.code, reason: `meter ${meter.code} was not installed at ${at.toISOString()}` };
+    return {
+      index,
+      meter: meter.code,
+      reason: `meter ${meter.code} was not installed at ${at.toISOString()}`,
+    };
   }
   const payload = raw as Record<string, unknown>;
   const base = { index, meter, payload, payloadHash: hashPayload(payload) };
   if (reading.kind === "register") {
-    return { ...base, readingTime: reading.time, endTime: null, energyKwh: null, registerKwh: reading.registerKwh };
+    return {
+      ...base,
+      readingTime: reading.time,
+      endTime: null,
+      energyKwh: null,
+      registerKwh: reading.registerKwh,
+    };
   }
   const result = evaluateItem(withMeterDefaults(reading.item, meter));
   if (!result.ok) return { index, meter: meter.code, reason: result.error };
   const signed = result.energy_kwh * orientationSign(meter);
-  return { ...base, readingTime: reading.start, endTime: reading.end, energyKwh: signed.toFixed(6), registerKwh: null };
+  return {
+    ...base,
+    readingTime: reading.start,
+    endTime: reading.end,
+    energyKwh: signed.toFixed(6),
+    registerKwh: null,
+  };
 }
 
 /**

@@ -13,7 +13,10 @@ export const CLOCK_SKEW_MS = 10 * 60_000;
 /** One reading may cover at most this long an interval. */
 export const MAX_INTERVAL_MS = 31 * 86_400_000;
 
-export const REGISTER_QUANTITIES = ["electric_register", "heat_register"] as const;
+export const REGISTER_QUANTITIES = [
+  "electric_register",
+  "heat_register",
+] as const;
 export type RegisterQuantity = (typeof REGISTER_QUANTITIES)[number];
 
 export function isRegisterQuantity(q: string): q is RegisterQuantity {
@@ -28,7 +31,10 @@ const meterCode = z
 
 const instant = (field: string) =>
   z.iso
-    .datetime({ offset: true, error: `${field}: expected an ISO 8601 date-time with offset` })
+    .datetime({
+      offset: true,
+      error: `${field}: expected an ISO 8601 date-time with offset`,
+    })
     .transform((s) => new Date(s));
 
 const envelopeSchema = z.looseObject({
@@ -38,7 +44,10 @@ const envelopeSchema = z.looseObject({
   }),
 });
 
-const intervalTimes = z.looseObject({ start: instant("start"), end: instant("end") });
+const intervalTimes = z.looseObject({
+  start: instant("start"),
+  end: instant("end"),
+});
 
 const registerSchema = z.strictObject({
   meter: meterCode,
@@ -68,15 +77,19 @@ export type ParsedReading =
     };
 
 function checkTime(field: string, at: Date, now: Date): string | null {
-  if (at < EARLIEST_READING) return `${field}: before 1990-01-01 is not accepted`;
-  if (at.getTime() > now.getTime() + CLOCK_SKEW_MS) return `${field}: is in the future`;
+  if (at < EARLIEST_READING)
+    return `${field}: before 1990-01-01 is not accepted`;
+  if (at.getTime() > now.getTime() + CLOCK_SKEW_MS)
+    return `${field}: is in the future`;
   return null;
 }
 
 function firstIssue(error: z.ZodError): string {
   const issue = error.issues[0];
   const path = issue.path.map(String).join(".");
-  return issue.message.includes(":") || !path ? issue.message : `${path}: ${issue.message}`;
+  return issue.message.includes(":") || !path
+    ? issue.message
+    : `${path}: ${issue.message}`;
 }
 
 /** Parses one reading's envelope; the error is a plain sentence with the field. */
@@ -88,12 +101,15 @@ export function parseReading(
     return { ok: false, error: "expected a JSON object" };
   }
   const envelope = envelopeSchema.safeParse(raw);
-  if (!envelope.success) return { ok: false, error: firstIssue(envelope.error) };
-  if (isRegisterQuantity(envelope.data.quantity)) return parseRegister(raw, now);
+  if (!envelope.success)
+    return { ok: false, error: firstIssue(envelope.error) };
+  if (isRegisterQuantity(envelope.data.quantity))
+    return parseRegister(raw, now);
   const times = intervalTimes.safeParse(raw);
   if (!times.success) return { ok: false, error: firstIssue(times.error) };
   const { start, end } = times.data;
-  const timeError = checkTime("start", start, now) ?? checkTime("end", end, now);
+  const timeError =
+    checkTime("start", start, now) ?? checkTime("end", end, now);
   if (timeError) return { ok: false, error: timeError };
   if (end <= start) return { ok: false, error: "end: must be after start" };
   if (end.getTime() - start.getTime() > MAX_INTERVAL_MS) {
@@ -102,13 +118,21 @@ export function parseReading(
   const { meter: _meter, ...item } = raw as Record<string, unknown>;
   return {
     ok: true,
-    reading: { kind: "interval", meter: envelope.data.meter, quantity: envelope.data.quantity, start, end, item },
+    reading: {
+      kind: "interval",
+      meter: envelope.data.meter,
+      quantity: envelope.data.quantity,
+      start,
+      end,
+      item,
+    },
   };
 }
 
 function parseRegister(raw: object, now: Date) {
   const parsed = registerSchema.safeParse(raw);
-  if (!parsed.success) return { ok: false as const, error: firstIssue(parsed.error) };
+  if (!parsed.success)
+    return { ok: false as const, error: firstIssue(parsed.error) };
   const timeError = checkTime("time", parsed.data.time, now);
   if (timeError) return { ok: false as const, error: timeError };
   return {

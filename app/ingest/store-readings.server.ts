@@ -19,14 +19,20 @@ export interface StoreOutcome {
 
 const keyOf = (meterId: string, time: Date) => `${meterId}|${time.getTime()}`;
 
-async function ensurePartitions(client: PoolClient, readings: PreparedReading[]) {
+async function ensurePartitions(
+  client: PoolClient,
+  readings: PreparedReading[],
+) {
   let min = Infinity;
   let max = -Infinity;
   for (const r of readings) {
     min = Math.min(min, r.readingTime.getTime());
     max = Math.max(max, (r.endTime ?? r.readingTime).getTime());
   }
-  await client.query("select ensure_month_partitions($1, $2)", [new Date(min), new Date(max)]);
+  await client.query("select ensure_month_partitions($1, $2)", [
+    new Date(min),
+    new Date(max),
+  ]);
 }
 
 /** Inserts what is new; returns the keys that were stored by this call. */
@@ -36,7 +42,10 @@ async function insertRaw(
   batchId: string,
   rows: PreparedReading[],
 ): Promise<Set<string>> {
-  const { rows: inserted } = await client.query<{ meter_id: string; reading_time: Date }>(
+  const { rows: inserted } = await client.query<{
+    meter_id: string;
+    reading_time: Date;
+  }>(
     `insert into raw_readings
        (organization_id, meter_id, reading_time, end_time, payload, payload_hash, energy_kwh, register_kwh, batch_id)
      select $1, m, t, e, p, h, k, r, $2
@@ -59,16 +68,30 @@ async function insertRaw(
   return new Set(inserted.map((r) => keyOf(r.meter_id, r.reading_time)));
 }
 
-async function storedHashes(client: PoolClient, organizationId: string, rows: PreparedReading[]) {
+async function storedHashes(
+  client: PoolClient,
+  organizationId: string,
+  rows: PreparedReading[],
+) {
   if (rows.length === 0) return new Map<string, string>();
-  const { rows: found } = await client.query<{ meter_id: string; reading_time: Date; payload_hash: string }>(
+  const { rows: found } = await client.query<{
+    meter_id: string;
+    reading_time: Date;
+    payload_hash: string;
+  }>(
     `select r.meter_id, r.reading_time, r.payload_hash
        from raw_readings r
        join unnest($2::uuid[], $3::timestamptz[]) as u(m, t) on r.meter_id = u.m and r.reading_time = u.t
       where r.organization_id = $1`,
-    [organizationId, rows.map((r) => r.meter.id), rows.map((r) => r.readingTime)],
+    [
+      organizationId,
+      rows.map((r) => r.meter.id),
+      rows.map((r) => r.readingTime),
+    ],
   );
-  return new Map(found.map((f) => [keyOf(f.meter_id, f.reading_time), f.payload_hash]));
+  return new Map(
+    found.map((f) => [keyOf(f.meter_id, f.reading_time), f.payload_hash]),
+  );
 }
 
 async function recordConflicts(
@@ -102,11 +125,24 @@ interface HourRow {
  * Interval readings add into their hours. An estimate is replaced by what was
  * measured; a human edit stands, flagged that data arrived after it.
  */
-async function addIntervalReadings(client: PoolClient, organizationId: string, rows: PreparedReading[]) {
+async function addIntervalReadings(
+  client: PoolClient,
+  organizationId: string,
+  rows: PreparedReading[],
+) {
   const pieces: HourRow[] = [];
   for (const r of rows) {
-    for (const p of splitAcrossHours(r.readingTime, r.endTime!, Number(r.energyKwh))) {
-      pieces.push({ meterId: r.meter.id, hourStart: p.hourStart, energyKwh: p.energyKwh.toFixed(6), readingTime: r.readingTime });
+    for (const p of splitAcrossHours(
+      r.readingTime,
+      r.endTime!,
+      Number(r.energyKwh),
+    )) {
+      pieces.push({
+        meterId: r.meter.id,
+        hourStart: p.hourStart,
+        energyKwh: p.energyKwh.toFixed(6),
+        readingTime: r.readingTime,
+      });
     }
   }
   if (pieces.length === 0) return;
@@ -149,17 +185,27 @@ interface RegisterMeterSpan {
  * between its neighbours are recomputed from all reads that touch them (late
  * reads included) and replaced, not added.
  */
-async function recomputeRegisterSpan(client: PoolClient, organizationId: string, span: RegisterMeterSpan) {
+async function recomputeRegisterSpan(
+  client: PoolClient,
+  organizationId: string,
+  span: RegisterMeterSpan,
+) {
   const lo = new Date(Math.min(...span.times.map((t) => t.getTime())));
   const hi = new Date(Math.max(...span.times.map((t) => t.getTime())));
-  const { rows: bounds } = await client.query<{ prev: Date | null; next: Date | null }>(
+  const { rows: bounds } = await client.query<{
+    prev: Date | null;
+    next: Date | null;
+  }>(
     `select (select max(reading_time) from raw_readings where organization_id = $1 and meter_id = $2 and reading_time < $3) as prev,
             (select min(reading_time) from raw_readings where organization_id = $1 and meter_id = $2 and reading_time > $4) as next`,
     [organizationId, span.meter.id, lo, hi],
   );
   const from = floorToHour(bounds[0].prev ?? lo);
   const to = new Date(floorToHour(bounds[0].next ?? hi).getTime() + HOUR_MS);
-  const { rows: reads } = await client.query<{ reading_time: Date; register_kwh: string }>(
+  const { rows: reads } = await client.query<{
+    reading_time: Date;
+    register_kwh: string;
+  }>(
     `select reading_time, register_kwh from raw_readings
       where organization_id = $1 and meter_id = $2
         and reading_time >= coalesce((select max(reading_time) from raw_readings
@@ -170,13 +216,26 @@ async function recomputeRegisterSpan(client: PoolClient, organizationId: string,
     [organizationId, span.meter.id, from, to],
   );
   const deltas = registerDeltas(
-    reads.map((r) => ({ time: r.reading_time, registerKwh: Number(r.register_kwh) })),
+    reads.map((r) => ({
+      time: r.reading_time,
+      registerKwh: Number(r.register_kwh),
+    })),
     {
       multiplier: Number(span.meter.multiplier),
-      capacityKwh: span.meter.rolloverKwh === null ? undefined : Number(span.meter.rolloverKwh),
+      capacityKwh:
+        span.meter.rolloverKwh === null
+          ? undefined
+          : Number(span.meter.rolloverKwh),
     },
   );
-  await replaceRegisterHours(client, organizationId, span.meter, deltas, from, to);
+  await replaceRegisterHours(
+    client,
+    organizationId,
+    span.meter,
+    deltas,
+    from,
+    to,
+  );
 }
 
 async function replaceRegisterHours(
@@ -188,17 +247,26 @@ async function replaceRegisterHours(
   to: Date,
 ) {
   const sign = meter.orientation === "export" ? -1 : 1;
-  const hours = new Map<number, { energy: number; flags: Set<string>; spread: boolean; sources: Date[] }>();
+  const hours = new Map<
+    number,
+    { energy: number; flags: Set<string>; spread: boolean; sources: Date[] }
+  >();
   for (const d of deltas) {
     const spread = d.to.getTime() - d.from.getTime() > HOUR_MS;
     for (const piece of splitAcrossHours(d.from, d.to, d.energyKwh * sign)) {
       const t = piece.hourStart.getTime();
       if (t < from.getTime() || t >= to.getTime()) continue;
-      const hour = hours.get(t) ?? { energy: 0, flags: new Set<string>(), spread: false, sources: [] };
+      const hour = hours.get(t) ?? {
+        energy: 0,
+        flags: new Set<string>(),
+        spread: false,
+        sources: [],
+      };
       hour.energy += piece.energyKwh;
       hour.spread ||= spread;
       hour.sources.push(d.to);
-      if (d.flag && floorToHour(new Date(d.to.getTime() - 1)).getTime() === t) hour.flags.add(d.flag);
+      if (d.flag && floorToHour(new Date(d.to.getTime() - 1)).getTime() === t)
+        hour.flags.add(d.flag);
       hours.set(t, hour);
     }
   }
@@ -269,8 +337,15 @@ function firstOccurrences(readings: PreparedReading[]) {
  * without the other's reads; they take turns per meter (ordered, so two
  * batches never wait on each other in a cycle).
  */
-async function lockRegisterMeters(client: PoolClient, readings: PreparedReading[]) {
-  const ids = [...new Set(readings.filter((r) => r.registerKwh !== null).map((r) => r.meter.id))].sort();
+async function lockRegisterMeters(
+  client: PoolClient,
+  readings: PreparedReading[],
+) {
+  const ids = [
+    ...new Set(
+      readings.filter((r) => r.registerKwh !== null).map((r) => r.meter.id),
+    ),
+  ].sort();
   for (const id of ids) {
     await client.query("select pg_advisory_xact_lock(hashtext($1))", [id]);
   }
@@ -283,23 +358,38 @@ export async function storeReadings(
   readings: PreparedReading[],
 ): Promise<StoreOutcome> {
   const touched = new Map<string, { from: Date; to: Date }>();
-  if (readings.length === 0) return { accepted: 0, repeats: 0, conflicts: [], touched };
+  if (readings.length === 0)
+    return { accepted: 0, repeats: 0, conflicts: [], touched };
   await ensurePartitions(client, readings);
   await lockRegisterMeters(client, readings);
   const { first, later } = firstOccurrences(readings);
   const storedNow = await insertRaw(client, organizationId, batchId, first);
-  const fresh = first.filter((r) => storedNow.has(keyOf(r.meter.id, r.readingTime)));
-  const notFresh = [...first.filter((r) => !storedNow.has(keyOf(r.meter.id, r.readingTime))), ...later];
-  const { repeats, conflicts } = classifyRepeats(notFresh, storedNow, await storedHashes(client, organizationId, notFresh));
+  const fresh = first.filter((r) =>
+    storedNow.has(keyOf(r.meter.id, r.readingTime)),
+  );
+  const notFresh = [
+    ...first.filter((r) => !storedNow.has(keyOf(r.meter.id, r.readingTime))),
+    ...later,
+  ];
+  const { repeats, conflicts } = classifyRepeats(
+    notFresh,
+    storedNow,
+    await storedHashes(client, organizationId, notFresh),
+  );
   await recordConflicts(client, organizationId, batchId, conflicts);
-  await addIntervalReadings(client, organizationId, fresh.filter((r) => r.energyKwh !== null));
+  await addIntervalReadings(
+    client,
+    organizationId,
+    fresh.filter((r) => r.energyKwh !== null),
+  );
   const registerSpans = new Map<string, RegisterMeterSpan>();
   for (const r of fresh.filter((f) => f.registerKwh !== null)) {
     const span = registerSpans.get(r.meter.id) ?? { meter: r.meter, times: [] };
     span.times.push(r.readingTime);
     registerSpans.set(r.meter.id, span);
   }
-  for (const span of registerSpans.values()) await recomputeRegisterSpan(client, organizationId, span);
+  for (const span of registerSpans.values())
+    await recomputeRegisterSpan(client, organizationId, span);
   for (const r of fresh) {
     const t = touched.get(r.meter.id);
     const end = r.endTime ?? r.readingTime;

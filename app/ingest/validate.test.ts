@@ -42,7 +42,7 @@ describe("typicalHourlyValue", () => {
 
 describe("detectSpikes", () => {
   it("flags |value| above factor × typical (default 10)", () => {
-    // Typical 5 (median of 4, 5, 5, 6, 60, 51 sorted: 4 5 5 6 51 60 → 5.5).
+    // Sorted 4 5 5 6 51 60 → median (5 + 6) / 2 = 5.5.
     const s = series([4, 5, 5, 6, 60, 51]);
     expect(typicalHourlyValue(s)).toBe(5.5);
     // Limit 55: only 60 is above it.

@@ -35,10 +35,13 @@ function describeInput(input: unknown): string {
 function num(description: string) {
   return z
     .number({
+      // Only the type check gets this wording; range checks keep theirs.
       error: (issue) =>
-        issue.input === undefined
-          ? "is required"
-          : `expected a finite number, got ${describeInput(issue.input)}`,
+        issue.code !== "invalid_type"
+          ? undefined
+          : issue.input === undefined
+            ? "is required"
+            : `expected a finite number, got ${describeInput(issue.input)}`,
     })
     .describe(description);
 }

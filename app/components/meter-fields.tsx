@@ -1,0 +1,165 @@
+import {
+  carrierLabels,
+  carriers,
+  quantities,
+  quantityLabels,
+} from "~/sites/meter-schema";
+import { Field, SelectField } from "./ui";
+
+export interface MeterDefaults {
+  code?: string;
+  name?: string;
+  quantity?: string;
+  carrier?: string;
+  orientation?: string;
+  parentMeterId?: string | null;
+  serial?: string;
+  multiplier?: string;
+  rolloverKwh?: string | null;
+  sensorAt?: string | null;
+  defaultPressureBarAbs?: string | null;
+  spikeFactor?: string;
+  installedAt?: Date | string;
+}
+
+function dateValue(value: Date | string | undefined): string {
+  if (!value) return new Date().toISOString().slice(0, 10);
+  return new Date(value).toISOString().slice(0, 10);
+}
+
+/** The fields of a meter, for the add and edit forms. */
+export function MeterFields({
+  errors,
+  defaults = {},
+  parents,
+}: {
+  errors: Record<string, string | undefined>;
+  defaults?: MeterDefaults;
+  parents: { id: string; code: string; name: string }[];
+}) {
+  return (
+    <div className="grid gap-4 sm:grid-cols-2">
+      <input type="hidden" name="intent" value="save-meter" />
+      <Field
+        label="Code"
+        name="code"
+        required
+        hint="What gateways send as `meter`"
+        defaultValue={defaults.code}
+        error={errors.code}
+      />
+      <Field
+        label="Name"
+        name="name"
+        required
+        defaultValue={defaults.name}
+        error={errors.name}
+      />
+      <SelectField
+        label="Measures"
+        name="quantity"
+        defaultValue={defaults.quantity ?? "water_heat"}
+        error={errors.quantity}
+      >
+        {quantities.map((q) => (
+          <option key={q} value={q}>
+            {quantityLabels[q]}
+          </option>
+        ))}
+      </SelectField>
+      <SelectField
+        label="Energy carrier"
+        name="carrier"
+        defaultValue={defaults.carrier ?? "heat"}
+        error={errors.carrier}
+      >
+        {carriers.map((c) => (
+          <option key={c} value={c}>
+            {carrierLabels[c]}
+          </option>
+        ))}
+      </SelectField>
+      <SelectField
+        label="Orientation on the boundary"
+        name="orientation"
+        defaultValue={defaults.orientation ?? "import"}
+        error={errors.orientation}
+      >
+        <option value="import">
+          Import: measures what enters the site (sign kept)
+        </option>
+        <option value="export">
+          Export: measures what leaves the site (sign flipped)
+        </option>
+      </SelectField>
+      <SelectField
+        label="Parent meter (sub-metering)"
+        name="parentMeterId"
+        defaultValue={defaults.parentMeterId ?? ""}
+        error={errors.parentMeterId}
+      >
+        <option value="">None: on the site boundary</option>
+        {parents.map((p) => (
+          <option key={p.id} value={p.id}>
+            {p.code} — {p.name}
+          </option>
+        ))}
+      </SelectField>
+      <Field
+        label="Serial number"
+        name="serial"
+        defaultValue={defaults.serial}
+        error={errors.serial}
+      />
+      <Field
+        label="Installed on"
+        name="installedAt"
+        type="date"
+        required
+        defaultValue={dateValue(defaults.installedAt)}
+        error={errors.installedAt}
+      />
+      <Field
+        label="Multiplier (CT/VT ratio)"
+        name="multiplier"
+        inputMode="decimal"
+        defaultValue={defaults.multiplier ?? "1"}
+        error={errors.multiplier}
+      />
+      <Field
+        label="Register roll-over point (kWh)"
+        name="rolloverKwh"
+        inputMode="decimal"
+        hint="Registers only; empty when unknown"
+        defaultValue={defaults.rolloverKwh ?? ""}
+        error={errors.rolloverKwh}
+      />
+      <SelectField
+        label="Flow sensor position"
+        name="sensorAt"
+        defaultValue={defaults.sensorAt ?? ""}
+        error={errors.sensorAt}
+      >
+        <option value="">Not a water heat meter</option>
+        <option value="flow">Flow pipe</option>
+        <option value="return">Return pipe</option>
+      </SelectField>
+      <Field
+        label="Default pressure (bar absolute)"
+        name="defaultPressureBarAbs"
+        inputMode="decimal"
+        hint="Used when a reading gives none"
+        defaultValue={defaults.defaultPressureBarAbs ?? ""}
+        error={errors.defaultPressureBarAbs}
+      />
+      <Field
+        label="Spike factor"
+        name="spikeFactor"
+        inputMode="decimal"
+        hint="An hour above this multiple of the typical hour is flagged"
+        defaultValue={defaults.spikeFactor ?? "10"}
+        error={errors.spikeFactor}
+      />
+    </div>
+  );
+}

@@ -1,0 +1,144 @@
+import {
+  ResponsiveContainer,
+  Scatter,
+  ScatterChart,
+  Tooltip,
+  XAxis,
+  YAxis,
+} from "recharts";
+import type { Interval } from "./use-intervals";
+
+interface Cell {
+  hour: number;
+  day: number;
+  dayLabel: string;
+  value: number;
+  quality: Interval["quality"];
+}
+
+/** Local day and hour of each interval, so a carpet shows the site's own day. */
+function cellsOf(
+  intervals: Interval[],
+  timeZone: string,
+): { cells: Cell[]; days: string[] } {
+  const parts = new Intl.DateTimeFormat("en-CA", {
+    timeZone,
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    hourCycle: "h23",
+  });
+  const dayIndex = new Map<string, number>();
+  const cells: Cell[] = [];
+  for (const i of intervals) {
+    const p = Object.fromEntries(
+      parts.formatToParts(new Date(i.hour_start)).map((x) => [x.type, x.value]),
+    );
+    const dayLabel = `${p.year}-${p.month}-${p.day}`;
+    if (!dayIndex.has(dayLabel)) dayIndex.set(dayLabel, dayIndex.size);
+    cells.push({
+      hour: Number(p.hour),
+      day: dayIndex.get(dayLabel)!,
+      dayLabel,
+      value: Number(i.energy_kwh),
+      quality: i.quality,
+    });
+  }
+  return { cells, days: [...dayIndex.keys()] };
+}
+
+/** A sequential scale on |value|, light to dark, so both signs read the same way. */
+function colour(value: number, max: number): string {
+  const k = max > 0 ? Math.min(1, Math.abs(value) / max) : 0;
+  const from = [245, 243, 238];
+  const to = value < 0 ? [28, 76, 128] : [138, 63, 22];
+  const mix = from.map((f, i) => Math.round(f + (to[i] - f) * k));
+  return `rgb(${mix.join(",")})`;
+}
+
+/** Day × hour heat map: each row a local day, each column an hour. */
+export function CarpetPlot({
+  intervals,
+  timeZone,
+}: {
+  intervals: Interval[];
+  timeZone: string;
+}) {
+  const { cells, days } = cellsOf(intervals, timeZone);
+  const max = Math.max(0, ...cells.map((c) => Math.abs(c.value)));
+  const rowHeight = Math.max(6, Math.min(18, 480 / Math.max(1, days.length)));
+  const height = days.length * rowHeight + 60;
+  const shape = (props: {
+    cx?: number;
+    cy?: number;
+    payload?: Cell;
+    xAxis?: { width: number };
+  }) => {
+    const { cx = 0, cy = 0, payload } = props;
+    const w = (props.xAxis?.width ?? 600) / 24;
+    return (
+      <rect
+        x={cx - w / 2}
+        y={cy - rowHeight / 2}
+        width={w}
+        height={rowHeight}
+        fill={payload ? colour(payload.value, max) : "none"}
+        stroke={payload && payload.quality !== "measured" ? "#7a4b00" : "none"}
+        strokeDasharray="2 1"
+      />
+    );
+  };
+  return (
+    <div
+      style={{ width: "100%", height }}
+      role="img"
+      aria-label={`Carpet plot of ${days.length} days by 24 hours`}
+    >
+      <ResponsiveContainer>
+        <ScatterChart margin={{ top: 8, right: 16, bottom: 16, left: 8 }}>
+          <XAxis
+            dataKey="hour"
+            type="number"
+            domain={[-0.5, 23.5]}
+            ticks={[0, 3, 6, 9, 12, 15, 18, 21]}
+            stroke="#4f5966"
+            label={{
+              value: "hour of day",
+              position: "insideBottom",
+              offset: -8,
+              fill: "#4f5966",
+            }}
+          />
+          <YAxis
+            dataKey="day"
+            type="number"
+            domain={[-0.5, days.length - 0.5]}
+            reversed
+            tickFormatter={(d) => days[d]?.slice(5) ?? ""}
+            interval="preserveStartEnd"
+            stroke="#4f5966"
+            width={56}
+            allowDecimals={false}
+          />
+          <Tooltip
+            cursor={false}
+            content={({ payload }) => {
+              const c = payload?.[0]?.payload as Cell | undefined;
+              return c ? (
+                <div className="rounded border border-line bg-surface px-2 py-1 text-sm shadow">
+                  {c.dayLabel} {String(c.hour).padStart(2, "0")}:00 ·{" "}
+                  {c.value.toLocaleString("en-GB", {
+                    maximumFractionDigits: 2,
+                  })}{" "}
+                  kWh · {c.quality}
+                </div>
+              ) : null;
+            }}
+          />
+          <Scatter data={cells} shape={shape} isAnimationActive={false} />
+        </ScatterChart>
+      </ResponsiveContainer>
+    </div>
+  );
+}

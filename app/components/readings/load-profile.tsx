@@ -1,0 +1,97 @@
+import {
+  Area,
+  AreaChart,
+  CartesianGrid,
+  ResponsiveContainer,
+  Tooltip,
+  XAxis,
+  YAxis,
+} from "recharts";
+import type { Interval } from "./use-intervals";
+
+/** Hourly energy over the range; estimated and edited hours in their own series. */
+export function LoadProfile({
+  intervals,
+  timeZone,
+}: {
+  intervals: Interval[];
+  timeZone: string;
+}) {
+  const tick = new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    day: "numeric",
+    month: "short",
+  });
+  const full = new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    dateStyle: "medium",
+    timeStyle: "short",
+  });
+  const data = intervals.map((i) => {
+    const v = Number(i.energy_kwh);
+    return {
+      t: new Date(i.hour_start).getTime(),
+      measured: i.quality === "measured" ? v : null,
+      other: i.quality !== "measured" ? v : null,
+    };
+  });
+  return (
+    <div
+      style={{ width: "100%", height: 280 }}
+      role="img"
+      aria-label={`Load profile: ${intervals.length} hourly values`}
+    >
+      <ResponsiveContainer>
+        <AreaChart
+          data={data}
+          margin={{ top: 8, right: 16, bottom: 8, left: 8 }}
+        >
+          <CartesianGrid stroke="#dcd6ca" strokeDasharray="3 3" />
+          <XAxis
+            dataKey="t"
+            type="number"
+            scale="time"
+            domain={["dataMin", "dataMax"]}
+            tickFormatter={(t) => tick.format(new Date(t))}
+            stroke="#4f5966"
+          />
+          <YAxis
+            stroke="#4f5966"
+            width={64}
+            tickFormatter={(v) => Number(v).toLocaleString("en-GB")}
+            label={{
+              value: "kWh",
+              angle: -90,
+              position: "insideLeft",
+              fill: "#4f5966",
+            }}
+          />
+          <Tooltip
+            labelFormatter={(t) => full.format(new Date(Number(t)))}
+            formatter={(v) => [
+              `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 3 })} kWh`,
+            ]}
+          />
+          <Area
+            type="stepAfter"
+            dataKey="measured"
+            name="Measured"
+            stroke="#0f5546"
+            fill="#cfe5dc"
+            isAnimationActive={false}
+            connectNulls={false}
+          />
+          <Area
+            type="stepAfter"
+            dataKey="other"
+            name="Estimated or edited"
+            stroke="#a9501f"
+            fill="#fbf0e8"
+            isAnimationActive={false}
+            connectNulls={false}
+          />
+        </AreaChart>
+      </ResponsiveContainer>
+    </div>
+  );
+}

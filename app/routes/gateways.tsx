@@ -1,0 +1,188 @@
+import { formatDistanceToNowStrict } from "date-fns";
+import { data, Form } from "react-router";
+import { z } from "zod";
+import { notFound, requireMembership } from "~/auth/membership.server";
+import {
+  Badge,
+  Button,
+  Card,
+  EmptyState,
+  Field,
+  Notice,
+  PageHeader,
+} from "~/components/ui";
+import { listGateways } from "~/gateways/list-gateways.server";
+import {
+  createGateway,
+  revokeGateway,
+} from "~/gateways/manage-gateways.server";
+import { parseForm } from "~/lib/forms";
+import type { Route } from "./+types/gateways";
+
+export const meta: Route.MetaFunction = () => [
+  { title: "Gateways · Joulebook" },
+];
+
+const createSchema = z.strictObject({
+  intent: z.literal("create"),
+  name: z
+    .string()
+    .trim()
+    .min(1, "Name the gateway, e.g. its location.")
+    .max(80, "Use at most 80 characters."),
+});
+const revokeSchema = z.strictObject({
+  intent: z.literal("revoke"),
+  gatewayId: z.uuid("Unknown gateway."),
+});
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { organization } = await requireMembership(
+    request,
+    params.orgId,
+    "gateways.manage",
+  );
+  return { gateways: await listGateways({ organizationId: organization.id }) };
+}
+
+type Result = {
+  intent: string;
+  errors: Record<string, string>;
+  key?: string;
+  name?: string;
+  message?: string;
+};
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { organization, user } = await requireMembership(
+    request,
+    params.orgId,
+    "gateways.manage",
+  );
+  const formData = await request.formData();
+  const intent = String(formData.get("intent") ?? "");
+  const scope = { organizationId: organization.id, actorUserId: user.id };
+  if (intent === "create") {
+    const form = parseForm(formData, createSchema);
+    if (!form.ok)
+      return data<Result>({ intent, errors: form.errors }, { status: 400 });
+    const { key } = await createGateway({ ...scope, name: form.data.name });
+    return data<Result>({ intent, errors: {}, key, name: form.data.name });
+  }
+  const form = parseForm(formData, revokeSchema);
+  if (!form.ok)
+    return data<Result>({ intent, errors: form.errors }, { status: 400 });
+  if (!(await revokeGateway({ ...scope, gatewayId: form.data.gatewayId })))
+    notFound("No such gateway.");
+  return data<Result>({
+    intent,
+    errors: {},
+    message: "Gateway revoked: its key is refused from now on.",
+  });
+}
+
+export default function Gateways({
+  loaderData,
+  actionData,
+}: Route.ComponentProps) {
+  const result = actionData as Result | undefined;
+  const errors: Record<string, string | undefined> =
+    result?.intent === "create" ? result.errors : {};
+  return (
+    <>
+      <PageHeader
+        title="Gateways"
+        description="Machines that post meter readings. Each has its own key, shown once."
+      />
+      <div className="flex flex-col gap-6">
+        {result?.key ? (
+          <Notice tone="success" title={`Key for ${result.name}: copy it now`}>
+            <p>
+              This is the only time the key is shown. Store it in the gateway's
+              configuration.
+            </p>
+            <p
+              className="mt-2 break-all rounded bg-surface px-3 py-2 font-mono text-ink"
+              data-testid="new-gateway-key"
+            >
+              {result.key}
+            </p>
+          </Notice>
+        ) : null}
+        {result?.message ? (
+          <Notice tone="success">{result.message}</Notice>
+        ) : null}
+        <Card aria-labelledby="new-gateway-heading">
+          <h2 id="new-gateway-heading" className="text-lg">
+            Add a gateway
+          </h2>
+          <Form
+            method="post"
+            className="mt-4 flex flex-col gap-4 sm:flex-row sm:items-end"
+            noValidate
+          >
+            <input type="hidden" name="intent" value="create" />
+            <Field
+              label="Gateway name"
+              name="name"
+              required
+              className="grow"
+              error={errors.name}
+            />
+            <Button type="submit">Create and show key</Button>
+          </Form>
+        </Card>
+        <Card aria-labelledby="gateway-list-heading">
+          <h2 id="gateway-list-heading" className="text-lg">
+            All gateways
+          </h2>
+          {loaderData.gateways.length === 0 ? (
+            <div className="mt-3">
+              <EmptyState title="No gateways yet">
+                Create one above; it gets a key to post readings.
+              </EmptyState>
+            </div>
+          ) : (
+            <ul className="mt-2 divide-y divide-line">
+              {loaderData.gateways.map((g) => (
+                <li
+                  key={g.id}
+                  className="flex flex-wrap items-center justify-between gap-3 py-3"
+                >
+                  <div>
+                    <p className="font-semibold">{g.name}</p>
+                    <p className="font-mono text-sm text-ink-muted">
+                      {g.keyPrefix}…
+                    </p>
+                  </div>
+                  <div className="flex items-center gap-4">
+                    <span className="text-sm text-ink-muted">
+                      {g.lastSeenAt
+                        ? `Last seen ${formatDistanceToNowStrict(new Date(g.lastSeenAt))} ago`
+                        : "Never seen"}
+                    </span>
+                    {g.revokedAt ? (
+                      <Badge tone="danger">Revoked</Badge>
+                    ) : (
+                      <Form method="post">
+                        <input type="hidden" name="intent" value="revoke" />
+                        <input type="hidden" name="gatewayId" value={g.id} />
+                        <Button
+                          type="submit"
+                          variant="danger"
+                          aria-label={`Revoke ${g.name}`}
+                        >
+                          Revoke
+                        </Button>
+                      </Form>
+                    )}
+                  </div>
+                </li>
+              ))}
+            </ul>
+          )}
+        </Card>
+      </div>
+    </>
+  );
+}

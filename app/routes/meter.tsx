@@ -1,0 +1,305 @@
+import { format } from "date-fns";
+import { data, Form, Link, redirect } from "react-router";
+import { notFound, requireMembership } from "~/auth/membership.server";
+import { can } from "~/auth/permissions";
+import { MeterFields } from "~/components/meter-fields";
+import {
+  Badge,
+  Button,
+  Card,
+  Field,
+  Notice,
+  PageHeader,
+} from "~/components/ui";
+import { parseForm } from "~/lib/forms";
+import {
+  carrierLabels,
+  meterFormSchema,
+  quantityLabels,
+  replaceSchema,
+  retireSchema,
+} from "~/sites/meter-schema";
+import {
+  getMeter,
+  listSiteMeters,
+  MeterRuleError,
+  replaceMeter,
+  retireMeter,
+  updateMeter,
+} from "~/sites/meters.server";
+import { DuplicateNameError } from "~/sites/sites.server";
+import type { Route } from "./+types/meter";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [
+  { title: `${loaderData?.meter.code ?? "Meter"} · Joulebook` },
+];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { organization, role } = await requireMembership(request, params.orgId);
+  const meter = await getMeter({
+    organizationId: organization.id,
+    meterId: params.meterId,
+  });
+  if (!meter) notFound("No such meter.");
+  const siblings = await listSiteMeters({
+    organizationId: organization.id,
+    siteId: meter.siteId,
+  });
+  return {
+    organization,
+    meter,
+    parents: siblings.filter((m) => m.id !== meter.id && !m.removedAt),
+    replacement: meter.replacedByMeterId
+      ? (siblings.find((m) => m.id === meter.replacedByMeterId) ?? null)
+      : null,
+    canManage: can(role, "sites.manage"),
+  };
+}
+
+type Result = {
+  intent: string;
+  errors: Record<string, string>;
+  message?: string;
+};
+const fail = (intent: string, errors: Record<string, string>, status = 400) =>
+  data<Result>({ intent, errors }, { status });
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { organization, user } = await requireMembership(
+    request,
+    params.orgId,
+    "sites.manage",
+  );
+  const meter = await getMeter({
+    organizationId: organization.id,
+    meterId: params.meterId,
+  });
+  if (!meter) notFound("No such meter.");
+  const formData = await request.formData();
+  const intent = String(formData.get("intent") ?? "");
+  const scope = {
+    organizationId: organization.id,
+    actorUserId: user.id,
+    meterId: meter.id,
+  };
+  try {
+    if (intent === "save-meter") {
+      const form = parseForm(formData, meterFormSchema);
+      if (!form.ok) return fail(intent, form.errors);
+      const { intent: _i, ...input } = form.data;
+      await updateMeter({ ...scope, siteId: meter.siteId, input });
+      return data<Result>({ intent, errors: {}, message: "Meter saved." });
+    }
+    if (intent === "retire") {
+      const form = parseForm(formData, retireSchema);
+      if (!form.ok) return fail(intent, form.errors);
+      await retireMeter({ ...scope, removedAt: form.data.removedAt! });
+      return data<Result>({
+        intent,
+        errors: {},
+        message: "Meter retired: readings after that date are refused.",
+      });
+    }
+    if (intent === "replace") {
+      const form = parseForm(formData, replaceSchema);
+      if (!form.ok) return fail(intent, form.errors);
+      const id = await replaceMeter({
+        ...scope,
+        code: form.data.code,
+        serial: form.data.serial,
+        swappedAt: form.data.swappedAt!,
+      });
+      throw redirect(`/o/${organization.id}/meters/${id}`);
+    }
+    return fail(intent, { form: "Unknown action." });
+  } catch (error) {
+    if (error instanceof DuplicateNameError)
+      return fail(intent, { code: error.message }, 409);
+    if (error instanceof MeterRuleError)
+      return fail(intent, { parentMeterId: error.message });
+    throw error;
+  }
+}
+
+export default function Meter({
+  loaderData,
+  actionData,
+}: Route.ComponentProps) {
+  const { meter, parents, canManage, organization, replacement } = loaderData;
+  const result = actionData as Result | undefined;
+  const errorsFor = (intent: string): Record<string, string | undefined> =>
+    result?.intent === intent ? result.errors : {};
+  const base = `/o/${organization.id}`;
+  return (
+    <>
+      <PageHeader
+        title={`${meter.code} · ${meter.name}`}
+        description={
+          <>
+            {quantityLabels[meter.quantity]} · {carrierLabels[meter.carrier]} ·{" "}
+            {meter.orientation === "import" ? "import (+)" : "export (−)"} ·{" "}
+            <Link
+              className="font-semibold text-spruce-700 underline"
+              to={`${base}/sites/${meter.siteId}`}
+            >
+              {meter.siteName}
+            </Link>
+          </>
+        }
+        actions={
+          <Link
+            to={`${base}/meters/${meter.id}/readings`}
+            className="inline-flex min-h-10 items-center rounded-lg bg-spruce-700 px-4 font-semibold text-white hover:bg-spruce-800"
+          >
+            Readings
+          </Link>
+        }
+      />
+      <div className="flex flex-col gap-6">
+        {result?.message ? (
+          <Notice tone="success">{result.message}</Notice>
+        ) : null}
+        {meter.removedAt ? (
+          <Notice tone="caution" title="Retired">
+            Removed on {format(new Date(meter.removedAt), "d MMM yyyy")}.
+            {replacement ? (
+              <>
+                {" "}
+                Replaced by{" "}
+                <Link
+                  className="font-semibold underline"
+                  to={`${base}/meters/${replacement.id}`}
+                >
+                  {replacement.code}
+                </Link>
+                .
+              </>
+            ) : null}
+          </Notice>
+        ) : null}
+        {canManage ? (
+          <>
+            <Card aria-labelledby="meter-edit-heading">
+              <h2 id="meter-edit-heading" className="text-lg">
+                Settings
+              </h2>
+              <Form
+                method="post"
+                className="mt-4 flex flex-col gap-4"
+                noValidate
+              >
+                {errorsFor("save-meter").form ? (
+                  <Notice tone="error">{errorsFor("save-meter").form}</Notice>
+                ) : null}
+                <MeterFields
+                  errors={errorsFor("save-meter")}
+                  parents={parents}
+                  defaults={meter}
+                />
+                <div>
+                  <Button type="submit">Save meter</Button>
+                </div>
+              </Form>
+            </Card>
+            {!meter.removedAt ? (
+              <div className="grid gap-6 md:grid-cols-2">
+                <Card aria-labelledby="replace-heading">
+                  <h2 id="replace-heading" className="text-lg">
+                    Replace (meter swap)
+                  </h2>
+                  <p className="mt-1 text-ink-muted">
+                    Retires this meter at the swap time and adds the new one
+                    with the same settings. Its register starts afresh.
+                  </p>
+                  <Form
+                    method="post"
+                    className="mt-4 flex flex-col gap-4"
+                    noValidate
+                  >
+                    <input type="hidden" name="intent" value="replace" />
+                    <Field
+                      label="New meter's code"
+                      name="code"
+                      required
+                      error={errorsFor("replace").code}
+                    />
+                    <Field
+                      label="New meter's serial number"
+                      name="serial"
+                      error={errorsFor("replace").serial}
+                    />
+                    <Field
+                      label="Swapped on"
+                      name="swappedAt"
+                      type="date"
+                      required
+                      error={errorsFor("replace").swappedAt}
+                    />
+                    <div>
+                      <Button type="submit" variant="secondary">
+                        Replace meter
+                      </Button>
+                    </div>
+                  </Form>
+                </Card>
+                <Card aria-labelledby="retire-heading">
+                  <h2 id="retire-heading" className="text-lg">
+                    Retire
+                  </h2>
+                  <p className="mt-1 text-ink-muted">
+                    Readings after this date are refused; its history stays in
+                    the ledger.
+                  </p>
+                  <Form
+                    method="post"
+                    className="mt-4 flex flex-col gap-4"
+                    noValidate
+                  >
+                    <input type="hidden" name="intent" value="retire" />
+                    <Field
+                      label="Removed on"
+                      name="removedAt"
+                      type="date"
+                      required
+                      error={errorsFor("retire").removedAt}
+                    />
+                    <div>
+                      <Button type="submit" variant="danger">
+                        Retire meter
+                      </Button>
+                    </div>
+                  </Form>
+                </Card>
+              </div>
+            ) : null}
+          </>
+        ) : (
+          <Card>
+            <dl className="grid gap-3 sm:grid-cols-3">
+              {[
+                ["Serial", meter.serial || "—"],
+                ["Multiplier", meter.multiplier],
+                [
+                  "Roll-over",
+                  meter.rolloverKwh ? `${meter.rolloverKwh} kWh` : "—",
+                ],
+                ["Sensor", meter.sensorAt ?? "—"],
+                [
+                  "Installed",
+                  format(new Date(meter.installedAt), "d MMM yyyy"),
+                ],
+                ["Spike factor", meter.spikeFactor],
+              ].map(([k, v]) => (
+                <div key={k}>
+                  <dt className="text-sm text-ink-muted">{k}</dt>
+                  <dd className="font-semibold">{v}</dd>
+                </div>
+              ))}
+            </dl>
+            {meter.removedAt ? <Badge>retired</Badge> : null}
+          </Card>
+        )}
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,98 @@
+import { Link } from "react-router";
+import { requireMembership } from "~/auth/membership.server";
+import { can } from "~/auth/permissions";
+import { CsvUpload } from "~/components/csv-upload";
+import { Badge, Card, EmptyState, PageHeader } from "~/components/ui";
+import { carrierLabels } from "~/sites/meter-schema";
+import { listAllMeters } from "~/sites/meters.server";
+import type { Route } from "./+types/readings";
+
+export const meta: Route.MetaFunction = () => [
+  { title: "Readings · Joulebook" },
+];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { organization, role } = await requireMembership(
+    request,
+    params.orgId,
+    "readings.view",
+  );
+  return {
+    organization,
+    meters: await listAllMeters({ organizationId: organization.id }),
+    canUpload: can(role, "readings.edit"),
+  };
+}
+
+export default function Readings({ loaderData }: Route.ComponentProps) {
+  const { meters, organization, canUpload } = loaderData;
+  const bySite = new Map<string, typeof meters>();
+  for (const m of meters)
+    bySite.set(m.siteName, [...(bySite.get(m.siteName) ?? []), m]);
+  return (
+    <>
+      <PageHeader
+        title="Readings"
+        description="Hourly intervals per meter: measured, estimated or edited, with the readings they come from."
+      />
+      <div className="flex flex-col gap-6">
+        {meters.length === 0 ? (
+          <EmptyState title="No meters yet">
+            Add sites and meters first.
+          </EmptyState>
+        ) : (
+          <div className="grid gap-4 md:grid-cols-2">
+            {[...bySite].map(([site, siteMeters]) => (
+              <Card key={site} aria-label={site}>
+                <h2 className="text-lg">{site}</h2>
+                <ul className="mt-2 divide-y divide-line">
+                  {siteMeters.map((m) => (
+                    <li
+                      key={m.id}
+                      className="flex items-center justify-between gap-2 py-2"
+                    >
+                      <Link
+                        to={`/o/${organization.id}/meters/${m.id}/readings`}
+                        className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+                      >
+                        <span className="font-mono">{m.code}</span> {m.name}
+                      </Link>
+                      <span className="flex gap-1">
+                        <Badge
+                          tone={
+                            m.carrier === "cooling"
+                              ? "frost"
+                              : m.carrier === "electricity"
+                                ? "neutral"
+                                : "copper"
+                          }
+                        >
+                          {carrierLabels[m.carrier]}
+                        </Badge>
+                        {m.removedAt ? <Badge>retired</Badge> : null}
+                      </span>
+                    </li>
+                  ))}
+                </ul>
+              </Card>
+            ))}
+          </div>
+        )}
+        {canUpload ? (
+          <Card aria-labelledby="upload-heading">
+            <h2 id="upload-heading" className="text-lg">
+              Upload historical readings
+            </h2>
+            <p className="mt-1 text-ink-muted">
+              Rows go through the same checks as a gateway's readings; a row
+              already stored counts as a repeat.
+            </p>
+            <div className="mt-4">
+              <CsvUpload orgId={organization.id} />
+            </div>
+          </Card>
+        ) : null}
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,234 @@
+import { data, Form, Link } from "react-router";
+import { notFound, requireMembership } from "~/auth/membership.server";
+import { can } from "~/auth/permissions";
+import { Boundary, formatKwh } from "~/components/boundary";
+import { Cautions } from "~/components/cautions";
+import { SiteFields } from "~/components/site-fields";
+import {
+  Badge,
+  Button,
+  Card,
+  EmptyState,
+  Notice,
+  PageHeader,
+} from "~/components/ui";
+import { parseForm } from "~/lib/forms";
+import { carrierLabels } from "~/sites/meter-schema";
+import { siteEnergySince } from "~/sites/meter-energy.server";
+import { listSiteMeters } from "~/sites/meters.server";
+import { siteFormSchema } from "~/sites/site-schema";
+import { DuplicateNameError, getSite, updateSite } from "~/sites/sites.server";
+import type { Route } from "./+types/site";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [
+  { title: `${loaderData?.site.name ?? "Site"} · Joulebook` },
+];
+
+const THIRTY_DAYS_MS = 30 * 86_400_000;
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { organization, role } = await requireMembership(request, params.orgId);
+  const site = await getSite({
+    organizationId: organization.id,
+    siteId: params.siteId,
+  });
+  if (!site) notFound("No such site.");
+  const [meters, energy] = await Promise.all([
+    listSiteMeters({ organizationId: organization.id, siteId: site.id }),
+    siteEnergySince({
+      organizationId: organization.id,
+      siteId: site.id,
+      since: new Date(Date.now() - THIRTY_DAYS_MS),
+    }),
+  ]);
+  return {
+    organization,
+    site,
+    meters: meters.map((m) => ({
+      ...m,
+      energyKwh30d: energy.get(m.id) ?? null,
+    })),
+    canManage: can(role, "sites.manage"),
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { organization, user } = await requireMembership(
+    request,
+    params.orgId,
+    "sites.manage",
+  );
+  const form = parseForm(await request.formData(), siteFormSchema);
+  if (!form.ok)
+    return data({ errors: form.errors, saved: false }, { status: 400 });
+  const { intent: _intent, ...input } = form.data;
+  try {
+    const saved = await updateSite({
+      organizationId: organization.id,
+      actorUserId: user.id,
+      siteId: params.siteId,
+      input,
+    });
+    if (!saved) notFound("No such site.");
+    return { errors: {} as Record<string, string>, saved: true };
+  } catch (error) {
+    if (error instanceof DuplicateNameError)
+      return data(
+        {
+          errors: { name: error.message } as Record<string, string>,
+          saved: false,
+        },
+        { status: 409 },
+      );
+    throw error;
+  }
+}
+
+export default function Site({ loaderData, actionData }: Route.ComponentProps) {
+  const { site, meters, canManage, organization } = loaderData;
+  const errors: Record<string, string | undefined> = actionData?.errors ?? {};
+  const base = `/o/${organization.id}`;
+  return (
+    <>
+      <PageHeader
+        title={site.name}
+        description={[
+          site.address,
+          site.floorAreaM2
+            ? `${Number(site.floorAreaM2).toLocaleString("en-GB")} m²`
+            : null,
+          `degree days to ${site.degreeDayBaseC} °C`,
+          site.timeZone,
+        ]
+          .filter(Boolean)
+          .join(" · ")}
+        actions={
+          canManage ? (
+            <Link
+              to={`${base}/sites/${site.id}/meters/new`}
+              className="inline-flex min-h-10 items-center rounded-lg bg-spruce-700 px-4 font-semibold text-white hover:bg-spruce-800"
+            >
+              Add a meter
+            </Link>
+          ) : null
+        }
+      />
+      <div className="flex flex-col gap-6">
+        <Card aria-labelledby="boundary-heading">
+          <h2 id="boundary-heading" className="text-lg">
+            Boundary
+          </h2>
+          {meters.length === 0 ? (
+            <div className="mt-3">
+              <EmptyState title="No meters on this boundary yet">
+                {canManage
+                  ? "Add the first meter to start receiving readings."
+                  : "An energy manager adds meters."}
+              </EmptyState>
+            </div>
+          ) : (
+            <Boundary
+              siteName={site.name}
+              orgId={organization.id}
+              meters={meters.map((m) => ({
+                ...m,
+                retired: m.removedAt !== null,
+              }))}
+            />
+          )}
+        </Card>
+        {meters.length > 0 ? (
+          <Card aria-labelledby="meters-heading">
+            <h2 id="meters-heading" className="text-lg">
+              Meters
+            </h2>
+            <div className="mt-3 overflow-x-auto">
+              <table className="w-full min-w-[640px] text-left">
+                <thead className="text-sm text-ink-muted">
+                  <tr>
+                    <th className="py-2 pr-3 font-semibold">Code</th>
+                    <th className="py-2 pr-3 font-semibold">Name</th>
+                    <th className="py-2 pr-3 font-semibold">Carrier</th>
+                    <th className="py-2 pr-3 font-semibold">Orientation</th>
+                    <th className="py-2 pr-3 text-right font-semibold">
+                      Last 30 days
+                    </th>
+                    <th className="py-2 font-semibold">
+                      <span className="sr-only">Links</span>
+                    </th>
+                  </tr>
+                </thead>
+                <tbody className="divide-y divide-line">
+                  {meters.map((m) => (
+                    <tr key={m.id}>
+                      <td className="py-2 pr-3 font-mono text-sm">{m.code}</td>
+                      <td className="py-2 pr-3">
+                        {m.name}
+                        {m.parentMeterId ? (
+                          <span className="text-sm text-ink-muted">
+                            {" "}
+                            (sub-meter)
+                          </span>
+                        ) : null}
+                        {m.removedAt ? (
+                          <>
+                            {" "}
+                            <Badge tone="neutral">retired</Badge>
+                          </>
+                        ) : null}
+                      </td>
+                      <td className="py-2 pr-3">{carrierLabels[m.carrier]}</td>
+                      <td className="py-2 pr-3">
+                        {m.orientation === "import"
+                          ? "Import (+)"
+                          : "Export (−)"}
+                      </td>
+                      <td className="py-2 pr-3 text-right tabular-nums">
+                        {formatKwh(m.energyKwh30d)}
+                      </td>
+                      <td className="py-2 text-right">
+                        <Link
+                          className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+                          to={`${base}/meters/${m.id}/readings`}
+                        >
+                          Readings
+                        </Link>
+                        {" · "}
+                        <Link
+                          className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+                          to={`${base}/meters/${m.id}`}
+                        >
+                          {canManage ? "Edit" : "Details"}
+                        </Link>
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          </Card>
+        ) : null}
+        {canManage ? (
+          <Card aria-labelledby="edit-site-heading">
+            <h2 id="edit-site-heading" className="text-lg">
+              Site details
+            </h2>
+            <Form method="post" className="mt-4 flex flex-col gap-4" noValidate>
+              {actionData?.saved ? (
+                <Notice tone="success">Saved.</Notice>
+              ) : null}
+              <SiteFields
+                errors={errors}
+                defaults={{ ...site, address: site.address }}
+              />
+              <div>
+                <Button type="submit">Save site</Button>
+              </div>
+            </Form>
+          </Card>
+        ) : null}
+        <Cautions />
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,153 @@
+import { z } from "zod";
+
+export const quantities = [
+  "water_heat",
+  "steam_heat",
+  "sensible_heat",
+  "electric_work",
+  "electric_register",
+  "heat_register",
+] as const;
+export const carriers = ["heat", "cooling", "steam", "electricity"] as const;
+
+export const quantityLabels: Record<(typeof quantities)[number], string> = {
+  water_heat: "Water heat meter (volume, flow and return temperature)",
+  steam_heat: "Steam meter (condensate mass, pressure)",
+  sensible_heat: "Sensible heat, other media (mass, declared c)",
+  electric_work: "Electrical work (volts, amps, power factor)",
+  electric_register: "Electricity register (cumulative kWh)",
+  heat_register: "Heat register (cumulative kWh)",
+};
+
+export const carrierLabels: Record<(typeof carriers)[number], string> = {
+  heat: "Heat",
+  cooling: "Cooling",
+  steam: "Steam",
+  electricity: "Electricity",
+};
+
+/** Which carriers a quantity can account for. */
+const carriersFor: Record<
+  (typeof quantities)[number],
+  readonly (typeof carriers)[number][]
+> = {
+  water_heat: ["heat", "cooling"],
+  steam_heat: ["steam"],
+  sensible_heat: ["heat", "cooling"],
+  electric_work: ["electricity"],
+  electric_register: ["electricity"],
+  heat_register: ["heat", "cooling"],
+};
+
+const decimal = (label: string, min: number, max: number) =>
+  z
+    .string()
+    .trim()
+    .max(24)
+    .transform((v, ctx) => {
+      if (v === "") return null;
+      const n = Number(v);
+      if (!Number.isFinite(n) || n < min || n > max) {
+        ctx.addIssue({
+          code: "custom",
+          message: `${label} must be a number from ${min} to ${max}.`,
+        });
+        return z.NEVER;
+      }
+      return n;
+    });
+
+const dateField = (label: string) =>
+  z
+    .string()
+    .trim()
+    .max(40)
+    .transform((v, ctx) => {
+      if (v === "") return null;
+      const d = new Date(v.length === 10 ? `${v}T00:00:00Z` : v);
+      if (
+        Number.isNaN(d.getTime()) ||
+        d.getUTCFullYear() < 1990 ||
+        d.getUTCFullYear() > 2100
+      ) {
+        ctx.addIssue({
+          code: "custom",
+          message: `${label} must be a date (YYYY-MM-DD) from 1990 on.`,
+        });
+        return z.NEVER;
+      }
+      return d;
+    });
+
+export const meterCodeField = z
+  .string()
+  .trim()
+  .min(1, "Enter the code gateways use for this meter.")
+  .max(64, "Use at most 64 characters.")
+  .regex(
+    /^[A-Za-z0-9][A-Za-z0-9._\-/]*$/,
+    "Use letters, digits and . _ - / only, starting with a letter or digit.",
+  );
+
+export const meterFormSchema = z
+  .strictObject({
+    intent: z.literal("save-meter"),
+    code: meterCodeField,
+    name: z
+      .string()
+      .trim()
+      .min(1, "Enter a name.")
+      .max(120, "Use at most 120 characters."),
+    quantity: z.enum(quantities, { error: "Choose what the meter measures." }),
+    carrier: z.enum(carriers, { error: "Choose the energy carrier." }),
+    orientation: z.enum(["import", "export"], {
+      error: "Choose import or export.",
+    }),
+    parentMeterId: z.string().trim().max(64),
+    serial: z.string().trim().max(64, "Use at most 64 characters."),
+    multiplier: decimal("Multiplier", 0.0001, 100_000).transform((v) => v ?? 1),
+    rolloverKwh: decimal("Roll-over point", 1, 1e12),
+    sensorAt: z.enum(["", "flow", "return"]),
+    defaultPressureBarAbs: decimal("Default pressure", 0.006, 40),
+    spikeFactor: decimal("Spike factor", 1.5, 1000).transform((v) => v ?? 10),
+    installedAt: dateField("Installed on").refine(
+      (d) => d !== null,
+      "Enter the installation date.",
+    ),
+  })
+  .superRefine((v, ctx) => {
+    if (!carriersFor[v.quantity].includes(v.carrier)) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["carrier"],
+        message: `A ${v.quantity.replace("_", " ")} meter accounts for ${carriersFor[v.quantity].join(" or ")}.`,
+      });
+    }
+    if (v.quantity === "water_heat" && v.sensorAt === "") {
+      ctx.addIssue({
+        code: "custom",
+        path: ["sensorAt"],
+        message: "Say which pipe the flow sensor sits in.",
+      });
+    }
+  });
+
+export type MeterInput = Omit<z.infer<typeof meterFormSchema>, "intent">;
+
+export const retireSchema = z.strictObject({
+  intent: z.literal("retire"),
+  removedAt: dateField("Removed on").refine(
+    (d) => d !== null,
+    "Enter the removal date.",
+  ),
+});
+
+export const replaceSchema = z.strictObject({
+  intent: z.literal("replace"),
+  code: meterCodeField,
+  serial: z.string().trim().max(64),
+  swappedAt: dateField("Swapped on").refine(
+    (d) => d !== null,
+    "Enter when the meters were swapped.",
+  ),
+});

@@ -1,0 +1,300 @@
+import { and, asc, eq } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { meters, sites } from "~/db/schema";
+import { recordAudit } from "~/audit/record-audit.server";
+import type { MeterInput } from "./meter-schema";
+import { DuplicateNameError, isUniqueViolation } from "./sites.server";
+
+export const meterColumns = {
+  id: meters.id,
+  siteId: meters.siteId,
+  code: meters.code,
+  name: meters.name,
+  quantity: meters.quantity,
+  carrier: meters.carrier,
+  orientation: meters.orientation,
+  parentMeterId: meters.parentMeterId,
+  serial: meters.serial,
+  multiplier: meters.multiplier,
+  rolloverKwh: meters.rolloverKwh,
+  sensorAt: meters.sensorAt,
+  defaultPressureBarAbs: meters.defaultPressureBarAbs,
+  spikeFactor: meters.spikeFactor,
+  installedAt: meters.installedAt,
+  removedAt: meters.removedAt,
+  replacedByMeterId: meters.replacedByMeterId,
+};
+
+export type MeterRow = Awaited<ReturnType<typeof listSiteMeters>>[number];
+
+export async function listSiteMeters({
+  organizationId,
+  siteId,
+}: {
+  organizationId: string;
+  siteId: string;
+}) {
+  return db
+    .select(meterColumns)
+    .from(meters)
+    .where(
+      and(eq(meters.organizationId, organizationId), eq(meters.siteId, siteId)),
+    )
+    .orderBy(asc(meters.code));
+}
+
+export async function listAllMeters({
+  organizationId,
+}: {
+  organizationId: string;
+}) {
+  return db
+    .select({ ...meterColumns, siteName: sites.name })
+    .from(meters)
+    .innerJoin(
+      sites,
+      and(
+        eq(sites.organizationId, meters.organizationId),
+        eq(sites.id, meters.siteId),
+      ),
+    )
+    .where(eq(meters.organizationId, organizationId))
+    .orderBy(asc(sites.name), asc(meters.code));
+}
+
+export async function getMeter({
+  organizationId,
+  meterId,
+}: {
+  organizationId: string;
+  meterId: string;
+}) {
+  const [meter] = await db
+    .select({ ...meterColumns, siteName: sites.name, timeZone: sites.timeZone })
+    .from(meters)
+    .innerJoin(
+      sites,
+      and(
+        eq(sites.organizationId, meters.organizationId),
+        eq(sites.id, meters.siteId),
+      ),
+    )
+    .where(
+      and(eq(meters.organizationId, organizationId), eq(meters.id, meterId)),
+    );
+  return meter ?? null;
+}
+
+function columnsFrom(input: MeterInput) {
+  return {
+    code: input.code,
+    name: input.name,
+    quantity: input.quantity,
+    carrier: input.carrier,
+    orientation: input.orientation,
+    parentMeterId: input.parentMeterId || null,
+    serial: input.serial,
+    multiplier: String(input.multiplier),
+    rolloverKwh: input.rolloverKwh === null ? null : String(input.rolloverKwh),
+    sensorAt: input.sensorAt === "" ? null : input.sensorAt,
+    defaultPressureBarAbs:
+      input.defaultPressureBarAbs === null
+        ? null
+        : String(input.defaultPressureBarAbs),
+    spikeFactor: String(input.spikeFactor),
+    installedAt: input.installedAt!,
+  };
+}
+
+export class MeterRuleError extends Error {}
+
+async function assertParentOnSite(
+  organizationId: string,
+  siteId: string,
+  parentId: string,
+  selfId?: string,
+) {
+  if (!parentId) return;
+  if (parentId === selfId)
+    throw new MeterRuleError("A meter cannot be its own parent.");
+  const [parent] = await db
+    .select({ siteId: meters.siteId })
+    .from(meters)
+    .where(
+      and(eq(meters.organizationId, organizationId), eq(meters.id, parentId)),
+    );
+  if (!parent || parent.siteId !== siteId)
+    throw new MeterRuleError("The parent meter must be on the same site.");
+}
+
+function rethrowDuplicate(error: unknown): never {
+  if (isUniqueViolation(error))
+    throw new DuplicateNameError(
+      "Another meter in this organisation uses this code.",
+    );
+  throw error;
+}
+
+export async function createMeter(args: {
+  organizationId: string;
+  actorUserId: string;
+  siteId: string;
+  input: MeterInput;
+}) {
+  await assertParentOnSite(
+    args.organizationId,
+    args.siteId,
+    args.input.parentMeterId,
+  );
+  return db
+    .transaction(async (tx) => {
+      const [meter] = await tx
+        .insert(meters)
+        .values({
+          organizationId: args.organizationId,
+          siteId: args.siteId,
+          ...columnsFrom(args.input),
+        })
+        .returning({ id: meters.id });
+      await recordAudit(tx, {
+        organizationId: args.organizationId,
+        actorUserId: args.actorUserId,
+        action: "meter.created",
+        subject: meter.id,
+        details: { ...args.input },
+      });
+      return meter.id;
+    })
+    .catch(rethrowDuplicate);
+}
+
+export async function updateMeter(args: {
+  organizationId: string;
+  actorUserId: string;
+  meterId: string;
+  siteId: string;
+  input: MeterInput;
+}) {
+  await assertParentOnSite(
+    args.organizationId,
+    args.siteId,
+    args.input.parentMeterId,
+    args.meterId,
+  );
+  return db
+    .transaction(async (tx) => {
+      const updated = await tx
+        .update(meters)
+        .set(columnsFrom(args.input))
+        .where(
+          and(
+            eq(meters.organizationId, args.organizationId),
+            eq(meters.id, args.meterId),
+          ),
+        )
+        .returning({ id: meters.id });
+      if (updated.length === 0) return false;
+      await recordAudit(tx, {
+        organizationId: args.organizationId,
+        actorUserId: args.actorUserId,
+        action: "meter.updated",
+        subject: args.meterId,
+        details: { ...args.input },
+      });
+      return true;
+    })
+    .catch(rethrowDuplicate);
+}
+
+export async function retireMeter(args: {
+  organizationId: string;
+  actorUserId: string;
+  meterId: string;
+  removedAt: Date;
+}) {
+  return db.transaction(async (tx) => {
+    const updated = await tx
+      .update(meters)
+      .set({ removedAt: args.removedAt })
+      .where(
+        and(
+          eq(meters.organizationId, args.organizationId),
+          eq(meters.id, args.meterId),
+        ),
+      )
+      .returning({ id: meters.id });
+    if (updated.length === 0) return false;
+    await recordAudit(tx, {
+      organizationId: args.organizationId,
+      actorUserId: args.actorUserId,
+      action: "meter.retired",
+      subject: args.meterId,
+      details: { removedAt: args.removedAt.toISOString() },
+    });
+    return true;
+  });
+}
+
+/**
+ * A meter swap: the old meter is retired at the swap time and a new one with
+ * the same settings takes its place, linked both ways through replaced_by.
+ */
+export async function replaceMeter(args: {
+  organizationId: string;
+  actorUserId: string;
+  meterId: string;
+  code: string;
+  serial: string;
+  swappedAt: Date;
+}) {
+  const old = await getMeter({
+    organizationId: args.organizationId,
+    meterId: args.meterId,
+  });
+  if (!old) return null;
+  return db
+    .transaction(async (tx) => {
+      const [replacement] = await tx
+        .insert(meters)
+        .values({
+          organizationId: args.organizationId,
+          siteId: old.siteId,
+          code: args.code,
+          name: old.name,
+          quantity: old.quantity,
+          carrier: old.carrier,
+          orientation: old.orientation,
+          parentMeterId: old.parentMeterId,
+          serial: args.serial,
+          multiplier: old.multiplier,
+          rolloverKwh: old.rolloverKwh,
+          sensorAt: old.sensorAt,
+          defaultPressureBarAbs: old.defaultPressureBarAbs,
+          spikeFactor: old.spikeFactor,
+          installedAt: args.swappedAt,
+        })
+        .returning({ id: meters.id });
+      await tx
+        .update(meters)
+        .set({ removedAt: args.swappedAt, replacedByMeterId: replacement.id })
+        .where(
+          and(
+            eq(meters.organizationId, args.organizationId),
+            eq(meters.id, args.meterId),
+          ),
+        );
+      await recordAudit(tx, {
+        organizationId: args.organizationId,
+        actorUserId: args.actorUserId,
+        action: "meter.replaced",
+        subject: args.meterId,
+        details: {
+          replacement: replacement.id,
+          code: args.code,
+          swappedAt: args.swappedAt.toISOString(),
+        },
+      });
+      return replacement.id;
+    })
+    .catch(rethrowDuplicate);
+}

@@ -1,0 +1,141 @@
+import { and, asc, count, eq, isNull, sql } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { meters, sites } from "~/db/schema";
+import { recordAudit } from "~/audit/record-audit.server";
+import type { SiteInput } from "./site-schema";
+
+const siteColumns = {
+  id: sites.id,
+  name: sites.name,
+  timeZone: sites.timeZone,
+  floorAreaM2: sites.floorAreaM2,
+  degreeDayBaseC: sites.degreeDayBaseC,
+  address: sites.address,
+  createdAt: sites.createdAt,
+};
+
+export async function listSites({
+  organizationId,
+}: {
+  organizationId: string;
+}) {
+  return db
+    .select({
+      ...siteColumns,
+      meterCount: count(meters.id),
+    })
+    .from(sites)
+    .leftJoin(
+      meters,
+      and(
+        eq(meters.organizationId, sites.organizationId),
+        eq(meters.siteId, sites.id),
+        isNull(meters.removedAt),
+      ),
+    )
+    .where(
+      and(eq(sites.organizationId, organizationId), isNull(sites.archivedAt)),
+    )
+    .groupBy(sites.organizationId, sites.id)
+    .orderBy(asc(sites.name));
+}
+
+export async function getSite({
+  organizationId,
+  siteId,
+}: {
+  organizationId: string;
+  siteId: string;
+}) {
+  const [site] = await db
+    .select(siteColumns)
+    .from(sites)
+    .where(and(eq(sites.organizationId, organizationId), eq(sites.id, siteId)));
+  return site ?? null;
+}
+
+export class DuplicateNameError extends Error {}
+
+function isUniqueViolation(error: unknown): boolean {
+  const code =
+    (error as { code?: string; cause?: { code?: string } }).code ??
+    (error as { cause?: { code?: string } }).cause?.code;
+  return code === "23505";
+}
+
+export async function createSite(args: {
+  organizationId: string;
+  actorUserId: string;
+  input: SiteInput;
+}) {
+  try {
+    return await db.transaction(async (tx) => {
+      const [site] = await tx
+        .insert(sites)
+        .values({
+          organizationId: args.organizationId,
+          name: args.input.name,
+          timeZone: args.input.timeZone,
+          floorAreaM2: args.input.floorAreaM2?.toString() ?? null,
+          degreeDayBaseC: args.input.degreeDayBaseC.toString(),
+          address: args.input.address,
+        })
+        .returning({ id: sites.id });
+      await recordAudit(tx, {
+        organizationId: args.organizationId,
+        actorUserId: args.actorUserId,
+        action: "site.created",
+        subject: site.id,
+        details: { ...args.input },
+      });
+      return site.id;
+    });
+  } catch (error) {
+    if (isUniqueViolation(error))
+      throw new DuplicateNameError("A site with this name exists already.");
+    throw error;
+  }
+}
+
+export async function updateSite(args: {
+  organizationId: string;
+  actorUserId: string;
+  siteId: string;
+  input: SiteInput;
+}) {
+  try {
+    return await db.transaction(async (tx) => {
+      const updated = await tx
+        .update(sites)
+        .set({
+          name: args.input.name,
+          timeZone: args.input.timeZone,
+          floorAreaM2: args.input.floorAreaM2?.toString() ?? null,
+          degreeDayBaseC: args.input.degreeDayBaseC.toString(),
+          address: args.input.address,
+        })
+        .where(
+          and(
+            eq(sites.organizationId, args.organizationId),
+            eq(sites.id, args.siteId),
+          ),
+        )
+        .returning({ id: sites.id });
+      if (updated.length === 0) return false;
+      await recordAudit(tx, {
+        organizationId: args.organizationId,
+        actorUserId: args.actorUserId,
+        action: "site.updated",
+        subject: args.siteId,
+        details: { ...args.input },
+      });
+      return true;
+    });
+  } catch (error) {
+    if (isUniqueViolation(error))
+      throw new DuplicateNameError("A site with this name exists already.");
+    throw error;
+  }
+}
+
+export { isUniqueViolation, sql };

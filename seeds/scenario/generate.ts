@@ -1,0 +1,261 @@
+// Deterministic generator of the demo scenario's gateway readings, in the
+// JSON shape of POST /api/v1/readings (design.md, "Gateway API"): hourly
+// water-heat and steam intervals, and hourly register reads at the hour.
+// The same range always gives the same readings, on any machine.
+
+import { HOUR_MS, buildClock, isoSeconds } from "./clock";
+import type { HourContext } from "./clock";
+import type { HourValue, SteamHour, WaterHour } from "./encode";
+import { METERS, SCENARIO_GAPS, SCENARIO_PERIOD } from "./larchmere-estate";
+import type { ScenarioMeter } from "./larchmere-estate";
+import { SITE_MODELS } from "./loads";
+
+export type WaterHeatReading = {
+  meter: string;
+  start: string;
+  end: string;
+  quantity: "water_heat";
+  volume_m3: number;
+  flow_temp_c: number;
+  return_temp_c: number;
+  pressure_bar_abs: number;
+  sensor_at: "flow" | "return";
+};
+
+export type SteamHeatReading = {
+  meter: string;
+  start: string;
+  end: string;
+  quantity: "steam_heat";
+  mass_kg: number;
+  pressure_bar_g: number;
+  condensate_temp_c: number;
+};
+
+export type RegisterReading = {
+  meter: string;
+  time: string;
+  quantity: "electric_register";
+  register_kwh: number;
+};
+
+export type GatewayReading =
+  WaterHeatReading | SteamHeatReading | RegisterReading;
+
+export interface ScenarioReading {
+  meter: string;
+  reading: GatewayReading;
+}
+
+export interface GenerateRange {
+  from: Date;
+  to: Date;
+}
+
+/**
+ * Each register's value at the start of the scenario, and its display
+ * resolution. The Civic Hall meter counts behind 40:1 CTs, so it shows
+ * hundredths; the replacement school meter starts at 3.2 kWh, the energy of
+ * its factory test.
+ */
+export const REGISTER_START: Record<string, { kwh: number; decimals: number }> =
+  {
+    "CH-EL1": { kwh: 18_422.37, decimals: 2 },
+    "NP-EL1": { kwh: 231_845.6, decimals: 1 },
+    "NP-EL2": { kwh: 3.2, decimals: 1 },
+    "LP-EL1": { kwh: 604_118.9, decimals: 1 },
+    "LP-PV1": { kwh: 88_240.5, decimals: 1 },
+    "DL-EL1": { kwh: 377_051.2, decimals: 1 },
+    "RL-EL1": { kwh: 52_300.0, decimals: 1 },
+    "DR-EL1": { kwh: 141_906.4, decimals: 1 },
+  };
+
+class Register {
+  private advanceKwh = 0;
+  private readonly start: { kwh: number; decimals: number };
+
+  constructor(private readonly meter: ScenarioMeter) {
+    const start = REGISTER_START[meter.code];
+    if (start === undefined) {
+      throw new Error(`no starting register value for ${meter.code}`);
+    }
+    this.start = start;
+  }
+
+  add(kwh: number): void {
+    this.advanceKwh += kwh;
+  }
+
+  // The register counts energy / multiplier; it shows whole steps of its
+  // resolution and wraps to zero at the roll-over point. Integer steps keep
+  // the wrap exact.
+  read(): number {
+    const step = 10 ** -this.start.decimals;
+    const counted = this.start.kwh + this.advanceKwh / this.meter.multiplier;
+    let steps = Math.round(counted / step);
+    if (this.meter.rolloverKwh !== undefined) {
+      steps %= Math.round(this.meter.rolloverKwh / step);
+    }
+    return Number((steps * step).toFixed(this.start.decimals));
+  }
+}
+
+function gapHours(): Map<string, Set<number>> {
+  const out = new Map<string, Set<number>>();
+  for (const g of SCENARIO_GAPS) {
+    const set = out.get(g.meter) ?? new Set<number>();
+    const t0 = Date.parse(g.start);
+    for (let k = 0; k < g.hours; k++) set.add(t0 + k * HOUR_MS);
+    out.set(g.meter, set);
+  }
+  return out;
+}
+
+/** Installed over the whole hour starting at t (interval meters, energy). */
+function activeOver(m: ScenarioMeter, t: number): boolean {
+  if (Date.parse(m.installedAt) > t) return false;
+  return m.removedAt === undefined || t + HOUR_MS <= Date.parse(m.removedAt);
+}
+
+/** Installed at the instant t, removal instant included (its last read). */
+function activeAt(m: ScenarioMeter, t: number): boolean {
+  if (Date.parse(m.installedAt) > t) return false;
+  return m.removedAt === undefined || t <= Date.parse(m.removedAt);
+}
+
+function waterReading(
+  m: ScenarioMeter,
+  c: HourContext,
+  end: string,
+  v: WaterHour,
+): WaterHeatReading {
+  return {
+    meter: m.code,
+    start: c.iso,
+    end,
+    quantity: "water_heat",
+    volume_m3: v.volumeM3,
+    flow_temp_c: v.flowC,
+    return_temp_c: v.returnC,
+    pressure_bar_abs: v.pressureBarAbs,
+    sensor_at: m.sensorAt ?? "return",
+  };
+}
+
+function steamReading(
+  m: ScenarioMeter,
+  c: HourContext,
+  end: string,
+  v: SteamHour,
+): SteamHeatReading {
+  return {
+    meter: m.code,
+    start: c.iso,
+    end,
+    quantity: "steam_heat",
+    mass_kg: v.massKg,
+    pressure_bar_g: v.pressureBarG,
+    condensate_temp_c: v.condensateC,
+  };
+}
+
+function requireRange(range: GenerateRange): void {
+  const from = range.from.getTime();
+  const to = range.to.getTime();
+  if (from % HOUR_MS !== 0 || to % HOUR_MS !== 0) {
+    throw new RangeError("from and to must be whole UTC hours");
+  }
+  if (from < SCENARIO_PERIOD.from.getTime()) {
+    throw new RangeError(
+      `the scenario starts at ${SCENARIO_PERIOD.from.toISOString()}`,
+    );
+  }
+  if (to <= from) throw new RangeError("to must be after from");
+}
+
+const REGISTER_METERS = METERS.filter(
+  (m) => m.quantity === "electric_register",
+);
+const INTERVAL_METERS = METERS.filter(
+  (m) => m.quantity !== "electric_register",
+);
+
+/**
+ * The scenario's readings in [from, to), hour by hour: in each hour the
+ * register reads at its start, then the intervals that begin in it; one last
+ * round of register reads at `to`, so the register intervals cover the range.
+ * The simulation always runs from the scenario's start, so a later `from`
+ * gives the same readings as the full run, registers included.
+ */
+export function* generateReadings(
+  range: GenerateRange,
+): Generator<ScenarioReading> {
+  requireRange(range);
+  const from = range.from.getTime();
+  const models = SITE_MODELS.map((s) => s.create());
+  const registers = new Map(
+    REGISTER_METERS.map((m) => [m.code, new Register(m)]),
+  );
+  const gaps = gapHours();
+  const missing = (code: string, t: number) => gaps.get(code)?.has(t) ?? false;
+  const clock = buildClock(SCENARIO_PERIOD.from, range.to);
+
+  function* registerReads(t: number, iso: string) {
+    if (t < from) return;
+    for (const m of REGISTER_METERS) {
+      if (!activeAt(m, t) || missing(m.code, t)) continue;
+      const reading: RegisterReading = {
+        meter: m.code,
+        time: iso,
+        quantity: "electric_register",
+        register_kwh: registers.get(m.code)!.read(),
+      };
+      yield { meter: m.code, reading };
+    }
+  }
+
+  for (let i = 0; i < clock.length; i++) {
+    const c = clock[i];
+    yield* registerReads(c.t, c.iso);
+    const values: Record<string, HourValue> = {};
+    for (const model of models) Object.assign(values, model(c));
+    const end = isoSeconds(c.t + HOUR_MS);
+    for (const m of REGISTER_METERS) {
+      const v = values[m.code];
+      if (v?.kind === "energy" && activeOver(m, c.t)) {
+        registers.get(m.code)!.add(v.kwh);
+      }
+    }
+    if (c.t < from) continue;
+    for (const m of INTERVAL_METERS) {
+      const v = values[m.code];
+      if (v === undefined || !activeOver(m, c.t) || missing(m.code, c.t)) {
+        continue;
+      }
+      const reading =
+        v.kind === "water"
+          ? waterReading(m, c, end, v)
+          : v.kind === "steam"
+            ? steamReading(m, c, end, v)
+            : undefined;
+      if (reading !== undefined) yield { meter: m.code, reading };
+    }
+  }
+  yield* registerReads(range.to.getTime(), isoSeconds(range.to.getTime()));
+}
+
+/** The same readings, grouped per meter, each list in time order. */
+export function readingsByMeter(
+  range: GenerateRange,
+): Map<string, GatewayReading[]> {
+  const out = new Map<string, GatewayReading[]>();
+  for (const { meter, reading } of generateReadings(range)) {
+    let list = out.get(meter);
+    if (list === undefined) {
+      list = [];
+      out.set(meter, list);
+    }
+    list.push(reading);
+  }
+  return out;
+}

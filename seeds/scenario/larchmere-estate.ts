@@ -1,0 +1,400 @@
+// The invented demo estate: Larchmere Borough Estates, seven sites and the
+// meters on their boundaries (design.md, "Demo scenario"). Every name,
+// address, serial number and figure here is made up. Plain data, so the
+// database seed and the tests read the same description.
+
+export type MeterQuantity =
+  | "water_heat"
+  | "steam_heat"
+  | "sensible_heat"
+  | "electric_work"
+  | "electric_register"
+  | "heat_register";
+
+export type Carrier = "heat" | "cooling" | "steam" | "electricity";
+
+export interface ScenarioSite {
+  name: string;
+  timeZone: "Europe/London";
+  floorAreaM2: number;
+  degreeDayBaseC: number;
+  address: string;
+}
+
+export interface ScenarioMeter {
+  code: string;
+  name: string;
+  siteName: string;
+  quantity: MeterQuantity;
+  carrier: Carrier;
+  orientation: "import" | "export";
+  parentCode?: string;
+  serial: string;
+  multiplier: number;
+  /** Register roll-over point: the value at which it wraps to zero. */
+  rolloverKwh?: number;
+  sensorAt?: "flow" | "return";
+  defaultPressureBarAbs?: number;
+  /** ISO 8601, UTC. */
+  installedAt: string;
+  removedAt?: string;
+  replacedByCode?: string;
+}
+
+export const ORGANIZATION_NAME = "Larchmere Borough Estates";
+
+/** Two years of hourly data, [from, to). */
+export const SCENARIO_PERIOD = {
+  from: new Date("2024-12-01T00:00:00Z"),
+  to: new Date("2026-12-01T00:00:00Z"),
+} as const;
+
+export const SITE = {
+  civicHall: "Civic Hall",
+  school: "Northgate Primary School",
+  pool: "Larchmere Leisure Pool",
+  depot: "Depot & Laundry",
+  library: "Riverside Library",
+  housing: "Brookfield Sheltered Housing",
+  dataRoom: "Data Room",
+} as const;
+
+// 15.5 °C is the usual UK degree-day base for offices and schools (common
+// practice); sheltered housing for older residents is kept warmer, so its
+// heating starts at a higher outdoor temperature.
+export const SITES: readonly ScenarioSite[] = [
+  {
+    name: SITE.civicHall,
+    timeZone: "Europe/London",
+    floorAreaM2: 4800,
+    degreeDayBaseC: 15.5,
+    address: "1 Market Square, Larchmere LM1 1AA",
+  },
+  {
+    name: SITE.school,
+    timeZone: "Europe/London",
+    floorAreaM2: 2600,
+    degreeDayBaseC: 15.5,
+    address: "Northgate Lane, Larchmere LM2 4NP",
+  },
+  {
+    name: SITE.pool,
+    timeZone: "Europe/London",
+    floorAreaM2: 3900,
+    degreeDayBaseC: 15.5,
+    address: "Meadow Road, Larchmere LM3 7LP",
+  },
+  {
+    name: SITE.depot,
+    timeZone: "Europe/London",
+    floorAreaM2: 2200,
+    degreeDayBaseC: 15.5,
+    address: "Unit 2, Tannery Yard, Larchmere LM4 2DL",
+  },
+  {
+    name: SITE.library,
+    timeZone: "Europe/London",
+    floorAreaM2: 1400,
+    degreeDayBaseC: 15.5,
+    address: "12 River Walk, Larchmere LM1 3RL",
+  },
+  {
+    name: SITE.housing,
+    timeZone: "Europe/London",
+    floorAreaM2: 3300,
+    degreeDayBaseC: 17,
+    address: "Brookfield Close, Larchmere LM5 1BH",
+  },
+  {
+    name: SITE.dataRoom,
+    timeZone: "Europe/London",
+    floorAreaM2: 180,
+    degreeDayBaseC: 15.5,
+    address: "Unit 4, Tannery Yard, Larchmere LM4 2DR",
+  },
+];
+
+const LONG_AGO = "2019-06-01T00:00:00Z";
+
+/** The school's electricity meter is swapped at this instant (an hour). */
+export const SCHOOL_METER_SWAP_AT = "2025-08-12T10:00:00Z";
+
+/**
+ * The library's register shows 99 999.9 kWh at most and wraps at 100 000 kWh
+ * (six digits, one decimal); it starts at 52 300 kWh and crosses the wrap
+ * once in the two years.
+ */
+export const LIBRARY_ROLLOVER_KWH = 100_000;
+
+export const METERS: readonly ScenarioMeter[] = [
+  {
+    code: "CH-HX1",
+    name: "District heat intake",
+    siteName: SITE.civicHall,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    serial: "DH-22-04571",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 8,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "CH-EL1",
+    name: "Grid supply (200/5 A CTs)",
+    siteName: SITE.civicHall,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    serial: "EL-18-220931",
+    // 200/5 A current transformers: the register counts 1/40 of the energy.
+    multiplier: 40,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "NP-HX1",
+    name: "Boiler house heat meter",
+    siteName: SITE.school,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    serial: "HM-17-11820",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 3,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "NP-EL1",
+    name: "Grid supply (old meter)",
+    siteName: SITE.school,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    serial: "EL-09-004417",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+    removedAt: SCHOOL_METER_SWAP_AT,
+    replacedByCode: "NP-EL2",
+  },
+  {
+    code: "NP-EL2",
+    name: "Grid supply",
+    siteName: SITE.school,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    serial: "EL-25-310562",
+    multiplier: 1,
+    installedAt: SCHOOL_METER_SWAP_AT,
+  },
+  {
+    code: "LP-HX1",
+    name: "Boiler plant heat meter",
+    siteName: SITE.pool,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    serial: "HM-20-30447",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 4,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "LP-EL1",
+    name: "Grid import",
+    siteName: SITE.pool,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    serial: "EL-20-118804",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "LP-PV1",
+    name: "Rooftop solar export",
+    siteName: SITE.pool,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "export",
+    serial: "EL-21-118805",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "DL-ST1",
+    name: "Laundry steam (condensate)",
+    siteName: SITE.depot,
+    quantity: "steam_heat",
+    carrier: "steam",
+    orientation: "import",
+    serial: "ST-16-00291",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "DL-EL1",
+    name: "Grid supply",
+    siteName: SITE.depot,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    serial: "EL-16-077310",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "RL-HX1",
+    name: "Heating heat meter",
+    siteName: SITE.library,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    serial: "HM-19-20913",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 3,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "RL-CW1",
+    name: "Archive room chilled water",
+    siteName: SITE.library,
+    quantity: "water_heat",
+    carrier: "cooling",
+    orientation: "import",
+    serial: "CM-19-20914",
+    multiplier: 1,
+    sensorAt: "flow",
+    defaultPressureBarAbs: 3,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "RL-EL1",
+    name: "Grid supply",
+    siteName: SITE.library,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    serial: "EL-12-050338",
+    multiplier: 1,
+    rolloverKwh: LIBRARY_ROLLOVER_KWH,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "BH-HX0",
+    name: "Main heat meter (energy centre)",
+    siteName: SITE.housing,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    serial: "HM-18-40100",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 5,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "BH-HXA",
+    name: "Block A, Alder Court",
+    siteName: SITE.housing,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    parentCode: "BH-HX0",
+    serial: "HM-18-40101",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 5,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "BH-HXB",
+    name: "Block B, Birch Court",
+    siteName: SITE.housing,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    parentCode: "BH-HX0",
+    serial: "HM-18-40102",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 5,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "BH-HXC",
+    name: "Block C, Cedar Court",
+    siteName: SITE.housing,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    parentCode: "BH-HX0",
+    serial: "HM-18-40103",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 5,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "DR-CW1",
+    name: "Chilled water to the room coolers",
+    siteName: SITE.dataRoom,
+    quantity: "water_heat",
+    carrier: "cooling",
+    orientation: "import",
+    serial: "CM-21-60017",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 4,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "DR-EL1",
+    name: "Grid supply",
+    siteName: SITE.dataRoom,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    serial: "EL-21-090126",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+];
+
+export interface ScenarioGap {
+  meter: string;
+  /** First missing hour (UTC); for a register, the first missing read. */
+  start: string;
+  hours: number;
+}
+
+/**
+ * Hours the gateways never sent: several short outages (2–5 h, a gateway
+ * reboot or a network fault) and one of three days (a failed gateway
+ * modem at the school during a cold spell, awaiting a site visit).
+ */
+export const SCENARIO_GAPS: readonly ScenarioGap[] = [
+  { meter: "CH-HX1", start: "2025-01-14T09:00:00Z", hours: 3 },
+  { meter: "LP-HX1", start: "2025-03-03T02:00:00Z", hours: 5 },
+  { meter: "DL-ST1", start: "2025-06-10T13:00:00Z", hours: 2 },
+  { meter: "RL-CW1", start: "2025-07-22T11:00:00Z", hours: 4 },
+  { meter: "BH-HXB", start: "2025-11-05T17:00:00Z", hours: 3 },
+  { meter: "DR-EL1", start: "2026-02-18T06:00:00Z", hours: 4 },
+  { meter: "NP-HX1", start: "2026-01-19T08:00:00Z", hours: 72 },
+];
+
+export function meterByCode(code: string): ScenarioMeter {
+  const m = METERS.find((x) => x.code === code);
+  if (m === undefined) throw new RangeError(`no scenario meter ${code}`);
+  return m;
+}
+
+export function siteByName(name: string): ScenarioSite {
+  const s = SITES.find((x) => x.name === name);
+  if (s === undefined) throw new RangeError(`no scenario site ${name}`);
+  return s;
+}
