@@ -67,6 +67,8 @@ export default async function setup(project: TestProject) {
     HOST: "127.0.0.1",
     RESEND_BASE_URL: resendUrl,
     RESEND_API_KEY: "re_test_key",
+    // Low enough for a test to reach in a second or two.
+    GATEWAY_RATE_LIMIT_PER_MINUTE: "120",
   };
   // A server spawned from vitest must not think it runs under vitest.
   delete childEnv.VITEST;
