@@ -3,9 +3,11 @@
 // can print its own side-by-side table.
 
 import { benchPhysics } from "./physics.bench";
+import { benchReadings } from "./readings.bench";
 
 const BENCHES: Record<string, () => Promise<void>> = {
   physics: benchPhysics,
+  readings: benchReadings,
 };
 
 const asked = process.argv.slice(2);

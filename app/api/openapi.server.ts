@@ -69,6 +69,112 @@ export function openApiDocument() {
           },
         },
       },
+      "/readings": {
+        post: {
+          summary: "A gateway's batch of readings",
+          description:
+            "Up to 5,000 readings or 5 MB. Idempotent on (meter, reading time): the same reading again is a repeat; a different one at the same key is a conflict, kept for review and not applied. A key only reaches its own organisation's meters. Acknowledged only after the batch is committed.",
+          security: [{ gatewayKey: [] }],
+          requestBody: {
+            required: true,
+            content: {
+              "application/json": {
+                schema: { $ref: "#/components/schemas/ReadingBatch" },
+              },
+            },
+          },
+          responses: {
+            "200": {
+              description:
+                "What was stored, repeated, rejected (with index and reason) and in conflict",
+              content: {
+                "application/json": {
+                  schema: { $ref: "#/components/schemas/IngestAnswer" },
+                },
+              },
+            },
+            "400": errorResponse("Not JSON, or not `{ readings: [...] }`"),
+            "401": errorResponse(
+              "No gateway key, or an unknown or revoked one",
+            ),
+            "413": errorResponse("More than 5,000 readings or 5 MB"),
+            "429": errorResponse("This gateway's rate limit; see Retry-After"),
+          },
+        },
+      },
+      "/orgs/{orgId}/readings": {
+        post: {
+          summary:
+            "Upload readings as a signed-in energy manager (the CSV page sends these)",
+          security: [{ session: [] }],
+          parameters: [
+            {
+              name: "orgId",
+              in: "path",
+              required: true,
+              schema: { type: "string", format: "uuid" },
+            },
+          ],
+          requestBody: {
+            required: true,
+            content: {
+              "application/json": {
+                schema: { $ref: "#/components/schemas/ReadingBatch" },
+              },
+            },
+          },
+          responses: {
+            "200": {
+              description: "As for /readings",
+              content: {
+                "application/json": {
+                  schema: { $ref: "#/components/schemas/IngestAnswer" },
+                },
+              },
+            },
+            "403": errorResponse("The role may not edit readings"),
+            "404": errorResponse("Not a member of this organisation"),
+          },
+        },
+      },
+      "/orgs/{orgId}/meters/{meterId}/intervals": {
+        get: {
+          summary: "A meter's hourly intervals (signed kWh, quality, flags)",
+          security: [{ session: [] }],
+          parameters: [
+            {
+              name: "orgId",
+              in: "path",
+              required: true,
+              schema: { type: "string", format: "uuid" },
+            },
+            {
+              name: "meterId",
+              in: "path",
+              required: true,
+              schema: { type: "string", format: "uuid" },
+            },
+            {
+              name: "from",
+              in: "query",
+              schema: { type: "string", format: "date-time" },
+            },
+            {
+              name: "to",
+              in: "query",
+              schema: { type: "string", format: "date-time" },
+              description:
+                "At most 93 days after from; default: the newest week",
+            },
+          ],
+          responses: {
+            "200": { description: "The meter and its intervals, oldest first" },
+            "404": errorResponse(
+              "No such meter in an organisation you belong to",
+            ),
+          },
+        },
+      },
       "/energy/evaluate": {
         post: {
           summary: "Turn measured quantities into energy (nothing is stored)",
@@ -119,6 +225,73 @@ export function openApiDocument() {
             status: { enum: ["ok", "degraded"] },
             database: { enum: ["reachable", "unreachable"] },
             time: { type: "string", format: "date-time" },
+          },
+        },
+        ReadingBatch: {
+          type: "object",
+          required: ["readings"],
+          additionalProperties: false,
+          properties: {
+            readings: {
+              type: "array",
+              minItems: 1,
+              maxItems: 5000,
+              items: {
+                type: "object",
+                required: ["meter", "quantity"],
+                description:
+                  "An evaluate item (see EvaluateItem) plus `meter`; interval quantities need `start` and `end`. Registers: `{ meter, quantity: electric_register | heat_register, time, register_kwh }`.",
+                properties: {
+                  meter: { type: "string", maxLength: 64 },
+                  quantity: {
+                    enum: [
+                      "water_heat",
+                      "steam_heat",
+                      "sensible_heat",
+                      "electric_work",
+                      "electric_register",
+                      "heat_register",
+                    ],
+                  },
+                  start: { type: "string", format: "date-time" },
+                  end: { type: "string", format: "date-time" },
+                  time: { type: "string", format: "date-time" },
+                  register_kwh: { type: "number", minimum: 0 },
+                },
+              },
+            },
+          },
+        },
+        IngestAnswer: {
+          type: "object",
+          required: [
+            "batch_id",
+            "accepted",
+            "repeats",
+            "rejected",
+            "conflicts",
+          ],
+          properties: {
+            batch_id: { type: "string", format: "uuid" },
+            accepted: { type: "integer" },
+            repeats: { type: "integer" },
+            rejected: {
+              type: "array",
+              items: { $ref: "#/components/schemas/ItemProblem" },
+            },
+            conflicts: {
+              type: "array",
+              items: { $ref: "#/components/schemas/ItemProblem" },
+            },
+          },
+        },
+        ItemProblem: {
+          type: "object",
+          required: ["index", "reason"],
+          properties: {
+            index: { type: "integer" },
+            meter: { type: "string" },
+            reason: { type: "string" },
           },
         },
         ...evaluateOpenApi.components.schemas,

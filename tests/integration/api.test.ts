@@ -43,7 +43,12 @@ describe("GET /api/v1/openapi.json", () => {
     };
     expect(doc.openapi).toBe("3.1.0");
     expect(Object.keys(doc.paths)).toEqual(
-      expect.arrayContaining(["/health", "/energy/evaluate"]),
+      expect.arrayContaining([
+        "/health",
+        "/energy/evaluate",
+        "/readings",
+        "/orgs/{orgId}/meters/{meterId}/intervals",
+      ]),
     );
     expect(doc.components.schemas).toHaveProperty("EvaluateRequest");
     expect(doc.components.schemas).toHaveProperty("WaterHeatItem");
