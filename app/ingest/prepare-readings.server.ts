@@ -129,7 +129,14 @@ export function prepareReadings(
   const rejected: Rejection[] = [];
   raws.forEach((raw, index) => {
     const parsed = parseReading(raw, now);
-    if (!parsed.ok) return void rejected.push({ index, reason: parsed.error });
+    if (!parsed.ok) {
+      const code = (raw as { meter?: unknown } | null)?.meter;
+      return void rejected.push({
+        index,
+        reason: parsed.error,
+        ...(typeof code === "string" ? { meter: code } : {}),
+      });
+    }
     const meter = metersByCode.get(parsed.reading.meter);
     if (!meter) {
       return void rejected.push({
