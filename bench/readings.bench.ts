@@ -626,7 +626,12 @@ export async function benchReadings(): Promise<void> {
         `(${ratio >= 0.5 ? "met" : "not met"})`,
     );
   } finally {
-    if (server) await stopServer(server);
+    if (server) {
+      // After-ingest estimation runs for a moment after the last answer; the
+      // server's SIGTERM path does not wait for it.
+      await sleep(2_000);
+      await stopServer(server);
+    }
     if (fixture) {
       // Cascades to its site, meters, gateway, readings and intervals.
       await pool.query("delete from organizations where id = $1", [
