@@ -9,6 +9,7 @@ import express from "express";
 import { RouterContextProvider } from "react-router";
 import { apiRouter } from "./api/router.server";
 import { pool } from "./db/client.server";
+import { estimationIdle } from "./ingest/after-ingest.server";
 import { requestInfoContext } from "./request-context";
 
 export const app = express();
@@ -26,6 +27,8 @@ app.use(
   }),
 );
 
+/** Finishes estimation already queued, then closes the pool. */
 export async function closeResources(): Promise<void> {
+  await estimationIdle();
   await pool.end();
 }

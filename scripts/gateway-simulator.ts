@@ -105,9 +105,11 @@ let round = 0;
 let end = new Date(Math.floor(Date.now() / FIVE_MIN) * FIVE_MIN);
 await post(end);
 const timer = setInterval(() => {
-  end = new Date(end.getTime() + FIVE_MIN);
-  // Never ahead of the clock: the server refuses readings from the future.
-  if (end.getTime() > Date.now())
-    end = new Date(Math.floor(Date.now() / FIVE_MIN) * FIVE_MIN);
+  round += 1;
+  if (rounds > 0 && round >= rounds) clearInterval(timer);
+  // Never ahead of the clock: an interval is posted once it has ended.
+  const next = new Date(end.getTime() + FIVE_MIN);
+  if (next.getTime() > Date.now()) return;
+  end = next;
   void post(end);
 }, everyMs);

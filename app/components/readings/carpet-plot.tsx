@@ -1,11 +1,5 @@
-import {
-  ResponsiveContainer,
-  Scatter,
-  ScatterChart,
-  Tooltip,
-  XAxis,
-  YAxis,
-} from "recharts";
+import { useEffect, useRef, useState } from "react";
+import { Scatter, ScatterChart, Tooltip, XAxis, YAxis } from "recharts";
 import type { Interval } from "./use-intervals";
 
 interface Cell {
@@ -57,6 +51,25 @@ function colour(value: number, max: number): string {
   return `rgb(${mix.join(",")})`;
 }
 
+const MARGIN = { top: 8, right: 16, bottom: 24, left: 8 };
+const Y_AXIS_WIDTH = 56;
+
+/** The container's width, so each hour's cell fills its column exactly. */
+function useWidth() {
+  const ref = useRef<HTMLDivElement>(null);
+  const [width, setWidth] = useState(0);
+  useEffect(() => {
+    const element = ref.current;
+    if (!element) return;
+    const observer = new ResizeObserver(([entry]) =>
+      setWidth(entry.contentRect.width),
+    );
+    observer.observe(element);
+    return () => observer.disconnect();
+  }, []);
+  return { ref, width };
+}
+
 /** Day × hour heat map: each row a local day, each column an hour. */
 export function CarpetPlot({
   intervals,
@@ -65,18 +78,15 @@ export function CarpetPlot({
   intervals: Interval[];
   timeZone: string;
 }) {
+  const { ref, width } = useWidth();
   const { cells, days } = cellsOf(intervals, timeZone);
   const max = Math.max(0, ...cells.map((c) => Math.abs(c.value)));
   const rowHeight = Math.max(6, Math.min(18, 480 / Math.max(1, days.length)));
-  const height = days.length * rowHeight + 60;
-  const shape = (props: {
-    cx?: number;
-    cy?: number;
-    payload?: Cell;
-    xAxis?: { width: number };
-  }) => {
+  const height = days.length * rowHeight + MARGIN.top + MARGIN.bottom + 30;
+  const plotWidth = width - MARGIN.left - MARGIN.right - Y_AXIS_WIDTH;
+  const shape = (props: { cx?: number; cy?: number; payload?: Cell }) => {
     const { cx = 0, cy = 0, payload } = props;
-    const w = (props.xAxis?.width ?? 600) / 24;
+    const w = Math.max(1, plotWidth / 24);
     return (
       <rect
         x={cx - w / 2}
@@ -91,12 +101,13 @@ export function CarpetPlot({
   };
   return (
     <div
+      ref={ref}
       style={{ width: "100%", height }}
       role="img"
       aria-label={`Carpet plot of ${days.length} days by 24 hours`}
     >
-      <ResponsiveContainer>
-        <ScatterChart margin={{ top: 8, right: 16, bottom: 16, left: 8 }}>
+      {width > 0 ? (
+        <ScatterChart width={width} height={height} margin={MARGIN}>
           <XAxis
             dataKey="hour"
             type="number"
@@ -118,7 +129,7 @@ export function CarpetPlot({
             tickFormatter={(d) => days[d]?.slice(5) ?? ""}
             interval="preserveStartEnd"
             stroke="#4f5966"
-            width={56}
+            width={Y_AXIS_WIDTH}
             allowDecimals={false}
           />
           <Tooltip
@@ -138,7 +149,7 @@ export function CarpetPlot({
           />
           <Scatter data={cells} shape={shape} isAnimationActive={false} />
         </ScatterChart>
-      </ResponsiveContainer>
+      ) : null}
     </div>
   );
 }

@@ -27,6 +27,7 @@ export function LoadProfile({
     dateStyle: "medium",
     timeStyle: "short",
   });
+  const ticks = midnightTicks(intervals, timeZone);
   const data = intervals.map((i) => {
     const v = Number(i.energy_kwh);
     return {
@@ -51,6 +52,7 @@ export function LoadProfile({
             dataKey="t"
             type="number"
             scale="time"
+            ticks={ticks}
             domain={["dataMin", "dataMax"]}
             tickFormatter={(t) => tick.format(new Date(t))}
             stroke="#4f5966"
@@ -94,4 +96,19 @@ export function LoadProfile({
       </ResponsiveContainer>
     </div>
   );
+}
+
+/** Local midnights, thinned to about ten, so each tick names one day. */
+function midnightTicks(intervals: Interval[], timeZone: string): number[] {
+  const hour = new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    hour: "2-digit",
+    hourCycle: "h23",
+  });
+  const midnights = intervals
+    .map((i) => new Date(i.hour_start))
+    .filter((d) => hour.format(d) === "00")
+    .map((d) => d.getTime());
+  const step = Math.max(1, Math.ceil(midnights.length / 10));
+  return midnights.filter((_, i) => i % step === 0);
 }
