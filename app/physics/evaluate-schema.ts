@@ -35,13 +35,29 @@ function describeInput(input: unknown): string {
 function num(description: string) {
   return z
     .number({
-      // Only the type check gets this wording; range checks keep theirs.
-      error: (issue) =>
-        issue.code !== "invalid_type"
-          ? undefined
-          : issue.input === undefined
-            ? "is required"
-            : `expected a finite number, got ${describeInput(issue.input)}`,
+      // Every message names what arrived, so a gateway's log shows the value.
+      // The parameter is typed for the type check only, but zod passes the
+      // number's range issues through the same function.
+      error: (typed) => {
+        const issue = typed as unknown as {
+          code: string;
+          input: unknown;
+          minimum?: unknown;
+          maximum?: unknown;
+          inclusive?: boolean;
+        };
+        const got = describeInput(issue.input);
+        if (issue.code === "too_small") {
+          return `must be ${issue.inclusive ? "at least" : "greater than"} ${String(issue.minimum)}, got ${got}`;
+        }
+        if (issue.code === "too_big") {
+          return `must be ${issue.inclusive ? "at most" : "less than"} ${String(issue.maximum)}, got ${got}`;
+        }
+        if (issue.code !== "invalid_type") return undefined;
+        return issue.input === undefined
+          ? "is required"
+          : `expected a finite number, got ${got}`;
+      },
     })
     .describe(description);
 }
