@@ -24,11 +24,21 @@ npm run --silent lint
 log "Build (the integration and browser tests run the production server)"
 npm run --silent build >"$DATA_DIR/build-test.log" 2>&1 || { cat "$DATA_DIR/build-test.log"; die "build failed"; }
 
-log "Unit tests"
-npx vitest run --project unit
-log "Integration tests"
-npx vitest run --project integration
-log "Browser tests"
-npx vitest run --project browser
+results="$DATA_DIR/test-results"
+rm -rf "$results" && mkdir -p "$results"
+for suite in unit integration browser; do
+  log "${suite^} tests"
+  npx vitest run --project "$suite" --reporter=default --reporter=json --outputFile.json="$results/$suite.json"
+done
 
 log "All tests passed in $((SECONDS - started)) s"
+# One closing line with the counts of every suite, for people and CI alike.
+node -e '
+  const fs = require("fs");
+  let passed = 0, failed = 0, skipped = 0;
+  for (const f of fs.readdirSync(process.argv[1])) {
+    const r = JSON.parse(fs.readFileSync(process.argv[1] + "/" + f, "utf8"));
+    passed += r.numPassedTests; failed += r.numFailedTests; skipped += r.numPendingTests + r.numTodoTests;
+  }
+  console.log(`Tests: ${passed} passed, ${failed} failed, ${skipped} skipped`);
+' "$results"
