@@ -167,17 +167,21 @@ interface Gibbs {
   gPT: number;
 }
 
+// Each term's derivatives are the term itself times i/a, j/b and their
+// products, so only two powers are taken per term (a and b never vanish in
+// the region's validity: a = 7.1 − π ≥ 1.05, b = τ − 1.222 ≥ 1.0).
 function region1Gibbs(pi: number, tau: number): Gibbs {
   const a = 7.1 - pi;
   const b = tau - 1.222;
   const r: Gibbs = { g: 0, gP: 0, gPP: 0, gT: 0, gTT: 0, gPT: 0 };
   for (const [i, j, n] of REGION1) {
-    r.g += n * a ** i * b ** j;
-    r.gP += -n * i * a ** (i - 1) * b ** j;
-    r.gPP += n * i * (i - 1) * a ** (i - 2) * b ** j;
-    r.gT += n * a ** i * j * b ** (j - 1);
-    r.gTT += n * a ** i * j * (j - 1) * b ** (j - 2);
-    r.gPT += -n * i * a ** (i - 1) * j * b ** (j - 1);
+    const t = n * a ** i * b ** j;
+    r.g += t;
+    r.gP -= (i * t) / a;
+    r.gPP += (i * (i - 1) * t) / (a * a);
+    r.gT += (j * t) / b;
+    r.gTT += (j * (j - 1) * t) / (b * b);
+    r.gPT -= (i * j * t) / (a * b);
   }
   return r;
 }
@@ -200,16 +204,18 @@ function region2IdealGibbs(pi: number, tau: number): Gibbs {
   return r;
 }
 
+// As for region 1: π > 0 and b = τ − 0.5 > 0 throughout region 2.
 function region2ResidualGibbs(pi: number, tau: number): Gibbs {
   const b = tau - 0.5;
   const r: Gibbs = { g: 0, gP: 0, gPP: 0, gT: 0, gTT: 0, gPT: 0 };
   for (const [i, j, n] of REGION2_RESIDUAL) {
-    r.g += n * pi ** i * b ** j;
-    r.gP += n * i * pi ** (i - 1) * b ** j;
-    r.gPP += n * i * (i - 1) * pi ** (i - 2) * b ** j;
-    r.gT += n * pi ** i * j * b ** (j - 1);
-    r.gTT += n * pi ** i * j * (j - 1) * b ** (j - 2);
-    r.gPT += n * i * pi ** (i - 1) * j * b ** (j - 1);
+    const t = n * pi ** i * b ** j;
+    r.g += t;
+    r.gP += (i * t) / pi;
+    r.gPP += (i * (i - 1) * t) / (pi * pi);
+    r.gT += (j * t) / b;
+    r.gTT += (j * (j - 1) * t) / (b * b);
+    r.gPT += (i * j * t) / (pi * b);
   }
   return r;
 }
