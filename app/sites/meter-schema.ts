@@ -1,13 +1,8 @@
 import { z } from "zod";
+import { QUANTITIES } from "~/physics/evaluate-schema";
 
-export const quantities = [
-  "water_heat",
-  "steam_heat",
-  "sensible_heat",
-  "electric_work",
-  "electric_register",
-  "heat_register",
-] as const;
+/** What a meter can measure: the quantities the physics core evaluates. */
+export const quantities = QUANTITIES;
 export const carriers = ["heat", "cooling", "steam", "electricity"] as const;
 
 export const quantityLabels: Record<(typeof quantities)[number], string> = {
