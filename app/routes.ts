@@ -24,6 +24,7 @@ export default [
       route("meters/:meterId", "routes/meter.tsx"),
       route("meters/:meterId/readings", "routes/meter-readings.tsx"),
       route("readings", "routes/readings.tsx"),
+      route("ledger", "routes/ledger.tsx"),
       route("gateways", "routes/gateways.tsx"),
     ]),
   ]),

@@ -1,6 +1,7 @@
 import express, { Router } from "express";
 import { evaluateEnergy, EVALUATE_BODY_LIMIT } from "./evaluate.server";
 import { health } from "./health.server";
+import { getLedger, getLedgerCsv, getLedgerXlsx } from "./ledger.server";
 import { getIntervals } from "./intervals.server";
 import { requireOrgMember } from "./org-member.server";
 import { uploadReadings } from "./upload-readings.server";
@@ -32,6 +33,17 @@ export function apiRouter(): Router {
     gatewayRateLimit(),
     express.json({ limit: READINGS_BODY_LIMIT, strict: true }),
     postReadings,
+  );
+  router.get("/orgs/:orgId/ledger", requireOrgMember("ledger.view"), getLedger);
+  router.get(
+    "/orgs/:orgId/ledger.csv",
+    requireOrgMember("ledger.view"),
+    getLedgerCsv,
+  );
+  router.get(
+    "/orgs/:orgId/ledger.xlsx",
+    requireOrgMember("ledger.view"),
+    getLedgerXlsx,
   );
   router.get(
     "/orgs/:orgId/meters/:meterId/intervals",

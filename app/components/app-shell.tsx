@@ -30,6 +30,7 @@ const areas: Area[] = [
     end: true,
   },
   { label: "Sites", path: "/sites", permission: "organization.view" },
+  { label: "Ledger", path: "/ledger", permission: "ledger.view" },
   { label: "Readings", path: "/readings", permission: "readings.view" },
   { label: "Gateways", path: "/gateways", permission: "gateways.manage" },
   { label: "Members", path: "/members", permission: "members.view" },

@@ -2,6 +2,7 @@ import { sql } from "drizzle-orm";
 import {
   bigserial,
   boolean,
+  date,
   foreignKey,
   index,
   integer,
@@ -403,3 +404,88 @@ export const intervals = pgTable(
 export type Quantity = (typeof quantityEnum.enumValues)[number];
 export type Carrier = (typeof carrierEnum.enumValues)[number];
 export type IntervalQuality = (typeof intervalQualityEnum.enumValues)[number];
+
+// ---------------------------------------------------------------------------
+// The monthly ledger: rollups kept up to date as intervals change, month
+// closes, and the adjusting entries recorded when a closed month changes.
+// ---------------------------------------------------------------------------
+
+/** One meter's signed energy in one month of its site's local calendar. */
+export const monthlyRollups = pgTable(
+  "monthly_rollups",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    /** The first day of the site-local month. */
+    month: date("month", { mode: "string" }).notNull(),
+    energyKwh: numeric("energy_kwh", { precision: 24, scale: 6 }).notNull(),
+    estimatedKwh: numeric("estimated_kwh", {
+      precision: 24,
+      scale: 6,
+    }).notNull(),
+    hours: integer("hours").notNull(),
+    estimatedHours: integer("estimated_hours").notNull(),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.organizationId, t.meterId, t.month] })],
+);
+
+/** A closed month, for one site or (site_id null) the whole organisation. */
+export const monthCloses = pgTable(
+  "month_closes",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    siteId: uuid("site_id"),
+    month: date("month", { mode: "string" }).notNull(),
+    closedByUserId: text("closed_by_user_id").references(() => users.id, {
+      onDelete: "set null",
+    }),
+    closedAt: timestamp("closed_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+    reopenedAt: timestamp("reopened_at", { withTimezone: true }),
+    reopenedByUserId: text("reopened_by_user_id").references(() => users.id, {
+      onDelete: "set null",
+    }),
+    reopenReason: text("reopen_reason"),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("month_closes_active_unique")
+      .on(
+        t.organizationId,
+        sql`coalesce(${t.siteId}, '00000000-0000-0000-0000-000000000000'::uuid)`,
+        t.month,
+      )
+      .where(sql`${t.reopenedAt} is null`),
+  ],
+);
+
+/** A change to a closed month: never a silent edit. */
+export const ledgerAdjustments = pgTable(
+  "ledger_adjustments",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: bigserial("id", { mode: "number" }).notNull(),
+    meterId: uuid("meter_id").notNull(),
+    month: date("month", { mode: "string" }).notNull(),
+    deltaKwh: numeric("delta_kwh", { precision: 24, scale: 6 }).notNull(),
+    /** late_data, edit or estimate */
+    source: text("source").notNull(),
+    reason: text("reason").notNull(),
+    actorUserId: text("actor_user_id"),
+    gatewayId: uuid("gateway_id"),
+    createdAt: timestamp("created_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("ledger_adjustments_month_idx").on(t.organizationId, t.month),
+  ],
+);

@@ -1,4 +1,5 @@
 import { pool } from "~/db/client.server";
+import { refreshRollupsNow } from "~/ledger/refresh-rollups.server";
 import { estimateGaps } from "./estimate";
 import { detectNegative, detectSpikes } from "./validate";
 import type { HourlyPoint, Quality } from "./series";
@@ -129,6 +130,13 @@ export async function estimateMeter(
         estimates.map((e) => e.energyKwh.toFixed(6)),
         estimates.map((e) => e.method),
       ],
+    );
+    await refreshRollupsNow(
+      organizationId,
+      meterId,
+      estimates[0].hourStart,
+      estimates.at(-1)!.hourStart,
+      { source: "estimate", reason: "gap estimates updated" },
     );
   }
   await flagHours(

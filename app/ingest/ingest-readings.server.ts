@@ -52,6 +52,12 @@ export async function ingestReadings(
       organizationId,
       batchId,
       prepared,
+      {
+        source: "late_data",
+        reason: `readings received (${request.source})`,
+        gatewayId: request.gatewayId ?? null,
+        actorUserId: request.userId ?? null,
+      },
     );
     await client.query(
       `insert into ingest_batches (organization_id, id, source, gateway_id, user_id, accepted, repeats, rejected, conflicts)

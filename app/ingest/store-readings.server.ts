@@ -7,6 +7,10 @@
 import type { PoolClient } from "pg";
 import { splitAcrossHours, floorToHour, HOUR_MS } from "./hours";
 import { registerDeltas } from "./register-series";
+import {
+  refreshRollups,
+  type ChangeAttribution,
+} from "~/ledger/refresh-rollups.server";
 import type { PreparedReading, Rejection } from "./prepare-readings.server";
 
 export interface StoreOutcome {
@@ -189,7 +193,7 @@ async function recomputeRegisterSpan(
   client: PoolClient,
   organizationId: string,
   span: RegisterMeterSpan,
-) {
+): Promise<{ from: Date; to: Date }> {
   const lo = new Date(Math.min(...span.times.map((t) => t.getTime())));
   const hi = new Date(Math.max(...span.times.map((t) => t.getTime())));
   const { rows: bounds } = await client.query<{
@@ -236,6 +240,7 @@ async function recomputeRegisterSpan(
     from,
     to,
   );
+  return { from, to };
 }
 
 async function replaceRegisterHours(
@@ -351,11 +356,25 @@ async function lockRegisterMeters(
   }
 }
 
+function widen(
+  touched: Map<string, { from: Date; to: Date }>,
+  meterId: string,
+  from: Date,
+  to: Date,
+) {
+  const t = touched.get(meterId);
+  touched.set(meterId, {
+    from: t && t.from < from ? t.from : from,
+    to: t && t.to > to ? t.to : to,
+  });
+}
+
 export async function storeReadings(
   client: PoolClient,
   organizationId: string,
   batchId: string,
   readings: PreparedReading[],
+  change: ChangeAttribution,
 ): Promise<StoreOutcome> {
   const touched = new Map<string, { from: Date; to: Date }>();
   if (readings.length === 0)
@@ -388,15 +407,22 @@ export async function storeReadings(
     span.times.push(r.readingTime);
     registerSpans.set(r.meter.id, span);
   }
-  for (const span of registerSpans.values())
-    await recomputeRegisterSpan(client, organizationId, span);
-  for (const r of fresh) {
-    const t = touched.get(r.meter.id);
-    const end = r.endTime ?? r.readingTime;
-    touched.set(r.meter.id, {
-      from: t && t.from < r.readingTime ? t.from : r.readingTime,
-      to: t && t.to > end ? t.to : end,
-    });
+  for (const span of registerSpans.values()) {
+    const range = await recomputeRegisterSpan(client, organizationId, span);
+    widen(touched, span.meter.id, range.from, range.to);
+  }
+  for (const r of fresh)
+    widen(touched, r.meter.id, r.readingTime, r.endTime ?? r.readingTime);
+  // The ledger's monthly rollups move in the same transaction as the hours.
+  for (const [meterId, range] of touched) {
+    await refreshRollups(
+      client,
+      organizationId,
+      meterId,
+      range.from,
+      range.to,
+      change,
+    );
   }
   return {
     accepted: fresh.length,

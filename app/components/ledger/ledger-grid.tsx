@@ -1,0 +1,327 @@
+import {
+  CellStyleModule,
+  ClientSideRowModelModule,
+  ModuleRegistry,
+  PinnedRowModule,
+  RowStyleModule,
+  themeQuartz,
+  type ColDef,
+  type ICellRendererParams,
+  type RowClassParams,
+  type RowStyle,
+  type ValueGetterParams,
+} from "ag-grid-community";
+import { AgGridReact } from "ag-grid-react";
+import { useMemo } from "react";
+import { Badge } from "~/components/ui";
+import { convertEnergy, type EnergyUnit } from "~/physics/units";
+import { carrierLabels, carriers } from "~/sites/meter-schema";
+import type { Ledger, LedgerRow } from "./use-ledger";
+
+// Only the modules this grid uses. Row grouping is not among the community
+// modules, so the grouping is drawn: rows come sorted by site, month and
+// carrier, and a site or month is written only where it starts.
+ModuleRegistry.registerModules([
+  ClientSideRowModelModule,
+  CellStyleModule,
+  RowStyleModule,
+  PinnedRowModule,
+]);
+
+const theme = themeQuartz.withParams({
+  fontFamily: "inherit",
+  headerBackgroundColor: "#ece8df",
+  accentColor: "#0f5546",
+  borderColor: "#dcd6ca",
+  fontSize: 14,
+});
+
+/** The units the ledger is shown in; figures arrive in kWh. */
+export const ledgerUnits = [
+  "kWh",
+  "MWh",
+  "GJ",
+  "MMBtu",
+] as const satisfies readonly EnergyUnit[];
+export type LedgerUnit = (typeof ledgerUnits)[number];
+
+export function isLedgerUnit(value: string): value is LedgerUnit {
+  return (ledgerUnits as readonly string[]).includes(value);
+}
+
+// Decimals that keep a monthly site figure readable in each unit: about the
+// same resolution (0.1 kWh ≈ 0.0004 GJ) without a tail of noise digits.
+const decimals: Record<LedgerUnit, { total: number; perM2: number }> = {
+  kWh: { total: 1, perM2: 2 },
+  MWh: { total: 3, perM2: 5 },
+  GJ: { total: 2, perM2: 4 },
+  MMBtu: { total: 2, perM2: 4 },
+};
+
+interface GridRow extends Omit<LedgerRow, "carrier" | "status"> {
+  id: string;
+  carrier: LedgerRow["carrier"] | null;
+  status: LedgerRow["status"] | null;
+  firstOfSite: boolean;
+  firstOfMonth: boolean;
+  isTotal: boolean;
+}
+
+const MINUS = "\u2212";
+
+/** A formatted magnitude with a real minus sign, and no sign on a zero. */
+function signed(value: number, format: Intl.NumberFormat, plus = false) {
+  const text = format.format(Math.abs(value));
+  if (!/[1-9]/.test(text)) return text;
+  return `${value < 0 ? MINUS : plus ? "+" : ""}${text}`;
+}
+
+const monthFormat = new Intl.DateTimeFormat("en-GB", {
+  month: "short",
+  year: "numeric",
+  timeZone: "UTC",
+});
+
+function monthLabel(month: string): string {
+  const [y, m] = month.split("-").map(Number);
+  if (!y || !m) return month;
+  return monthFormat.format(new Date(Date.UTC(y, m - 1, 1)));
+}
+
+const carrierOrder = (carrier: LedgerRow["carrier"]) =>
+  (carriers as readonly string[]).indexOf(carrier);
+
+function sortRows(rows: LedgerRow[]): GridRow[] {
+  const sorted = [...rows].sort(
+    (a, b) =>
+      a.site_name.localeCompare(b.site_name, "en-GB") ||
+      a.site_id.localeCompare(b.site_id) ||
+      a.month.localeCompare(b.month) ||
+      carrierOrder(a.carrier) - carrierOrder(b.carrier),
+  );
+  return sorted.map((row, i) => {
+    const previous = sorted[i - 1];
+    const firstOfSite = !previous || previous.site_id !== row.site_id;
+    return {
+      ...row,
+      id: `${row.site_id}|${row.month}|${row.carrier}`,
+      firstOfSite,
+      firstOfMonth: firstOfSite || previous.month !== row.month,
+      isTotal: false,
+    };
+  });
+}
+
+const abs = (value: string | null) => Math.abs(Number(value ?? 0)) || 0;
+
+/**
+ * The totals row. Imports, exports and net come from the server; the rest is
+ * summed here. The estimated share is, as in each entry, estimated energy over
+ * the energy metered in and out; uncertainty bands are added, a bound that
+ * holds even when the meters' errors are correlated; per m², the estate's
+ * total is divided by the floor area of every site listed, or not at all when
+ * one of them has none.
+ */
+function totalRow(ledger: Ledger): GridRow {
+  const { rows } = ledger;
+  const metered = rows.reduce(
+    (s, r) => s + abs(r.imports_kwh) + abs(r.exports_kwh),
+    0,
+  );
+  const estimated = rows.reduce((s, r) => s + abs(r.estimated_kwh), 0);
+  const bands = rows.filter((r) => r.uncertainty_kwh !== null);
+  const areas = new Map(rows.map((r) => [r.site_id, r.floor_area_m2]));
+  const floorArea = [...areas.values()].every((a) => a !== null && +a > 0)
+    ? [...areas.values()].reduce((s, a) => s + Number(a), 0)
+    : null;
+  return {
+    id: "total",
+    site_id: "",
+    site_name: "Total",
+    floor_area_m2: floorArea === null ? null : String(floorArea),
+    month: "",
+    carrier: null,
+    imports_kwh: ledger.totals.imports_kwh,
+    exports_kwh: ledger.totals.exports_kwh,
+    net_kwh: ledger.totals.net_kwh,
+    estimated_kwh: String(estimated),
+    estimated_share: metered > 0 ? estimated / metered : 0,
+    uncertainty_kwh: bands.length
+      ? String(bands.reduce((s, r) => s + abs(r.uncertainty_kwh), 0))
+      : null,
+    status: null,
+    adjustments_kwh: String(
+      rows.reduce((s, r) => s + (Number(r.adjustments_kwh) || 0), 0),
+    ),
+    adjustment_count: rows.reduce((s, r) => s + r.adjustment_count, 0),
+    firstOfSite: true,
+    firstOfMonth: true,
+    isTotal: true,
+  };
+}
+
+function StatusCell({ value }: ICellRendererParams<GridRow>) {
+  if (value === "closed") return <Badge tone="spruce">Closed</Badge>;
+  if (value === "open") return <Badge>Open</Badge>;
+  return null;
+}
+
+/** A repeated site or month stays readable to screen readers only. */
+function GroupCell({
+  value,
+  valueFormatted,
+  data,
+  colDef,
+}: ICellRendererParams<GridRow>) {
+  const text = valueFormatted ?? value;
+  const first =
+    colDef?.field === "site_name" ? data?.firstOfSite : data?.firstOfMonth;
+  if (data?.isTotal) return <strong>{text}</strong>;
+  return first ? (
+    <span className="font-semibold">{text}</span>
+  ) : (
+    <span className="sr-only">{text}</span>
+  );
+}
+
+const defaultColumn: ColDef<GridRow> = { sortable: false, resizable: false };
+
+function rowStyle(p: RowClassParams<GridRow>): RowStyle | undefined {
+  if (p.node.rowPinned) return { background: "#f4f1ea", fontWeight: 600 };
+  if (p.data?.firstOfSite && p.node.rowIndex)
+    return { borderTop: "2px solid #b9b1a2" };
+  return undefined;
+}
+
+export function LedgerGrid({
+  ledger,
+  unit,
+  perM2,
+}: {
+  ledger: Ledger;
+  unit: LedgerUnit;
+  perM2: boolean;
+}) {
+  const rows = useMemo(() => sortRows(ledger.rows), [ledger]);
+  const totals = useMemo(() => [totalRow(ledger)], [ledger]);
+
+  const columns = useMemo<ColDef<GridRow>[]>(() => {
+    const places = perM2 ? decimals[unit].perM2 : decimals[unit].total;
+    const format = new Intl.NumberFormat("en-GB", {
+      minimumFractionDigits: places,
+      maximumFractionDigits: places,
+    });
+    const percent = new Intl.NumberFormat("en-GB", {
+      minimumFractionDigits: 1,
+      maximumFractionDigits: 1,
+    });
+    const unitLabel = perM2 ? `${unit}/m²` : unit;
+
+    /** A kWh string in the chosen unit, per m² if asked; null if none. */
+    const energy =
+      (pick: (row: GridRow) => string | null) =>
+      (p: ValueGetterParams<GridRow>): number | null => {
+        if (!p.data) return null;
+        const raw = pick(p.data);
+        const kwh = raw === null ? NaN : Number(raw);
+        if (!Number.isFinite(kwh)) return null;
+        const value = convertEnergy(kwh, "kWh", unit);
+        if (!perM2) return value;
+        const area = Number(p.data.floor_area_m2);
+        return p.data.floor_area_m2 !== null && area > 0 ? value / area : null;
+      };
+    const show = (value: number | null) =>
+      value === null ? "—" : signed(value, format);
+    const energyColumn = (
+      headerName: string,
+      pick: (row: GridRow) => string | null,
+    ): ColDef<GridRow> => ({
+      headerName: `${headerName} (${unitLabel})`,
+      type: "rightAligned",
+      valueGetter: energy(pick),
+      valueFormatter: (p) => show(p.value),
+      cellClass: "tabular-nums",
+      minWidth: 120,
+      flex: 1,
+    });
+
+    return [
+      {
+        headerName: "Site",
+        field: "site_name",
+        cellRenderer: GroupCell,
+        minWidth: 170,
+        flex: 2,
+      },
+      {
+        headerName: "Month",
+        field: "month",
+        valueFormatter: (p) => (p.value ? monthLabel(p.value) : ""),
+        cellRenderer: GroupCell,
+        minWidth: 100,
+        flex: 1,
+      },
+      {
+        headerName: "Carrier",
+        field: "carrier",
+        valueFormatter: (p) =>
+          p.value ? carrierLabels[p.value as LedgerRow["carrier"]] : "",
+        minWidth: 110,
+        flex: 1,
+      },
+      energyColumn("Imports", (r) => r.imports_kwh),
+      energyColumn("Exports", (r) => r.exports_kwh),
+      {
+        ...energyColumn("Net", (r) => r.net_kwh),
+        cellStyle: { fontWeight: 600 },
+      },
+      {
+        headerName: "Estimated share (%)",
+        field: "estimated_share",
+        type: "rightAligned",
+        valueFormatter: (p) =>
+          Number.isFinite(p.value) ? percent.format(100 * p.value) : "—",
+        cellStyle: (p) =>
+          p.value > 0 ? { color: "#7a4b00", fontWeight: 600 } : null,
+        cellClass: "tabular-nums",
+        minWidth: 110,
+        flex: 1,
+      },
+      {
+        ...energyColumn("± Uncertainty", (r) => r.uncertainty_kwh),
+        valueFormatter: (p) =>
+          p.value === null ? "—" : `±${format.format(Math.abs(p.value))}`,
+      },
+      {
+        ...energyColumn("Adjustments", (r) => r.adjustments_kwh),
+        valueFormatter: (p) => {
+          const count = p.data?.adjustment_count ?? 0;
+          if (!count && !p.value) return "";
+          const amount = p.value === null ? "—" : signed(p.value, format, true);
+          return `${amount} (${count})`;
+        },
+      },
+      {
+        headerName: "Status",
+        field: "status",
+        cellRenderer: StatusCell,
+        minWidth: 100,
+        flex: 1,
+      },
+    ];
+  }, [unit, perM2]);
+
+  return (
+    <div style={{ height: 560 }}>
+      <AgGridReact<GridRow>
+        theme={theme}
+        rowData={rows}
+        pinnedBottomRowData={totals}
+        columnDefs={columns}
+        defaultColDef={defaultColumn}
+        getRowId={(p) => p.data.id}
+        getRowStyle={rowStyle}
+      />
+    </div>
+  );
+}

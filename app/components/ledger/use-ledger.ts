@@ -1,0 +1,89 @@
+import { useCallback, useEffect, useRef, useState } from "react";
+
+/** One monthly entry: a site, a month and a carrier; energies in kWh, signed. */
+export interface LedgerRow {
+  site_id: string;
+  site_name: string;
+  floor_area_m2: string | null;
+  month: string;
+  carrier: "heat" | "cooling" | "steam" | "electricity";
+  imports_kwh: string;
+  exports_kwh: string;
+  net_kwh: string;
+  estimated_kwh: string;
+  estimated_share: number;
+  uncertainty_kwh: string | null;
+  status: "open" | "closed";
+  adjustments_kwh: string;
+  adjustment_count: number;
+}
+
+export interface Ledger {
+  from: string;
+  to: string;
+  rows: LedgerRow[];
+  totals: { imports_kwh: string; exports_kwh: string; net_kwh: string };
+}
+
+export interface LedgerFilters {
+  from: string;
+  to: string;
+  site: string;
+  carrier: string;
+}
+
+/**
+ * The query string shared by the JSON ledger and its CSV and XLSX exports:
+ * empty site or carrier means all of them, so they are left out.
+ */
+export function ledgerQuery(filters: LedgerFilters): string {
+  const query = new URLSearchParams({ from: filters.from, to: filters.to });
+  if (filters.site) query.set("site", filters.site);
+  if (filters.carrier) query.set("carrier", filters.carrier);
+  return query.toString();
+}
+
+/**
+ * Fetches the ledger for a query string from `ledgerQuery`, or nothing while
+ * the query is null (filters that cannot be asked for yet).
+ */
+export function useLedger(orgId: string, query: string | null) {
+  const [ledger, setLedger] = useState<Ledger | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  // Loading is derived: the query asked for differs from the one answered.
+  const [loadedKey, setLoadedKey] = useState<string | null>(null);
+  const generation = useRef(0);
+
+  const load = useCallback(async () => {
+    if (query === null) return;
+    const mine = ++generation.current;
+    try {
+      const response = await fetch(`/api/v1/orgs/${orgId}/ledger?${query}`);
+      const body = await response.json().catch(() => null);
+      if (mine !== generation.current) return;
+      if (!response.ok)
+        throw new Error(
+          body?.error?.message ?? `The server answered ${response.status}.`,
+        );
+      setLedger(body as Ledger);
+      setError(null);
+    } catch (e) {
+      if (mine === generation.current) setError((e as Error).message);
+    } finally {
+      if (mine === generation.current) setLoadedKey(query);
+    }
+  }, [orgId, query]);
+
+  useEffect(() => {
+    const first = setTimeout(() => void load(), 0);
+    return () => clearTimeout(first);
+  }, [load]);
+
+  return {
+    // A null query shows nothing rather than the previous answer.
+    ledger: query === null ? null : ledger,
+    error: query === null ? null : error,
+    loading: query !== null && loadedKey !== query,
+    reload: load,
+  };
+}

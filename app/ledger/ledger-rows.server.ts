@@ -1,0 +1,103 @@
+import { pool } from "~/db/client.server";
+
+export interface LedgerQuery {
+  organizationId: string;
+  /** First and last month, YYYY-MM, inclusive. */
+  from: string;
+  to: string;
+  siteId?: string | null;
+  carrier?: string | null;
+}
+
+export interface LedgerRow {
+  site_id: string;
+  site_name: string;
+  floor_area_m2: string | null;
+  month: string;
+  carrier: string;
+  imports_kwh: string;
+  exports_kwh: string;
+  net_kwh: string;
+  estimated_kwh: string;
+  estimated_share: number;
+  uncertainty_kwh: string | null;
+  status: "open" | "closed";
+  adjustments_kwh: string;
+  adjustment_count: number;
+}
+
+export interface Ledger {
+  from: string;
+  to: string;
+  rows: LedgerRow[];
+  totals: { imports_kwh: string; exports_kwh: string; net_kwh: string };
+}
+
+/**
+ * Sites × months × carriers from the monthly rollups (never from intervals).
+ * Sub-meters are inside the boundary, so only boundary meters are summed. A
+ * closed month shows the figures as closed; what changed since is shown
+ * beside them as adjusting entries. All sums are PostgreSQL numeric.
+ */
+export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
+  const { rows } = await pool.query<{ ledger: Ledger }>(
+    `with base as (
+       select s.id as site_id, s.name as site_name, s.floor_area_m2, r.month, m.carrier, m.orientation,
+              r.meter_id, r.energy_kwh, r.estimated_kwh,
+              (select min(c.closed_at) from month_closes c
+                where c.organization_id = $1 and c.month = r.month and c.reopened_at is null
+                  and (c.site_id is null or c.site_id = s.id)) as closed_at
+         from monthly_rollups r
+         join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
+         join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+        where r.organization_id = $1
+          and r.month between to_date($2, 'YYYY-MM') and to_date($3, 'YYYY-MM')
+          and m.parent_meter_id is null
+          and ($4::uuid is null or s.id = $4::uuid)
+          and ($5::text is null or m.carrier::text = $5)
+     ), adj as (
+       select b.meter_id, b.month, sum(a.delta_kwh) as delta, count(*) as n
+         from base b
+         join ledger_adjustments a
+           on a.organization_id = $1 and a.meter_id = b.meter_id and a.month = b.month
+          and b.closed_at is not null and a.created_at >= b.closed_at
+        group by b.meter_id, b.month
+     ), ledger as (
+       select b.site_id, b.site_name, b.floor_area_m2, b.month, b.carrier,
+              coalesce(sum(b.energy_kwh - coalesce(a.delta, 0)) filter (where b.orientation = 'import'), 0) as imports_kwh,
+              coalesce(sum(b.energy_kwh - coalesce(a.delta, 0)) filter (where b.orientation = 'export'), 0) as exports_kwh,
+              sum(b.energy_kwh - coalesce(a.delta, 0)) as net_kwh,
+              sum(b.estimated_kwh) as estimated_kwh,
+              coalesce(sum(abs(b.estimated_kwh)) / nullif(sum(abs(b.energy_kwh)), 0), 0) as estimated_share,
+              bool_or(b.closed_at is not null) as closed,
+              coalesce(sum(a.delta), 0) as adjustments_kwh,
+              coalesce(sum(a.n), 0) as adjustment_count
+         from base b left join adj a on a.meter_id = b.meter_id and a.month = b.month
+        group by b.site_id, b.site_name, b.floor_area_m2, b.month, b.carrier
+     )
+     select json_build_object(
+       'from', $2::text, 'to', $3::text,
+       'rows', coalesce(json_agg(json_build_object(
+           'site_id', site_id, 'site_name', site_name, 'floor_area_m2', floor_area_m2::text,
+           'month', to_char(month, 'YYYY-MM'), 'carrier', carrier,
+           'imports_kwh', imports_kwh::text, 'exports_kwh', exports_kwh::text, 'net_kwh', net_kwh::text,
+           'estimated_kwh', estimated_kwh::text, 'estimated_share', estimated_share::float8,
+           'uncertainty_kwh', null,
+           'status', case when closed then 'closed' else 'open' end,
+           'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int)
+         order by site_name, month, carrier), '[]'::json),
+       'totals', json_build_object(
+         'imports_kwh', coalesce(sum(imports_kwh), 0)::text,
+         'exports_kwh', coalesce(sum(exports_kwh), 0)::text,
+         'net_kwh', coalesce(sum(net_kwh), 0)::text)) as ledger
+       from ledger`,
+    [
+      query.organizationId,
+      query.from,
+      query.to,
+      query.siteId ?? null,
+      query.carrier ?? null,
+    ],
+  );
+  return rows[0].ledger;
+}
