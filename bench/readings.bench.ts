@@ -95,7 +95,10 @@ async function adminClient(): Promise<pg.Client> {
   }
 }
 
-async function benchDatabaseUrl(): Promise<{ url: string; origin: string }> {
+export async function benchDatabaseUrl(): Promise<{
+  url: string;
+  origin: string;
+}> {
   if (process.env.DATABASE_URL) {
     return { url: process.env.DATABASE_URL, origin: "DATABASE_URL" };
   }

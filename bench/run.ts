@@ -3,11 +3,13 @@
 // can print its own side-by-side table.
 
 import { benchPhysics } from "./physics.bench";
+import { benchLedger } from "./ledger.bench";
 import { benchReadings } from "./readings.bench";
 
 const BENCHES: Record<string, () => Promise<void>> = {
   physics: benchPhysics,
   readings: benchReadings,
+  ledger: benchLedger,
 };
 
 const asked = process.argv.slice(2);
