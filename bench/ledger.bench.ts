@@ -109,7 +109,10 @@ export async function benchLedger(): Promise<void> {
   const org = await fixture(pool);
   const results: string[][] = [];
   try {
-    for (const target of [1_000_000, 10_000_000]) {
+    const scales = (process.env.LEDGER_BENCH_SCALES ?? "1000000,10000000")
+      .split(",")
+      .map(Number);
+    for (const target of scales) {
       await growIntervals(pool, org, target);
       await pool.query("analyze intervals; analyze monthly_rollups");
       const loader = await time(() =>

@@ -41,15 +41,21 @@ export interface Ledger {
  */
 export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
   const { rows } = await pool.query<{ ledger: Ledger }>(
-    `with base as (
+    `with closes as (
+       select site_id, month, min(closed_at) as closed_at
+         from month_closes
+        where organization_id = $1 and reopened_at is null
+          and month between to_date($2, 'YYYY-MM') and to_date($3, 'YYYY-MM')
+        group by site_id, month
+     ), base as (
        select s.id as site_id, s.name as site_name, s.floor_area_m2, r.month, m.carrier, m.orientation,
               r.meter_id, r.energy_kwh, r.estimated_kwh,
-              (select min(c.closed_at) from month_closes c
-                where c.organization_id = $1 and c.month = r.month and c.reopened_at is null
-                  and (c.site_id is null or c.site_id = s.id)) as closed_at
+              least(cs.closed_at, co.closed_at) as closed_at
          from monthly_rollups r
          join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
          join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+         left join closes cs on cs.site_id = s.id and cs.month = r.month
+         left join closes co on co.site_id is null and co.month = r.month
         where r.organization_id = $1
           and r.month between to_date($2, 'YYYY-MM') and to_date($3, 'YYYY-MM')
           and m.parent_meter_id is null
