@@ -17,6 +17,7 @@ export default [
     route("outbox", "routes/outbox.tsx"),
     route("o/:orgId", "routes/org-layout.tsx", [
       index("routes/org-home.tsx"),
+      route("overview", "routes/overview.tsx"),
       route("members", "routes/members.tsx"),
       route("sites", "routes/sites.tsx"),
       route("sites/:siteId", "routes/site.tsx"),
@@ -25,6 +26,7 @@ export default [
       route("meters/:meterId/readings", "routes/meter-readings.tsx"),
       route("readings", "routes/readings.tsx"),
       route("ledger", "routes/ledger.tsx"),
+      route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),
     ]),
   ]),

@@ -23,6 +23,7 @@ interface Area {
 
 /** The organisation's areas, in the order people work through them. */
 const areas: Area[] = [
+  { label: "Overview", path: "/overview", permission: "ledger.view" },
   {
     label: "Organisation",
     path: "",
@@ -31,6 +32,11 @@ const areas: Area[] = [
   },
   { label: "Sites", path: "/sites", permission: "organization.view" },
   { label: "Ledger", path: "/ledger", permission: "ledger.view" },
+  {
+    label: "Weather & baselines",
+    path: "/weather",
+    permission: "ledger.view",
+  },
   { label: "Readings", path: "/readings", permission: "readings.view" },
   { label: "Gateways", path: "/gateways", permission: "gateways.manage" },
   { label: "Members", path: "/members", permission: "members.view" },

@@ -2,12 +2,14 @@ import {
   useEffect,
   useMemo,
   useRef,
+  useState,
   useSyncExternalStore,
   type ReactNode,
 } from "react";
 import {
   data,
   Form,
+  useLocation,
   useNavigation,
   useSearchParams,
   type ShouldRevalidateFunctionArgs,
@@ -352,6 +354,36 @@ function MonthClose({
   );
 }
 
+/**
+ * The filters, kept in the URL. A change shows in its field at once: the URL
+ * follows in a transition, and a controlled field waiting for a transition
+ * would jump back meanwhile. The draft belongs to the location it was made
+ * on, so any later navigation (the nav link, back) shows the URL again.
+ */
+function useUrlFilters() {
+  const [params, setParams] = useSearchParams();
+  const { key } = useLocation();
+  const [draft, setDraft] = useState<{
+    key: string;
+    values: Record<string, string>;
+  }>({ key: "", values: {} });
+  const pending = draft.key === key ? draft.values : {};
+  const get = (name: string): string =>
+    Object.hasOwn(pending, name) ? pending[name] : (params.get(name) ?? "");
+  /** Sets one filter; an empty value falls back to its default. */
+  const set = (name: string, value: string) => {
+    const values = { ...pending, [name]: value };
+    setDraft({ key, values });
+    const next = new URLSearchParams(params);
+    for (const [k, v] of Object.entries(values)) {
+      if (v) next.set(k, v);
+      else next.delete(k);
+    }
+    setParams(next, { replace: true, preventScrollReset: true });
+  };
+  return [get, set] as const;
+}
+
 function Legend({ children }: { children: ReactNode }) {
   return <p className="mt-3 text-sm text-ink-muted">{children}</p>;
 }
@@ -362,20 +394,20 @@ export default function LedgerPage({
 }: Route.ComponentProps) {
   const { organization, sites, canClose, canReopen } = loaderData;
   const result = actionData as Result | undefined;
-  const [params, setParams] = useSearchParams();
+  const [filter, setFilter] = useUrlFilters();
   const defaults = useMemo(() => defaultMonths(new Date()), []);
 
-  const from = params.get("from") || defaults.from;
-  const to = params.get("to") || defaults.to;
-  const rawSite = params.get("site") ?? "";
+  const from = filter("from") || defaults.from;
+  const to = filter("to") || defaults.to;
+  const rawSite = filter("site");
   const site = sites.some((s) => s.id === rawSite) ? rawSite : "";
-  const rawCarrier = params.get("carrier") ?? "";
+  const rawCarrier = filter("carrier");
   const carrier = (carriers as readonly string[]).includes(rawCarrier)
     ? rawCarrier
     : "";
-  const rawUnit = params.get("unit") ?? "";
+  const rawUnit = filter("unit");
   const unit = isLedgerUnit(rawUnit) ? rawUnit : "kWh";
-  const perM2 = params.get("per") === "m2";
+  const perM2 = filter("per") === "m2";
 
   const fromError = MONTH.test(from) ? undefined : "Use a month like 2025-01.";
   const toError = !MONTH.test(to)
@@ -406,18 +438,6 @@ export default function LedgerPage({
     () => true,
     () => false,
   );
-
-  /** Writes one filter into the URL; an empty value falls back to its default. */
-  const setFilter = (name: string, value: string) =>
-    setParams(
-      (previous) => {
-        const next = new URLSearchParams(previous);
-        if (value) next.set(name, value);
-        else next.delete(name);
-        return next;
-      },
-      { replace: true, preventScrollReset: true },
-    );
 
   const siteName = sites.find((s) => s.id === site)?.name;
   const rows = ledger?.rows ?? [];

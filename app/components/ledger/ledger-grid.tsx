@@ -34,6 +34,7 @@ const theme = themeQuartz.withParams({
   accentColor: "#0f5546",
   borderColor: "#dcd6ca",
   fontSize: 14,
+  cellHorizontalPaddingScale: 0.7,
 });
 
 /** The units the ledger is shown in; figures arrive in kWh. */
@@ -178,13 +179,20 @@ function GroupCell({
     colDef?.field === "site_name" ? data?.firstOfSite : data?.firstOfMonth;
   if (data?.isTotal) return <strong>{text}</strong>;
   return first ? (
-    <span className="font-semibold">{text}</span>
+    <span className="font-semibold" title={text}>
+      {text}
+    </span>
   ) : (
     <span className="sr-only">{text}</span>
   );
 }
 
-const defaultColumn: ColDef<GridRow> = { sortable: false, resizable: false };
+const defaultColumn: ColDef<GridRow> = {
+  sortable: false,
+  resizable: false,
+  wrapHeaderText: true,
+  autoHeaderHeight: true,
+};
 
 function rowStyle(p: RowClassParams<GridRow>): RowStyle | undefined {
   if (p.node.rowPinned) return { background: "#f4f1ea", fontWeight: 600 };
@@ -240,8 +248,8 @@ export function LedgerGrid({
       type: "rightAligned",
       valueGetter: energy(pick),
       valueFormatter: (p) => show(p.value),
-      cellClass: "tabular-nums",
-      minWidth: 120,
+      cellClass: ["ag-right-aligned-cell", "tabular-nums"],
+      minWidth: 104,
       flex: 1,
     });
 
@@ -250,15 +258,15 @@ export function LedgerGrid({
         headerName: "Site",
         field: "site_name",
         cellRenderer: GroupCell,
-        minWidth: 170,
-        flex: 2,
+        minWidth: 140,
+        flex: 1.5,
       },
       {
         headerName: "Month",
         field: "month",
         valueFormatter: (p) => (p.value ? monthLabel(p.value) : ""),
         cellRenderer: GroupCell,
-        minWidth: 100,
+        minWidth: 88,
         flex: 1,
       },
       {
@@ -266,7 +274,7 @@ export function LedgerGrid({
         field: "carrier",
         valueFormatter: (p) =>
           p.value ? carrierLabels[p.value as LedgerRow["carrier"]] : "",
-        minWidth: 110,
+        minWidth: 84,
         flex: 1,
       },
       energyColumn("Imports", (r) => r.imports_kwh),
@@ -283,8 +291,8 @@ export function LedgerGrid({
           Number.isFinite(p.value) ? percent.format(100 * p.value) : "—",
         cellStyle: (p) =>
           p.value > 0 ? { color: "#7a4b00", fontWeight: 600 } : null,
-        cellClass: "tabular-nums",
-        minWidth: 110,
+        cellClass: ["ag-right-aligned-cell", "tabular-nums"],
+        minWidth: 84,
         flex: 1,
       },
       {
@@ -305,15 +313,19 @@ export function LedgerGrid({
         headerName: "Status",
         field: "status",
         cellRenderer: StatusCell,
-        minWidth: 100,
+        minWidth: 76,
         flex: 1,
       },
     ];
   }, [unit, perM2]);
 
+  // A short ledger takes only the room it needs; a long one scrolls under its
+  // header, with the totals kept in view.
+  const short = rows.length <= 12;
   return (
-    <div style={{ height: 560 }}>
+    <div style={short ? undefined : { height: 560 }}>
       <AgGridReact<GridRow>
+        domLayout={short ? "autoHeight" : "normal"}
         theme={theme}
         rowData={rows}
         pinnedBottomRowData={totals}

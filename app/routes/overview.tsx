@@ -1,0 +1,241 @@
+import { formatDistanceStrict } from "date-fns";
+import { useSyncExternalStore } from "react";
+import { Link } from "react-router";
+import { z } from "zod";
+import { requireMembership } from "~/auth/membership.server";
+import { formatKwh } from "~/components/boundary";
+import { Cautions } from "~/components/cautions";
+import { CarrierChart } from "~/components/overview/carrier-chart";
+import { Badge, Card, EmptyState, PageHeader } from "~/components/ui";
+import {
+  completeness,
+  monthlyByCarrier,
+  silentMeters,
+  siteDrift,
+} from "~/overview/estate-overview.server";
+import type { Route } from "./+types/overview";
+
+export const meta: Route.MetaFunction = () => [
+  { title: "Overview · Joulebook" },
+];
+
+const subscribeNothing = () => () => {};
+
+function monthKey(d: Date): string {
+  return `${d.getUTCFullYear()}-${String(d.getUTCMonth() + 1).padStart(2, "0")}`;
+}
+
+const querySchema = z.object({
+  silent: z.coerce
+    .number()
+    .int()
+    .min(1)
+    .max(24 * 90)
+    .catch(24),
+});
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { organization } = await requireMembership(
+    request,
+    params.orgId,
+    "ledger.view",
+  );
+  const { silent } = querySchema.parse(
+    Object.fromEntries(new URL(request.url).searchParams),
+  );
+  const now = new Date();
+  const lastFull = new Date(
+    Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1),
+  );
+  const firstOfChart = new Date(
+    Date.UTC(lastFull.getUTCFullYear(), lastFull.getUTCMonth() - 11, 1),
+  );
+  const [drift, silentList, complete, byCarrier] = await Promise.all([
+    siteDrift(organization.id, monthKey(lastFull)),
+    silentMeters(organization.id, silent, now),
+    completeness(organization.id, 30, now),
+    monthlyByCarrier(
+      organization.id,
+      monthKey(firstOfChart),
+      monthKey(lastFull),
+    ),
+  ]);
+  return {
+    organization,
+    month: monthKey(lastFull),
+    drift,
+    silentList,
+    silent,
+    complete,
+    byCarrier,
+    now: now.toISOString(),
+  };
+}
+
+function percent(x: number | null): string {
+  if (x === null) return "—";
+  const sign = x > 0 ? "+" : x < 0 ? "−" : "";
+  return `${sign}${Math.abs(x * 100).toFixed(1)} %`;
+}
+
+export default function Overview({ loaderData }: Route.ComponentProps) {
+  const {
+    organization,
+    month,
+    drift,
+    silentList,
+    silent,
+    complete,
+    byCarrier,
+    now,
+  } = loaderData;
+  const mounted = useSyncExternalStore(
+    subscribeNothing,
+    () => true,
+    () => false,
+  );
+  const base = `/o/${organization.id}`;
+  const stats = [
+    ["Sites", String(drift.length)],
+    [
+      "Measured, last 30 days",
+      `${(complete.measuredShare * 100).toFixed(1)} %`,
+    ],
+    [
+      "Estimated, last 30 days",
+      `${(complete.estimatedShare * 100).toFixed(1)} %`,
+    ],
+    [`Silent over ${silent} h`, String(silentList.length)],
+  ];
+  return (
+    <>
+      <PageHeader
+        title="Overview"
+        description={`${organization.name} at a glance. Signed: energy entering a site is positive.`}
+      />
+      <div className="flex flex-col gap-6">
+        <dl className="grid grid-cols-2 gap-4 lg:grid-cols-4">
+          {stats.map(([k, v]) => (
+            <div
+              key={k}
+              className="rounded-card border border-line bg-surface p-4 shadow-card"
+            >
+              <dt className="text-sm text-ink-muted">{k}</dt>
+              <dd className="text-2xl font-semibold tabular-nums">{v}</dd>
+            </div>
+          ))}
+        </dl>
+        <Card aria-labelledby="carrier-heading">
+          <h2 id="carrier-heading" className="text-lg">
+            Net energy per month
+          </h2>
+          {byCarrier.length === 0 ? (
+            <div className="mt-3">
+              <EmptyState title="No monthly figures yet">
+                They appear as readings arrive.
+              </EmptyState>
+            </div>
+          ) : mounted ? (
+            <CarrierChart data={byCarrier} />
+          ) : (
+            <div style={{ height: 300 }} />
+          )}
+        </Card>
+        <div className="grid gap-6 lg:grid-cols-2">
+          <Card aria-labelledby="drift-heading">
+            <h2 id="drift-heading" className="text-lg">
+              Sites that changed most
+            </h2>
+            <p className="text-sm text-ink-muted">
+              {month} against the same month a year before, all carriers,
+              boundary meters.
+            </p>
+            <table className="mt-3 w-full text-left">
+              <thead className="text-sm text-ink-muted">
+                <tr>
+                  <th className="py-1 font-semibold">Site</th>
+                  <th className="py-1 text-right font-semibold">{month}</th>
+                  <th className="py-1 text-right font-semibold">Change</th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-line">
+                {drift.map((d) => (
+                  <tr key={d.site_id}>
+                    <td className="py-2">
+                      <Link
+                        className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+                        to={`${base}/sites/${d.site_id}`}
+                      >
+                        {d.site_name}
+                      </Link>
+                    </td>
+                    <td className="py-2 text-right tabular-nums">
+                      {formatKwh(d.net_kwh)}
+                    </td>
+                    <td className="py-2 text-right tabular-nums">
+                      <Badge
+                        tone={
+                          d.change === null
+                            ? "neutral"
+                            : Math.abs(d.change) > 0.15
+                              ? "danger"
+                              : "spruce"
+                        }
+                      >
+                        {percent(d.change)}
+                      </Badge>
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </Card>
+          <Card aria-labelledby="silent-heading">
+            <h2 id="silent-heading" className="text-lg">
+              Silent meters
+            </h2>
+            <p className="text-sm text-ink-muted">
+              No measured hour for more than {silent} hours.{" "}
+              <Link
+                className="underline"
+                to={`?silent=${silent === 24 ? 72 : 24}`}
+              >
+                Show over {silent === 24 ? 72 : 24} h
+              </Link>
+            </p>
+            {silentList.length === 0 ? (
+              <div className="mt-3">
+                <EmptyState title="Every meter is reporting" />
+              </div>
+            ) : (
+              <ul className="mt-2 divide-y divide-line">
+                {silentList.map((m) => (
+                  <li
+                    key={m.meter_id}
+                    className="flex items-center justify-between gap-3 py-2"
+                  >
+                    <Link
+                      className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+                      to={`${base}/meters/${m.meter_id}/readings`}
+                    >
+                      <span className="font-mono">{m.code}</span> {m.name}
+                      <span className="block text-sm font-normal text-ink-muted">
+                        {m.site_name}
+                      </span>
+                    </Link>
+                    <span className="text-sm text-ink-muted">
+                      {m.last_hour
+                        ? `last ${formatDistanceStrict(new Date(m.last_hour), new Date(now))} ago`
+                        : "never"}
+                    </span>
+                  </li>
+                ))}
+              </ul>
+            )}
+          </Card>
+        </div>
+        <Cautions />
+      </div>
+    </>
+  );
+}
