@@ -11,6 +11,8 @@ import { apiRouter } from "./api/router.server";
 import { pool } from "./db/client.server";
 import { estimationIdle } from "./ingest/after-ingest.server";
 import { requestInfoContext } from "./request-context";
+import { runAllAlerts } from "./alerts/run-alerts.server";
+import { env } from "./env.server";
 
 export const app = express();
 
@@ -27,8 +29,18 @@ app.use(
   }),
 );
 
+// Alert conditions are checked on a timer in the serving process; with
+// several servers, the open-alert unique index keeps each e-mail single.
+const alertMinutes = env().ALERTS_INTERVAL_MINUTES;
+const alertTimer =
+  alertMinutes > 0
+    ? setInterval(() => void runAllAlerts(), alertMinutes * 60_000)
+    : null;
+alertTimer?.unref();
+
 /** Finishes estimation already queued, then closes the pool. */
 export async function closeResources(): Promise<void> {
+  if (alertTimer) clearInterval(alertTimer);
   await estimationIdle();
   await pool.end();
 }

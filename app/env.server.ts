@@ -34,6 +34,11 @@ const envSchema = z
       .min(24, "DEMO_GATEWAY_KEY must be at least 24 characters")
       .optional(),
     TRUST_PROXY: z.enum(["0", "1"]).default("0"),
+    ALERTS_INTERVAL_MINUTES: z.coerce
+      .number({ error: "ALERTS_INTERVAL_MINUTES must be a number" })
+      .int()
+      .min(0, "ALERTS_INTERVAL_MINUTES must be 0 (off) or more")
+      .default(15),
     GATEWAY_RATE_LIMIT_PER_MINUTE: z.coerce
       .number({ error: "GATEWAY_RATE_LIMIT_PER_MINUTE must be a number" })
       .int()

@@ -17,6 +17,7 @@ import {
   SITES,
 } from "./scenario/larchmere-estate";
 import { generateReadings } from "./scenario/generate";
+import { seedWeather } from "./seed-weather";
 
 async function larchmereId(): Promise<string> {
   const [org] = await db
@@ -154,8 +155,10 @@ async function ingestScenario(
 
 export async function seedEstate(): Promise<boolean> {
   const organizationId = await larchmereId();
-  if (!(await createEstate(organizationId))) return false;
+  const created = await createEstate(organizationId);
   // The scenario ends at its own period end; readings are checked as of then.
-  await ingestScenario(organizationId, SCENARIO_PERIOD.to);
-  return true;
+  if (created) await ingestScenario(organizationId, SCENARIO_PERIOD.to);
+  // Weather goes in on the days a site lacks, also into an existing estate.
+  await seedWeather(organizationId);
+  return created;
 }

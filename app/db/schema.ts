@@ -2,6 +2,7 @@ import { sql } from "drizzle-orm";
 import {
   bigserial,
   boolean,
+  check,
   date,
   foreignKey,
   index,
@@ -487,5 +488,112 @@ export const ledgerAdjustments = pgTable(
   (t) => [
     primaryKey({ columns: [t.organizationId, t.id] }),
     index("ledger_adjustments_month_idx").on(t.organizationId, t.month),
+  ],
+);
+
+// ---------------------------------------------------------------------------
+// Weather and baselines: daily mean outdoor temperature per site, and the
+// weather-normalised energy baselines fitted on it.
+// ---------------------------------------------------------------------------
+
+/** One site-local calendar day's mean outdoor temperature. */
+export const dailyWeather = pgTable(
+  "daily_weather",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    siteId: uuid("site_id").notNull(),
+    day: date("day", { mode: "string" }).notNull(),
+    meanTempC: numeric("mean_temp_c", { precision: 5, scale: 2 }).notNull(),
+    /** upload or seed */
+    source: text("source").notNull(),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.siteId, t.day] }),
+    foreignKey({
+      columns: [t.organizationId, t.siteId],
+      foreignColumns: [sites.organizationId, sites.id],
+    }).onDelete("cascade"),
+    check("daily_weather_source_check", sql`${t.source} in ('upload', 'seed')`),
+  ],
+);
+
+/** A saved energy baseline: the model, its fit statistics and its data. */
+export const baselines = pgTable(
+  "baselines",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: uuid("id").notNull().defaultRandom(),
+    siteId: uuid("site_id").notNull(),
+    carrier: carrierEnum("carrier").notNull(),
+    /** First and last day of the baseline period, inclusive. */
+    periodFrom: date("period_from", { mode: "string" }).notNull(),
+    periodTo: date("period_to", { mode: "string" }).notNull(),
+    /** monthly or daily */
+    granularity: text("granularity").notNull(),
+    /** slope, intercept, n, r2, cvrmse, nmbe, the driver and the points fitted. */
+    model: jsonb("model").$type<Record<string, unknown>>().notNull(),
+    createdByUserId: text("created_by_user_id").references(() => users.id, {
+      onDelete: "set null",
+    }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("baselines_site_idx").on(t.organizationId, t.siteId, t.carrier),
+    foreignKey({
+      columns: [t.organizationId, t.siteId],
+      foreignColumns: [sites.organizationId, sites.id],
+    }).onDelete("cascade"),
+    check(
+      "baselines_granularity_check",
+      sql`${t.granularity} in ('monthly', 'daily')`,
+    ),
+    check("baselines_period_check", sql`${t.periodFrom} <= ${t.periodTo}`),
+  ],
+);
+
+// ---------------------------------------------------------------------------
+// Alerts: what each person wants by e-mail, and which conditions are open
+// (one open alert per condition, so a condition is mailed once until it clears).
+// ---------------------------------------------------------------------------
+
+export const alertSettings = pgTable(
+  "alert_settings",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    silentMeter: boolean("silent_meter").notNull(),
+    residual: boolean("residual").notNull(),
+    monthReady: boolean("month_ready").notNull(),
+    silentHours: integer("silent_hours").notNull().default(24),
+  },
+  (t) => [primaryKey({ columns: [t.organizationId, t.userId] })],
+);
+
+export const alertEvents = pgTable(
+  "alert_events",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: bigserial("id", { mode: "number" }).notNull(),
+    kind: text("kind").notNull(),
+    subject: text("subject").notNull(),
+    title: text("title").notNull(),
+    openedAt: timestamp("opened_at", { withTimezone: true }).notNull(),
+    clearedAt: timestamp("cleared_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("alert_events_open_unique")
+      .on(t.organizationId, t.kind, t.subject)
+      .where(sql`${t.clearedAt} is null`),
   ],
 );

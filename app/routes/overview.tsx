@@ -1,12 +1,25 @@
 import { formatDistanceStrict } from "date-fns";
 import { useSyncExternalStore } from "react";
-import { Link } from "react-router";
+import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import { requireMembership } from "~/auth/membership.server";
 import { formatKwh } from "~/components/boundary";
 import { Cautions } from "~/components/cautions";
 import { CarrierChart } from "~/components/overview/carrier-chart";
-import { Badge, Card, EmptyState, PageHeader } from "~/components/ui";
+import {
+  Badge,
+  Button,
+  Card,
+  EmptyState,
+  Field,
+  Notice,
+  PageHeader,
+} from "~/components/ui";
+import {
+  alertPreferences,
+  saveAlertPreferences,
+} from "~/alerts/alert-settings.server";
+import { parseForm } from "~/lib/forms";
 import {
   completeness,
   monthlyByCarrier,
@@ -35,7 +48,7 @@ const querySchema = z.object({
 });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization } = await requireMembership(
+  const { organization, user, role } = await requireMembership(
     request,
     params.orgId,
     "ledger.view",
@@ -60,6 +73,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       monthKey(lastFull),
     ),
   ]);
+  const alerts = await alertPreferences(organization.id, user.id, role);
   return {
     organization,
     month: monthKey(lastFull),
@@ -69,7 +83,102 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     complete,
     byCarrier,
     now: now.toISOString(),
+    alerts,
   };
+}
+
+const checkbox = z
+  .enum(["on"])
+  .optional()
+  .transform((v) => v === "on");
+const alertSchema = z.strictObject({
+  intent: z.literal("alerts"),
+  silentMeter: checkbox,
+  residual: checkbox,
+  monthReady: checkbox,
+  silentHours: z.coerce
+    .number({ error: "Enter a number of hours." })
+    .int("Enter whole hours.")
+    .min(1, "At least 1 hour.")
+    .max(24 * 30, "At most 720 hours (30 days)."),
+});
+
+/** Each member chooses their own alert e-mails for this organisation. */
+export async function action({ request, params }: Route.ActionArgs) {
+  const { organization, user } = await requireMembership(
+    request,
+    params.orgId,
+    "ledger.view",
+  );
+  const form = parseForm(await request.formData(), alertSchema);
+  if (!form.ok)
+    return data({ errors: form.errors, saved: false }, { status: 400 });
+  const { intent: _intent, ...preferences } = form.data;
+  await saveAlertPreferences(organization.id, user.id, preferences);
+  return { errors: {} as Record<string, string>, saved: true };
+}
+
+function AlertSettings({
+  alerts,
+  errors,
+  saved,
+}: {
+  alerts: {
+    silentMeter: boolean;
+    residual: boolean;
+    monthReady: boolean;
+    silentHours: number;
+  };
+  errors: Record<string, string | undefined>;
+  saved: boolean;
+}) {
+  const options = [
+    ["silentMeter", "A meter goes silent", alerts.silentMeter],
+    [
+      "residual",
+      "Sub-meters miss their parent by more than the tolerance",
+      alerts.residual,
+    ],
+    ["monthReady", "Last month is ready to close", alerts.monthReady],
+  ] as const;
+  return (
+    <Card aria-labelledby="alerts-heading">
+      <h2 id="alerts-heading" className="text-lg">
+        Your alert e-mails
+      </h2>
+      <p className="text-sm text-ink-muted">
+        One e-mail when a condition starts; none again until it has cleared.
+      </p>
+      <Form method="post" className="mt-3 flex flex-col gap-3" noValidate>
+        {saved ? <Notice tone="success">Alert settings saved.</Notice> : null}
+        <input type="hidden" name="intent" value="alerts" />
+        {options.map(([name, label, checked]) => (
+          <label key={name} className="flex items-center gap-2">
+            <input
+              type="checkbox"
+              name={name}
+              defaultChecked={checked}
+              className="h-5 w-5 accent-spruce-700"
+            />
+            {label}
+          </label>
+        ))}
+        <Field
+          label="Silent after (hours)"
+          name="silentHours"
+          inputMode="numeric"
+          defaultValue={String(alerts.silentHours)}
+          error={errors.silentHours}
+          className="max-w-48"
+        />
+        <div>
+          <Button type="submit" variant="secondary">
+            Save alert settings
+          </Button>
+        </div>
+      </Form>
+    </Card>
+  );
 }
 
 function percent(x: number | null): string {
@@ -78,7 +187,10 @@ function percent(x: number | null): string {
   return `${sign}${Math.abs(x * 100).toFixed(1)} %`;
 }
 
-export default function Overview({ loaderData }: Route.ComponentProps) {
+export default function Overview({
+  loaderData,
+  actionData,
+}: Route.ComponentProps) {
   const {
     organization,
     month,
@@ -88,6 +200,7 @@ export default function Overview({ loaderData }: Route.ComponentProps) {
     complete,
     byCarrier,
     now,
+    alerts,
   } = loaderData;
   const mounted = useSyncExternalStore(
     subscribeNothing,
@@ -234,6 +347,11 @@ export default function Overview({ loaderData }: Route.ComponentProps) {
             )}
           </Card>
         </div>
+        <AlertSettings
+          alerts={alerts}
+          errors={actionData?.errors ?? {}}
+          saved={actionData?.saved ?? false}
+        />
         <Cautions />
       </div>
     </>

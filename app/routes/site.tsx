@@ -3,6 +3,7 @@ import { notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { Boundary, formatKwh } from "~/components/boundary";
 import { Cautions } from "~/components/cautions";
+import { SiteBalanceView } from "~/components/site-balance";
 import { SiteFields } from "~/components/site-fields";
 import {
   Badge,
@@ -12,6 +13,11 @@ import {
   Notice,
   PageHeader,
 } from "~/components/ui";
+import {
+  balanceMonths,
+  MONTH_PATTERN,
+  siteBalance,
+} from "~/ledger/site-balance.server";
 import { parseForm } from "~/lib/forms";
 import { carrierLabels } from "~/sites/meter-schema";
 import { siteEnergySince } from "~/sites/meter-energy.server";
@@ -33,14 +39,25 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     siteId: params.siteId,
   });
   if (!site) notFound("No such site.");
-  const [meters, energy] = await Promise.all([
+  const [meters, energy, months] = await Promise.all([
     listSiteMeters({ organizationId: organization.id, siteId: site.id }),
     siteEnergySince({
       organizationId: organization.id,
       siteId: site.id,
       since: new Date(Date.now() - THIRTY_DAYS_MS),
     }),
+    balanceMonths({ organizationId: organization.id, siteId: site.id }),
   ]);
+  // The energy balance of ?month=YYYY-MM, else of the newest month with data.
+  const asked = new URL(request.url).searchParams.get("month") ?? "";
+  const month = MONTH_PATTERN.test(asked) ? asked : (months[0] ?? null);
+  const balance = month
+    ? await siteBalance({
+        organizationId: organization.id,
+        siteId: site.id,
+        month,
+      })
+    : null;
   return {
     organization,
     site,
@@ -49,6 +66,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       energyKwh30d: energy.get(m.id) ?? null,
     })),
     canManage: can(role, "sites.manage"),
+    balance,
+    balanceMonths: months,
   };
 }
 
@@ -136,6 +155,16 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
               }))}
             />
           )}
+        </Card>
+        <Card aria-labelledby="balance-heading">
+          <h2 id="balance-heading" className="text-lg">
+            Energy balance
+          </h2>
+          <SiteBalanceView
+            balance={loaderData.balance}
+            months={loaderData.balanceMonths}
+            siteName={site.name}
+          />
         </Card>
         {meters.length > 0 ? (
           <Card aria-labelledby="meters-heading">

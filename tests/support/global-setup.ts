@@ -69,6 +69,8 @@ export default async function setup(project: TestProject) {
     RESEND_API_KEY: "re_test_key",
     // Low enough for a test to reach in a second or two.
     GATEWAY_RATE_LIMIT_PER_MINUTE: "120",
+    // Tests run the alert check themselves, so its e-mails are predictable.
+    ALERTS_INTERVAL_MINUTES: "0",
   };
   // A server spawned from vitest must not think it runs under vitest.
   delete childEnv.VITEST;

@@ -1,0 +1,96 @@
+import { pool } from "~/db/client.server";
+import { residualFlag } from "~/ledger/balance";
+import { silentMeters } from "~/overview/estate-overview.server";
+
+export type AlertKind = "silent_meter" | "residual" | "month_ready";
+
+/** One condition that holds now, keyed so that it is reported once. */
+export interface Condition {
+  kind: AlertKind;
+  subject: string;
+  title: string;
+  detail: string;
+}
+
+function monthKey(d: Date): string {
+  return `${d.getUTCFullYear()}-${String(d.getUTCMonth() + 1).padStart(2, "0")}`;
+}
+
+export async function silentMeterConditions(
+  organizationId: string,
+  hours: number,
+  now: Date,
+): Promise<Condition[]> {
+  const silent = await silentMeters(organizationId, hours, now);
+  return silent.map((m) => ({
+    kind: "silent_meter",
+    subject: m.meter_id,
+    title: `Meter ${m.code} has been silent for over ${hours} hours`,
+    detail: `${m.name} at ${m.site_name}: ${m.last_hour ? `last measured hour ${m.last_hour}` : "no measured hour yet"}.`,
+  }));
+}
+
+/** Parent meters whose sub-meters miss them by more than the tolerance last month. */
+export async function residualConditions(
+  organizationId: string,
+  now: Date,
+): Promise<Condition[]> {
+  const month = monthKey(
+    new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1)),
+  );
+  const { rows } = await pool.query<{
+    parent_id: string;
+    code: string;
+    site_name: string;
+    parent_kwh: string;
+    children_kwh: string;
+  }>(
+    `select p.id as parent_id, p.code, s.name as site_name, pr.energy_kwh::text as parent_kwh,
+            coalesce(sum(cr.energy_kwh), 0)::text as children_kwh
+       from meters p
+       join sites s on s.organization_id = p.organization_id and s.id = p.site_id
+       join monthly_rollups pr on pr.organization_id = p.organization_id and pr.meter_id = p.id and pr.month = to_date($2, 'YYYY-MM')
+       join meters c on c.organization_id = p.organization_id and c.parent_meter_id = p.id
+       left join monthly_rollups cr on cr.organization_id = c.organization_id and cr.meter_id = c.id and cr.month = pr.month
+      where p.organization_id = $1
+      group by p.id, p.code, s.name, pr.energy_kwh`,
+    [organizationId, month],
+  );
+  return rows
+    .filter((r) => residualFlag(r.parent_kwh, r.children_kwh) !== "ok")
+    .map((r) => ({
+      kind: "residual",
+      subject: `${r.parent_id}@${month}`,
+      title: `Sub-metering residual out of tolerance: ${r.code}, ${month}`,
+      detail: `${r.site_name}: the parent registered ${r.parent_kwh} kWh, its sub-meters ${r.children_kwh} kWh.`,
+    }));
+}
+
+/** Last month, once it has ended, until someone closes it for the organisation. */
+export async function monthReadyConditions(
+  organizationId: string,
+  now: Date,
+): Promise<Condition[]> {
+  const last = new Date(
+    Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1),
+  );
+  const month = monthKey(last);
+  const { rows } = await pool.query(
+    `select 1 from month_closes where organization_id = $1 and month = to_date($2, 'YYYY-MM') and reopened_at is null and site_id is null`,
+    [organizationId, month],
+  );
+  const { rows: data } = await pool.query(
+    `select 1 from monthly_rollups where organization_id = $1 and month = to_date($2, 'YYYY-MM') limit 1`,
+    [organizationId, month],
+  );
+  if (rows.length > 0 || data.length === 0) return [];
+  return [
+    {
+      kind: "month_ready",
+      subject: month,
+      title: `${month} is ready to close`,
+      detail:
+        "The month has ended; closing it locks its figures, and later corrections become adjusting entries.",
+    },
+  ];
+}

@@ -1,0 +1,428 @@
+/**
+ * The site's energy balance for one month: a flow diagram from the boundary
+ * meters through the site (drawn in the browser only, it measures the page),
+ * and under it each parent meter against its sub-meters, with the residual
+ * flagged beyond the tolerance.
+ */
+import {
+  useEffect,
+  useMemo,
+  useRef,
+  useState,
+  useSyncExternalStore,
+} from "react";
+import { Form, Link, useNavigate } from "react-router";
+import { Sankey, Tooltip, type SankeyNodeProps as NodeProps } from "recharts";
+import { formatKwh } from "~/components/boundary";
+import {
+  Badge,
+  Button,
+  EmptyState,
+  Notice,
+  SelectField,
+} from "~/components/ui";
+import {
+  balanceDiagram,
+  formatDecimal,
+  RESIDUAL_TOLERANCE,
+  type BalanceNode,
+  type Carrier,
+  type ParentBalance,
+  type SiteBalance,
+} from "~/ledger/balance";
+import { carrierLabels } from "~/sites/meter-schema";
+
+const subscribeNothing = () => () => {};
+
+const HEIGHT = 440;
+const MIN_WIDTH = 760;
+const NODE_WIDTH = 12;
+const MARGIN = { top: 44, right: 12, bottom: 12, left: 12 };
+
+const carrierColour: Record<Carrier, string> = {
+  heat: "#a9501f",
+  cooling: "#255f9e",
+  steam: "#6a4a9c",
+  electricity: "#7a5d00",
+};
+
+function nodeColour(node: BalanceNode): string {
+  if (node.kind === "site") return "#0f5546";
+  if (node.kind === "loss") return "#6b7480";
+  return node.carrier ? carrierColour[node.carrier] : "#4f5966";
+}
+
+const monthFormat = new Intl.DateTimeFormat("en-GB", {
+  month: "long",
+  year: "numeric",
+  timeZone: "UTC",
+});
+
+export function monthLabel(month: string): string {
+  return monthFormat.format(new Date(`${month}-01T00:00:00Z`));
+}
+
+const tolerancePercent = `${(RESIDUAL_TOLERANCE * 100).toLocaleString("en-GB")} %`;
+
+/** The container's width, so the diagram fills the card. */
+function useWidth() {
+  const ref = useRef<HTMLDivElement>(null);
+  const [width, setWidth] = useState(0);
+  useEffect(() => {
+    const element = ref.current;
+    if (!element) return;
+    const observer = new ResizeObserver(([entry]) =>
+      setWidth(entry.contentRect.width),
+    );
+    observer.observe(element);
+    return () => observer.disconnect();
+  }, []);
+  return { ref, width };
+}
+
+function nodeValueLabel(node: BalanceNode): string {
+  const value = formatKwh(node.signedKwh);
+  return node.kind === "site" ? `net ${value}` : value;
+}
+
+/** A node with its name and signed energy beside it, outside the flows. */
+function NodeShape({
+  x,
+  y,
+  width,
+  height,
+  payload,
+  containerWidth,
+}: NodeProps & { containerWidth: number }) {
+  const node = payload as unknown as BalanceNode;
+  const colour = nodeColour(node);
+  // Labels sit to the right of their node, over the flows leaving it; the
+  // last column has no flows leaving, so its labels sit to the left. The
+  // site, where flows arrive and leave, is labelled above its node.
+  const last = x + width >= containerWidth - MARGIN.right - 1;
+  const first = x <= MARGIN.left + 1;
+  let textX = last ? x - 6 : x + width + 6;
+  let anchor: "start" | "middle" | "end" = last ? "end" : "start";
+  let middle = y + height / 2;
+  if (node.kind === "site") {
+    textX = last ? x + width : first ? x : x + width / 2;
+    anchor = last ? "end" : first ? "start" : "middle";
+    middle = y - 22;
+  }
+  return (
+    <g>
+      <rect
+        x={x}
+        y={y}
+        width={width}
+        height={Math.max(height, 1)}
+        fill={colour}
+        rx={2}
+      />
+      <text
+        x={textX}
+        y={middle - 3}
+        textAnchor={anchor}
+        fontSize={13}
+        fontWeight={600}
+        fill={node.kind === "site" ? "#0f5546" : "#1a222d"}
+      >
+        {node.name}
+      </text>
+      <text
+        x={textX}
+        y={middle + 13}
+        textAnchor={anchor}
+        fontSize={13}
+        fill="#4f5966"
+      >
+        {nodeValueLabel(node)}
+      </text>
+    </g>
+  );
+}
+
+interface TooltipItem {
+  name?: string;
+  signedKwh?: number;
+  source?: BalanceNode | number;
+  target?: BalanceNode | number;
+}
+
+function BalanceChart({
+  nodes,
+  links,
+  siteName,
+}: ReturnType<typeof balanceDiagram> & { siteName: string }) {
+  const { ref, width } = useWidth();
+  const data = useMemo(
+    () => ({
+      nodes,
+      links: links.map((l) => ({
+        ...l,
+        stroke: carrierColour[l.carrier],
+        strokeOpacity: 0.3,
+      })),
+    }),
+    [nodes, links],
+  );
+  // Below MIN_WIDTH the labels would collide: the diagram scrolls instead.
+  return (
+    <div className="overflow-x-auto">
+      <div
+        ref={ref}
+        style={{ width: "100%", minWidth: MIN_WIDTH, height: HEIGHT }}
+        role="img"
+        aria-label={`Energy balance of ${siteName}: ${nodes.length} nodes, ${links.length} flows`}
+      >
+        {width > 0 ? (
+          <Sankey
+            width={width}
+            height={HEIGHT}
+            data={data}
+            nodeWidth={NODE_WIDTH}
+            nodePadding={28}
+            margin={MARGIN}
+            node={(props: NodeProps) => (
+              <NodeShape {...props} containerWidth={width} />
+            )}
+          >
+            <Tooltip
+              isAnimationActive={false}
+              content={({ payload }) => {
+                // Each entry wraps the node or the link it describes.
+                const entry = payload?.[0]?.payload as
+                  { name?: string; payload?: TooltipItem } | undefined;
+                if (!entry?.payload) return null;
+                const item = entry.payload;
+                const title =
+                  typeof item.source === "object" &&
+                  typeof item.target === "object"
+                    ? `${item.source.name} → ${item.target.name}`
+                    : (item.name ?? entry.name ?? "");
+                return (
+                  <div className="rounded border border-line bg-surface px-2 py-1 text-sm shadow">
+                    {title} · {formatKwh(item.signedKwh ?? null)}
+                  </div>
+                );
+              }}
+            />
+          </Sankey>
+        ) : null}
+      </div>
+    </div>
+  );
+}
+
+function FlagBadge({ parent }: { parent: ParentBalance }) {
+  if (parent.flag === "over_tolerance")
+    return <Badge tone="copper">Over tolerance</Badge>;
+  if (parent.flag === "children_exceed_parent")
+    return <Badge tone="danger">Sub-meters exceed parent</Badge>;
+  return <span className="text-sm text-ink-muted">Within tolerance</span>;
+}
+
+function percent(fraction: number | null): string {
+  if (fraction === null) return "—";
+  const value = (fraction * 100).toLocaleString("en-GB", {
+    minimumFractionDigits: 1,
+    maximumFractionDigits: 1,
+  });
+  return `${value.replace("-", "−")} %`;
+}
+
+function MonthPicker({ months, month }: { months: string[]; month: string }) {
+  const navigate = useNavigate();
+  const index = months.indexOf(month);
+  const older = index >= 0 ? months[index + 1] : months[0];
+  const newer = index > 0 ? months[index - 1] : undefined;
+  const linkClass =
+    "font-semibold text-spruce-700 underline-offset-4 hover:underline";
+  return (
+    <div className="flex flex-wrap items-end gap-3">
+      <Form
+        method="get"
+        preventScrollReset
+        className="flex items-end gap-2"
+        aria-label="Month of the energy balance"
+      >
+        <SelectField
+          key={month}
+          label="Month"
+          name="month"
+          defaultValue={month}
+          onChange={(event) =>
+            navigate(`?month=${event.currentTarget.value}`, {
+              preventScrollReset: true,
+            })
+          }
+        >
+          {index < 0 ? (
+            <option value={month}>{monthLabel(month)}</option>
+          ) : null}
+          {months.map((m) => (
+            <option key={m} value={m}>
+              {monthLabel(m)}
+            </option>
+          ))}
+        </SelectField>
+        <Button type="submit" variant="secondary">
+          Show
+        </Button>
+      </Form>
+      <p className="flex min-h-10 items-center gap-3 text-sm">
+        {older ? (
+          <Link className={linkClass} to={`?month=${older}`} preventScrollReset>
+            ← {monthLabel(older)}
+          </Link>
+        ) : null}
+        {newer ? (
+          <Link className={linkClass} to={`?month=${newer}`} preventScrollReset>
+            {monthLabel(newer)} →
+          </Link>
+        ) : null}
+      </p>
+    </div>
+  );
+}
+
+export function SiteBalanceView({
+  balance,
+  months,
+  siteName,
+}: {
+  balance: SiteBalance | null;
+  months: string[];
+  siteName: string;
+}) {
+  // The diagram measures the page, so it renders in the browser only.
+  const mounted = useSyncExternalStore(
+    subscribeNothing,
+    () => true,
+    () => false,
+  );
+  const diagram = useMemo(
+    () => (balance ? balanceDiagram(balance, siteName) : null),
+    [balance, siteName],
+  );
+  if (!balance || !diagram)
+    return (
+      <div className="mt-3">
+        <EmptyState title="No monthly figures yet">
+          The balance appears once meters on this site have intervals.
+        </EmptyState>
+      </div>
+    );
+  return (
+    <div className="mt-3 flex flex-col gap-4">
+      <MonthPicker months={months} month={balance.month} />
+      {balance.boundary.length > 0 ? (
+        <ul className="flex flex-wrap gap-x-6 gap-y-1 text-sm">
+          {balance.boundary.map((b) => (
+            <li key={b.carrier}>
+              <span className="font-semibold">{carrierLabels[b.carrier]}</span>:
+              imports {formatDecimal(b.importsKwh, 0)} kWh · exports{" "}
+              {formatDecimal(b.exportsKwh, 0)} kWh · net{" "}
+              <span className="font-semibold tabular-nums">
+                {formatDecimal(b.netKwh, 0)} kWh
+              </span>
+            </li>
+          ))}
+        </ul>
+      ) : null}
+      {diagram.links.length === 0 ? (
+        <p className="text-ink-muted">
+          Nothing crossed the boundary in {monthLabel(balance.month)}.
+        </p>
+      ) : (
+        <figure>
+          {mounted ? (
+            <BalanceChart {...diagram} siteName={siteName} />
+          ) : (
+            <div style={{ height: HEIGHT }} aria-hidden="true" />
+          )}
+          <figcaption className="mt-2 text-sm text-ink-muted">
+            {monthLabel(balance.month)}, from the monthly ledger. Widths are
+            magnitudes; labels keep the sign (into the site +, out of it −).
+            Imports enter through their meter; exports and chilled water leave
+            through theirs. A parent meter splits into its sub-meters and the
+            distribution loss.
+          </figcaption>
+        </figure>
+      )}
+      {diagram.problems.length > 0 ? (
+        <Notice tone="caution" title="Not drawn as a split">
+          <ul className="mt-1 list-disc space-y-1 pl-5">
+            {diagram.problems.map((p) => (
+              <li key={`${p.kind}:${p.meterId}`}>{p.message}</li>
+            ))}
+          </ul>
+        </Notice>
+      ) : null}
+      {balance.parents.length > 0 ? (
+        <div>
+          <h3 className="font-semibold">Sub-metering</h3>
+          <div className="mt-2 overflow-x-auto">
+            <table className="w-full min-w-[640px] text-left">
+              <thead className="text-sm text-ink-muted">
+                <tr>
+                  <th className="py-2 pr-3 font-semibold">Parent meter</th>
+                  <th className="py-2 pr-3 text-right font-semibold">
+                    Parent, kWh
+                  </th>
+                  <th className="py-2 pr-3 text-right font-semibold">
+                    Σ sub-meters, kWh
+                  </th>
+                  <th className="py-2 pr-3 text-right font-semibold">
+                    Residual, kWh
+                  </th>
+                  <th className="py-2 pr-3 text-right font-semibold">
+                    Residual, % of parent
+                  </th>
+                  <th className="py-2 font-semibold">Flag</th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-line">
+                {balance.parents.map((p) => (
+                  <tr key={p.meterId}>
+                    <td className="py-2 pr-3">
+                      <span className="font-mono text-sm">{p.code}</span>{" "}
+                      {p.name}
+                      <span className="text-sm text-ink-muted">
+                        {" "}
+                        ({p.childCount} sub-meter{p.childCount === 1 ? "" : "s"}
+                        )
+                      </span>
+                    </td>
+                    <td className="py-2 pr-3 text-right tabular-nums">
+                      {formatDecimal(p.parentKwh)}
+                    </td>
+                    <td className="py-2 pr-3 text-right tabular-nums">
+                      {formatDecimal(p.childrenKwh)}
+                    </td>
+                    <td className="py-2 pr-3 text-right tabular-nums">
+                      {formatDecimal(p.residualKwh)}
+                    </td>
+                    <td className="py-2 pr-3 text-right tabular-nums">
+                      {percent(p.residualFraction)}
+                    </td>
+                    <td className="py-2 whitespace-nowrap">
+                      <FlagBadge parent={p} />
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+          <p className="mt-3 text-sm text-ink-muted">
+            Residual: the parent minus the sum of its sub-meters, the
+            distribution loss. It is flagged beyond {tolerancePercent} of the
+            parent, a setting of the site&apos;s practice (for heat networks a
+            few percent is common practice); sub-meters that add up to more than
+            their parent are always flagged.
+          </p>
+        </div>
+      ) : null}
+    </div>
+  );
+}

@@ -1,0 +1,213 @@
+import { useEffect, useRef, useState } from "react";
+import { Form, useNavigation } from "react-router";
+import {
+  MAX_WEATHER_BYTES,
+  MAX_WEATHER_ROWS,
+  parseWeatherCsv,
+  type RowProblem,
+  type WeatherParse,
+  type WeatherRow,
+} from "~/baselines/weather-csv";
+import { Button, Notice, SelectField } from "~/components/ui";
+
+export interface UploadResult {
+  intent: "upload-weather";
+  errors: Record<string, string>;
+  problems?: RowProblem[];
+  problemCount?: number;
+  message?: string;
+}
+
+function Problems({
+  problems,
+  count,
+}: {
+  problems: RowProblem[];
+  count: number;
+}) {
+  return (
+    <div className="max-h-72 overflow-auto rounded-lg border border-line">
+      <table className="min-w-full text-sm">
+        <caption className="px-2 py-1 text-left font-semibold">
+          {count.toLocaleString("en-GB")} rows with problems
+          {count > problems.length
+            ? ` (the first ${problems.length} listed)`
+            : ""}
+          ; nothing was stored
+        </caption>
+        <thead className="sticky top-0 bg-sunken">
+          <tr>
+            <th className="px-2 py-1 text-left">Row</th>
+            <th className="px-2 py-1 text-left">Problem</th>
+          </tr>
+        </thead>
+        <tbody>
+          {problems.map((p) => (
+            <tr key={`${p.row}-${p.message}`} className="border-t border-line">
+              <td className="px-2 py-1 tabular-nums">{p.row}</td>
+              <td className="px-2 py-1">{p.message}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+function Preview({ rows }: { rows: WeatherRow[] }) {
+  return (
+    <div className="overflow-x-auto rounded-lg border border-line">
+      <table className="min-w-full text-sm">
+        <caption className="sr-only">First rows of the file</caption>
+        <thead className="bg-sunken">
+          <tr>
+            <th className="px-2 py-1 text-left">Row</th>
+            <th className="px-2 py-1 text-left font-mono">date</th>
+            <th className="px-2 py-1 text-right font-mono">mean_temp_c</th>
+          </tr>
+        </thead>
+        <tbody>
+          {rows.slice(0, 6).map((r, i) => (
+            <tr key={r.day} className="border-t border-line">
+              <td className="px-2 py-1 text-ink-muted">{i + 2}</td>
+              <td className="px-2 py-1 font-mono">{r.day}</td>
+              <td className="px-2 py-1 text-right font-mono tabular-nums">
+                {r.meanTempC.toFixed(2)}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+/**
+ * A weather file for one site: checked in the browser for a preview, then
+ * posted as a file; the server checks it again and stores all rows or none.
+ */
+export function WeatherUpload({
+  sites,
+  siteId,
+  result,
+}: {
+  sites: { id: string; name: string }[];
+  siteId: string;
+  result: UploadResult | undefined;
+}) {
+  const busy = useNavigation().state === "submitting";
+  const form = useRef<HTMLFormElement>(null);
+  // A check belongs to the answer it was made after: a new answer from the
+  // server replaces it.
+  const [checked, setChecked] = useState<{
+    check: WeatherParse & { name: string };
+    after: UploadResult | undefined;
+  } | null>(null);
+  const check = checked && checked.after === result ? checked.check : null;
+  useEffect(() => {
+    if (result?.message) form.current?.reset();
+  }, [result]);
+
+  async function onFile(file: File | undefined) {
+    if (!file) return setChecked(null);
+    const check: WeatherParse & { name: string } =
+      file.size > MAX_WEATHER_BYTES
+        ? {
+            ok: false,
+            name: file.name,
+            file: `The file has ${file.size.toLocaleString("en-GB")} bytes; send at most ${MAX_WEATHER_BYTES.toLocaleString("en-GB")}.`,
+            problems: [],
+            problemCount: 0,
+          }
+        : { ...parseWeatherCsv(await file.text()), name: file.name };
+    setChecked({ check, after: result });
+  }
+
+  const errors = result?.errors ?? {};
+  const serverProblems =
+    result?.problems && result.problems.length > 0 ? result : null;
+  return (
+    <Form
+      method="post"
+      encType="multipart/form-data"
+      ref={form}
+      noValidate
+      aria-label="Upload weather"
+      className="flex flex-col gap-4"
+    >
+      <input type="hidden" name="intent" value="upload-weather" />
+      {result?.message ? (
+        <Notice tone="success">{result.message}</Notice>
+      ) : null}
+      {errors.form ? <Notice tone="error">{errors.form}</Notice> : null}
+      <div className="grid gap-4 md:grid-cols-2">
+        <SelectField
+          label="Site"
+          name="siteId"
+          defaultValue={siteId}
+          error={errors.siteId}
+        >
+          {sites.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.name}
+            </option>
+          ))}
+        </SelectField>
+        <div className="flex flex-col gap-1">
+          <label htmlFor="weather-file" className="font-semibold">
+            CSV file of daily mean temperatures
+          </label>
+          <p id="weather-hint" className="text-sm text-ink-muted">
+            Header <code>date,mean_temp_c</code>; one row per site-local day,
+            like <code>2026-01-31,4.5</code>. At most{" "}
+            {MAX_WEATHER_ROWS.toLocaleString("en-GB")} rows and 1 MB. Days
+            already stored take the new value.
+          </p>
+          <input
+            id="weather-file"
+            name="file"
+            type="file"
+            accept=".csv,text/csv"
+            required
+            aria-describedby="weather-hint"
+            aria-invalid={errors.file ? true : undefined}
+            className="rounded-lg border border-line-strong bg-surface p-2"
+            onChange={(e) => void onFile(e.target.files?.[0])}
+          />
+          {errors.file ? (
+            <p className="text-sm font-semibold text-danger-700">
+              {errors.file}
+            </p>
+          ) : null}
+        </div>
+      </div>
+      {check && !check.ok && check.file ? (
+        <Notice tone="error">{check.file}</Notice>
+      ) : null}
+      {check && !check.ok && check.problems.length > 0 ? (
+        <Problems problems={check.problems} count={check.problemCount} />
+      ) : null}
+      {check?.ok ? (
+        <>
+          <p>
+            <strong>{check.rows.length.toLocaleString("en-GB")}</strong> days in{" "}
+            {check.name}, from {check.rows[0].day} to {check.rows.at(-1)!.day}.
+            First rows:
+          </p>
+          <Preview rows={check.rows} />
+        </>
+      ) : null}
+      {serverProblems ? (
+        <Problems
+          problems={serverProblems.problems!}
+          count={serverProblems.problemCount ?? serverProblems.problems!.length}
+        />
+      ) : null}
+      <div>
+        <Button type="submit" disabled={busy || (check !== null && !check.ok)}>
+          {busy ? "Uploading…" : "Upload weather"}
+        </Button>
+      </div>
+    </Form>
+  );
+}
