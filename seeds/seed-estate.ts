@@ -28,7 +28,21 @@ async function larchmereId(): Promise<string> {
   return org.id;
 }
 
-async function createEstate(organizationId: string): Promise<boolean> {
+/**
+ * Invented EN 1434 ratings for the demo's water heat meters (class 2, Δθmin
+ * 3 K, a permanent flow sized to the load), so the ledger shows MPE bands.
+ */
+function heatMeterRating(m: (typeof METERS)[number]) {
+  if (m.quantity !== "water_heat") return {};
+  const large = ["LP-HX1", "BH-HX0", "CH-HX1", "DR-CW1"].includes(m.code);
+  return {
+    accuracyClass: 2,
+    deltaThetaMinK: "3",
+    qpM3PerH: large ? "15" : "6",
+  };
+}
+
+export async function createEstate(organizationId: string): Promise<boolean> {
   return db.transaction(async (tx) => {
     const existing = await tx
       .select({ id: sites.id })
@@ -74,6 +88,7 @@ async function createEstate(organizationId: string): Promise<boolean> {
               : String(m.defaultPressureBarAbs),
           installedAt: new Date(m.installedAt),
           removedAt: m.removedAt ? new Date(m.removedAt) : null,
+          ...heatMeterRating(m),
         })
         .returning({ id: meters.id });
       meterIds.set(m.code, row.id);

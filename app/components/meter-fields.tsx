@@ -19,6 +19,9 @@ export interface MeterDefaults {
   sensorAt?: string | null;
   defaultPressureBarAbs?: string | null;
   spikeFactor?: string;
+  accuracyClass?: number | null;
+  deltaThetaMinK?: string | null;
+  qpM3PerH?: string | null;
   installedAt?: Date | string;
 }
 
@@ -159,6 +162,35 @@ export function MeterFields({
         hint="An hour above this multiple of the typical hour is flagged"
         defaultValue={defaults.spikeFactor ?? "10"}
         error={errors.spikeFactor}
+      />
+      <SelectField
+        label="EN 1434 accuracy class (heat meters)"
+        name="accuracyClass"
+        defaultValue={
+          defaults.accuracyClass ? String(defaults.accuracyClass) : ""
+        }
+        error={errors.accuracyClass}
+      >
+        <option value="">Not rated: no uncertainty band</option>
+        <option value="1">Class 1</option>
+        <option value="2">Class 2</option>
+        <option value="3">Class 3</option>
+      </SelectField>
+      <Field
+        label="Δθmin (K)"
+        name="deltaThetaMinK"
+        inputMode="decimal"
+        hint="The smallest temperature difference the meter is rated for"
+        defaultValue={defaults.deltaThetaMinK ?? ""}
+        error={errors.deltaThetaMinK}
+      />
+      <Field
+        label="qp (m³/h)"
+        name="qpM3PerH"
+        inputMode="decimal"
+        hint="The flow sensor's permanent flow rate"
+        defaultValue={defaults.qpM3PerH ?? ""}
+        error={errors.qpM3PerH}
       />
     </div>
   );

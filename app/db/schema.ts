@@ -270,6 +270,10 @@ export const meters = pgTable(
     spikeFactor: numeric("spike_factor", { precision: 6, scale: 2 })
       .notNull()
       .default("10"),
+    /** EN 1434 accuracy class (1, 2 or 3) of a heat meter, for its MPE band. */
+    accuracyClass: integer("accuracy_class"),
+    deltaThetaMinK: numeric("delta_theta_min_k", { precision: 5, scale: 2 }),
+    qpM3PerH: numeric("qp_m3_per_h", { precision: 10, scale: 3 }),
     installedAt: timestamp("installed_at", { withTimezone: true }).notNull(),
     removedAt: timestamp("removed_at", { withTimezone: true }),
     replacedByMeterId: uuid("replaced_by_meter_id"),
@@ -336,6 +340,8 @@ export const rawReadings = pgTable(
     /** Signed energy of an interval reading, computed once at ingest. */
     energyKwh: numeric("energy_kwh", { precision: 20, scale: 6 }),
     registerKwh: numeric("register_kwh", { precision: 20, scale: 4 }),
+    /** The EN 1434 MPE of this reading's energy, as ± kWh, where it applies. */
+    uncertaintyKwh: numeric("uncertainty_kwh", { precision: 20, scale: 6 }),
     batchId: uuid("batch_id").notNull(),
     receivedAt: timestamp("received_at", { withTimezone: true })
       .notNull()
@@ -381,6 +387,10 @@ export const intervals = pgTable(
     }).notNull(),
     /** Signed by the boundary convention: into the site positive. */
     energyKwh: numeric("energy_kwh", { precision: 20, scale: 6 }).notNull(),
+    /** Sum of the readings' EN 1434 bands (a bound: errors may correlate). */
+    uncertaintyKwh: numeric("uncertainty_kwh", { precision: 20, scale: 6 })
+      .notNull()
+      .default("0"),
     quality: intervalQualityEnum("quality").notNull(),
     flags: text("flags")
       .array()
@@ -420,6 +430,9 @@ export const monthlyRollups = pgTable(
     /** The first day of the site-local month. */
     month: date("month", { mode: "string" }).notNull(),
     energyKwh: numeric("energy_kwh", { precision: 24, scale: 6 }).notNull(),
+    uncertaintyKwh: numeric("uncertainty_kwh", { precision: 24, scale: 6 })
+      .notNull()
+      .default("0"),
     estimatedKwh: numeric("estimated_kwh", {
       precision: 24,
       scale: 6,

@@ -20,6 +20,9 @@ export async function findMetersByCode(
       rolloverKwh: meters.rolloverKwh,
       sensorAt: meters.sensorAt,
       defaultPressureBarAbs: meters.defaultPressureBarAbs,
+      accuracyClass: meters.accuracyClass,
+      deltaThetaMinK: meters.deltaThetaMinK,
+      qpM3PerH: meters.qpM3PerH,
       installedAt: meters.installedAt,
       removedAt: meters.removedAt,
     })

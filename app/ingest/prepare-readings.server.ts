@@ -13,6 +13,8 @@ export interface PreparedReading {
   payloadHash: string;
   energyKwh: string | null;
   registerKwh: number | null;
+  /** ± kWh from the meter's EN 1434 MPE, where the meter's class is known. */
+  uncertaintyKwh: string | null;
 }
 
 export interface Rejection {
@@ -63,6 +65,20 @@ function withMeterDefaults(item: Record<string, unknown>, meter: IngestMeter) {
   if (needsPressure && !hasPressure && meter.defaultPressureBarAbs !== null) {
     filled.pressure_bar_abs = Number(meter.defaultPressureBarAbs);
   }
+  // The meter's EN 1434 rating gives each reading its MPE band.
+  const rated =
+    meter.accuracyClass !== null &&
+    meter.deltaThetaMinK !== null &&
+    meter.qpM3PerH !== null;
+  if (
+    filled.quantity === "water_heat" &&
+    rated &&
+    filled.meter_class === undefined
+  ) {
+    filled.meter_class = meter.accuracyClass;
+    filled.delta_theta_min_k = Number(meter.deltaThetaMinK);
+    filled.qp_m3_per_h = Number(meter.qpM3PerH);
+  }
   return filled;
 }
 
@@ -102,17 +118,23 @@ function prepareOne(
       endTime: null,
       energyKwh: null,
       registerKwh: reading.registerKwh,
+      uncertaintyKwh: null,
     };
   }
   const result = evaluateItem(withMeterDefaults(reading.item, meter));
   if (!result.ok) return { index, meter: meter.code, reason: result.error };
   const signed = result.energy_kwh * orientationSign(meter);
+  const mpePercent = result.details.en1434_mpe_percent;
   return {
     ...base,
     readingTime: reading.start,
     endTime: reading.end,
     energyKwh: signed.toFixed(6),
     registerKwh: null,
+    uncertaintyKwh:
+      typeof mpePercent === "number"
+        ? ((Math.abs(result.energy_kwh) * mpePercent) / 100).toFixed(6)
+        : null,
   };
 }
 

@@ -51,10 +51,10 @@ async function insertRaw(
     reading_time: Date;
   }>(
     `insert into raw_readings
-       (organization_id, meter_id, reading_time, end_time, payload, payload_hash, energy_kwh, register_kwh, batch_id)
-     select $1, m, t, e, p, h, k, r, $2
-       from unnest($3::uuid[], $4::timestamptz[], $5::timestamptz[], $6::jsonb[], $7::text[], $8::numeric[], $9::numeric[])
-         as u(m, t, e, p, h, k, r)
+       (organization_id, meter_id, reading_time, end_time, payload, payload_hash, energy_kwh, register_kwh, uncertainty_kwh, batch_id)
+     select $1, m, t, e, p, h, k, r, x, $2
+       from unnest($3::uuid[], $4::timestamptz[], $5::timestamptz[], $6::jsonb[], $7::text[], $8::numeric[], $9::numeric[], $10::numeric[])
+         as u(m, t, e, p, h, k, r, x)
      on conflict do nothing
      returning meter_id, reading_time`,
     [
@@ -67,6 +67,7 @@ async function insertRaw(
       rows.map((r) => r.payloadHash),
       rows.map((r) => r.energyKwh),
       rows.map((r) => r.registerKwh),
+      rows.map((r) => r.uncertaintyKwh),
     ],
   );
   return new Set(inserted.map((r) => keyOf(r.meter_id, r.reading_time)));
@@ -122,7 +123,29 @@ interface HourRow {
   meterId: string;
   hourStart: Date;
   energyKwh: string;
+  uncertaintyKwh: string;
   readingTime: Date;
+}
+
+/** A reading's energy and its MPE band, split over its hours alike (by time). */
+function hourPieces(r: PreparedReading): HourRow[] {
+  const energy = splitAcrossHours(
+    r.readingTime,
+    r.endTime!,
+    Number(r.energyKwh),
+  );
+  const band = splitAcrossHours(
+    r.readingTime,
+    r.endTime!,
+    Number(r.uncertaintyKwh ?? 0),
+  );
+  return energy.map((p, i) => ({
+    meterId: r.meter.id,
+    hourStart: p.hourStart,
+    energyKwh: p.energyKwh.toFixed(6),
+    uncertaintyKwh: band[i].energyKwh.toFixed(6),
+    readingTime: r.readingTime,
+  }));
 }
 
 /**
@@ -134,32 +157,22 @@ async function addIntervalReadings(
   organizationId: string,
   rows: PreparedReading[],
 ) {
-  const pieces: HourRow[] = [];
-  for (const r of rows) {
-    for (const p of splitAcrossHours(
-      r.readingTime,
-      r.endTime!,
-      Number(r.energyKwh),
-    )) {
-      pieces.push({
-        meterId: r.meter.id,
-        hourStart: p.hourStart,
-        energyKwh: p.energyKwh.toFixed(6),
-        readingTime: r.readingTime,
-      });
-    }
-  }
+  const pieces = rows.flatMap(hourPieces);
   if (pieces.length === 0) return;
   await client.query(
-    `insert into intervals (organization_id, meter_id, hour_start, energy_kwh, quality, source_reading_times)
-     select $1, m, h, sum(k), 'measured', array_agg(t order by t)
-       from unnest($2::uuid[], $3::timestamptz[], $4::numeric[], $5::timestamptz[]) as u(m, h, k, t)
+    `insert into intervals (organization_id, meter_id, hour_start, energy_kwh, uncertainty_kwh, quality, source_reading_times)
+     select $1, m, h, sum(k), sum(x), 'measured', array_agg(t order by t)
+       from unnest($2::uuid[], $3::timestamptz[], $4::numeric[], $5::timestamptz[], $6::numeric[]) as u(m, h, k, t, x)
       group by m, h
      on conflict (organization_id, meter_id, hour_start) do update set
        energy_kwh = case
          when intervals.quality = 'edited' then intervals.energy_kwh
          when intervals.quality in ('estimated', 'missing') then excluded.energy_kwh
          else intervals.energy_kwh + excluded.energy_kwh end,
+       uncertainty_kwh = case
+         when intervals.quality = 'edited' then intervals.uncertainty_kwh
+         when intervals.quality in ('estimated', 'missing') then excluded.uncertainty_kwh
+         else intervals.uncertainty_kwh + excluded.uncertainty_kwh end,
        quality = case when intervals.quality = 'edited' then 'edited'::interval_quality else 'measured' end,
        flags = case when intervals.quality = 'edited'
          then array(select distinct unnest(intervals.flags || '{late_data_after_edit}'))
@@ -175,6 +188,7 @@ async function addIntervalReadings(
       pieces.map((p) => p.hourStart),
       pieces.map((p) => p.energyKwh),
       pieces.map((p) => p.readingTime),
+      pieces.map((p) => p.uncertaintyKwh),
     ],
   );
 }

@@ -49,7 +49,7 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
         group by site_id, month
      ), base as (
        select s.id as site_id, s.name as site_name, s.floor_area_m2, r.month, m.carrier, m.orientation,
-              r.meter_id, r.energy_kwh, r.estimated_kwh,
+              r.meter_id, r.energy_kwh, r.estimated_kwh, r.uncertainty_kwh,
               least(cs.closed_at, co.closed_at) as closed_at
          from monthly_rollups r
          join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
@@ -74,6 +74,7 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
               coalesce(sum(b.energy_kwh - coalesce(a.delta, 0)) filter (where b.orientation = 'export'), 0) as exports_kwh,
               sum(b.energy_kwh - coalesce(a.delta, 0)) as net_kwh,
               sum(b.estimated_kwh) as estimated_kwh,
+              sum(b.uncertainty_kwh) as uncertainty_kwh,
               coalesce(sum(abs(b.estimated_kwh)) / nullif(sum(abs(b.energy_kwh)), 0), 0) as estimated_share,
               bool_or(b.closed_at is not null) as closed,
               coalesce(sum(a.delta), 0) as adjustments_kwh,
@@ -88,7 +89,8 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
            'month', to_char(month, 'YYYY-MM'), 'carrier', carrier,
            'imports_kwh', imports_kwh::text, 'exports_kwh', exports_kwh::text, 'net_kwh', net_kwh::text,
            'estimated_kwh', estimated_kwh::text, 'estimated_share', estimated_share::float8,
-           'uncertainty_kwh', null,
+           'uncertainty_kwh', case when carrier in ('heat', 'cooling') and uncertainty_kwh > 0
+                                   then uncertainty_kwh::text end,
            'status', case when closed then 'closed' else 'open' end,
            'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int)
          order by site_name, month, carrier), '[]'::json),

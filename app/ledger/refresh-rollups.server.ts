@@ -39,6 +39,7 @@ export async function refreshRollups(
        select t.meter_id, t.site_id, t.month,
               coalesce(sum(i.energy_kwh), 0) as energy_kwh,
               coalesce(sum(i.energy_kwh) filter (where i.quality = 'estimated'), 0) as estimated_kwh,
+              coalesce(sum(i.uncertainty_kwh), 0) as uncertainty_kwh,
               count(i.hour_start)::int as hours,
               (count(i.hour_start) filter (where i.quality = 'estimated'))::int as estimated_hours
          from target t
@@ -52,10 +53,11 @@ export async function refreshRollups(
          from monthly_rollups r join sums using (meter_id, month)
         where r.organization_id = $1
      ), up as (
-       insert into monthly_rollups (organization_id, meter_id, month, energy_kwh, estimated_kwh, hours, estimated_hours)
-       select $1, meter_id, month, energy_kwh, estimated_kwh, hours, estimated_hours from sums
+       insert into monthly_rollups (organization_id, meter_id, month, energy_kwh, estimated_kwh, uncertainty_kwh, hours, estimated_hours)
+       select $1, meter_id, month, energy_kwh, estimated_kwh, uncertainty_kwh, hours, estimated_hours from sums
        on conflict (organization_id, meter_id, month) do update set
          energy_kwh = excluded.energy_kwh, estimated_kwh = excluded.estimated_kwh,
+         uncertainty_kwh = excluded.uncertainty_kwh,
          hours = excluded.hours, estimated_hours = excluded.estimated_hours, updated_at = now()
        returning meter_id, month, energy_kwh
      ), adj as (

@@ -1,4 +1,7 @@
+import { listBaselines, siteMonths } from "~/baselines/baselines.server";
+import { avoidedEnergy, predict } from "~/baselines/regression";
 import { pool } from "~/db/client.server";
+import type { Carrier } from "~/db/schema";
 
 export interface SiteDrift {
   site_id: string;
@@ -138,4 +141,108 @@ export async function monthlyByCarrier(
     carrier: r.carrier,
     net_kwh: Number(r.net),
   }));
+}
+
+export interface BaselineComparison {
+  site_id: string;
+  site_name: string;
+  carrier: Carrier;
+  /** YYYY-MM, the site-local month compared. */
+  month: string;
+  /** The newest saved baseline of the site and carrier. */
+  baseline_id: string;
+  /** What the boundary import meters measured, kWh (a magnitude); null without a ledger entry. */
+  actual_kwh: number | null;
+  /** The baseline's prediction for the month's degree days, kWh; null without complete weather. */
+  expected_kwh: number | null;
+  /** (actual − expected) / expected: positive when more was used than the weather explains. */
+  difference: number | null;
+  /** Why a figure is missing ("no weather", "no ledger entry", …). */
+  note: string | null;
+  /** The month's degree days lie outside the range the baseline was fitted on. */
+  extrapolated: boolean;
+}
+
+/**
+ * Each site's newest saved baseline per carrier, applied to one month as the
+ * Weather & baselines page applies it to a reporting month: the month's
+ * degree days (the baseline's own driver and base temperature) put into the
+ * saved model give the expected energy, set against what the boundary
+ * import meters measured. Only a month with complete weather and a ledger
+ * entry is compared; otherwise the row says what is missing.
+ */
+export async function againstBaseline(
+  organizationId: string,
+  month: string,
+): Promise<BaselineComparison[]> {
+  const { rows: sites } = await pool.query<{
+    site_id: string;
+    site_name: string;
+  }>(
+    `select s.id as site_id, s.name as site_name
+       from sites s
+      where s.organization_id = $1 and s.archived_at is null
+        and exists (select 1 from baselines b where b.organization_id = s.organization_id and b.site_id = s.id)
+      order by s.name`,
+    [organizationId],
+  );
+  const perSite = await Promise.all(
+    sites.map(async (site) => {
+      // Newest first: the first of each carrier is the one in force.
+      const saved = await listBaselines({
+        organizationId,
+        siteId: site.site_id,
+      });
+      const newest = saved.filter(
+        (b, i) => saved.findIndex((o) => o.carrier === b.carrier) === i,
+      );
+      return Promise.all(
+        newest.map(async (baseline): Promise<BaselineComparison> => {
+          const { model } = baseline;
+          const [figure] = await siteMonths({
+            organizationId,
+            siteId: site.site_id,
+            carrier: baseline.carrier,
+            driver: model.driver,
+            baseC: model.baseC,
+            from: month,
+            to: month,
+          });
+          const weatherComplete = figure.weatherDays === figure.daysInMonth;
+          const expected = weatherComplete ? predict(model, figure.dd) : null;
+          // Avoided energy is expected − actual, as a share of expected;
+          // the overview shows the other side: how far the month ran over.
+          const avoidedPercent =
+            figure.usable && figure.kwh !== null
+              ? avoidedEnergy(model, [{ dd: figure.dd, actualKwh: figure.kwh }])
+                  .avoidedPercent
+              : null;
+          const dds = model.points.map((p) => p.dd);
+          return {
+            site_id: site.site_id,
+            site_name: site.site_name,
+            carrier: baseline.carrier,
+            month,
+            baseline_id: baseline.id,
+            actual_kwh: figure.kwh,
+            expected_kwh: expected,
+            difference: avoidedPercent === null ? null : -avoidedPercent / 100,
+            note: figure.note,
+            extrapolated:
+              weatherComplete &&
+              dds.length > 0 &&
+              (figure.dd < Math.min(...dds) - 1e-9 ||
+                figure.dd > Math.max(...dds) + 1e-9),
+          };
+        }),
+      );
+    }),
+  );
+  return perSite
+    .flat()
+    .sort(
+      (a, b) =>
+        a.site_name.localeCompare(b.site_name) ||
+        a.carrier.localeCompare(b.carrier),
+    );
 }

@@ -20,7 +20,9 @@ import {
   saveAlertPreferences,
 } from "~/alerts/alert-settings.server";
 import { parseForm } from "~/lib/forms";
+import { carrierLabels } from "~/sites/meter-schema";
 import {
+  againstBaseline,
   completeness,
   monthlyByCarrier,
   silentMeters,
@@ -63,7 +65,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const firstOfChart = new Date(
     Date.UTC(lastFull.getUTCFullYear(), lastFull.getUTCMonth() - 11, 1),
   );
-  const [drift, silentList, complete, byCarrier] = await Promise.all([
+  const [drift, silentList, complete, byCarrier, baselines] = await Promise.all([
     siteDrift(organization.id, monthKey(lastFull)),
     silentMeters(organization.id, silent, now),
     completeness(organization.id, 30, now),
@@ -72,6 +74,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       monthKey(firstOfChart),
       monthKey(lastFull),
     ),
+    againstBaseline(organization.id, monthKey(lastFull)),
   ]);
   const alerts = await alertPreferences(organization.id, user.id, role);
   return {
@@ -82,6 +85,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     silent,
     complete,
     byCarrier,
+    baselines,
     now: now.toISOString(),
     alerts,
   };
@@ -187,6 +191,114 @@ function percent(x: number | null): string {
   return `${sign}${Math.abs(x * 100).toFixed(1)} %`;
 }
 
+/** A magnitude in whole kWh, as the Weather & baselines page shows it. */
+function kwh(x: number | null): string {
+  if (x === null) return "—";
+  return `${x.toLocaleString("en-GB", { maximumFractionDigits: 0 })} kWh`;
+}
+
+/** Beyond this share either side of the baseline, a month is marked. */
+const BASELINE_TOLERANCE = 0.1;
+
+type Comparison = Route.ComponentProps["loaderData"]["baselines"][number];
+
+function AgainstBaseline({
+  rows,
+  month,
+  base,
+}: {
+  rows: Comparison[];
+  month: string;
+  base: string;
+}) {
+  return (
+    <Card aria-labelledby="baseline-heading">
+      <h2 id="baseline-heading" className="text-lg">
+        Against baseline
+      </h2>
+      <p className="text-sm text-ink-muted">
+        {month} against what each site's newest saved baseline predicts for
+        that month's degree days. Marked beyond ±
+        {BASELINE_TOLERANCE * 100} %.
+      </p>
+      {rows.length === 0 ? (
+        <div className="mt-3">
+          <EmptyState title="No baseline saved yet">
+            Fit and save one for a site on{" "}
+            <Link
+              className="font-semibold text-spruce-700 underline"
+              to={`${base}/weather`}
+            >
+              Weather &amp; baselines
+            </Link>
+            ; each month is then set against it here.
+          </EmptyState>
+        </div>
+      ) : (
+        <div className="mt-3 overflow-x-auto">
+          <table className="w-full text-left">
+            <thead className="text-sm text-ink-muted">
+              <tr>
+                <th className="py-1 font-semibold">Site</th>
+                <th className="py-1 font-semibold">Carrier</th>
+                <th className="py-1 text-right font-semibold">Actual</th>
+                <th className="py-1 text-right font-semibold">Expected</th>
+                <th className="py-1 text-right font-semibold">Difference</th>
+              </tr>
+            </thead>
+            <tbody className="divide-y divide-line">
+              {rows.map((r) => (
+                <tr
+                  key={`${r.site_id}|${r.carrier}`}
+                  data-site={r.site_id}
+                  data-carrier={r.carrier}
+                  data-actual-kwh={r.actual_kwh?.toFixed(3)}
+                  data-expected-kwh={r.expected_kwh?.toFixed(3)}
+                >
+                  <td className="py-2">
+                    <Link
+                      className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+                      to={`${base}/weather?site=${r.site_id}&carrier=${r.carrier}&baseline=${r.baseline_id}&reportFrom=${r.month}&reportTo=${r.month}`}
+                    >
+                      {r.site_name}
+                    </Link>
+                    {r.note || r.extrapolated ? (
+                      <span className="block text-sm text-ink-muted">
+                        {r.note ??
+                          "degree days outside the baseline's range"}
+                      </span>
+                    ) : null}
+                  </td>
+                  <td className="py-2">{carrierLabels[r.carrier]}</td>
+                  <td className="py-2 text-right tabular-nums">
+                    {kwh(r.actual_kwh)}
+                  </td>
+                  <td className="py-2 text-right tabular-nums">
+                    {kwh(r.expected_kwh)}
+                  </td>
+                  <td className="py-2 text-right tabular-nums">
+                    <Badge
+                      tone={
+                        r.difference === null
+                          ? "neutral"
+                          : Math.abs(r.difference) > BASELINE_TOLERANCE
+                            ? "danger"
+                            : "spruce"
+                      }
+                    >
+                      {percent(r.difference)}
+                    </Badge>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
+    </Card>
+  );
+}
+
 export default function Overview({
   loaderData,
   actionData,
@@ -199,6 +311,7 @@ export default function Overview({
     silent,
     complete,
     byCarrier,
+    baselines,
     now,
     alerts,
   } = loaderData;
@@ -347,6 +460,7 @@ export default function Overview({
             )}
           </Card>
         </div>
+        <AgainstBaseline rows={baselines} month={month} base={base} />
         <AlertSettings
           alerts={alerts}
           errors={actionData?.errors ?? {}}

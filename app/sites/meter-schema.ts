@@ -105,6 +105,11 @@ export const meterFormSchema = z
     sensorAt: z.enum(["", "flow", "return"]),
     defaultPressureBarAbs: decimal("Default pressure", 0.006, 40),
     spikeFactor: decimal("Spike factor", 1.5, 1000).transform((v) => v ?? 10),
+    accuracyClass: z.enum(["", "1", "2", "3"], {
+      error: "Choose class 1, 2 or 3, or none.",
+    }),
+    deltaThetaMinK: decimal("Δθmin", 0.1, 50),
+    qpM3PerH: decimal("qp", 0.001, 100_000),
     installedAt: dateField("Installed on").refine(
       (d) => d !== null,
       "Enter the installation date.",
@@ -116,6 +121,18 @@ export const meterFormSchema = z
         code: "custom",
         path: ["carrier"],
         message: `A ${v.quantity.replace("_", " ")} meter accounts for ${carriersFor[v.quantity].join(" or ")}.`,
+      });
+    }
+    const rating = [
+      v.accuracyClass !== "",
+      v.deltaThetaMinK !== null,
+      v.qpM3PerH !== null,
+    ];
+    if (rating.some(Boolean) && !rating.every(Boolean)) {
+      ctx.addIssue({
+        code: "custom",
+        path: ["accuracyClass"],
+        message: "The EN 1434 band needs the class, Δθmin and qp together.",
       });
     }
     if (v.quantity === "water_heat" && v.sensorAt === "") {

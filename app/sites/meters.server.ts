@@ -20,6 +20,9 @@ export const meterColumns = {
   sensorAt: meters.sensorAt,
   defaultPressureBarAbs: meters.defaultPressureBarAbs,
   spikeFactor: meters.spikeFactor,
+  accuracyClass: meters.accuracyClass,
+  deltaThetaMinK: meters.deltaThetaMinK,
+  qpM3PerH: meters.qpM3PerH,
   installedAt: meters.installedAt,
   removedAt: meters.removedAt,
   replacedByMeterId: meters.replacedByMeterId,
@@ -102,6 +105,11 @@ function columnsFrom(input: MeterInput) {
         ? null
         : String(input.defaultPressureBarAbs),
     spikeFactor: String(input.spikeFactor),
+    accuracyClass:
+      input.accuracyClass === "" ? null : Number(input.accuracyClass),
+    deltaThetaMinK:
+      input.deltaThetaMinK === null ? null : String(input.deltaThetaMinK),
+    qpM3PerH: input.qpM3PerH === null ? null : String(input.qpM3PerH),
     installedAt: input.installedAt!,
   };
 }
@@ -271,6 +279,9 @@ export async function replaceMeter(args: {
           sensorAt: old.sensorAt,
           defaultPressureBarAbs: old.defaultPressureBarAbs,
           spikeFactor: old.spikeFactor,
+          accuracyClass: old.accuracyClass,
+          deltaThetaMinK: old.deltaThetaMinK,
+          qpM3PerH: old.qpM3PerH,
           installedAt: args.swappedAt,
         })
         .returning({ id: meters.id });

@@ -379,3 +379,41 @@ describe("monthly ledger", () => {
     expect((await stranger.get(`/o/${org.org.id}/ledger`)).status).toBe(404);
   });
 });
+
+describe("EN 1434 uncertainty band", () => {
+  it("a rated heat meter's readings carry their MPE into the ledger's heat totals", async () => {
+    const org = await createMeteredOrg({ roles: ["auditor"] });
+    await db
+      .update(schema.meters)
+      .set({ accuracyClass: 2, deltaThetaMinK: "3", qpM3PerH: "2.5" })
+      .where(eq(schema.meters.id, org.meters.water.id));
+    await post(org, [
+      {
+        meter: org.meters.water.code,
+        quantity: "water_heat",
+        start: "2026-07-01T10:00:00Z",
+        end: "2026-07-01T11:00:00Z",
+        volume_m3: 2,
+        flow_temp_c: 75,
+        return_temp_c: 50,
+      },
+    ]);
+    const answer = await ledger(
+      await member(org, 0),
+      org,
+      "2026-07",
+      "2026-07",
+    );
+    const heat = answer.rows.find((r) => r.carrier === "heat") as unknown as {
+      net_kwh: string;
+      uncertainty_kwh: string;
+    };
+    // Class 2 (MID Annex VI MI-004 / EN 1434-1, references.md §3): E = Ef + Et + Ec with
+    // Ef = 2 + 0.02·qp/q = 2 + 0.02·2.5/2, Et = 0.5 + 3·Δθmin/Δθ = 0.5 + 9/25, Ec = 0.5 + Δθmin/Δθ = 0.5 + 3/25,
+    // so 3.505 % of the energy.
+    expect(Number(heat.uncertainty_kwh)).toBeCloseTo(
+      Number(heat.net_kwh) * 0.03505,
+      5,
+    );
+  });
+});

@@ -174,6 +174,9 @@ describe("roles on the estate", () => {
       sensorAt: "",
       defaultPressureBarAbs: "",
       spikeFactor: "10",
+      accuracyClass: "",
+      deltaThetaMinK: "",
+      qpM3PerH: "",
       installedAt: "2026-01-01",
     };
     const wrong = await manager.post(
