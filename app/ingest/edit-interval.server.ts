@@ -60,7 +60,7 @@ export async function editInterval(args: {
       args.organizationId,
       args.meterId,
       args.hourStart,
-      args.hourStart,
+      new Date(args.hourStart.getTime() + 3_600_000),
       {
         source: "edit",
         reason: args.reason,

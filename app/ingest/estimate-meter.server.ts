@@ -135,7 +135,7 @@ export async function estimateMeter(
       organizationId,
       meterId,
       estimates[0].hourStart,
-      estimates.at(-1)!.hourStart,
+      new Date(estimates.at(-1)!.hourStart.getTime() + 3_600_000),
       { source: "estimate", reason: "gap estimates updated" },
     );
   }

@@ -11,7 +11,8 @@ export interface ChangeAttribution {
 
 /**
  * Recomputes one meter's rollups for the site-local months that the UTC range
- * [from, to] touches, from that meter's intervals in those months only (the
+ * [from, to) touches (`to` is an end: a reading ending at midnight on the 1st
+ * belongs to the month before), from that meter's intervals in those months only (the
  * ledger never sums intervals on a page view). Sums are PostgreSQL numeric:
  * a month equals the sum of its hours to the last stored digit. When a month
  * is closed, the change is written as an adjusting entry in the same
@@ -32,7 +33,7 @@ export async function refreshRollups(
          join sites s on s.organization_id = m.organization_id and s.id = m.site_id
         cross join lateral generate_series(
                 date_trunc('month', $3::timestamptz at time zone s.time_zone),
-                date_trunc('month', $4::timestamptz at time zone s.time_zone),
+                date_trunc('month', greatest($3::timestamptz, $4::timestamptz - interval '1 millisecond') at time zone s.time_zone),
                 interval '1 month') gs
         where m.organization_id = $1 and m.id = $2
      ), sums as (

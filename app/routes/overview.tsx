@@ -65,17 +65,19 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const firstOfChart = new Date(
     Date.UTC(lastFull.getUTCFullYear(), lastFull.getUTCMonth() - 11, 1),
   );
-  const [drift, silentList, complete, byCarrier, baselines] = await Promise.all([
-    siteDrift(organization.id, monthKey(lastFull)),
-    silentMeters(organization.id, silent, now),
-    completeness(organization.id, 30, now),
-    monthlyByCarrier(
-      organization.id,
-      monthKey(firstOfChart),
-      monthKey(lastFull),
-    ),
-    againstBaseline(organization.id, monthKey(lastFull)),
-  ]);
+  const [drift, silentList, complete, byCarrier, baselines] = await Promise.all(
+    [
+      siteDrift(organization.id, monthKey(lastFull)),
+      silentMeters(organization.id, silent, now),
+      completeness(organization.id, 30, now),
+      monthlyByCarrier(
+        organization.id,
+        monthKey(firstOfChart),
+        monthKey(lastFull),
+      ),
+      againstBaseline(organization.id, monthKey(lastFull)),
+    ],
+  );
   const alerts = await alertPreferences(organization.id, user.id, role);
   return {
     organization,
@@ -217,9 +219,8 @@ function AgainstBaseline({
         Against baseline
       </h2>
       <p className="text-sm text-ink-muted">
-        {month} against what each site's newest saved baseline predicts for
-        that month's degree days. Marked beyond ±
-        {BASELINE_TOLERANCE * 100} %.
+        {month} against what each site's newest saved baseline predicts for that
+        month's degree days. Marked beyond ±{BASELINE_TOLERANCE * 100} %.
       </p>
       {rows.length === 0 ? (
         <div className="mt-3">
@@ -264,8 +265,7 @@ function AgainstBaseline({
                     </Link>
                     {r.note || r.extrapolated ? (
                       <span className="block text-sm text-ink-muted">
-                        {r.note ??
-                          "degree days outside the baseline's range"}
+                        {r.note ?? "degree days outside the baseline's range"}
                       </span>
                     ) : null}
                   </td>
