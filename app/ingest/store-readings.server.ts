@@ -254,7 +254,8 @@ async function recomputeRegisterSpan(
     from,
     to,
   );
-  return { from, to };
+  // The hours touched end at the last read: a delta ends there (exclusive).
+  return { from, to: bounds[0].next ?? hi };
 }
 
 async function replaceRegisterHours(
