@@ -1,4 +1,5 @@
 import { pool } from "~/db/client.server";
+import { monthKey } from "~/lib/months";
 import { residualFlag } from "~/ledger/balance";
 import { silentMeters } from "~/overview/estate-overview.server";
 
@@ -10,10 +11,6 @@ export interface Condition {
   subject: string;
   title: string;
   detail: string;
-}
-
-function monthKey(d: Date): string {
-  return `${d.getUTCFullYear()}-${String(d.getUTCMonth() + 1).padStart(2, "0")}`;
 }
 
 export async function silentMeterConditions(

@@ -1,13 +1,12 @@
 import type { NextFunction, Request, Response } from "express";
+import { MONTH_PATTERN, monthCount } from "~/lib/months";
 import ExcelJS from "exceljs";
 import { z } from "zod";
 import { ledgerRows, type Ledger } from "~/ledger/ledger-rows.server";
 import { sendError, sendValidationError } from "./respond.server";
 
 const monthField = (name: string) =>
-  z
-    .string()
-    .regex(/^\d{4}-(0[1-9]|1[0-2])$/, `${name}: expected a month as YYYY-MM`);
+  z.string().regex(MONTH_PATTERN, `${name}: expected a month as YYYY-MM`);
 
 const querySchema = z.strictObject({
   from: monthField("from"),
@@ -23,12 +22,6 @@ const querySchema = z.strictObject({
 /** Ten years of months at most per request. */
 const MAX_MONTHS = 120;
 
-function monthsBetween(from: string, to: string): number {
-  const [fy, fm] = from.split("-").map(Number);
-  const [ty, tm] = to.split("-").map(Number);
-  return (ty - fy) * 12 + (tm - fm) + 1;
-}
-
 async function loadLedger(req: Request, res: Response): Promise<Ledger | null> {
   const parsed = querySchema.safeParse(req.query);
   if (!parsed.success) {
@@ -36,7 +29,7 @@ async function loadLedger(req: Request, res: Response): Promise<Ledger | null> {
     return null;
   }
   const { from, to, site, carrier } = parsed.data;
-  const span = monthsBetween(from, to);
+  const span = monthCount(from, to);
   if (span < 1 || span > MAX_MONTHS) {
     sendError(
       res,

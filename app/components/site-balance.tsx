@@ -4,16 +4,12 @@
  * and under it each parent meter against its sub-meters, with the residual
  * flagged beyond the tolerance.
  */
-import {
-  useEffect,
-  useMemo,
-  useRef,
-  useState,
-  useSyncExternalStore,
-} from "react";
+import { useMemo } from "react";
 import { Form, Link, useNavigate } from "react-router";
 import { Sankey, Tooltip, type SankeyNodeProps as NodeProps } from "recharts";
 import { formatKwh } from "~/components/boundary";
+import { useHydrated } from "~/lib/use-hydrated";
+import { useWidth } from "~/lib/use-width";
 import {
   Badge,
   Button,
@@ -31,8 +27,6 @@ import {
   type SiteBalance,
 } from "~/ledger/balance";
 import { carrierLabels } from "~/sites/meter-schema";
-
-const subscribeNothing = () => () => {};
 
 const HEIGHT = 440;
 const MIN_WIDTH = 760;
@@ -63,22 +57,6 @@ export function monthLabel(month: string): string {
 }
 
 const tolerancePercent = `${(RESIDUAL_TOLERANCE * 100).toLocaleString("en-GB")} %`;
-
-/** The container's width, so the diagram fills the card. */
-function useWidth() {
-  const ref = useRef<HTMLDivElement>(null);
-  const [width, setWidth] = useState(0);
-  useEffect(() => {
-    const element = ref.current;
-    if (!element) return;
-    const observer = new ResizeObserver(([entry]) =>
-      setWidth(entry.contentRect.width),
-    );
-    observer.observe(element);
-    return () => observer.disconnect();
-  }, []);
-  return { ref, width };
-}
 
 function nodeValueLabel(node: BalanceNode): string {
   const value = formatKwh(node.signedKwh);
@@ -296,11 +274,7 @@ export function SiteBalanceView({
   siteName: string;
 }) {
   // The diagram measures the page, so it renders in the browser only.
-  const mounted = useSyncExternalStore(
-    subscribeNothing,
-    () => true,
-    () => false,
-  );
+  const mounted = useHydrated();
   const diagram = useMemo(
     () => (balance ? balanceDiagram(balance, siteName) : null),
     [balance, siteName],

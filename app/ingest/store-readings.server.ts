@@ -322,7 +322,6 @@ async function replaceRegisterHours(
 
 function classifyRepeats(
   candidates: PreparedReading[],
-  storedNow: Set<string>,
   existing: Map<string, string>,
 ) {
   const repeats: PreparedReading[] = [];
@@ -332,7 +331,6 @@ function classifyRepeats(
     if (hash === r.payloadHash) repeats.push(r);
     else conflicts.push(r);
   }
-  void storedNow;
   return { repeats, conflicts };
 }
 
@@ -407,7 +405,6 @@ export async function storeReadings(
   ];
   const { repeats, conflicts } = classifyRepeats(
     notFresh,
-    storedNow,
     await storedHashes(client, organizationId, notFresh),
   );
   await recordConflicts(client, organizationId, batchId, conflicts);

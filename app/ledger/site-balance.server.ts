@@ -7,7 +7,8 @@ import {
   type SiteBalance,
 } from "./balance";
 
-export const MONTH_PATTERN = /^\d{4}-(0[1-9]|1[0-2])$/;
+export { MONTH_PATTERN } from "~/lib/months";
+import { MONTH_PATTERN } from "~/lib/months";
 
 /**
  * One site's energy balance for one site-local month, from the monthly

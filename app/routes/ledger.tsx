@@ -1,11 +1,6 @@
-import {
-  useEffect,
-  useMemo,
-  useRef,
-  useState,
-  useSyncExternalStore,
-  type ReactNode,
-} from "react";
+import { monthCount, monthKey } from "~/lib/months";
+import { useHydrated } from "~/lib/use-hydrated";
+import { useEffect, useMemo, useRef, useState, type ReactNode } from "react";
 import {
   data,
   Form,
@@ -39,8 +34,6 @@ import { parseForm } from "~/lib/forms";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 import { getSite, listSites } from "~/sites/sites.server";
 import type { Route } from "./+types/ledger";
-
-const subscribeNothing = () => () => {};
 
 export const meta: Route.MetaFunction = () => [{ title: "Ledger · Joulebook" }];
 
@@ -165,21 +158,13 @@ export async function action({ request, params }: Route.ActionArgs) {
 /** The ledger API answers at most ten years at a time. */
 const MAX_MONTHS = 120;
 
-function monthsBetween(from: string, to: string): number {
-  const [fy, fm] = from.split("-").map(Number);
-  const [ty, tm] = to.split("-").map(Number);
-  return (ty - fy) * 12 + (tm - fm) + 1;
-}
-
-const monthOf = (date: Date) => date.toISOString().slice(0, 7);
-
 /** The last twelve full months before today (UTC, so server and browser agree). */
 function defaultMonths(now: Date) {
   const y = now.getUTCFullYear();
   const m = now.getUTCMonth();
   return {
-    from: monthOf(new Date(Date.UTC(y, m - 12, 1))),
-    to: monthOf(new Date(Date.UTC(y, m - 1, 1))),
+    from: monthKey(new Date(Date.UTC(y, m - 12, 1))),
+    to: monthKey(new Date(Date.UTC(y, m - 1, 1))),
   };
 }
 
@@ -416,7 +401,7 @@ export default function LedgerPage({
       ? undefined
       : to < from
         ? "The last month comes before the first."
-        : monthsBetween(from, to) > MAX_MONTHS
+        : monthCount(from, to) > MAX_MONTHS
           ? `Choose at most ${MAX_MONTHS} months at a time.`
           : undefined;
   const query =
@@ -433,11 +418,7 @@ export default function LedgerPage({
   }, [result, reload]);
 
   // The grid measures the page, so it renders in the browser only.
-  const mounted = useSyncExternalStore(
-    subscribeNothing,
-    () => true,
-    () => false,
-  );
+  const mounted = useHydrated();
 
   const siteName = sites.find((s) => s.id === site)?.name;
   const rows = ledger?.rows ?? [];

@@ -1,6 +1,6 @@
-import { useEffect, useMemo, useState, useSyncExternalStore } from "react";
+import { useEffect, useMemo, useState } from "react";
+import { useHydrated } from "~/lib/use-hydrated";
 
-const subscribeNothing = () => () => {};
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
 import { notFound, requireMembership } from "~/auth/membership.server";
@@ -220,11 +220,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
   );
   const [selected, setSelected] = useState<Interval | null>(null);
   // Charts and the grid measure the page, so they render in the browser only.
-  const mounted = useSyncExternalStore(
-    subscribeNothing,
-    () => true,
-    () => false,
-  );
+  const mounted = useHydrated();
   const navigation = useNavigation();
   // After a correction is saved, fetch the hour again so the table shows it.
   useEffect(() => {

@@ -1,5 +1,6 @@
 import { formatDistanceStrict } from "date-fns";
-import { useSyncExternalStore } from "react";
+import { monthKey } from "~/lib/months";
+import { useHydrated } from "~/lib/use-hydrated";
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import { requireMembership } from "~/auth/membership.server";
@@ -33,12 +34,6 @@ import type { Route } from "./+types/overview";
 export const meta: Route.MetaFunction = () => [
   { title: "Overview · Joulebook" },
 ];
-
-const subscribeNothing = () => () => {};
-
-function monthKey(d: Date): string {
-  return `${d.getUTCFullYear()}-${String(d.getUTCMonth() + 1).padStart(2, "0")}`;
-}
 
 const querySchema = z.object({
   silent: z.coerce
@@ -315,11 +310,7 @@ export default function Overview({
     now,
     alerts,
   } = loaderData;
-  const mounted = useSyncExternalStore(
-    subscribeNothing,
-    () => true,
-    () => false,
-  );
+  const mounted = useHydrated();
   const base = `/o/${organization.id}`;
   const stats = [
     ["Sites", String(drift.length)],

@@ -1,4 +1,5 @@
-import { useSyncExternalStore, type ReactNode } from "react";
+import { type ReactNode } from "react";
+import { useHydrated } from "~/lib/use-hydrated";
 import { data, Form, Link, useNavigation, useSubmit } from "react-router";
 import { z } from "zod";
 import { analyseSite, siteDefaults } from "~/baselines/analysis.server";
@@ -367,8 +368,6 @@ export async function action({ request, params }: Route.ActionArgs) {
 // ---------------------------------------------------------------------------
 // The page
 // ---------------------------------------------------------------------------
-
-const subscribeNothing = () => () => {};
 
 const fmt = (value: number | null | undefined, digits = 0) =>
   value === null || value === undefined || !Number.isFinite(value)
@@ -954,11 +953,7 @@ export default function WeatherBaselines({
   const { view, sites, canManage, coverage, savedList } = loaderData;
   const result = actionData as ActionResult | undefined;
   // Charts measure the page, so they render in the browser only.
-  const mounted = useSyncExternalStore(
-    subscribeNothing,
-    () => true,
-    () => false,
-  );
+  const mounted = useHydrated();
   const analysis = view?.analysis ?? null;
   const ddLabel = analysis ? driverLabels[analysis.driver] : "";
   const energyLabel = view?.carrier

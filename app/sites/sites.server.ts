@@ -1,4 +1,4 @@
-import { and, asc, count, eq, isNull, sql } from "drizzle-orm";
+import { and, asc, count, eq, isNull } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { meters, sites } from "~/db/schema";
 import { recordAudit } from "~/audit/record-audit.server";
@@ -138,4 +138,4 @@ export async function updateSite(args: {
   }
 }
 
-export { isUniqueViolation, sql };
+export { isUniqueViolation };

@@ -1,5 +1,5 @@
-import { useEffect, useRef, useState } from "react";
 import { Scatter, ScatterChart, Tooltip, XAxis, YAxis } from "recharts";
+import { useWidth } from "~/lib/use-width";
 import type { Interval } from "./use-intervals";
 
 interface Cell {
@@ -53,22 +53,6 @@ function colour(value: number, max: number): string {
 
 const MARGIN = { top: 8, right: 16, bottom: 24, left: 8 };
 const Y_AXIS_WIDTH = 56;
-
-/** The container's width, so each hour's cell fills its column exactly. */
-function useWidth() {
-  const ref = useRef<HTMLDivElement>(null);
-  const [width, setWidth] = useState(0);
-  useEffect(() => {
-    const element = ref.current;
-    if (!element) return;
-    const observer = new ResizeObserver(([entry]) =>
-      setWidth(entry.contentRect.width),
-    );
-    observer.observe(element);
-    return () => observer.disconnect();
-  }, []);
-  return { ref, width };
-}
 
 /** Day × hour heat map: each row a local day, each column an hour. */
 export function CarpetPlot({

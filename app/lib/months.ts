@@ -1,0 +1,14 @@
+/** Calendar months as `YYYY-MM`, shared by pages, API and jobs. */
+export const MONTH_PATTERN = /^\d{4}-(0[1-9]|1[0-2])$/;
+
+/** The UTC month of an instant. */
+export function monthKey(date: Date): string {
+  return date.toISOString().slice(0, 7);
+}
+
+/** How many months `from`…`to` spans, both included (≤ 0 when to precedes from). */
+export function monthCount(from: string, to: string): number {
+  const [fy, fm] = from.split("-").map(Number);
+  const [ty, tm] = to.split("-").map(Number);
+  return (ty - fy) * 12 + (tm - fm) + 1;
+}
