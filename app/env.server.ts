@@ -44,6 +44,42 @@ const envSchema = z
       .int()
       .min(1, "GATEWAY_RATE_LIMIT_PER_MINUTE must be at least 1")
       .default(600),
+    // Billing. With STRIPE_API_BASE set, the SDK talks to the local fake
+    // (fakes/stripe-fake.ts); with a real key and no base, to Stripe itself.
+    STRIPE_SECRET_KEY: z.string().min(1).default("sk_test_local_fake"),
+    STRIPE_API_BASE: z
+      .url("STRIPE_API_BASE must be an absolute URL")
+      .refine((u) => !u.endsWith("/"), "STRIPE_API_BASE must not end with /")
+      .optional(),
+    STRIPE_WEBHOOK_SECRET: z
+      .string()
+      .startsWith("whsec_", "STRIPE_WEBHOOK_SECRET must start with whsec_")
+      .default("whsec_local_fake_development_secret"),
+    STRIPE_PRICE_LOOKUP_KEY: z
+      .string()
+      .min(1)
+      .default("joulebook_metered_site_monthly"),
+    BILLING_TRIAL_DAYS: z.coerce
+      .number({ error: "BILLING_TRIAL_DAYS must be a number" })
+      .int()
+      .min(0)
+      .max(90)
+      .default(14),
+    BILLING_GRACE_DAYS: z.coerce
+      .number({ error: "BILLING_GRACE_DAYS must be a number" })
+      .int()
+      .min(0)
+      .default(7),
+    BILLING_RECONCILE_MINUTES: z.coerce
+      .number({ error: "BILLING_RECONCILE_MINUTES must be a number" })
+      .int()
+      .min(0, "BILLING_RECONCILE_MINUTES must be 0 (off) or more")
+      .default(60),
+    // Report signing. Without a PKCS#12 file, `npm start` creates a local
+    // signing CA and certificate once under SIGNING_DIR (.data/signing).
+    REPORT_SIGNING_P12: z.string().min(1).optional(),
+    REPORT_SIGNING_P12_PASSWORD: z.string().optional(),
+    SIGNING_DIR: z.string().min(1).default(".data/signing"),
   })
   .refine(
     (env) => env.RESEND_BASE_URL || env.RESEND_API_KEY !== "re_local_fake_key",
@@ -52,7 +88,20 @@ const envSchema = z
         "Set RESEND_BASE_URL to the local e-mail fake, or RESEND_API_KEY to a real key",
       path: ["RESEND_BASE_URL"],
     },
-  );
+  )
+  .refine(
+    (env) =>
+      env.STRIPE_API_BASE || env.STRIPE_SECRET_KEY !== "sk_test_local_fake",
+    {
+      message:
+        "Set STRIPE_API_BASE to the local Stripe fake, or STRIPE_SECRET_KEY to a real key",
+      path: ["STRIPE_API_BASE"],
+    },
+  )
+  .refine((env) => !env.REPORT_SIGNING_P12 || env.REPORT_SIGNING_P12_PASSWORD, {
+    message: "REPORT_SIGNING_P12 needs REPORT_SIGNING_P12_PASSWORD",
+    path: ["REPORT_SIGNING_P12_PASSWORD"],
+  });
 
 export type Env = z.infer<typeof envSchema>;
 

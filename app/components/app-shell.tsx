@@ -39,6 +39,8 @@ const areas: Area[] = [
   },
   { label: "Readings", path: "/readings", permission: "readings.view" },
   { label: "Gateways", path: "/gateways", permission: "gateways.manage" },
+  { label: "Reports", path: "/reports", permission: "reports.download" },
+  { label: "Billing", path: "/billing", permission: "billing.view" },
   { label: "Members", path: "/members", permission: "members.view" },
 ];
 

@@ -3,6 +3,7 @@ import {
   bigserial,
   boolean,
   check,
+  customType,
   date,
   foreignKey,
   index,
@@ -608,5 +609,120 @@ export const alertEvents = pgTable(
     uniqueIndex("alert_events_open_unique")
       .on(t.organizationId, t.kind, t.subject)
       .where(sql`${t.clearedAt} is null`),
+  ],
+);
+
+// ---------------------------------------------------------------------------
+// Billing: one Stripe customer and subscription per organisation, the invoices
+// seen through webhooks, and every webhook event applied (once) by its id.
+// ---------------------------------------------------------------------------
+
+export const billingAccounts = pgTable(
+  "billing_accounts",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" })
+      .primaryKey(),
+    stripeCustomerId: text("stripe_customer_id").notNull(),
+    stripeSubscriptionId: text("stripe_subscription_id"),
+    /** none, trialing, active, past_due, canceled, incomplete, unpaid */
+    status: text("status").notNull().default("none"),
+    /** The subscription quantity last confirmed by Stripe. */
+    quantity: integer("quantity").notNull().default(0),
+    trialEndsAt: timestamp("trial_ends_at", { withTimezone: true }),
+    currentPeriodEnd: timestamp("current_period_end", { withTimezone: true }),
+    cancelAtPeriodEnd: boolean("cancel_at_period_end").notNull().default(false),
+    /** When the subscription first went past due; cleared when paid. */
+    pastDueSince: timestamp("past_due_since", { withTimezone: true }),
+    lastReconciledAt: timestamp("last_reconciled_at", { withTimezone: true }),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  // Not unique: a sharded store can only enforce keys that hold organization_id.
+  (t) => [index("billing_accounts_customer_idx").on(t.stripeCustomerId)],
+);
+
+export const billingInvoices = pgTable(
+  "billing_invoices",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    stripeInvoiceId: text("stripe_invoice_id").notNull(),
+    number: text("number"),
+    /** draft, open, paid, uncollectible, void */
+    status: text("status").notNull(),
+    currency: text("currency").notNull(),
+    /** Minor units (cents), as Stripe sends them. */
+    amountDue: integer("amount_due").notNull(),
+    amountPaid: integer("amount_paid").notNull(),
+    periodStart: timestamp("period_start", { withTimezone: true }),
+    periodEnd: timestamp("period_end", { withTimezone: true }),
+    hostedInvoiceUrl: text("hosted_invoice_url"),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.organizationId, t.stripeInvoiceId] })],
+);
+
+/**
+ * Webhook events already applied. Not a tenant table: an event is keyed by
+ * Stripe's id alone (it may name a customer we do not know).
+ */
+export const billingEvents = pgTable("billing_events", {
+  eventId: text("event_id").primaryKey(),
+  type: text("type").notNull(),
+  organizationId: uuid("organization_id"),
+  receivedAt: timestamp("received_at", { withTimezone: true })
+    .notNull()
+    .defaultNow(),
+});
+
+// ---------------------------------------------------------------------------
+// Signed reports: generated in the background, stored with their bytes and
+// SHA-256 so an uploaded copy can be matched to the report it claims to be.
+// ---------------------------------------------------------------------------
+
+const bytea = customType<{ data: Buffer; driverData: Buffer }>({
+  dataType: () => "bytea",
+});
+
+export const reports = pgTable(
+  "reports",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    /** Null for an organisation-wide report. */
+    siteId: uuid("site_id"),
+    /** month, quarter or year */
+    periodKind: text("period_kind").notNull(),
+    /** First day of the period and first day after it (site-local months). */
+    periodStart: date("period_start", { mode: "string" }).notNull(),
+    periodEnd: date("period_end", { mode: "string" }).notNull(),
+    title: text("title").notNull(),
+    /** queued, running, done, failed */
+    status: text("status").notNull().default("queued"),
+    progress: integer("progress").notNull().default(0),
+    progressNote: text("progress_note").notNull().default(""),
+    error: text("error"),
+    /** True when every month in the period was closed at generation time. */
+    allMonthsClosed: boolean("all_months_closed"),
+    pdf: bytea("pdf"),
+    sha256: text("sha256"),
+    byteSize: integer("byte_size"),
+    pageCount: integer("page_count"),
+    createdByUserId: text("created_by_user_id").references(() => users.id, {
+      onDelete: "set null",
+    }),
+    createdAt: createdAt(),
+    completedAt: timestamp("completed_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("reports_sha256_idx").on(t.organizationId, t.sha256),
+    index("reports_created_idx").on(t.organizationId, t.createdAt),
   ],
 );
