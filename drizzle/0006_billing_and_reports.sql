@@ -54,6 +54,7 @@ CREATE TABLE "reports" (
 	"created_by_user_id" text,
 	"created_at" timestamp with time zone DEFAULT now() NOT NULL,
 	"completed_at" timestamp with time zone,
+	"heartbeat_at" timestamp with time zone,
 	CONSTRAINT "reports_organization_id_id_pk" PRIMARY KEY("organization_id","id")
 );
 --> statement-breakpoint

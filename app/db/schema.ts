@@ -719,6 +719,8 @@ export const reports = pgTable(
     }),
     createdAt: createdAt(),
     completedAt: timestamp("completed_at", { withTimezone: true }),
+    /** Touched while a job runs; a stale one means its process died. */
+    heartbeatAt: timestamp("heartbeat_at", { withTimezone: true }),
   },
   (t) => [
     primaryKey({ columns: [t.organizationId, t.id] }),
