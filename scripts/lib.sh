@@ -153,6 +153,11 @@ ensure_chromium() {
   if ! command -v chromium >/dev/null 2>&1; then apt_install chromium; fi
 }
 
+# pdfsig, pdftotext, pdftoppm check reports; certutil lets a test trust the
+# signing CA the way an NSS-based PDF reader would.
 ensure_poppler() {
-  if ! command -v pdfsig >/dev/null 2>&1; then apt_install poppler-utils; fi
+  local missing=()
+  command -v pdfsig >/dev/null 2>&1 || missing+=(poppler-utils)
+  command -v certutil >/dev/null 2>&1 || missing+=(libnss3-tools)
+  if [ ${#missing[@]} -gt 0 ]; then apt_install "${missing[@]}"; fi
 }

@@ -17,6 +17,10 @@ fi
 
 node --import tsx scripts/migrate.ts
 node --import tsx seeds/seed.ts
+# Reports are signed with REPORT_SIGNING_P12 when given, else with a local CA
+# and certificate made once and kept with the data.
+export SIGNING_DIR="${SIGNING_DIR:-$DATA_DIR/signing}"
+node --import tsx scripts/ensure-signing-identity.ts
 
 log "Building…"
 npm run --silent build >"$DATA_DIR/build.log" 2>&1 || { cat "$DATA_DIR/build.log"; die "build failed"; }
@@ -33,7 +37,23 @@ if [ -z "${RESEND_BASE_URL:-}" ] && [ -z "${RESEND_API_KEY:-}" ]; then
   OUTBOX_FILE="$DATA_DIR/outbox.json" node --import tsx fakes/resend-fake.ts &
   fake_pid=$!
 fi
-trap '[ -n "$fake_pid" ] && kill "$fake_pid" 2>/dev/null; true' EXIT
+
+# Billing goes to the local Stripe fake unless a key or a base URL is given.
+stripe_pid=""
+stripe_info="Billing:                              Stripe (${STRIPE_API_BASE:-api.stripe.com})"
+if [ -z "${STRIPE_API_BASE:-}" ] && [ -z "${STRIPE_SECRET_KEY:-}" ]; then
+  export STRIPE_FAKE_PORT="${STRIPE_FAKE_PORT:-54331}"
+  export STRIPE_API_BASE="http://127.0.0.1:$STRIPE_FAKE_PORT"
+  export STRIPE_SECRET_KEY="sk_test_local_fake_key"
+  export STRIPE_WEBHOOK_SECRET="${STRIPE_WEBHOOK_SECRET:-whsec_local_fake_development_secret}"
+  app_host="$HOST"; [ "$app_host" = "0.0.0.0" ] && app_host="127.0.0.1"
+  STRIPE_FAKE_STATE_FILE="$DATA_DIR/stripe-fake.json" \
+    STRIPE_FAKE_WEBHOOK_URL="http://$app_host:$PORT/api/v1/billing/webhook" \
+    node --import tsx fakes/stripe-fake.ts &
+  stripe_pid=$!
+  stripe_info="Stripe fake (test card 4242…):        $STRIPE_API_BASE/_fake/state"
+fi
+trap '[ -n "$fake_pid" ] && kill "$fake_pid" 2>/dev/null; [ -n "$stripe_pid" ] && kill "$stripe_pid" 2>/dev/null; true' EXIT
 
 demo_key="${DEMO_GATEWAY_KEY:-$(node --import tsx -e 'import("./seeds/demo-people.ts").then(m => console.log(m.DEFAULT_DEMO_GATEWAY_KEY))')}"
 cat <<INFO
@@ -49,6 +69,7 @@ cat <<INFO
     two orgs         consultant@fernbank.example
   Demo gateway key (development only): $demo_key
   Outbox (e-mail caught locally):       http://$HOST:$PORT/outbox
+  $stripe_info
   Stop the database afterwards with:    npm run db:stop
 
 INFO

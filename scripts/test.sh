@@ -8,6 +8,7 @@ started=$SECONDS
 ensure_node_modules
 mkdir -p "$DATA_DIR"
 ensure_chromium
+ensure_poppler
 if [ -n "${TEST_DATABASE_URL:-}" ]; then
   export DATABASE_URL="$TEST_DATABASE_URL"
 else
@@ -16,6 +17,8 @@ else
   export DATABASE_URL="$(managed_url joulebook_test)"
 fi
 node --import tsx scripts/migrate.ts
+export SIGNING_DIR="${SIGNING_DIR:-$DATA_DIR/signing}"
+node --import tsx scripts/ensure-signing-identity.ts
 
 log "Typecheck"
 npm run --silent typecheck

@@ -1,7 +1,8 @@
 /**
  * Starts what the integration and browser suites talk to: the demo data in the
  * fresh test database (npm test created and migrated it), the local e-mail
- * fake, and the production server built by npm test, on free loopback ports.
+ * and Stripe fakes, and the production server built by npm test, on free
+ * loopback ports.
  */
 import { spawn, type ChildProcess } from "node:child_process";
 import type { AddressInfo } from "node:net";
@@ -10,12 +11,14 @@ import pg from "pg";
 import type { TestProject } from "vitest/node";
 import * as schema from "../../app/db/schema";
 import { createResendFake } from "../../fakes/resend-fake";
+import { createStripeFake } from "../../fakes/stripe-fake";
 import { seedDemo } from "../../seeds/seed-demo";
 
 declare module "vitest" {
   export interface ProvidedContext {
     baseUrl: string;
     resendUrl: string;
+    stripeUrl: string;
   }
 }
 
@@ -60,6 +63,17 @@ export default async function setup(project: TestProject) {
 
   const port = await freePort();
   const baseUrl = `http://127.0.0.1:${port}`;
+
+  // Started before the app so its first Stripe call finds it. Short retries
+  // keep `POST /_fake/flush` quick when a test makes the webhook fail.
+  const stripeWebhookSecret = "whsec_test_joulebook_fake";
+  const stripeFake = await createStripeFake({
+    webhookUrl: `${baseUrl}/api/v1/billing/webhook`,
+    webhookSecret: stripeWebhookSecret,
+    retryDelaysMs: [100, 300],
+  }).listen(0, "127.0.0.1");
+  const stripeUrl = stripeFake.url;
+
   const childEnv: NodeJS.ProcessEnv = {
     ...process.env,
     NODE_ENV: "production",
@@ -67,6 +81,11 @@ export default async function setup(project: TestProject) {
     HOST: "127.0.0.1",
     RESEND_BASE_URL: resendUrl,
     RESEND_API_KEY: "re_test_key",
+    STRIPE_API_BASE: stripeUrl,
+    STRIPE_SECRET_KEY: "sk_test_joulebook",
+    STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
+    // Tests trigger billing reconciliation themselves.
+    BILLING_RECONCILE_MINUTES: "0",
     // Low enough for a test to reach in a second or two.
     GATEWAY_RATE_LIMIT_PER_MINUTE: "120",
     // Tests run the alert check themselves, so its e-mails are predictable.
@@ -82,10 +101,12 @@ export default async function setup(project: TestProject) {
 
   project.provide("baseUrl", baseUrl);
   project.provide("resendUrl", resendUrl);
+  project.provide("stripeUrl", stripeUrl);
 
   return async () => {
     server.kill("SIGTERM");
     await new Promise((r) => server.once("exit", r));
     await new Promise((r) => fake.close(r));
+    await stripeFake.close({ flush: false });
   };
 }
