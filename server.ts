@@ -28,6 +28,11 @@ function loadEnv(): Env {
 
 const env = loadEnv();
 const development = env.NODE_ENV === "development";
+// The billing page's forms redirect to Stripe's Checkout and billing portal
+// (or to the local fake's pages); CSP checks form redirects too.
+const stripeFormTargets = env.STRIPE_API_BASE
+  ? [new URL(env.STRIPE_API_BASE).origin]
+  : ["https://checkout.stripe.com", "https://billing.stripe.com"];
 const app = express();
 const httpServer = createServer(app);
 
@@ -51,7 +56,7 @@ app.use(
             fontSrc: ["'self'"],
             connectSrc: ["'self'"],
             frameAncestors: ["'none'"],
-            formAction: ["'self'"],
+            formAction: ["'self'", ...stripeFormTargets],
             baseUri: ["'self'"],
             objectSrc: ["'none'"],
           },

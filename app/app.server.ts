@@ -13,6 +13,8 @@ import { estimationIdle } from "./ingest/after-ingest.server";
 import { requestInfoContext } from "./request-context";
 import { runAllAlerts } from "./alerts/run-alerts.server";
 import { env } from "./env.server";
+import { reconcileBilling } from "./billing/reconcile.server";
+import { reportJobsIdle, resumeReportJobs } from "./reports/report-jobs.server";
 
 export const app = express();
 
@@ -38,9 +40,37 @@ const alertTimer =
     : null;
 alertTimer?.unref();
 
+// Reports left queued by a restart, or running in a process that died, are
+// picked up at start and then every minute.
+const resumeReports = () =>
+  void resumeReportJobs().catch((error) =>
+    console.error("[reports] could not resume jobs", error),
+  );
+resumeReports();
+const reportTimer = setInterval(resumeReports, 60_000);
+reportTimer.unref();
+
+// Stripe's subscription quantities are checked against the estate on a
+// timer, repairing any sync that failed while Stripe was unreachable.
+const reconcileMinutes = env().BILLING_RECONCILE_MINUTES;
+const reconcileTimer =
+  reconcileMinutes > 0
+    ? setInterval(
+        () =>
+          void reconcileBilling().catch((error) =>
+            console.error("[billing] reconciliation run failed", error),
+          ),
+        reconcileMinutes * 60_000,
+      )
+    : null;
+reconcileTimer?.unref();
+
 /** Finishes estimation already queued, then closes the pool. */
 export async function closeResources(): Promise<void> {
   if (alertTimer) clearInterval(alertTimer);
+  if (reconcileTimer) clearInterval(reconcileTimer);
+  clearInterval(reportTimer);
+  await reportJobsIdle();
   await estimationIdle();
   await pool.end();
 }

@@ -59,7 +59,7 @@ function dataDir(): string {
   return process.env.JOULEBOOK_DATA_DIR ?? path.join(ROOT, ".data");
 }
 
-function managedUrl(database: string): string {
+export function managedUrl(database: string): string {
   const dir = dataDir();
   const portFile = path.join(dir, "pg-port");
   const passwordFile = path.join(dir, "db-password");

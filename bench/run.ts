@@ -5,11 +5,13 @@
 import { benchPhysics } from "./physics.bench";
 import { benchLedger } from "./ledger.bench";
 import { benchReadings } from "./readings.bench";
+import { benchReports } from "./reports.bench";
 
 const BENCHES: Record<string, () => Promise<void>> = {
   physics: benchPhysics,
   readings: benchReadings,
   ledger: benchLedger,
+  reports: benchReports,
 };
 
 const asked = process.argv.slice(2);

@@ -102,6 +102,62 @@ export function openApiDocument() {
           },
         },
       },
+      "/billing/webhook": {
+        post: {
+          summary: "Stripe's billing events (called by Stripe, not by people)",
+          description:
+            "Signed with the Stripe-Signature header over the raw body. Each event is applied once, keyed by its id, in the same transaction as its effect; a repeat answers 200 without changing anything. Events for customers Joulebook does not know are recorded and ignored. Answered only after the commit.",
+          security: [],
+          parameters: [
+            {
+              name: "Stripe-Signature",
+              in: "header",
+              required: true,
+              schema: { type: "string" },
+              description: "t=<unix time>,v1=<HMAC-SHA256 of t.body>",
+            },
+          ],
+          requestBody: {
+            required: true,
+            content: {
+              "application/json": {
+                schema: {
+                  type: "object",
+                  required: ["id", "type", "data"],
+                  properties: {
+                    id: { type: "string" },
+                    type: { type: "string" },
+                    data: { type: "object" },
+                  },
+                },
+              },
+            },
+          },
+          responses: {
+            "200": {
+              description: "Recorded: applied, a repeat, or ignored",
+              content: {
+                "application/json": {
+                  schema: {
+                    type: "object",
+                    required: ["received", "id", "outcome"],
+                    properties: {
+                      received: { const: true },
+                      id: { type: "string" },
+                      outcome: {
+                        enum: ["applied", "duplicate", "ignored"],
+                      },
+                    },
+                  },
+                },
+              },
+            },
+            "400": errorResponse(
+              "Missing or wrong signature (`invalid_signature`); nothing changed",
+            ),
+          },
+        },
+      },
       "/orgs/{orgId}/readings": {
         post: {
           summary:

@@ -1,4 +1,5 @@
 import express, { Router } from "express";
+import { stripeWebhook, WEBHOOK_BODY_LIMIT } from "~/billing/webhook.server";
 import { evaluateEnergy, EVALUATE_BODY_LIMIT } from "./evaluate.server";
 import { health } from "./health.server";
 import { getLedger, getLedgerCsv, getLedgerXlsx } from "./ledger.server";
@@ -17,6 +18,13 @@ import { apiErrorHandler, sendError } from "./respond.server";
 /** The JSON API under /api/v1. */
 export function apiRouter(): Router {
   const router = Router();
+  // Stripe signs the exact bytes: this route reads the raw body, and no JSON
+  // parser may run before it.
+  router.post(
+    "/billing/webhook",
+    express.raw({ type: "application/json", limit: WEBHOOK_BODY_LIMIT }),
+    stripeWebhook,
+  );
   router.get("/health", health);
   router.get("/openapi.json", (_req, res) => {
     res.json(openApiDocument());

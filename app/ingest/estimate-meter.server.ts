@@ -74,8 +74,9 @@ async function loadSeries(
     hour_start: Date;
     energy_kwh: string;
     quality: Quality;
+    estimate_method: string | null;
   }>(
-    `select hour_start, energy_kwh, quality from intervals
+    `select hour_start, energy_kwh, quality, estimate_method from intervals
       where organization_id = $1 and meter_id = $2 and hour_start >= $3 and hour_start <= $4
       order by hour_start`,
     [organizationId, meterId, start, end],
@@ -84,6 +85,7 @@ async function loadSeries(
     hourStart: r.hour_start,
     energyKwh: Number(r.energy_kwh),
     quality: r.quality,
+    registerSpread: r.estimate_method === "register_spread",
   }));
 }
 

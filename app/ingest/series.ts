@@ -7,6 +7,11 @@ export interface HourlyPoint {
   hourStart: Date;
   energyKwh: number;
   quality: Quality;
+  /**
+   * An estimated hour that shares out a register's real advance across a gap
+   * between two reads: the total was measured, only its split is ours.
+   */
+  registerSpread?: boolean;
 }
 
 /**

@@ -64,6 +64,23 @@ describe("detectSpikes", () => {
     expect(detectSpikes(s)).toEqual([]);
   });
 
+  it("also checks hours that share out a register's advance across a gap", () => {
+    // A register read 10,000 units too high, spread over a 4-hour gap:
+    // each spread hour is far above 10 × the typical 3 kWh.
+    const spread = (h: number, kwh: number): HourlyPoint => ({
+      hourStart: at(h),
+      energyKwh: kwh,
+      quality: "estimated",
+      registerSpread: true,
+    });
+    const s = [...series([3, 3, 3]), spread(3, 2500), spread(4, 2500)];
+    expect(detectSpikes(s).map((p) => p.hourStart)).toEqual([at(3), at(4)]);
+    // A plausible spread is not a spike; profile estimates are never checked.
+    expect(detectSpikes([...series([3, 3, 3]), spread(3, 4)])).toEqual([]);
+    const profiled = { ...spread(3, 2500), registerSpread: false };
+    expect(detectSpikes([...series([3, 3, 3]), profiled])).toEqual([]);
+  });
+
   it("rejects a factor that is not positive", () => {
     expect(() => detectSpikes(series([1]), 0)).toThrow(RangeError);
   });

@@ -34,8 +34,10 @@ export function typicalHourlyValue(
 
 /**
  * Measured hours whose |value| exceeds factor × the typical value. Edited
- * hours are a person's decision and estimated hours are ours, so only
- * measured hours are checked.
+ * hours are a person's decision and estimated hours are ours, so they are
+ * not checked, except hours that share out a register's advance across a gap:
+ * that energy comes from the meter, and a register read far too high (a typo,
+ * a wrong multiplier) shows up there first.
  */
 export function detectSpikes(
   series: readonly HourlyPoint[],
@@ -46,7 +48,9 @@ export function detectSpikes(
   if (typical === null) return [];
   const limit = factor * typical;
   return series.filter(
-    (p) => p.quality === "measured" && Math.abs(p.energyKwh) > limit,
+    (p) =>
+      (p.quality === "measured" || p.registerSpread === true) &&
+      Math.abs(p.energyKwh) > limit,
   );
 }
 

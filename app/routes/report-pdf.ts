@@ -1,4 +1,27 @@
-// Placeholder resource route: replaced in this change.
-export function loader() {
-  return new Response("Not yet", { status: 404 });
+import { notFound, requireMembership } from "~/auth/membership.server";
+import { reportFile } from "~/reports/reports.server";
+import type { Route } from "./+types/report-pdf";
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+/** The signed PDF exactly as stored: the bytes the SHA-256 was taken of. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { organization } = await requireMembership(
+    request,
+    params.orgId,
+    "reports.download",
+  );
+  if (!UUID.test(params.reportId)) notFound("No such report.");
+  const file = await reportFile(organization.id, params.reportId);
+  if (!file) notFound("No such report, or it is not finished.");
+  return new Response(new Uint8Array(file.pdf), {
+    headers: {
+      "Content-Type": "application/pdf",
+      "Content-Length": String(file.pdf.length),
+      "Content-Disposition": `attachment; filename="${file.fileName}"`,
+      "Cache-Control": "private, no-store",
+      ETag: `"${file.sha256}"`,
+      "X-Content-SHA256": file.sha256,
+    },
+  });
 }

@@ -120,6 +120,15 @@ export default function SignIn({
         >
           Forgot your password?
         </Link>
+        <p className="text-ink-muted">
+          New to Joulebook?{" "}
+          <Link
+            to="/sign-up"
+            className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+          >
+            Create an organisation
+          </Link>
+        </p>
       </Form>
     </AuthFrame>
   );

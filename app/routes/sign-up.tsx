@@ -1,4 +1,136 @@
-// Placeholder: replaced by the sign-up page in this change.
-export default function Placeholder() {
-  return null;
+import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { z } from "zod";
+import { getUser, startSession } from "~/auth/session.server";
+import { signUpOwner } from "~/billing/sign-up.server";
+import { AuthFrame } from "~/components/auth-frame";
+import { Button, Field, Notice } from "~/components/ui";
+import { env } from "~/env.server";
+import {
+  emailField,
+  nameField,
+  newPasswordField,
+  parseForm,
+} from "~/lib/forms";
+import type { Route } from "./+types/sign-up";
+
+export const meta: Route.MetaFunction = () => [
+  { title: "Create an organisation · Joulebook" },
+];
+
+const signUpSchema = z
+  .strictObject({
+    name: nameField,
+    email: emailField,
+    password: newPasswordField,
+    confirm: z.string().max(200),
+    organization: z
+      .string({ error: "Enter the organisation's name." })
+      .trim()
+      .min(2, "Enter the organisation's name.")
+      .max(120, "Use at most 120 characters."),
+  })
+  .refine((v) => v.password === v.confirm, {
+    path: ["confirm"],
+    message: "The two passwords differ.",
+  });
+
+export async function loader({ request }: Route.LoaderArgs) {
+  if (await getUser(request)) throw redirect("/");
+  return { trialDays: env().BILLING_TRIAL_DAYS };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  if (await getUser(request)) throw redirect("/");
+  const form = parseForm(await request.formData(), signUpSchema);
+  if (!form.ok) return data({ errors: form.errors }, { status: 400 });
+  const result = await signUpOwner({
+    name: form.data.name,
+    email: form.data.email,
+    password: form.data.password,
+    organizationName: form.data.organization,
+  });
+  if (!result.ok) {
+    return data(
+      {
+        errors: {
+          email:
+            "An account already uses this address. Sign in instead, or use another address.",
+        } as Record<string, string>,
+      },
+      { status: 409 },
+    );
+  }
+  throw redirect(`/o/${result.organizationId}`, {
+    headers: { "Set-Cookie": await startSession(request, result.userId) },
+  });
+}
+
+export default function SignUp({
+  loaderData,
+  actionData,
+}: Route.ComponentProps) {
+  const errors: Record<string, string | undefined> = actionData?.errors ?? {};
+  const busy = useNavigation().state === "submitting";
+  return (
+    <AuthFrame
+      title="Create an organisation"
+      intro={`You become its owner. The first ${loaderData.trialDays} days are free, with no card needed; finance staff subscribe when you are ready.`}
+    >
+      <Form method="post" className="flex flex-col gap-5" noValidate>
+        {errors.form ? <Notice tone="error">{errors.form}</Notice> : null}
+        <Field
+          label="Organisation name"
+          name="organization"
+          autoComplete="organization"
+          required
+          autoFocus
+          error={errors.organization}
+        />
+        <Field
+          label="Your name"
+          name="name"
+          autoComplete="name"
+          required
+          error={errors.name}
+        />
+        <Field
+          label="E-mail address"
+          name="email"
+          type="email"
+          autoComplete="username"
+          required
+          error={errors.email}
+        />
+        <Field
+          label="Choose a password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          hint="At least 10 characters."
+          required
+          error={errors.password}
+        />
+        <Field
+          label="Repeat the password"
+          name="confirm"
+          type="password"
+          autoComplete="new-password"
+          required
+          error={errors.confirm}
+        />
+        <Button type="submit" disabled={busy}>
+          {busy ? "Creating…" : "Create the organisation"}
+        </Button>
+        <p className="text-ink-muted">
+          Already have an account?{" "}
+          <Link
+            to="/sign-in"
+            className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+          >
+            Sign in
+          </Link>
+        </p>
+      </Form>
+    </AuthFrame>
+  );
 }

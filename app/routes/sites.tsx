@@ -3,6 +3,7 @@ import { requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { SiteFields } from "~/components/site-fields";
 import { Button, Card, EmptyState, Notice, PageHeader } from "~/components/ui";
+import { siteCreationRefusal } from "~/billing/site-gate.server";
 import { parseForm } from "~/lib/forms";
 import { siteFormSchema } from "~/sites/site-schema";
 import {
@@ -16,10 +17,14 @@ export const meta: Route.MetaFunction = () => [{ title: "Sites · Joulebook" }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { organization, role } = await requireMembership(request, params.orgId);
+  const canManage = can(role, "sites.manage");
   return {
     organization,
     sites: await listSites({ organizationId: organization.id }),
-    canManage: can(role, "sites.manage"),
+    canManage,
+    billingRefusal: canManage
+      ? await siteCreationRefusal(organization.id)
+      : null,
   };
 }
 
@@ -29,6 +34,13 @@ export async function action({ request, params }: Route.ActionArgs) {
     params.orgId,
     "sites.manage",
   );
+  // Unpaid past the grace period: the estate may not grow (ingest goes on).
+  const refusal = await siteCreationRefusal(organization.id);
+  if (refusal)
+    return data(
+      { errors: { form: refusal } as Record<string, string> },
+      { status: 402 },
+    );
   const form = parseForm(await request.formData(), siteFormSchema);
   if (!form.ok) return data({ errors: form.errors }, { status: 400 });
   const { intent: _intent, ...input } = form.data;
@@ -53,7 +65,7 @@ export default function Sites({
   loaderData,
   actionData,
 }: Route.ComponentProps) {
-  const { sites, canManage, organization } = loaderData;
+  const { sites, canManage, organization, billingRefusal } = loaderData;
   const errors: Record<string, string | undefined> = actionData?.errors ?? {};
   return (
     <>
@@ -91,7 +103,12 @@ export default function Sites({
             ))}
           </ul>
         )}
-        {canManage ? (
+        {canManage && billingRefusal ? (
+          <Notice tone="caution" title="Adding sites is paused">
+            {billingRefusal}
+          </Notice>
+        ) : null}
+        {canManage && !billingRefusal ? (
           <Card aria-labelledby="new-site-heading">
             <h2 id="new-site-heading" className="text-lg">
               Add a site

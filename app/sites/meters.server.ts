@@ -2,6 +2,7 @@ import { and, asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { meters, sites } from "~/db/schema";
 import { recordAudit } from "~/audit/record-audit.server";
+import { afterMeteredChange } from "~/billing/sync-quantity.server";
 import type { MeterInput } from "./meter-schema";
 import { DuplicateNameError, isUniqueViolation } from "./sites.server";
 
@@ -154,7 +155,7 @@ export async function createMeter(args: {
     args.siteId,
     args.input.parentMeterId,
   );
-  return db
+  const meterId = await db
     .transaction(async (tx) => {
       const [meter] = await tx
         .insert(meters)
@@ -174,6 +175,9 @@ export async function createMeter(args: {
       return meter.id;
     })
     .catch(rethrowDuplicate);
+  // A site's first meter makes it billable (after the commit, never failing).
+  await afterMeteredChange(args.organizationId, `meter.created:${meterId}`);
+  return meterId;
 }
 
 export async function updateMeter(args: {
@@ -220,7 +224,7 @@ export async function retireMeter(args: {
   meterId: string;
   removedAt: Date;
 }) {
-  return db.transaction(async (tx) => {
+  const retired = await db.transaction(async (tx) => {
     const updated = await tx
       .update(meters)
       .set({ removedAt: args.removedAt })
@@ -241,6 +245,13 @@ export async function retireMeter(args: {
     });
     return true;
   });
+  // A site's last meter going makes it no longer billable.
+  if (retired)
+    await afterMeteredChange(
+      args.organizationId,
+      `meter.retired:${args.meterId}:${args.removedAt.toISOString()}`,
+    );
+  return retired;
 }
 
 /**

@@ -1,4 +1,5 @@
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { applyAppTestEnv } from "../support/app-env";
 import { Client, outbox } from "../support/http";
 import { db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
@@ -10,8 +11,7 @@ let appPool: { end: () => Promise<void> };
 // The check runs in this process against the test database; its e-mails go
 // to the same local e-mail service as the server's.
 beforeAll(async () => {
-  process.env.RESEND_BASE_URL = inject("resendUrl");
-  process.env.RESEND_API_KEY = "re_test_key";
+  applyAppTestEnv();
   ({ runAlerts } = await import("../../app/alerts/run-alerts.server"));
   ({ pool: appPool } = await import("../../app/db/client.server"));
   await db.delete(schema.signInAttempts);

@@ -8,7 +8,8 @@
 import { spawn, type ChildProcess } from "node:child_process";
 import type { AddressInfo } from "node:net";
 import { createServer } from "node:net";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { appTestEnv } from "../support/app-env";
 import { pool } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
@@ -95,8 +96,7 @@ class ServerProcess {
       NODE_ENV: "production",
       PORT: String(this.port),
       HOST: "127.0.0.1",
-      RESEND_BASE_URL: inject("resendUrl"),
-      RESEND_API_KEY: "re_test",
+      ...appTestEnv(),
       GATEWAY_RATE_LIMIT_PER_MINUTE: "100000",
     };
     // A server spawned from vitest must not think it runs under vitest.

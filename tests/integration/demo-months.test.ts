@@ -4,7 +4,8 @@
  * numeric sum of its hours, in the rollups and in the ledger API.
  */
 import { randomBytes } from "node:crypto";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { applyAppTestEnv } from "../support/app-env";
 import { gatewayKeyPrefix } from "../../app/auth/gateway-keys.server";
 import { hashToken } from "../../app/auth/tokens.server";
 import { MAX_READINGS_PER_BATCH } from "../../app/ingest/reading-schema";
@@ -38,7 +39,7 @@ beforeAll(async () => {
   await db.delete(schema.signInAttempts);
   // The seed module reads the app's environment when it loads, which wants
   // an e-mail endpoint: the suite's local fake (nothing is sent here).
-  process.env.RESEND_BASE_URL ??= inject("resendUrl");
+  applyAppTestEnv();
   const [{ createEstate }, client] = await Promise.all([
     import("../../seeds/seed-estate"),
     import("../../app/db/client.server"),

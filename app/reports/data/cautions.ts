@@ -1,0 +1,9 @@
+/**
+ * The standing cautions of design.md, in the wording the app shows them
+ * (app/components/cautions.tsx), for documents that cannot render JSX.
+ */
+export const CAUTIONS = [
+  "Figures are for energy management, not for trade.",
+  "Billing third parties from sub-meters needs meters approved under your local legal-metrology rules.",
+  "Steam and pressurised hot water are hazardous: installation and maintenance belong to qualified people working to local codes.",
+] as const;

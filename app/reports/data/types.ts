@@ -1,0 +1,249 @@
+/**
+ * Everything a report shows, as plain data: the loaders fill it from the
+ * database (report-data.server.ts), the PDF modules only draw it. Energy
+ * figures that the ledger shows stay decimal strings (kWh, PostgreSQL
+ * numeric, signed: into the site positive) so the report prints exactly the
+ * ledger's digits; derived model figures are numbers.
+ */
+import type { ResidualFlag } from "~/ledger/balance";
+import type { ReportPeriod } from "../periods";
+
+export type Carrier = "heat" | "cooling" | "steam" | "electricity";
+export type DegreeDayDriver = "hdd" | "cdd";
+
+/** Whether a month of the period is closed, for the report's scope. */
+export interface MonthStatus {
+  /** YYYY-MM, a site-local month. */
+  month: string;
+  closed: boolean;
+  /** Closed for the whole organisation (not site by site). */
+  closedForOrganisation: boolean;
+  /** Sites with ledger entries this month, and how many of them are closed. */
+  sitesWithEntries: number;
+  sitesClosed: number;
+}
+
+/** One site × carrier × month entry, as the ledger shows it. */
+export interface LedgerEntry {
+  month: string;
+  carrier: Carrier;
+  importsKwh: string;
+  exportsKwh: string;
+  netKwh: string;
+  estimatedKwh: string;
+  /** Estimated energy over the energy metered, 0…1. */
+  estimatedShare: number;
+  /** EN 1434 band (± kWh) for heat and cooling where the meters are rated. */
+  uncertaintyKwh: string | null;
+  status: "open" | "closed";
+  /** Changes since the month was closed, not in the figures above. */
+  adjustmentsKwh: string;
+  adjustmentCount: number;
+}
+
+export interface EntryTotal {
+  importsKwh: string;
+  exportsKwh: string;
+  netKwh: string;
+  estimatedShare: number;
+  uncertaintyKwh: string | null;
+  adjustmentsKwh: string;
+  adjustmentCount: number;
+}
+
+export interface CarrierTable {
+  carrier: Carrier;
+  entries: LedgerEntry[];
+  total: EntryTotal;
+}
+
+export interface BaselineMonth {
+  month: string;
+  hdd: number | null;
+  cdd: number | null;
+  /** The driver's degree days, when the month's weather is complete. */
+  dd: number | null;
+  weatherDays: number;
+  daysInMonth: number;
+  /** What the boundary import meters measured, a magnitude (kWh). */
+  actualKwh: number | null;
+  /** The model at the month's degree days (kWh). */
+  expectedKwh: number | null;
+  /** (actual − expected) ÷ expected: positive when more was used. */
+  difference: number | null;
+  /** Degree days outside the range the baseline was fitted on. */
+  extrapolated: boolean;
+  note: string | null;
+}
+
+export interface Assessment {
+  value: number | null;
+  limit: number;
+  pass: boolean;
+}
+
+export interface BaselineComparison {
+  carrier: Carrier;
+  baselineId: string;
+  /** The baseline period, YYYY-MM, inclusive. */
+  from: string;
+  to: string;
+  granularity: "monthly" | "daily";
+  driver: DegreeDayDriver;
+  /** The base the model was fitted with, °C. */
+  baseC: number;
+  /** The site's degree-day base now, °C (may differ from the model's). */
+  siteBaseC: number;
+  intercept: number;
+  slope: number;
+  n: number;
+  p: number;
+  r2: number | null;
+  cvrmse: number | null;
+  nmbe: number | null;
+  assessment: { cvrmse: Assessment; nmbe: Assessment };
+  createdAt: string;
+  createdBy: string | null;
+  months: BaselineMonth[];
+  /** Over the months with both figures (IPMVP avoided energy use). */
+  comparedMonths: number;
+  expectedKwh: number;
+  actualKwh: number;
+  avoidedKwh: number;
+  avoidedPercent: number | null;
+}
+
+/** A parent meter against its sub-meters over the period. */
+export interface Residual {
+  code: string;
+  name: string;
+  carrier: Carrier;
+  parentKwh: string;
+  childrenKwh: string;
+  residualKwh: string;
+  residualFraction: number | null;
+  childCount: number;
+  flag: ResidualFlag;
+}
+
+export interface CarrierBalance {
+  carrier: Carrier;
+  importsKwh: string;
+  exportsKwh: string;
+  netKwh: string;
+}
+
+export interface SiteEnergyBalance {
+  carriers: CarrierBalance[];
+  importsKwh: string;
+  exportsKwh: string;
+  netKwh: string;
+  residuals: Residual[];
+}
+
+export interface SiteReport {
+  id: string;
+  name: string;
+  timeZone: string;
+  degreeDayBaseC: number;
+  floorAreaM2: number | null;
+  archived: boolean;
+  tables: CarrierTable[];
+  total: EntryTotal;
+  baselines: BaselineComparison[];
+  balance: SiteEnergyBalance;
+}
+
+export interface AdjustmentEntry {
+  id: number;
+  /** ISO 8601 instant the entry was recorded. */
+  recordedAt: string;
+  month: string;
+  siteName: string;
+  meterCode: string;
+  meterName: string;
+  carrier: Carrier;
+  subMeter: boolean;
+  deltaKwh: string;
+  /** late_data, edit or estimate */
+  source: string;
+  reason: string;
+  /** A person's name, a gateway ("Gateway …") or "Automatic" (the app). */
+  author: string;
+}
+
+export interface MeterQuality {
+  siteName: string;
+  code: string;
+  name: string;
+  carrier: Carrier;
+  orientation: "import" | "export";
+  subMeter: boolean;
+  retired: boolean;
+  /** Hours the meter was installed within the period (up to generation). */
+  expectedHours: number;
+  measuredHours: number;
+  estimatedHours: number;
+  editedHours: number;
+  /** Expected hours without a measured, estimated or edited value. */
+  missingHours: number;
+  /** Longest run of hours without a measured value, in the period. */
+  longestSilentHours: number;
+  conflicts: number;
+  openConflicts: number;
+}
+
+export interface DataQuality {
+  meters: MeterQuality[];
+  expectedHours: number;
+  measuredHours: number;
+  estimatedHours: number;
+  editedHours: number;
+  missingHours: number;
+  /** A spell this long without a measured hour makes a meter silent. */
+  silentAfterHours: number;
+  silentMeters: number;
+  conflicts: number;
+  openConflicts: number;
+}
+
+export interface UnitFactor {
+  unit: string;
+  kwh: number;
+  source: string;
+}
+
+export interface MethodFacts {
+  unitFactors: UnitFactor[];
+  degreeDayBases: { siteName: string; baseC: number }[];
+  guideline14: {
+    monthly: { cvrmse: number; nmbe: number };
+    daily: { cvrmse: number; nmbe: number };
+  };
+  residualTolerance: number;
+  gaugeOffsetBar: number;
+}
+
+export interface ReportData {
+  reportId: string;
+  organization: { id: string; name: string };
+  /** siteId null: the whole organisation ("All sites"). */
+  scope: { siteId: string | null; label: string };
+  period: ReportPeriod;
+  /** ISO 8601 instant. */
+  generatedAt: string;
+  /** IANA zone the generation time is shown in. */
+  timeZone: string;
+  authorName: string;
+  months: MonthStatus[];
+  closedMonths: number;
+  allMonthsClosed: boolean;
+  /** The ledger's own totals for the period and scope. */
+  totals: { importsKwh: string; exportsKwh: string; netKwh: string };
+  carrierTotals: (EntryTotal & { carrier: Carrier })[];
+  sites: SiteReport[];
+  adjustments: AdjustmentEntry[];
+  dataQuality: DataQuality;
+  method: MethodFacts;
+  cautions: string[];
+}

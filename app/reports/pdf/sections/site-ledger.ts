@@ -1,0 +1,94 @@
+/**
+ * A site's monthly ledger: one band per carrier, its months, the carrier's
+ * total, and the site's total over every carrier.
+ */
+import type { EntryTotal, LedgerEntry, SiteReport } from "../../data/types";
+import { shortMonthLabel } from "../../periods";
+import { band, kwh, share } from "../format";
+import { drawTable, widths, type Row } from "../table";
+import { carrierColours, carrierNames, colours } from "../theme";
+
+function columns() {
+  const w = widths(1.05, 1.3, 1.15, 1.3, 0.85, 1.1, 1.2, 0.7);
+  return [
+    { header: "Month", width: w[0] },
+    { header: "Imports (kWh)", width: w[1], align: "right" as const },
+    { header: "Exports (kWh)", width: w[2], align: "right" as const },
+    { header: "Net (kWh)", width: w[3], align: "right" as const },
+    { header: "Estimated", width: w[4], align: "right" as const },
+    { header: "± EN 1434 band (kWh)", width: w[5], align: "right" as const },
+    {
+      header: "Adjustments since close (kWh)",
+      width: w[6],
+      align: "right" as const,
+    },
+    { header: "Status", width: w[7] },
+  ];
+}
+
+function adjustments(amount: string, count: number): string {
+  return count ? `${kwh(amount)} (${count})` : "—";
+}
+
+function entryRow(e: LedgerEntry): Row {
+  return {
+    cells: [
+      shortMonthLabel(e.month),
+      kwh(e.importsKwh),
+      kwh(e.exportsKwh),
+      { text: kwh(e.netKwh), weight: "semibold" },
+      {
+        text: share(e.estimatedShare),
+        color: e.estimatedShare > 0 ? colours.caution700 : colours.ink,
+      },
+      band(e.uncertaintyKwh),
+      adjustments(e.adjustmentsKwh, e.adjustmentCount),
+      e.status === "closed"
+        ? { text: "Closed", color: colours.spruce700, weight: "semibold" }
+        : { text: "Open", color: colours.caution700 },
+    ],
+  };
+}
+
+function totalRow(label: string, t: EntryTotal): Row {
+  return {
+    kind: "total",
+    cells: [
+      label,
+      kwh(t.importsKwh),
+      kwh(t.exportsKwh),
+      kwh(t.netKwh),
+      share(t.estimatedShare),
+      band(t.uncertaintyKwh),
+      adjustments(t.adjustmentsKwh, t.adjustmentCount),
+      "",
+    ],
+  };
+}
+
+export function drawSiteLedger(
+  doc: PDFKit.PDFDocument,
+  site: SiteReport,
+): void {
+  const rows: Row[] = [];
+  for (const table of site.tables) {
+    rows.push({
+      kind: "band",
+      cells: [
+        {
+          text: carrierNames[table.carrier],
+          color: carrierColours[table.carrier],
+        },
+      ],
+    });
+    rows.push(...table.entries.map(entryRow));
+    rows.push(totalRow("Total", table.total));
+  }
+  if (site.tables.length > 1) rows.push(totalRow("Site total", site.total));
+  drawTable(doc, {
+    columns: columns(),
+    rows,
+    caption: `${site.name}: monthly ledger`,
+    keepRows: 4,
+  });
+}

@@ -1,0 +1,165 @@
+/**
+ * Everything a report shows, loaded in a fixed handful of queries whatever
+ * the number of sites, meters or months (no query per row): the ledger for
+ * the period (the same function the Ledger page uses, so the figures are
+ * the same), the month closes, the meters' period sums for the sub-meter
+ * residuals, the saved baselines and weather, the adjusting entries and the
+ * hour counts behind the data-quality summary. The PDF modules draw it.
+ */
+import { ledgerRows, type LedgerRow } from "~/ledger/ledger-rows.server";
+import type { ReportPeriod } from "./periods";
+import { periodAdjustments } from "./data/adjustments.server";
+import { compareWithBaseline } from "./data/baseline-comparison";
+import { baselinesInForce, periodTemperatures } from "./data/baselines.server";
+import { CAUTIONS } from "./data/cautions";
+import { dataQuality } from "./data/data-quality";
+import { meterHourCounts } from "./data/data-quality.server";
+import {
+  carrierTables,
+  carrierTotals,
+  monthStatuses,
+  toEntry,
+  totalOf,
+} from "./data/ledger-tables";
+import { meterPeriodEnergy } from "./data/meter-energy.server";
+import { methodFacts } from "./data/method-facts";
+import { siteBalanceOf, type MeterPeriodEnergy } from "./data/period-balance";
+import {
+  activeCloses,
+  organizationName,
+  scopeSites,
+  type ScopeSite,
+} from "./data/scope.server";
+import type { DailyTemperature } from "~/baselines/degree-days";
+import type { SavedBaselineRow } from "./data/baseline-comparison";
+import type { ReportData, SiteReport } from "./data/types";
+
+export type * from "./data/types";
+
+export interface ReportDataInput {
+  organizationId: string;
+  /** null: every site of the organisation. */
+  siteId: string | null;
+  period: ReportPeriod;
+  reportId: string;
+  authorName: string;
+  generatedAt: Date;
+}
+
+const monthKeys = (period: ReportPeriod) =>
+  period.months.map((m) => m.slice(0, 7));
+
+function siteReport(args: {
+  site: ScopeSite;
+  rows: readonly LedgerRow[];
+  meters: readonly MeterPeriodEnergy[];
+  baselines: readonly SavedBaselineRow[];
+  temperatures: readonly DailyTemperature[];
+  months: readonly string[];
+}): SiteReport {
+  const { site } = args;
+  const entries = args.rows.map(toEntry);
+  const tables = carrierTables(entries);
+  const baselines = args.baselines.map((baseline) => {
+    const actual = new Map(
+      entries
+        .filter((e) => e.carrier === baseline.carrier)
+        .map((e) => [e.month, Math.abs(Number(e.importsKwh))]),
+    );
+    return compareWithBaseline({
+      baseline,
+      siteBaseC: site.degreeDayBaseC,
+      months: args.months,
+      temperatures: args.temperatures,
+      actualKwh: actual,
+    });
+  });
+  return {
+    ...site,
+    tables,
+    total: totalOf(entries),
+    baselines,
+    balance: siteBalanceOf(tables, args.meters),
+  };
+}
+
+/** The zone of the site(s) reported on; UTC when the sites differ. */
+function displayZone(sites: readonly ScopeSite[]): string {
+  const zones = new Set(sites.map((s) => s.timeZone));
+  return zones.size === 1 ? [...zones][0] : "UTC";
+}
+
+export async function loadReportData(
+  input: ReportDataInput,
+): Promise<ReportData> {
+  const { organizationId, siteId, period } = input;
+  const months = monthKeys(period);
+  const [name, sites, closes, ledger, meters, adjustments, counts] =
+    await Promise.all([
+      organizationName(organizationId),
+      scopeSites(organizationId, siteId),
+      activeCloses(organizationId, period),
+      ledgerRows({
+        organizationId,
+        from: months[0],
+        to: months[months.length - 1],
+        siteId,
+      }),
+      meterPeriodEnergy(organizationId, siteId, period),
+      periodAdjustments(organizationId, siteId, period),
+      meterHourCounts({
+        organizationId,
+        siteId,
+        period,
+        generatedAt: input.generatedAt,
+      }),
+    ]);
+  // Archived sites appear only when the period has ledger entries for them.
+  const listed = sites.filter(
+    (s) => !s.archived || ledger.rows.some((r) => r.site_id === s.id),
+  );
+  const ids = listed.map((s) => s.id);
+  const [baselines, temperatures] = await Promise.all([
+    baselinesInForce(organizationId, ids),
+    periodTemperatures(organizationId, ids, period),
+  ]);
+  const statuses = monthStatuses({
+    months,
+    rows: ledger.rows,
+    closes,
+    siteId,
+  });
+  const closedMonths = statuses.filter((m) => m.closed).length;
+  return {
+    reportId: input.reportId,
+    organization: { id: organizationId, name },
+    scope: { siteId, label: siteId ? listed[0].name : "All sites" },
+    period,
+    generatedAt: input.generatedAt.toISOString(),
+    timeZone: displayZone(listed),
+    authorName: input.authorName,
+    months: statuses,
+    closedMonths,
+    allMonthsClosed: closedMonths === statuses.length,
+    totals: {
+      importsKwh: ledger.totals.imports_kwh,
+      exportsKwh: ledger.totals.exports_kwh,
+      netKwh: ledger.totals.net_kwh,
+    },
+    carrierTotals: carrierTotals(ledger.rows.map(toEntry)),
+    sites: listed.map((site) =>
+      siteReport({
+        site,
+        rows: ledger.rows.filter((r) => r.site_id === site.id),
+        meters: meters.filter((m) => m.siteId === site.id),
+        baselines: baselines.get(site.id) ?? [],
+        temperatures: temperatures.get(site.id) ?? [],
+        months,
+      }),
+    ),
+    adjustments,
+    dataQuality: dataQuality(counts),
+    method: methodFacts(listed),
+    cautions: [...CAUTIONS],
+  };
+}

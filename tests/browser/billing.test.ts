@@ -1,0 +1,70 @@
+import type { Browser } from "playwright-core";
+import { eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import { launchBrowser } from "../support/browser";
+import { db, pool, schema } from "../support/db";
+import { createMeteredOrg } from "../support/metered-org";
+
+const baseUrl = inject("baseUrl");
+const stripeUrl = inject("stripeUrl");
+let browser: Browser;
+
+beforeAll(async () => {
+  await db.delete(schema.signInAttempts);
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+  await pool.end();
+});
+
+describe("paying for Joulebook", () => {
+  it("a finance member subscribes through Checkout and sees the active plan", async () => {
+    const org = await createMeteredOrg({ roles: ["owner", "finance"] });
+    const finance = org.org.members.find((m) => m.role === "finance")!;
+    const page = await browser.newPage({
+      viewport: { width: 1280, height: 900 },
+    });
+
+    await page.goto(`${baseUrl}/sign-in`);
+    await page.getByLabel("E-mail address").fill(finance.email);
+    await page.getByLabel("Password").fill(finance.password);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.waitForURL(/\/o\/[0-9a-f-]{36}$/);
+
+    await page
+      .getByRole("navigation", { name: "Main" })
+      .filter({ visible: true })
+      .getByRole("link", { name: "Billing" })
+      .click();
+    await page.getByRole("heading", { level: 1, name: "Billing" }).waitFor();
+    expect(await page.getByText("Free trial").count()).toBeGreaterThan(0);
+    expect(await page.getByTestId("metered-count").textContent()).toBe("1");
+
+    await page.getByRole("button", { name: "Subscribe with Checkout" }).click();
+    await page.waitForURL((url) =>
+      url.href.startsWith(`${stripeUrl}/checkout/`),
+    );
+    await page.getByRole("button", { name: "Pay £29.00" }).click();
+    await page.waitForURL(/\/billing\?checkout=done$/);
+
+    // Stripe's events reach the app on their own; wait for them, then look.
+    await fetch(`${stripeUrl}/_fake/flush`, { method: "POST" });
+    await page.reload();
+    await page
+      .getByRole("button", { name: "Manage payment and invoices" })
+      .waitFor();
+    const plan = page.getByRole("region", { name: "Plan" });
+    expect(await plan.getByText("Active", { exact: true }).count()).toBe(1);
+    expect(await page.getByText("the paid plan has started").count()).toBe(1);
+    const invoices = page.getByRole("region", { name: "Invoices" });
+    expect(await invoices.getByText("paid", { exact: true }).count()).toBe(1);
+
+    const [account] = await db
+      .select()
+      .from(schema.billingAccounts)
+      .where(eq(schema.billingAccounts.organizationId, org.org.id));
+    expect(account.status).toBe("active");
+    await page.close();
+  });
+});
