@@ -68,6 +68,7 @@ describe("parseEnv", () => {
   const base = {
     DATABASE_URL: "postgres://u:p@127.0.0.1:5432/db",
     RESEND_BASE_URL: "http://127.0.0.1:1",
+    STRIPE_API_BASE: "http://127.0.0.1:2",
   };
   it("applies defaults: loopback and port 3000", () => {
     const env = parseEnv(base);
@@ -92,11 +93,26 @@ describe("parseEnv", () => {
       /RESEND_BASE_URL/,
     );
     expect(
-      parseEnv({ DATABASE_URL: base.DATABASE_URL, RESEND_API_KEY: "re_real" })
-        .RESEND_BASE_URL,
+      parseEnv({
+        ...base,
+        RESEND_BASE_URL: undefined,
+        RESEND_API_KEY: "re_real",
+      }).RESEND_BASE_URL,
     ).toBeUndefined();
     expect(() =>
       parseEnv({ ...base, RESEND_BASE_URL: "http://127.0.0.1:1/" }),
     ).toThrow(/must not end with/);
+  });
+  it("needs either the local Stripe fake or a real key, and a webhook secret of Stripe's form", () => {
+    const noStripe = { ...base, STRIPE_API_BASE: undefined };
+    expect(() => parseEnv(noStripe)).toThrow(/STRIPE_API_BASE/);
+    const real = parseEnv({ ...noStripe, STRIPE_SECRET_KEY: "sk_live_x" });
+    expect(real.STRIPE_API_BASE).toBeUndefined();
+    expect(() =>
+      parseEnv({ ...base, STRIPE_WEBHOOK_SECRET: "secret" }),
+    ).toThrow(/must start with whsec_/);
+    expect(() =>
+      parseEnv({ ...base, REPORT_SIGNING_P12: "/etc/signer.p12" }),
+    ).toThrow(/REPORT_SIGNING_P12_PASSWORD/);
   });
 });
