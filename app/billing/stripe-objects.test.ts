@@ -84,4 +84,30 @@ describe("reading Stripe objects", () => {
       createdAt: new Date(1_700_000_100 * 1000),
     });
   });
+
+  it("takes the billed period from the lines, not the invoice's own period", () => {
+    // Stripe's invoice.period_* is the period just ended; a first invoice has
+    // both equal to its creation time. The lines carry the service period.
+    const invoice = {
+      id: "in_2",
+      customer: "cus_1",
+      status: "paid",
+      currency: "gbp",
+      amount_due: 2900,
+      amount_paid: 2900,
+      period_start: 1_700_000_000,
+      period_end: 1_700_000_000,
+      created: 1_700_000_000,
+      lines: {
+        data: [
+          { period: { start: 1_700_000_000, end: 1_702_592_000 } },
+          { period: { start: 1_701_000_000, end: 1_702_592_000 } },
+        ],
+      },
+    } as unknown as Stripe.Invoice;
+    expect(invoiceSnapshot(invoice)).toMatchObject({
+      periodStart: new Date(1_700_000_000 * 1000),
+      periodEnd: new Date(1_702_592_000 * 1000),
+    });
+  });
 });

@@ -70,6 +70,27 @@ export interface InvoiceSnapshot {
   createdAt: Date;
 }
 
+/**
+ * The service period an invoice bills. Stripe's invoice-level period_start/end
+ * is the period that just ended (on a first invoice both are its creation
+ * time); what the customer pays for is on the lines, so take their span.
+ */
+function billedPeriod(invoice: Stripe.Invoice): {
+  periodStart: Date | null;
+  periodEnd: Date | null;
+} {
+  const periods = (invoice.lines?.data ?? []).map((line) => line.period);
+  if (periods.length === 0)
+    return {
+      periodStart: fromUnix(invoice.period_start),
+      periodEnd: fromUnix(invoice.period_end),
+    };
+  return {
+    periodStart: fromUnix(Math.min(...periods.map((p) => p.start))),
+    periodEnd: fromUnix(Math.max(...periods.map((p) => p.end))),
+  };
+}
+
 export function invoiceSnapshot(invoice: Stripe.Invoice): InvoiceSnapshot {
   return {
     stripeInvoiceId: invoice.id ?? "",
@@ -82,8 +103,7 @@ export function invoiceSnapshot(invoice: Stripe.Invoice): InvoiceSnapshot {
     currency: invoice.currency,
     amountDue: invoice.amount_due ?? 0,
     amountPaid: invoice.amount_paid ?? 0,
-    periodStart: fromUnix(invoice.period_start),
-    periodEnd: fromUnix(invoice.period_end),
+    ...billedPeriod(invoice),
     hostedInvoiceUrl: invoice.hosted_invoice_url ?? null,
     createdAt: fromUnix(invoice.created) ?? new Date(),
   };

@@ -11,7 +11,7 @@ import type { ReportPeriod } from "./periods";
 import { periodAdjustments } from "./data/adjustments.server";
 import { compareWithBaseline } from "./data/baseline-comparison";
 import { baselinesInForce, periodTemperatures } from "./data/baselines.server";
-import { CAUTIONS } from "./data/cautions";
+import { CAUTIONS } from "~/lib/cautions";
 import { dataQuality } from "./data/data-quality";
 import { meterHourCounts } from "./data/data-quality.server";
 import {

@@ -5,7 +5,7 @@
  * one must draw, paginate and end as a PDF.
  */
 import { describe, expect, it } from "vitest";
-import { CAUTIONS } from "../data/cautions";
+import { CAUTIONS } from "~/lib/cautions";
 import { methodFacts } from "../data/method-facts";
 import type { ReportData, SiteReport } from "../data/types";
 import { reportPeriod } from "../periods";

@@ -1,6 +1,6 @@
 /**
- * The standing cautions of design.md, in the wording the app shows them
- * (app/components/cautions.tsx), for documents that cannot render JSX.
+ * The standing cautions of design.md, in one wording for the pages
+ * (app/components/cautions.tsx) and the signed reports.
  */
 export const CAUTIONS = [
   "Figures are for energy management, not for trade.",
