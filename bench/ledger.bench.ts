@@ -103,6 +103,9 @@ export async function benchLedger(): Promise<void> {
   console.log(`database: ${origin}`);
   process.env.DATABASE_URL = url;
   process.env.RESEND_BASE_URL ??= "http://127.0.0.1:9";
+  // Nor is Stripe called: a dead local address satisfies the check.
+  if (!process.env.STRIPE_SECRET_KEY)
+    process.env.STRIPE_API_BASE ??= "http://127.0.0.1:9";
   const { ledgerRows } = await import("../app/ledger/ledger-rows.server");
   const { pool: appPool } = await import("../app/db/client.server");
   const pool = new pg.Pool({ connectionString: url, max: 2 });
