@@ -160,9 +160,11 @@ async function startServer(
     PORT: String(port),
     HOST: "127.0.0.1",
     DATABASE_URL: databaseUrl,
-    // Ingest sends no mail; this keeps any that might off the network.
+    // Ingest sends no mail and calls no billing; this keeps any call that
+    // might happen off the network (and satisfies the environment check).
     RESEND_BASE_URL: "http://127.0.0.1:9",
     RESEND_API_KEY: "re_bench_unused",
+    STRIPE_API_BASE: "http://127.0.0.1:9",
     GATEWAY_RATE_LIMIT_PER_MINUTE: "1000000",
   };
   delete env.VITEST;

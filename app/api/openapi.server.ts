@@ -32,6 +32,18 @@ const errorResponse = (description: string) => ({
   },
 });
 
+const jsonResponse = (description: string) => ({
+  description,
+  content: { "application/json": { schema: { type: "object" } } },
+});
+
+const orgIdParameter = {
+  name: "orgId",
+  in: "path",
+  required: true,
+  schema: { type: "string", format: "uuid" },
+};
+
 /** The OpenAPI 3.1 description of /api/v1, served at /api/v1/openapi.json. */
 export function openApiDocument() {
   return {
@@ -99,6 +111,96 @@ export function openApiDocument() {
             ),
             "413": errorResponse("More than 5,000 readings or 5 MB"),
             "429": errorResponse("This gateway's rate limit; see Retry-After"),
+          },
+        },
+      },
+      "/orgs/{orgId}/reports": {
+        parameters: [orgIdParameter],
+        get: {
+          summary: "The organisation's signed reports, newest first",
+          security: [{ session: [] }],
+          responses: {
+            "200": jsonResponse("`{ reports: [...] }` without the PDF bytes"),
+            "401": errorResponse("Not signed in"),
+            "404": errorResponse("Not a member of this organisation"),
+          },
+        },
+        post: {
+          summary: "Request a signed report (owners and energy managers)",
+          description:
+            'Made in the background: answered 202 with the report id; poll the list until its status is "done". `period` is `month:YYYY-MM`, `quarter:YYYY-Qn` or `year:YYYY`; `scope` is "all" or a site id.',
+          security: [{ session: [] }],
+          requestBody: {
+            required: true,
+            content: {
+              "application/json": {
+                schema: {
+                  type: "object",
+                  additionalProperties: false,
+                  required: ["scope", "period"],
+                  properties: {
+                    scope: { type: "string", example: "all" },
+                    period: { type: "string", example: "year:2025" },
+                  },
+                },
+              },
+            },
+          },
+          responses: {
+            "202": jsonResponse('`{ id, status: "queued" }`'),
+            "400": errorResponse("A bad scope or period"),
+            "403": errorResponse("The role may not make reports"),
+          },
+        },
+      },
+      "/orgs/{orgId}/reports/{reportId}/pdf": {
+        parameters: [
+          orgIdParameter,
+          {
+            name: "reportId",
+            in: "path",
+            required: true,
+            schema: { type: "string", format: "uuid" },
+          },
+        ],
+        get: {
+          summary: "The signed PDF, byte for byte as stored",
+          description:
+            "X-Content-SHA256 carries the SHA-256 that Verify matches against.",
+          security: [{ session: [] }],
+          responses: {
+            "200": {
+              description: "The PDF",
+              content: {
+                "application/pdf": {
+                  schema: { type: "string", format: "binary" },
+                },
+              },
+            },
+            "404": errorResponse("No such report here, or not finished"),
+          },
+        },
+      },
+      "/orgs/{orgId}/reports/verify": {
+        parameters: [orgIdParameter],
+        post: {
+          summary: "Check a PDF (owners and auditors)",
+          description:
+            'The verdict is "genuine" (signature valid, covering the whole file, and the SHA-256 of a report this organisation issued: which one, when, by whom), "not_issued_here" (validly signed but not one of this organisation\'s reports) or "invalid" with the reason (not_a_pdf, no_signature, malformed_signature, truncated, not_whole_document, digest_mismatch, bad_signature, untrusted_certificate) and a sentence saying why.',
+          security: [{ session: [] }],
+          requestBody: {
+            required: true,
+            content: {
+              "application/pdf": {
+                schema: { type: "string", format: "binary" },
+              },
+            },
+          },
+          responses: {
+            "200": jsonResponse("The verdict"),
+            "400": errorResponse("No body"),
+            "403": errorResponse("The role may not verify"),
+            "413": errorResponse("Larger than 25 MB"),
           },
         },
       },

@@ -5,6 +5,13 @@ import { health } from "./health.server";
 import { getLedger, getLedgerCsv, getLedgerXlsx } from "./ledger.server";
 import { getIntervals } from "./intervals.server";
 import { requireOrgMember } from "./org-member.server";
+import {
+  getReportPdf,
+  getReports,
+  postReport,
+  postVerify,
+  VERIFY_BODY_LIMIT,
+} from "./reports.server";
 import { uploadReadings } from "./upload-readings.server";
 import { openApiDocument } from "./openapi.server";
 import { requirePrincipal } from "./principal.server";
@@ -63,6 +70,29 @@ export function apiRouter(): Router {
     requireOrgMember("readings.edit"),
     express.json({ limit: READINGS_BODY_LIMIT, strict: true }),
     uploadReadings,
+  );
+  router.get(
+    "/orgs/:orgId/reports",
+    requireOrgMember("reports.download"),
+    getReports,
+  );
+  router.post(
+    "/orgs/:orgId/reports",
+    requireOrgMember("reports.create"),
+    express.json({ limit: "10kb", strict: true }),
+    postReport,
+  );
+  // Before the :reportId routes, so "verify" is never taken for an id.
+  router.post(
+    "/orgs/:orgId/reports/verify",
+    requireOrgMember("reports.verify"),
+    express.raw({ type: "application/pdf", limit: VERIFY_BODY_LIMIT }),
+    postVerify,
+  );
+  router.get(
+    "/orgs/:orgId/reports/:reportId/pdf",
+    requireOrgMember("reports.download"),
+    getReportPdf,
   );
   router.use((_req, res) => {
     sendError(

@@ -21,6 +21,7 @@ import {
 } from "./pdf/render-report.server";
 import { addSignaturePlaceholder, signPdf } from "./signing/sign-pdf.server";
 import { signingIdentityFromEnv } from "./signing/identity.server";
+import { requestReport } from "./reports.server";
 
 interface JobKey {
   organizationId: string;
@@ -40,6 +41,19 @@ export function enqueueReport(job: JobKey): void {
   draining ??= drain().finally(() => {
     draining = null;
   });
+}
+
+/** Stores a report request and queues its job once the row is committed. */
+export async function queueReport(
+  input: Parameters<typeof requestReport>[0],
+): ReturnType<typeof requestReport> {
+  const outcome = await requestReport(input);
+  if (outcome.ok)
+    enqueueReport({
+      organizationId: input.organizationId,
+      reportId: outcome.reportId,
+    });
+  return outcome;
 }
 
 /** Resolves when every queued report has been made (tests, shutdown). */

@@ -1,7 +1,6 @@
 import { format } from "date-fns";
 import { useEffect } from "react";
 import { data, Form, Link, useNavigation, useRevalidator } from "react-router";
-import { z } from "zod";
 import { requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
@@ -16,9 +15,12 @@ import {
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
 import { periodChoices } from "~/reports/period-options.server";
-import { periodKinds, reportPeriod } from "~/reports/periods";
-import { enqueueReport } from "~/reports/report-jobs.server";
-import { listReports, requestReport } from "~/reports/reports.server";
+import {
+  reportRequestSchema,
+  resolveReportRequest,
+} from "~/reports/report-request";
+import { queueReport } from "~/reports/report-jobs.server";
+import { listReports } from "~/reports/reports.server";
 import { anyInProgress, type ReportSummary } from "~/reports/report-summary";
 import { listSites } from "~/sites/sites.server";
 import type { Route } from "./+types/reports";
@@ -26,18 +28,6 @@ import type { Route } from "./+types/reports";
 export const meta: Route.MetaFunction = () => [
   { title: "Reports · Joulebook" },
 ];
-
-const requestSchema = z.strictObject({
-  scope: z.union([z.literal("all"), z.uuid("Choose a site or all sites.")], {
-    error: "Choose a site or all sites.",
-  }),
-  period: z
-    .string({ error: "Choose a period." })
-    .regex(
-      new RegExp(`^(${periodKinds.join("|")}):[0-9Q-]+$`),
-      "Choose a period.",
-    ),
-});
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { organization, role } = await requireMembership(
@@ -68,38 +58,27 @@ export async function action({ request, params }: Route.ActionArgs) {
     params.orgId,
     "reports.create",
   );
-  const form = parseForm(await request.formData(), requestSchema);
+  const form = parseForm(await request.formData(), reportRequestSchema);
   if (!form.ok)
     return data<ActionResult>({ errors: form.errors }, { status: 400 });
-  const [kind, anchor] = form.data.period.split(":") as [
-    (typeof periodKinds)[number],
-    string,
-  ];
-  let period;
-  try {
-    period = reportPeriod(kind, anchor);
-  } catch (error) {
+  const resolved = resolveReportRequest(form.data);
+  if (!resolved.ok)
     return data<ActionResult>(
-      { errors: { period: (error as Error).message } },
+      { errors: { [resolved.field]: resolved.reason } },
       { status: 400 },
     );
-  }
-  const outcome = await requestReport({
+  const outcome = await queueReport({
     organizationId: organization.id,
     actorUserId: user.id,
-    siteId: form.data.scope === "all" ? null : form.data.scope,
-    period,
+    siteId: resolved.siteId,
+    period: resolved.period,
   });
   if (!outcome.ok)
     return data<ActionResult>(
       { errors: { [outcome.field]: outcome.reason } },
       { status: 400 },
     );
-  enqueueReport({
-    organizationId: organization.id,
-    reportId: outcome.reportId,
-  });
-  return data<ActionResult>({ errors: {}, queued: period.label });
+  return data<ActionResult>({ errors: {}, queued: resolved.period.label });
 }
 
 /** Re-reads the list every second while a report is being made. */

@@ -306,6 +306,65 @@ describe("signed reports", () => {
     expect(after.length).toBe(before.length);
   });
 
+  it("the JSON API lists, makes, serves and verifies reports, with the same role checks", async () => {
+    const api = `/api/v1/orgs/${org.org.id}/reports`;
+    const auditor = await signedIn(org, "auditor");
+    const listed = await auditor.get(api);
+    expect(listed.status).toBe(200);
+    const { reports } = (await listed.json()) as {
+      reports: { id: string; sha256: string; status: string }[];
+    };
+    const mine = reports.find((r) => r.id === reportId)!;
+    expect(mine.status).toBe("done");
+    expect(mine).not.toHaveProperty("pdf");
+
+    const file = await auditor.get(`${api}/${reportId}/pdf`);
+    expect(file.headers.get("x-content-sha256")).toBe(mine.sha256);
+    expect(Buffer.from(await file.arrayBuffer()).equals(pdf)).toBe(true);
+
+    const check = (client: Client, body: Buffer) =>
+      client.request(`${api}/verify`, {
+        method: "POST",
+        headers: { "content-type": "application/pdf" },
+        body: new Uint8Array(body),
+      });
+    const genuine = await check(auditor, pdf);
+    expect(await genuine.json()).toMatchObject({
+      verdict: "genuine",
+      sha256: mine.sha256,
+      report: { id: reportId },
+    });
+    const altered = await check(auditor, tampered(pdf));
+    expect(await altered.json()).toMatchObject({
+      verdict: "invalid",
+      reason: "digest_mismatch",
+    });
+
+    // Auditors may not make reports; managers may, and get 202 at once.
+    const refused = await auditor.postJson(api, {
+      scope: "all",
+      period: "month:2026-03",
+    });
+    expect(refused.status).toBe(403);
+    const manager = await signedIn(org, "energy_manager");
+    const bad = await manager.postJson(api, { scope: "all", period: "year:1" });
+    expect(bad.status).toBe(400);
+    const made = await manager.postJson(api, {
+      scope: org.siteId,
+      period: "quarter:2026-Q1",
+    });
+    expect(made.status).toBe(202);
+    const { id } = (await made.json()) as { id: string };
+    await waitForReport(org.org.id, id);
+    expect((await check(manager, pdf)).status).toBe(403);
+
+    // Another organisation's member sees none of it.
+    const other = await createMeteredOrg({ roles: ["owner"] });
+    const outsider = await signedIn(other, "owner");
+    expect((await outsider.get(api)).status).toBe(404);
+    expect((await outsider.get(`${api}/${reportId}/pdf`)).status).toBe(404);
+  });
+
   it("the signing CA certificate can be downloaded", async () => {
     const response = await new Client().get("/signing-ca.pem");
     expect(response.status).toBe(200);

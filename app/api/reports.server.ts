@@ -1,0 +1,86 @@
+/**
+ * Reports over the JSON API, for auditors' and managers' own tools: list,
+ * request (answered 202 while the job runs), download the signed PDF, and
+ * verify a PDF sent as the request body.
+ */
+import type { NextFunction, Request, Response } from "express";
+import { z } from "zod";
+import { queueReport } from "~/reports/report-jobs.server";
+import {
+  reportRequestSchema,
+  resolveReportRequest,
+} from "~/reports/report-request";
+import { listReports, reportFile } from "~/reports/reports.server";
+import { verifyUploadedReport } from "~/reports/verify-upload.server";
+import { sendError, sendValidationError } from "./respond.server";
+
+/** Reports are a few hundred KiB; no genuine one comes near this. */
+export const VERIFY_BODY_LIMIT = "25mb";
+
+type Handler = (req: Request, res: Response) => Promise<void>;
+
+/** Express 5 forwards rejections itself; this keeps handlers flat. */
+const handle =
+  (fn: Handler) => (req: Request, res: Response, next: NextFunction) =>
+    fn(req, res).catch(next);
+
+const member = (res: Response) => res.locals.member!;
+
+/** GET /orgs/:orgId/reports: newest first, without the PDF bytes. */
+export const getReports = handle(async (_req, res) => {
+  res.json({ reports: await listReports(member(res).organizationId) });
+});
+
+/** POST /orgs/:orgId/reports {scope, period}: 202 with the queued report's id. */
+export const postReport = handle(async (req, res) => {
+  const parsed = reportRequestSchema.safeParse(req.body);
+  if (!parsed.success) return sendValidationError(res, parsed.error);
+  const resolved = resolveReportRequest(parsed.data);
+  if (!resolved.ok)
+    return sendError(res, 400, "invalid_period", resolved.reason);
+  const { organizationId, userId } = member(res);
+  const outcome = await queueReport({
+    organizationId,
+    actorUserId: userId,
+    siteId: resolved.siteId,
+    period: resolved.period,
+  });
+  if (!outcome.ok) return sendError(res, 400, "invalid_scope", outcome.reason);
+  res.status(202).json({ id: outcome.reportId, status: "queued" });
+});
+
+/** GET /orgs/:orgId/reports/:reportId/pdf: the stored signed bytes. */
+export const getReportPdf = handle(async (req, res) => {
+  const reportId = String(req.params.reportId);
+  const file = z.uuid().safeParse(reportId).success
+    ? await reportFile(member(res).organizationId, reportId)
+    : null;
+  if (!file)
+    return sendError(
+      res,
+      404,
+      "not_found",
+      "No such report, or it is not finished.",
+    );
+  res
+    .set({
+      "Content-Type": "application/pdf",
+      "Content-Disposition": `attachment; filename="${file.fileName}"`,
+      "Cache-Control": "private, no-store",
+      ETag: `"${file.sha256}"`,
+      "X-Content-SHA256": file.sha256,
+    })
+    .send(file.pdf);
+});
+
+/** POST /orgs/:orgId/reports/verify with an application/pdf body. */
+export const postVerify = handle(async (req, res) => {
+  if (!Buffer.isBuffer(req.body) || req.body.length === 0)
+    return sendError(
+      res,
+      400,
+      "empty_body",
+      "Send the PDF as the request body with Content-Type: application/pdf.",
+    );
+  res.json(await verifyUploadedReport(member(res).organizationId, req.body));
+});

@@ -1,0 +1,42 @@
+import { z } from "zod";
+import { periodKinds, reportPeriod, type ReportPeriod } from "./periods";
+
+/**
+ * What a request for a report says, from the Reports form or the API: the
+ * scope ("all" or a site id) and the period as "kind:anchor", e.g.
+ * "month:2026-03", "quarter:2026-Q1", "year:2025".
+ */
+export const reportRequestSchema = z.strictObject({
+  scope: z.union([z.literal("all"), z.uuid("Choose a site or all sites.")], {
+    error: "Choose a site or all sites.",
+  }),
+  period: z
+    .string({ error: "Choose a period." })
+    .regex(
+      new RegExp(`^(${periodKinds.join("|")}):[0-9Q-]+$`),
+      "Choose a period: month:YYYY-MM, quarter:YYYY-Qn or year:YYYY.",
+    ),
+});
+
+export type ReportRequest = z.infer<typeof reportRequestSchema>;
+
+type Resolved =
+  | { ok: true; siteId: string | null; period: ReportPeriod }
+  | { ok: false; field: "period"; reason: string };
+
+/** Turns a valid request into a site and a period, or says why not. */
+export function resolveReportRequest(request: ReportRequest): Resolved {
+  const [kind, anchor] = request.period.split(":") as [
+    (typeof periodKinds)[number],
+    string,
+  ];
+  try {
+    return {
+      ok: true,
+      siteId: request.scope === "all" ? null : request.scope,
+      period: reportPeriod(kind, anchor),
+    };
+  } catch (error) {
+    return { ok: false, field: "period", reason: (error as Error).message };
+  }
+}
