@@ -64,3 +64,29 @@ export function invitationEmail(args: {
     }),
   };
 }
+
+export function reportReadyEmail(args: {
+  to: string;
+  title: string;
+  pageCount: number;
+  sha256: string;
+  allMonthsClosed: boolean;
+  url: string;
+}): OutgoingEmail {
+  const lines = [
+    `Your report “${args.title}” is signed and ready: ${args.pageCount} pages.`,
+    args.allMonthsClosed
+      ? "Every month in it was closed when it was made."
+      : "Some of its months were still open, so it is marked provisional.",
+    `SHA-256 of the file: ${args.sha256}. The Verify page checks any copy against it.`,
+  ];
+  return {
+    to: args.to,
+    subject: `Report ready: ${args.title}`,
+    text: `${lines.join("\n\n")}\n\n${args.url}\n`,
+    html: layout("Your report is ready", lines, {
+      label: "Open Reports",
+      url: args.url,
+    }),
+  };
+}

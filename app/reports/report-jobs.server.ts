@@ -11,6 +11,9 @@
 import { createHash } from "node:crypto";
 import { and, eq, lt, or } from "drizzle-orm";
 import { db } from "~/db/client.server";
+import { sendEmail } from "~/email/mailer.server";
+import { reportReadyEmail } from "~/email/templates.server";
+import { appUrl } from "~/env.server";
 import { organizations, reports, users } from "~/db/schema";
 import { periodKinds, reportPeriod, type ReportPeriod } from "./periods";
 import { loadReportData } from "./report-data.server";
@@ -177,9 +180,44 @@ export async function runReportJob(job: JobKey): Promise<void> {
     await progress(0.92, "Signing");
     const signed = await signPdf(await bytesPromise, identity);
     await store(job, signed, pageCount, data.allMonthsClosed);
+    await tellAuthor(row, signed, pageCount, data.allMonthsClosed);
   } catch (error) {
     await markFailed(job, error);
   }
+}
+
+/**
+ * A year's report takes seconds, but people leave the page: the one who asked
+ * gets an e-mail once it is stored. A failed e-mail does not fail the report.
+ */
+async function tellAuthor(
+  row: {
+    organizationId: string;
+    title: string;
+    createdByUserId: string | null;
+  },
+  pdf: Buffer,
+  pageCount: number,
+  allMonthsClosed: boolean,
+): Promise<void> {
+  if (!row.createdByUserId) return;
+  const [author] = await db
+    .select({ email: users.email })
+    .from(users)
+    .where(eq(users.id, row.createdByUserId));
+  if (!author) return;
+  await sendEmail(
+    reportReadyEmail({
+      to: author.email,
+      title: row.title,
+      pageCount,
+      sha256: createHash("sha256").update(pdf).digest("hex"),
+      allMonthsClosed,
+      url: `${appUrl()}/o/${row.organizationId}/reports`,
+    }),
+  ).catch((error) =>
+    console.error("[reports] could not e-mail the author", error),
+  );
 }
 
 async function store(

@@ -12,7 +12,7 @@ import { promisify } from "node:util";
 import { eq } from "drizzle-orm";
 import PDFDocument from "pdfkit";
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
-import { Client } from "../support/http";
+import { Client, latestEmailTo } from "../support/http";
 import { db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
@@ -147,6 +147,22 @@ describe("signed reports", () => {
     expect(row.byteSize).toBe(pdf.length);
     expect(row.progress).toBe(100);
     expect(row.pageCount).toBeGreaterThan(1);
+  });
+
+  it("e-mails the person who asked once the report is stored", async () => {
+    // Sent just after the row is stored: give it a moment.
+    let message = await latestEmailTo(org.org.members[1].email);
+    for (let i = 0; !message && i < 40; i++) {
+      await new Promise((r) => setTimeout(r, 100));
+      message = await latestEmailTo(org.org.members[1].email);
+    }
+    expect(message?.subject).toBe(`Report ready: ${org.org.name} · March 2026`);
+    const { createHash } = await import("node:crypto");
+    expect(message?.text).toContain(
+      createHash("sha256").update(pdf).digest("hex"),
+    );
+    expect(message?.text).toContain("provisional");
+    expect(message?.text).toContain(`/o/${org.org.id}/reports`);
   });
 
   it("pdfsig reports the signature valid and the whole document signed", async () => {
