@@ -6,7 +6,8 @@
  */
 import { and, eq } from "drizzle-orm";
 import { db } from "../app/db/client.server";
-import { meters, organizations, sites } from "../app/db/schema";
+import { meters, organizations, sites, users } from "../app/db/schema";
+import { closeMonth } from "../app/ledger/month-close.server";
 import { ingestReadings } from "../app/ingest/ingest-readings.server";
 import { estimationIdle } from "../app/ingest/after-ingest.server";
 import { MAX_READINGS_PER_BATCH } from "../app/ingest/reading-schema";
@@ -168,11 +169,38 @@ async function ingestScenario(
   await estimationIdle();
 }
 
+/**
+ * The demo's energy manager has closed every month of the scenario's first
+ * full calendar year, so the Ledger and a year's report show closed figures
+ * beside the open months that follow.
+ */
+async function closeFirstFullYear(organizationId: string): Promise<void> {
+  const [manager] = await db
+    .select({ id: users.id })
+    .from(users)
+    .where(eq(users.email, "manager@larchmere.example"));
+  if (!manager) return;
+  const year = SCENARIO_PERIOD.from.getUTCFullYear() + 1;
+  for (let m = 1; m <= 12; m++) {
+    const outcome = await closeMonth({
+      organizationId,
+      actorUserId: manager.id,
+      month: `${year}-${String(m).padStart(2, "0")}`,
+      siteId: null,
+    });
+    if (!outcome.ok) throw new Error(`closing ${year}-${m}: ${outcome.reason}`);
+  }
+  console.log(`[joulebook] demo months of ${year} closed`);
+}
+
 export async function seedEstate(): Promise<boolean> {
   const organizationId = await larchmereId();
   const created = await createEstate(organizationId);
   // The scenario ends at its own period end; readings are checked as of then.
-  if (created) await ingestScenario(organizationId, SCENARIO_PERIOD.to);
+  if (created) {
+    await ingestScenario(organizationId, SCENARIO_PERIOD.to);
+    await closeFirstFullYear(organizationId);
+  }
   // Weather goes in on the days a site lacks, also into an existing estate.
   await seedWeather(organizationId);
   return created;
