@@ -31,9 +31,11 @@ export async function createStripeCustomer(org: {
   id: string;
   name: string;
 }): Promise<string> {
+  // A person waits for it (sign-up, the first Billing page): a short
+  // timeout per try; the client's retries are safe under the key.
   const customer = await stripe().customers.create(
     { name: org.name, metadata: { organization_id: org.id } },
-    { idempotencyKey: customerKey(org.id) },
+    { idempotencyKey: customerKey(org.id), timeout: 10_000 },
   );
   return customer.id;
 }

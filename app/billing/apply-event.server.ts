@@ -1,118 +1,98 @@
 /**
  * Applies one verified Stripe event. The event's id is inserted into
  * billing_events in the same transaction as its effect, so an event is
- * applied exactly once however often Stripe delivers it.
+ * applied exactly once however often Stripe delivers it. Subscription and
+ * Checkout events store the subscription as Stripe holds it now
+ * (live-subscription.server.ts), so their order of arrival does not matter.
  */
 import { and, eq } from "drizzle-orm";
 import type Stripe from "stripe";
 import { db, type Transaction } from "~/db/client.server";
-import { billingAccounts, billingEvents, billingInvoices } from "~/db/schema";
-import { env } from "~/env.server";
+import { billingEvents, billingInvoices } from "~/db/schema";
 import type { BillingAccount } from "./account.server";
-import { nextPastDueSince } from "./standing";
-import {
-  idOf,
-  invoiceSnapshot,
-  subscriptionSnapshot,
-  type SubscriptionSnapshot,
-} from "./stripe-objects";
 import { supersedes } from "./invoice-status";
+import {
+  lockAccountByCustomer,
+  mirrorSubscription,
+} from "./live-subscription.server";
+import { BEHIND_STATUSES, idOf, invoiceSnapshot } from "./stripe-objects";
 
 export type EventOutcome = "applied" | "duplicate" | "ignored";
+
+export interface EventResult {
+  outcome: EventOutcome;
+  /** Set when the event linked a subscription the account did not have. */
+  linked?: { organizationId: string; subscriptionId: string };
+}
+
+const SUBSCRIPTION_EVENTS = new Set([
+  "customer.subscription.created",
+  "customer.subscription.updated",
+  "customer.subscription.deleted",
+  "customer.subscription.paused",
+  "customer.subscription.resumed",
+]);
 
 /** The Stripe customer an event is about, if it is one we act on. */
 function customerOf(event: Stripe.Event): string | null {
   const object = event.data.object as { customer?: unknown };
   const handled =
     event.type === "checkout.session.completed" ||
-    event.type.startsWith("customer.subscription.") ||
+    SUBSCRIPTION_EVENTS.has(event.type) ||
     event.type.startsWith("invoice.");
   if (!handled) return null;
   return idOf(object.customer as string | { id: string } | null);
 }
 
-async function lockAccount(
-  tx: Transaction,
-  customerId: string | null,
-): Promise<BillingAccount | null> {
-  if (!customerId) return null;
-  const [account] = await tx
-    .select()
-    .from(billingAccounts)
-    .where(eq(billingAccounts.stripeCustomerId, customerId))
-    .for("update");
-  return account ?? null;
-}
-
-async function linkCheckout(
-  tx: Transaction,
-  account: BillingAccount,
-  session: Stripe.Checkout.Session,
-): Promise<void> {
-  const subscriptionId = idOf(session.subscription);
-  if (session.mode !== "subscription" || !subscriptionId) return;
-  const reference = session.client_reference_id;
-  if (reference && reference !== account.organizationId) {
-    console.warn(
-      `[billing] checkout ${session.id} names organisation ${reference} but its customer belongs to ${account.organizationId}; linked by customer`,
-    );
+/** The subscription a Checkout or subscription event is about. */
+function subscriptionOf(event: Stripe.Event): string | null {
+  if (event.type === "checkout.session.completed") {
+    const session = event.data.object;
+    if (session.mode !== "subscription") return null;
+    return idOf(session.subscription);
   }
-  if (account.stripeSubscriptionId === subscriptionId) return;
-  // The subscription's own events carry its exact status; until one arrives
-  // a paid Checkout means the plan is running.
-  await tx
-    .update(billingAccounts)
-    .set({
-      stripeSubscriptionId: subscriptionId,
-      status: session.payment_status === "paid" ? "active" : "incomplete",
-      pastDueSince: null,
-      updatedAt: new Date(),
-    })
-    .where(eq(billingAccounts.organizationId, account.organizationId));
+  if (SUBSCRIPTION_EVENTS.has(event.type))
+    return (event.data.object as Stripe.Subscription).id ?? null;
+  return null;
 }
 
-const ENDED = new Set(["canceled", "incomplete_expired"]);
-
-/** An event about another subscription than the live one is history, not news. */
-function concernsLinkedSubscription(
-  account: BillingAccount,
-  snapshot: SubscriptionSnapshot,
-): boolean {
-  return (
-    !account.stripeSubscriptionId ||
-    account.stripeSubscriptionId === snapshot.subscriptionId ||
-    ENDED.has(account.status)
-  );
+/** The event's time, if its own copy already showed the subscription behind. */
+function behindAt(event: Stripe.Event): Date | null {
+  if (!SUBSCRIPTION_EVENTS.has(event.type)) return null;
+  const status = (event.data.object as Stripe.Subscription).status;
+  return BEHIND_STATUSES.has(status) ? new Date(event.created * 1000) : null;
 }
 
 async function applySubscription(
   tx: Transaction,
   account: BillingAccount,
   event: Stripe.Event,
-): Promise<boolean> {
-  const snapshot = subscriptionSnapshot(
-    event.data.object as Stripe.Subscription,
-    env().STRIPE_PRICE_LOOKUP_KEY,
-  );
-  if (!concernsLinkedSubscription(account, snapshot)) return false;
-  const status =
-    event.type === "customer.subscription.deleted"
-      ? "canceled"
-      : snapshot.status;
-  const now = new Date();
-  await tx
-    .update(billingAccounts)
-    .set({
-      stripeSubscriptionId: snapshot.subscriptionId,
-      status,
-      quantity: snapshot.quantity,
-      currentPeriodEnd: snapshot.currentPeriodEnd,
-      cancelAtPeriodEnd: snapshot.cancelAtPeriodEnd,
-      pastDueSince: nextPastDueSince(status, account.pastDueSince, now),
-      updatedAt: now,
-    })
-    .where(eq(billingAccounts.organizationId, account.organizationId));
-  return true;
+  subscriptionId: string,
+): Promise<EventResult> {
+  if (event.type === "checkout.session.completed") {
+    const session = event.data.object;
+    const reference = session.client_reference_id;
+    if (reference && reference !== account.organizationId) {
+      console.warn(
+        `[billing] checkout ${session.id} names organisation ${reference} but its customer belongs to ${account.organizationId}; linked by customer`,
+      );
+    }
+  }
+  const result = await mirrorSubscription(tx, account, subscriptionId, {
+    eventBehindAt: behindAt(event),
+  });
+  if (!result.stored) return { outcome: "ignored" };
+  return {
+    outcome: "applied",
+    ...(result.linked
+      ? {
+          linked: {
+            organizationId: account.organizationId,
+            subscriptionId,
+          },
+        }
+      : {}),
+  };
 }
 
 async function applyInvoice(
@@ -152,30 +132,30 @@ async function applyEffect(
   tx: Transaction,
   account: BillingAccount,
   event: Stripe.Event,
-): Promise<boolean> {
-  if (event.type === "checkout.session.completed") {
-    await linkCheckout(tx, account, event.data.object);
-    return true;
-  }
-  if (
-    event.type === "customer.subscription.created" ||
-    event.type === "customer.subscription.updated" ||
-    event.type === "customer.subscription.deleted"
-  ) {
-    return applySubscription(tx, account, event);
-  }
+): Promise<EventResult> {
+  const subscriptionId = subscriptionOf(event);
+  if (subscriptionId)
+    return applySubscription(tx, account, event, subscriptionId);
   if (event.type.startsWith("invoice.")) {
-    return applyInvoice(tx, account, event.data.object as Stripe.Invoice);
+    const applied = await applyInvoice(
+      tx,
+      account,
+      event.data.object as Stripe.Invoice,
+    );
+    return { outcome: applied ? "applied" : "ignored" };
   }
-  return false;
+  return { outcome: "ignored" };
 }
 
 /** Applies the event once; answers only after the commit. */
 export async function applyStripeEvent(
   event: Stripe.Event,
-): Promise<EventOutcome> {
+): Promise<EventResult> {
   return db.transaction(async (tx) => {
-    const account = await lockAccount(tx, customerOf(event));
+    const customerId = customerOf(event);
+    const account = customerId
+      ? await lockAccountByCustomer(tx, customerId)
+      : null;
     const [fresh] = await tx
       .insert(billingEvents)
       .values({
@@ -185,8 +165,8 @@ export async function applyStripeEvent(
       })
       .onConflictDoNothing()
       .returning({ eventId: billingEvents.eventId });
-    if (!fresh) return "duplicate";
-    if (!account) return "ignored";
-    return (await applyEffect(tx, account, event)) ? "applied" : "ignored";
+    if (!fresh) return { outcome: "duplicate" };
+    if (!account) return { outcome: "ignored" };
+    return applyEffect(tx, account, event);
   });
 }

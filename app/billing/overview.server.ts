@@ -10,6 +10,7 @@ import {
   standingOf,
   type BillingAccount,
 } from "./account.server";
+import { SHORT_READ } from "./live-subscription.server";
 import { listMeteredSites } from "./metered-sites.server";
 import { monthlyEstimateMinor, planQuantity, PRICE_CURRENCY } from "./plan";
 import { isStripeError, stripe } from "./stripe.server";
@@ -36,10 +37,14 @@ async function estimateNextInvoice(
   };
   if (!account || !hasLiveSubscription(account)) return byCount;
   try {
-    const preview = await stripe().invoices.createPreview({
-      customer: account.stripeCustomerId,
-      subscription: account.stripeSubscriptionId!,
-    });
+    // The page waits for it: a short read, and the count if Stripe is slow.
+    const preview = await stripe().invoices.createPreview(
+      {
+        customer: account.stripeCustomerId,
+        subscription: account.stripeSubscriptionId!,
+      },
+      SHORT_READ,
+    );
     return {
       amountMinor: preview.amount_due,
       currency: preview.currency,

@@ -1,15 +1,15 @@
 /**
- * A new owner registers their organisation: user, organisation, owner
- * membership and billing account (Stripe customer, local trial) together.
- * It lives with billing because the trial starts here.
+ * A new owner registers their organisation: user, organisation and owner
+ * membership in one transaction, then the billing account (Stripe customer,
+ * local trial). It lives with billing because the trial starts here.
  */
 import { randomUUID } from "node:crypto";
 import { recordAudit } from "~/audit/record-audit.server";
 import { createUser } from "~/auth/create-user.server";
 import { findUserByEmail } from "~/auth/sign-in.server";
 import { db } from "~/db/client.server";
-import { billingAccounts, memberships, organizations } from "~/db/schema";
-import { createStripeCustomer, newAccountValues } from "./account.server";
+import { memberships, organizations } from "~/db/schema";
+import { ensureBillingAccount } from "./account.server";
 
 function isUniqueViolation(error: unknown): boolean {
   const e = error as { code?: string; cause?: { code?: string } };
@@ -21,19 +21,20 @@ export type SignUpResult =
   | { ok: false; reason: "email_taken" };
 
 /**
- * The customer is created before the transaction (a network call must not
- * hold it open). If Stripe is away the sign-up still succeeds: the account
- * is then created on first need, with the same trial.
+ * The Stripe customer comes after the commit, through the same path as an
+ * organisation's first billing page (idempotency key = organisation id, trial
+ * from the organisation's creation): a sign-up that fails creates nothing in
+ * Stripe, and if Stripe is away the sign-up still succeeds and the account
+ * is opened on first need with the same trial.
  */
-async function customerOrNull(org: { id: string; name: string }) {
+async function openBillingAccount(organizationId: string): Promise<void> {
   try {
-    return await createStripeCustomer(org);
+    await ensureBillingAccount(organizationId);
   } catch (error) {
     console.error(
-      `[billing] no Stripe customer at sign-up of ${org.id}; created later:`,
+      `[billing] no Stripe customer at sign-up of ${organizationId}; created later:`,
       (error as Error).message,
     );
-    return null;
   }
 }
 
@@ -46,29 +47,16 @@ export async function signUpOwner(input: {
   if (await findUserByEmail(input.email))
     return { ok: false, reason: "email_taken" };
   const organizationId = randomUUID();
-  const customerId = await customerOrNull({
-    id: organizationId,
-    name: input.organizationName,
-  });
+  let userId: string;
   try {
-    const userId = await db.transaction(async (tx) => {
-      const [org] = await tx
+    userId = await db.transaction(async (tx) => {
+      await tx
         .insert(organizations)
-        .values({ id: organizationId, name: input.organizationName })
-        .returning({ createdAt: organizations.createdAt });
+        .values({ id: organizationId, name: input.organizationName });
       const id = await createUser(tx, input);
       await tx
         .insert(memberships)
         .values({ organizationId, userId: id, role: "owner" });
-      if (customerId) {
-        await tx.insert(billingAccounts).values(
-          newAccountValues({
-            organizationId,
-            stripeCustomerId: customerId,
-            trialStart: org.createdAt,
-          }),
-        );
-      }
       await recordAudit(tx, {
         organizationId,
         actorUserId: id,
@@ -78,10 +66,11 @@ export async function signUpOwner(input: {
       });
       return id;
     });
-    return { ok: true, userId, organizationId };
   } catch (error) {
     // Two sign-ups with one address at once: the second meets the unique index.
     if (isUniqueViolation(error)) return { ok: false, reason: "email_taken" };
     throw error;
   }
+  await openBillingAccount(organizationId);
+  return { ok: true, userId, organizationId };
 }

@@ -93,15 +93,15 @@ describe("billing standing", () => {
     expect(s.sitesBlocked).toBe(true);
   });
 
-  it("a cancelled subscription is dated by its period end or the change, whichever came first", () => {
+  it("a cancelled subscription is dated by when it ended, not by later changes to the account", () => {
     const s = billingStanding(
       {
         ...base,
         status: "canceled",
         hasSubscription: true,
         trialEndsAt: days(-60),
-        currentPeriodEnd: days(10),
-        updatedAt: days(-9),
+        currentPeriodEnd: days(-9),
+        updatedAt: days(-1),
       },
       now,
       7,
@@ -109,6 +109,39 @@ describe("billing standing", () => {
     expect(s.kind).toBe("canceled");
     expect(s.troubleSince).toEqual(days(-9));
     expect(s.sitesBlocked).toBe(true);
+  });
+
+  it("a subscription cancelled inside the trial's dates does not bring the trial back", () => {
+    const s = billingStanding(
+      {
+        ...base,
+        status: "canceled",
+        hasSubscription: true,
+        trialEndsAt: days(5),
+        currentPeriodEnd: days(-1),
+        updatedAt: now,
+      },
+      now,
+      7,
+    );
+    expect(s.kind).toBe("canceled");
+    expect(s.troubleSince).toEqual(days(-1));
+    expect(s.graceEndsAt).toEqual(days(6));
+  });
+
+  it("a Checkout that expired unpaid after the trial is an ended trial", () => {
+    const s = billingStanding(
+      {
+        ...base,
+        status: "incomplete_expired",
+        hasSubscription: true,
+        trialEndsAt: days(-2),
+      },
+      now,
+      7,
+    );
+    expect(s.kind).toBe("trial_ended");
+    expect(s.troubleSince).toEqual(days(-2));
   });
 
   it("an incomplete checkout leaves the trial as it was", () => {

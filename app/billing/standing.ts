@@ -11,7 +11,7 @@ export interface AccountFacts {
   pastDueSince: Date | null;
   currentPeriodEnd: Date | null;
   cancelAtPeriodEnd: boolean;
-  /** Last change of the account; a cancellation is dated by it. */
+  /** Last change of the account; dates a cancellation stored without its end. */
   updatedAt: Date;
 }
 
@@ -38,10 +38,6 @@ const ENDED = new Set(["canceled", "incomplete_expired"]);
 /** Statuses of a subscription that bills and is paid up. */
 const PAID_UP = new Set(["active", "trialing"]);
 
-function earlier(a: Date, b: Date): Date {
-  return a.getTime() <= b.getTime() ? a : b;
-}
-
 function classify(
   facts: AccountFacts,
   now: Date,
@@ -55,15 +51,18 @@ function classify(
     // past_due, unpaid, paused: the subscription exists but is not being paid.
     return { kind: "past_due", since: facts.pastDueSince ?? now };
   }
+  // A paid plan that ended: subscribing ended the trial, so it does not
+  // come back, even inside its original dates.
+  // Its end is stored as the period end (Stripe's ended_at), so later
+  // writes to the account (a reconciliation) do not move the grace period.
+  if (facts.hasSubscription && facts.status === "canceled")
+    return {
+      kind: "canceled",
+      since: facts.currentPeriodEnd ?? facts.updatedAt,
+    };
+  // No subscription, or a Checkout that never got paid (incomplete, expired).
   if (facts.trialEndsAt && now < facts.trialEndsAt)
     return { kind: "trial", since: null };
-  if (facts.hasSubscription && ENDED.has(facts.status)) {
-    const ended = earlier(
-      facts.currentPeriodEnd ?? facts.updatedAt,
-      facts.updatedAt,
-    );
-    return { kind: "canceled", since: ended };
-  }
   return { kind: "trial_ended", since: facts.trialEndsAt ?? now };
 }
 
@@ -97,15 +96,16 @@ export function trialEnd(createdAt: Date, trialDays: number): Date {
 }
 
 /**
- * past_due_since follows the status: set on entering past due (kept while it
- * stays there), cleared on leaving it.
+ * past_due_since follows the status: set on entering past due to the time
+ * Stripe says the trouble began (kept while it stays there), cleared on
+ * leaving it.
  */
 export function nextPastDueSince(
   nextStatus: string,
   previousSince: Date | null,
-  now: Date,
+  troubleBegan: Date,
 ): Date | null {
   const behind = nextStatus === "past_due" || nextStatus === "unpaid";
   if (!behind) return null;
-  return previousSince ?? now;
+  return previousSince ?? troubleBegan;
 }

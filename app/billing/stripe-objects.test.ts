@@ -5,6 +5,8 @@ import {
   invoiceSnapshot,
   siteItem,
   subscriptionSnapshot,
+  subscriptionToFollow,
+  troubleStart,
 } from "./stripe-objects";
 
 const subscription = {
@@ -108,6 +110,105 @@ describe("reading Stripe objects", () => {
     expect(invoiceSnapshot(invoice)).toMatchObject({
       periodStart: new Date(1_700_000_000 * 1000),
       periodEnd: new Date(1_702_592_000 * 1000),
+    });
+  });
+});
+
+describe("an ended subscription", () => {
+  it("is dated by when it ended, not by the period it was cut short in", () => {
+    const ended = {
+      ...subscription,
+      status: "canceled",
+      ended_at: 1_750_000_000,
+      canceled_at: 1_749_000_000,
+    } as unknown as Stripe.Subscription;
+    expect(
+      subscriptionSnapshot(ended, "sites_monthly").currentPeriodEnd,
+    ).toEqual(new Date(1_750_000_000 * 1000));
+    // A live one keeps its item's period end.
+    expect(
+      subscriptionSnapshot(subscription, "sites_monthly").currentPeriodEnd,
+    ).toEqual(new Date(1_800_000_000 * 1000));
+  });
+});
+
+describe("when payment trouble began", () => {
+  const now = new Date(1_760_000_000 * 1000);
+  const eventAt = new Date(1_759_000_000 * 1000);
+  const withInvoice = (invoice: unknown) =>
+    ({
+      ...subscription,
+      status: "past_due",
+      latest_invoice: invoice,
+    }) as unknown as Stripe.Subscription;
+
+  it("is when the unpaid invoice was finalized (its first charge)", () => {
+    const sub = withInvoice({
+      id: "in_1",
+      status: "open",
+      created: 1_700_000_000,
+      due_date: null,
+      status_transitions: { finalized_at: 1_700_003_600 },
+    });
+    expect(troubleStart(sub, eventAt, now)).toEqual(
+      new Date(1_700_003_600 * 1000),
+    );
+  });
+
+  it("is the due date of an invoice sent to be paid", () => {
+    const sub = withInvoice({
+      id: "in_1",
+      status: "open",
+      created: 1_700_000_000,
+      due_date: 1_701_000_000,
+      status_transitions: { finalized_at: 1_700_003_600 },
+    });
+    expect(troubleStart(sub, null, now)).toEqual(
+      new Date(1_701_000_000 * 1000),
+    );
+  });
+
+  it("falls back to the event's time, then to now", () => {
+    const paid = withInvoice({
+      id: "in_1",
+      status: "paid",
+      created: 1_700_000_000,
+      status_transitions: { finalized_at: 1_700_000_000 },
+    });
+    expect(troubleStart(paid, eventAt, now)).toEqual(eventAt);
+    expect(troubleStart(withInvoice("in_1"), eventAt, now)).toEqual(eventAt);
+    expect(troubleStart(withInvoice(null), null, now)).toEqual(now);
+  });
+});
+
+describe("the subscription to follow", () => {
+  const billing = new Set(["active", "past_due", "trialing"]);
+  const list = [
+    { id: "sub_new", status: "active" },
+    { id: "sub_old", status: "past_due" },
+    { id: "sub_gone", status: "canceled" },
+  ] as const;
+
+  it("keeps the linked one while it bills", () => {
+    expect(subscriptionToFollow([...list], "sub_old", billing)).toEqual({
+      follow: "sub_old",
+      others: ["sub_new"],
+    });
+  });
+
+  it("otherwise takes the newest that bills", () => {
+    expect(subscriptionToFollow([...list], "sub_gone", billing).follow).toBe(
+      "sub_new",
+    );
+    expect(subscriptionToFollow([...list], null, billing).follow).toBe(
+      "sub_new",
+    );
+  });
+
+  it("finds none when nothing bills", () => {
+    expect(subscriptionToFollow([list[2]], "sub_gone", billing)).toEqual({
+      follow: null,
+      others: [],
     });
   });
 });

@@ -9,6 +9,7 @@ import { sendError } from "~/api/respond.server";
 import { env } from "~/env.server";
 import { applyStripeEvent } from "./apply-event.server";
 import { stripe } from "./stripe.server";
+import { afterMeteredChange } from "./sync-quantity.server";
 
 /** Stripe's events are small; anything larger is not one of them. */
 export const WEBHOOK_BODY_LIMIT = "512kb";
@@ -42,8 +43,16 @@ export async function stripeWebhook(
     );
   }
   try {
-    const outcome = await applyStripeEvent(event);
+    const { outcome, linked } = await applyStripeEvent(event);
     res.json({ received: true, id: event.id, outcome });
+    // A Checkout bills the count from when it was opened; sites metered
+    // since then are added now the subscription is known. Not awaited:
+    // Stripe wants its answer quickly, and the sync never throws.
+    if (linked)
+      void afterMeteredChange(
+        linked.organizationId,
+        `linked:${linked.subscriptionId}`,
+      );
   } catch (error) {
     // Nothing was recorded: Stripe delivers the event again later.
     next(error);

@@ -11,6 +11,7 @@ import {
 import { billingOverview } from "~/billing/overview.server";
 import { formatMoney, UNIT_PRICE_MINOR } from "~/billing/plan";
 import {
+  lookUpAfterCheckout,
   reconcileOrganization,
   type ReconcileOutcome,
 } from "~/billing/reconcile.server";
@@ -45,6 +46,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     "billing.view",
   );
   const checkout = new URL(request.url).searchParams.get("checkout");
+  // Back from a paid Checkout: find the subscription in Stripe now if its
+  // webhook has not arrived (or was lost).
+  if (checkout === "done") await lookUpAfterCheckout(organization.id);
   return {
     organization,
     ...(await billingOverview(organization.id)),
@@ -58,12 +62,19 @@ type ActionResult = { intent: string; error?: string; message?: string };
 const fail = (intent: string, error: string, status: number) =>
   data<ActionResult>({ intent, error }, { status });
 
+const sites = (n: number | null) => `${n} site${n === 1 ? "" : "s"}`;
+
 function describeReconcile(outcome: ReconcileOutcome): string {
+  const linked = outcome.linked
+    ? "Found a subscription in Stripe that had not reached Joulebook, and linked it. "
+    : "";
   switch (outcome.result) {
     case "repaired":
-      return `Stripe billed ${outcome.found} site${outcome.found === 1 ? "" : "s"}; it now bills ${outcome.expected}, the metered-site count.`;
+      return `${linked}Stripe billed ${sites(outcome.found)}; it now bills ${outcome.expected}, the metered-site count.`;
     case "in_step":
-      return `Stripe bills ${outcome.expected} site${outcome.expected === 1 ? "" : "s"}, the same as the metered-site count.`;
+      return `${linked}Stripe bills ${sites(outcome.expected)}, the same as the metered-site count.`;
+    case "ended":
+      return "The subscription has ended in Stripe, so nothing is billed. Subscribe again to restart the plan.";
     case "no_subscription":
       return "There is no subscription to check yet.";
     default:

@@ -1,6 +1,10 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { getUser, startSession } from "~/auth/session.server";
+import {
+  claimSignUp,
+  signUpSucceeded,
+} from "~/billing/sign-up-throttle.server";
 import { signUpOwner } from "~/billing/sign-up.server";
 import { AuthFrame } from "~/components/auth-frame";
 import { Button, Field, Notice } from "~/components/ui";
@@ -11,7 +15,12 @@ import {
   newPasswordField,
   parseForm,
 } from "~/lib/forms";
+import { requestInfoContext } from "~/request-context";
 import type { Route } from "./+types/sign-up";
+
+// Carries Retry-After of a refused sign-up onto the page's response.
+export const headers: Route.HeadersFunction = ({ actionHeaders }) =>
+  actionHeaders;
 
 export const meta: Route.MetaFunction = () => [
   { title: "Create an organisation · Joulebook" },
@@ -39,10 +48,28 @@ export async function loader({ request }: Route.LoaderArgs) {
   return { trialDays: env().BILLING_TRIAL_DAYS };
 }
 
-export async function action({ request }: Route.ActionArgs) {
+function tooMany(retryAfterSeconds: number) {
+  const minutes = Math.ceil(retryAfterSeconds / 60);
+  return data(
+    {
+      errors: {
+        form: `Too many organisations were created from this network in the last hour. Try again in ${minutes} minute${minutes === 1 ? "" : "s"}, or ask an owner to invite you to an existing organisation.`,
+      } as Record<string, string>,
+    },
+    {
+      status: 429,
+      headers: { "Retry-After": String(retryAfterSeconds) },
+    },
+  );
+}
+
+export async function action({ request, context }: Route.ActionArgs) {
   if (await getUser(request)) throw redirect("/");
   const form = parseForm(await request.formData(), signUpSchema);
   if (!form.ok) return data({ errors: form.errors }, { status: 400 });
+  const { clientAddress } = context.get(requestInfoContext);
+  const claim = await claimSignUp(form.data.email, clientAddress);
+  if (!claim.admitted) return tooMany(claim.retryAfterSeconds);
   const result = await signUpOwner({
     name: form.data.name,
     email: form.data.email,
@@ -60,6 +87,7 @@ export async function action({ request }: Route.ActionArgs) {
       { status: 409 },
     );
   }
+  await signUpSucceeded(claim.attemptId);
   throw redirect(`/o/${result.organizationId}`, {
     headers: { "Set-Cookie": await startSession(request, result.userId) },
   });

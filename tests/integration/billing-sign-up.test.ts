@@ -3,10 +3,11 @@ import { randomUUID } from "node:crypto";
 import { eq } from "drizzle-orm";
 import Stripe from "stripe";
 import { afterAll, beforeEach, describe, expect, inject, it } from "vitest";
-import { Client, locationOf } from "../support/http";
+import { Client, DEMO_PASSWORD, locationOf } from "../support/http";
 import { db, pool, schema } from "../support/db";
 
-const fakeAddress = new URL(inject("stripeUrl"));
+const stripeUrl = inject("stripeUrl");
+const fakeAddress = new URL(stripeUrl);
 const sdk = new Stripe("sk_test_joulebook", {
   host: fakeAddress.hostname,
   port: Number(fakeAddress.port),
@@ -34,6 +35,19 @@ function form(overrides: Record<string, string> = {}) {
 
 async function usersWith(email: string) {
   return db.select().from(schema.users).where(eq(schema.users.email, email));
+}
+
+async function orgsNamed(name: string) {
+  return db
+    .select()
+    .from(schema.organizations)
+    .where(eq(schema.organizations.name, name));
+}
+
+/** How many customers the Stripe fake holds. */
+async function stripeCustomers(): Promise<number> {
+  const state = await (await fetch(`${stripeUrl}/_fake/state`)).json();
+  return state.counts.customers;
 }
 
 describe("signing up", () => {
@@ -109,17 +123,89 @@ describe("signing up", () => {
     }
   });
 
-  it("an address already in use is refused", async () => {
+  it("an address already in use is refused, and nothing is made in Stripe", async () => {
+    const customersBefore = await stripeCustomers();
     const fields = form({ email: "owner@larchmere.example" });
     const response = await new Client().post("/sign-up", fields);
     expect(response.status).toBe(409);
     expect(await response.text()).toContain(
       "An account already uses this address",
     );
-    const orgs = await db
+    expect(await orgsNamed(fields.organization)).toHaveLength(0);
+    expect(await stripeCustomers()).toBe(customersBefore);
+  });
+
+  it("of simultaneous sign-ups with one address, one succeeds and only it gets a Stripe customer", async () => {
+    const customersBefore = await stripeCustomers();
+    const email = `race-${randomUUID().slice(0, 8)}@wrenfield.example`;
+    const attempts = Array.from({ length: 4 }, () => form({ email }));
+    const responses = await Promise.all(
+      attempts.map((fields) => new Client().post("/sign-up", fields)),
+    );
+    const statuses = responses.map((r) => r.status).sort();
+    expect(statuses).toEqual([302, 409, 409, 409]);
+    expect(await usersWith(email)).toHaveLength(1);
+    expect(await stripeCustomers()).toBe(customersBefore + 1);
+    const winner = attempts[responses.findIndex((r) => r.status === 302)];
+    const [org] = await orgsNamed(winner.organization);
+    const [account] = await db
       .select()
-      .from(schema.organizations)
-      .where(eq(schema.organizations.name, fields.organization));
-    expect(orgs).toHaveLength(0);
+      .from(schema.billingAccounts)
+      .where(eq(schema.billingAccounts.organizationId, org.id));
+    const customer = (await sdk.customers.retrieve(
+      account.stripeCustomerId,
+    )) as Stripe.Customer;
+    expect(customer.metadata.organization_id).toBe(org.id);
+  });
+});
+
+describe("sign-ups per client address", () => {
+  it("five an hour; the sixth is refused with 429 and Retry-After, and creates nothing", async () => {
+    // Refused forms do no work and do not count.
+    const bad = await new Client().post("/sign-up", form({ confirm: "x" }));
+    expect(bad.status).toBe(400);
+    for (let i = 0; i < 5; i++) {
+      const response = await new Client().post("/sign-up", form());
+      expect(response.status, `sign-up ${i + 1}`).toBe(302);
+    }
+    const customersBefore = await stripeCustomers();
+    const sixth = form();
+    const refused = await new Client().post("/sign-up", sixth);
+    expect(refused.status).toBe(429);
+    const retryAfter = Number(refused.headers.get("retry-after"));
+    expect(retryAfter).toBeGreaterThan(3_500);
+    expect(retryAfter).toBeLessThanOrEqual(3_600);
+    const html = await refused.text();
+    expect(html).toContain(
+      "Too many organisations were created from this network in the last hour. Try again in 60 minutes",
+    );
+    expect(await usersWith(sixth.email)).toHaveLength(0);
+    expect(await orgsNamed(sixth.organization)).toHaveLength(0);
+    expect(await stripeCustomers()).toBe(customersBefore);
+
+    // Once the earliest sign-up is more than an hour old, one more fits.
+    const [oldest] = await db
+      .select()
+      .from(schema.signInAttempts)
+      .orderBy(schema.signInAttempts.id)
+      .limit(1);
+    await db
+      .update(schema.signInAttempts)
+      .set({ attemptedAt: new Date(Date.now() - 61 * 60_000) })
+      .where(eq(schema.signInAttempts.id, oldest.id));
+    expect((await new Client().post("/sign-up", form())).status).toBe(302);
+    expect((await new Client().post("/sign-up", form())).status).toBe(429);
+  });
+
+  it("a refused sign-up does not stop the client from signing in", async () => {
+    for (let i = 0; i < 5; i++)
+      expect((await new Client().post("/sign-up", form())).status).toBe(302);
+    expect((await new Client().post("/sign-up", form())).status).toBe(429);
+    const client = new Client();
+    const response = await client.post("/sign-in", {
+      email: "owner@larchmere.example",
+      password: DEMO_PASSWORD,
+    });
+    expect(response.status).toBe(302);
   });
 });

@@ -359,6 +359,53 @@ describe("a subscription's life", () => {
   });
 });
 
+describe("a Checkout paid after the estate grew", () => {
+  it("bills the metered sites at payment, not those when Checkout opened", async () => {
+    const org = await createMeteredOrg({
+      roles: ["finance", "energy_manager"],
+    });
+    const finance = await signedIn(memberOf(org, "finance"));
+    const attempt = await attemptOn(finance, org.org.id);
+    const started = await finance.post(`/o/${org.org.id}/billing`, {
+      intent: "subscribe",
+      attempt,
+    });
+    expect(started.status).toBe(303);
+    const checkoutUrl = started.headers.get("location")!;
+    const page = await (await fetch(checkoutUrl)).text();
+    // Checkout was opened for the one metered site.
+    expect(page).toContain("£29.00");
+
+    // A second site gets its meter while the Checkout tab is still open.
+    const manager = await signedIn(memberOf(org, "energy_manager"));
+    await addMeteredSite(manager, org.org.id, `${org.tag}-late`);
+
+    const action = /<form method="post" action="([^"]+)"/.exec(page)![1];
+    const card = /name="card_number" value="([^"]+)"/.exec(page)![1];
+    const paid = await fetch(new URL(action, stripeUrl), {
+      method: "POST",
+      headers: { "content-type": "application/x-www-form-urlencoded" },
+      body: new URLSearchParams({ card_number: card }).toString(),
+      redirect: "manual",
+    });
+    expect(paid.status).toBe(303);
+    await flush();
+
+    const row = await account(org.org.id);
+    expect(row.stripeSubscriptionId).toMatch(/^sub_/);
+    // The sync after linking runs beside the webhook's answer; wait for it.
+    const deadline = Date.now() + 10_000;
+    while (
+      (await subscriptionQuantity(row.stripeSubscriptionId!)) !== 2 &&
+      Date.now() < deadline
+    )
+      await new Promise((r) => setTimeout(r, 100));
+    expect(await subscriptionQuantity(row.stripeSubscriptionId!)).toBe(2);
+    await flush();
+    expect((await account(org.org.id)).quantity).toBe(2);
+  });
+});
+
 describe("who may see and change billing", () => {
   it("energy managers and auditors get 403 on the page and its actions", async () => {
     const org = await createOrganization([
