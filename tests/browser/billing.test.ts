@@ -1,7 +1,7 @@
 import type { Browser } from "playwright-core";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser } from "../support/browser";
+import { launchBrowser, mainNav, signInPage } from "../support/browser";
 import { db, pool, schema } from "../support/db";
 import { createMeteredOrg } from "../support/metered-org";
 
@@ -22,21 +22,9 @@ describe("paying for Joulebook", () => {
   it("a finance member subscribes through Checkout and sees the active plan", async () => {
     const org = await createMeteredOrg({ roles: ["owner", "finance"] });
     const finance = org.org.members.find((m) => m.role === "finance")!;
-    const page = await browser.newPage({
-      viewport: { width: 1280, height: 900 },
-    });
+    const page = await signInPage(browser, baseUrl, finance);
 
-    await page.goto(`${baseUrl}/sign-in`);
-    await page.getByLabel("E-mail address").fill(finance.email);
-    await page.getByLabel("Password").fill(finance.password);
-    await page.getByRole("button", { name: "Sign in" }).click();
-    await page.waitForURL(/\/o\/[0-9a-f-]{36}$/);
-
-    await page
-      .getByRole("navigation", { name: "Main" })
-      .filter({ visible: true })
-      .getByRole("link", { name: "Billing" })
-      .click();
+    await mainNav(page).getByRole("link", { name: "Billing" }).click();
     await page.getByRole("heading", { level: 1, name: "Billing" }).waitFor();
     expect(await page.getByText("Free trial").count()).toBeGreaterThan(0);
     expect(await page.getByTestId("metered-count").textContent()).toBe("1");

@@ -1,7 +1,7 @@
 import { randomUUID } from "node:crypto";
-import type { Browser, Page } from "playwright-core";
+import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser } from "../support/browser";
+import { launchBrowser, mainNav, signInPage } from "../support/browser";
 import { db, pool, schema } from "../support/db";
 
 const baseUrl = inject("baseUrl");
@@ -16,20 +16,9 @@ afterAll(async () => {
   await pool.end();
 });
 
-async function signInAsManager(): Promise<Page> {
-  const page = await browser.newPage({
-    viewport: { width: 1280, height: 900 },
-  });
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByLabel("E-mail address").fill("manager@larchmere.example");
-  await page.getByLabel("Password").fill("larchmere-demo-2026");
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await page.waitForURL(/\/o\/[0-9a-f-]{36}$/);
-  return page;
-}
-
-const nav = (page: Page) =>
-  page.getByRole("navigation", { name: "Main" }).filter({ visible: true });
+const signInAsManager = () =>
+  signInPage(browser, baseUrl, { email: "manager@larchmere.example" });
+const nav = mainNav;
 
 describe("from an empty site to readings on screen", () => {
   it("creates a site, a meter and a gateway, posts readings with the key and sees them", async () => {

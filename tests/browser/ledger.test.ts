@@ -2,7 +2,7 @@ import { readFileSync } from "node:fs";
 import { eq } from "drizzle-orm";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser } from "../support/browser";
+import { launchBrowser, signInPage } from "../support/browser";
 import { db, pool, schema } from "../support/db";
 import { createMeteredOrg } from "../support/metered-org";
 
@@ -42,16 +42,9 @@ describe("the Ledger page", () => {
     );
     const net = Number(rows[0].net); // 16 × 10.25 = 164 kWh
 
-    const page = await browser.newPage({
+    const page = await signInPage(browser, baseUrl, org.org.members[0], {
       viewport: { width: 1366, height: 900 },
-      acceptDownloads: true,
     });
-    const manager = org.org.members[0];
-    await page.goto(`${baseUrl}/sign-in`);
-    await page.getByLabel("E-mail address").fill(manager.email);
-    await page.getByLabel("Password").fill(manager.password);
-    await page.getByRole("button", { name: "Sign in" }).click();
-    await page.waitForURL(/\/o\//);
     await page.goto(
       `${baseUrl}/o/${org.org.id}/ledger?from=2026-09&to=2026-09`,
     );

@@ -7,7 +7,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser } from "../support/browser";
+import { launchBrowser, mainNav, signInPage } from "../support/browser";
 import { Client } from "../support/http";
 import { db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
@@ -24,25 +24,11 @@ afterAll(async () => {
   await pool.end();
 });
 
-async function signIn(member: { email: string; password: string }) {
-  const page = await browser.newPage({
-    viewport: { width: 1280, height: 900 },
-    acceptDownloads: true,
-  });
-  await page.goto(`${baseUrl}/sign-in`);
-  await page.getByLabel("E-mail address").fill(member.email);
-  await page.getByLabel("Password").fill(member.password);
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await page.waitForURL(/\/o\/[0-9a-f-]{36}$/);
-  return page;
-}
+const signIn = (member: { email: string; password: string }) =>
+  signInPage(browser, baseUrl, member);
 
 async function openReports(page: Page) {
-  await page
-    .getByRole("navigation", { name: "Main" })
-    .filter({ visible: true })
-    .getByRole("link", { name: "Reports" })
-    .click();
+  await mainNav(page).getByRole("link", { name: "Reports" }).click();
   await page.getByRole("heading", { level: 1, name: "Reports" }).waitFor();
 }
 

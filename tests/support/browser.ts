@@ -1,5 +1,5 @@
 import { execSync } from "node:child_process";
-import { chromium, type Browser } from "playwright-core";
+import { chromium, type Browser, type Page } from "playwright-core";
 
 /** Debian's chromium, found on PATH; nothing downloads a browser. */
 export function chromiumPath(): string {
@@ -24,3 +24,31 @@ export function launchBrowser(): Promise<Browser> {
     ],
   });
 }
+
+/**
+ * A new page signed in through the sign-in form, as a person would, landed
+ * on their organisation. `password` defaults to the demo password.
+ */
+export async function signInPage(
+  browser: Browser,
+  baseUrl: string,
+  member: { email: string; password?: string },
+  options: { viewport?: { width: number; height: number } } = {},
+): Promise<Page> {
+  const page = await browser.newPage({
+    viewport: options.viewport ?? { width: 1280, height: 900 },
+    acceptDownloads: true,
+  });
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByLabel("E-mail address").fill(member.email);
+  await page
+    .getByLabel("Password")
+    .fill(member.password ?? "larchmere-demo-2026");
+  await page.getByRole("button", { name: "Sign in" }).click();
+  await page.waitForURL(/\/o\/[0-9a-f-]{36}$/);
+  return page;
+}
+
+/** The shell's main navigation as shown (desktop sidebar or open menu). */
+export const mainNav = (page: Page) =>
+  page.getByRole("navigation", { name: "Main" }).filter({ visible: true });
