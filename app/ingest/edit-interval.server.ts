@@ -1,5 +1,28 @@
+import type { PoolClient } from "pg";
 import { pool } from "~/db/client.server";
-import { refreshRollups } from "~/ledger/refresh-rollups.server";
+import {
+  applyRollupDeltas,
+  type RollupDelta,
+} from "~/ledger/refresh-rollups.server";
+import { ensurePartitions } from "./partitions.server";
+import { writeIntervals } from "./write-intervals.server";
+
+/** The hour becomes `edited` with the person's value, new or stored. */
+function writeEdit(
+  client: PoolClient,
+  args: { organizationId: string; meterId: string; hourStart: Date },
+  energyKwh: string,
+): Promise<RollupDelta[]> {
+  return writeIntervals(client, args.organizationId, {
+    input: "select $2::uuid as m, $3::timestamptz as h, $4::numeric as k",
+    params: [args.meterId, args.hourStart, energyKwh],
+    insertColumns: "energy_kwh, quality, flags",
+    insertValues: "u.k, 'edited', '{}'",
+    update: "energy_kwh = u.k, quality = 'edited', estimate_method = null",
+    from: args.hourStart,
+    to: args.hourStart,
+  });
+}
 
 /**
  * A person's correction of one hour: the value becomes `edited`, keeps its
@@ -18,27 +41,15 @@ export async function editInterval(args: {
   const client = await pool.connect();
   try {
     await client.query("begin");
-    await client.query("select ensure_month_partitions($1, $1)", [
-      args.hourStart,
-    ]);
+    await ensurePartitions(client, args.hourStart, args.hourStart);
     const before = await client.query<{ energy_kwh: string; quality: string }>(
       `select energy_kwh::text, quality from intervals
         where organization_id = $1 and meter_id = $2 and hour_start = $3 for update`,
       [args.organizationId, args.meterId, args.hourStart],
     );
     const previous = before.rows[0] ?? null;
-    await client.query(
-      `insert into intervals (organization_id, meter_id, hour_start, energy_kwh, quality, flags)
-       values ($1, $2, $3, $4, 'edited', '{}')
-       on conflict (organization_id, meter_id, hour_start) do update set
-         energy_kwh = excluded.energy_kwh, quality = 'edited', estimate_method = null, updated_at = now()`,
-      [
-        args.organizationId,
-        args.meterId,
-        args.hourStart,
-        args.energyKwh.toFixed(6),
-      ],
-    );
+    const energyKwh = args.energyKwh.toFixed(6);
+    const deltas = await writeEdit(client, args, energyKwh);
     await client.query(
       `insert into audit_log (organization_id, actor_user_id, action, subject, details)
        values ($1, $2, 'interval.edited', $3, $4)`,
@@ -50,23 +61,16 @@ export async function editInterval(args: {
           from: previous
             ? { energyKwh: previous.energy_kwh, quality: previous.quality }
             : null,
-          to: { energyKwh: args.energyKwh.toFixed(6) },
+          to: { energyKwh },
           reason: args.reason,
         }),
       ],
     );
-    await refreshRollups(
-      client,
-      args.organizationId,
-      args.meterId,
-      args.hourStart,
-      new Date(args.hourStart.getTime() + 3_600_000),
-      {
-        source: "edit",
-        reason: args.reason,
-        actorUserId: args.actorUserId,
-      },
-    );
+    await applyRollupDeltas(client, args.organizationId, deltas, {
+      source: "edit",
+      reason: args.reason,
+      actorUserId: args.actorUserId,
+    });
     await client.query("commit");
   } catch (error) {
     await client.query("rollback").catch(() => undefined);

@@ -1,8 +1,10 @@
 import { pool } from "~/db/client.server";
-import { refreshRollupsNow } from "~/ledger/refresh-rollups.server";
+import { applyRollupDeltas } from "~/ledger/refresh-rollups.server";
 import { estimateGaps } from "./estimate";
+import { ensurePartitions } from "./partitions.server";
 import { detectNegative, detectSpikes } from "./validate";
 import type { HourlyPoint, Quality } from "./series";
+import { writeIntervals } from "./write-intervals.server";
 
 const WEEK_MS = 7 * 86_400_000;
 /** Weeks of history loaded before a gap, for the weekday × hour profile. */
@@ -89,6 +91,56 @@ async function loadSeries(
   }));
 }
 
+type Estimate = { hourStart: Date; energyKwh: number; method: string };
+
+/**
+ * Estimates go only where nothing known is stored (a measurement may have
+ * arrived since the series was read); their rollups move in the same
+ * transaction, so a month never disagrees with its hours.
+ */
+async function storeEstimates(
+  organizationId: string,
+  meterId: string,
+  estimates: Estimate[],
+): Promise<void> {
+  if (estimates.length === 0) return;
+  // A long gap has many hours: no spread into Math.min.
+  const times = estimates.map((e) => e.hourStart.getTime());
+  const first = new Date(times.reduce((a, b) => Math.min(a, b)));
+  const last = new Date(times.reduce((a, b) => Math.max(a, b)));
+  const client = await pool.connect();
+  try {
+    await client.query("begin");
+    await ensurePartitions(client, first, last);
+    const deltas = await writeIntervals(client, organizationId, {
+      input: `select $2::uuid as m, h, k, em
+                from unnest($3::timestamptz[], $4::numeric[], $5::text[]) as p(h, k, em)`,
+      params: [
+        meterId,
+        estimates.map((e) => e.hourStart),
+        estimates.map((e) => e.energyKwh.toFixed(6)),
+        estimates.map((e) => e.method),
+      ],
+      insertColumns: "energy_kwh, quality, estimate_method",
+      insertValues: "u.k, 'estimated', u.em",
+      update: "energy_kwh = u.k, estimate_method = u.em",
+      keep: "i.quality not in ('estimated', 'missing')",
+      from: first,
+      to: last,
+    });
+    await applyRollupDeltas(client, organizationId, deltas, {
+      source: "estimate",
+      reason: "gap estimates updated",
+    });
+    await client.query("commit");
+  } catch (error) {
+    await client.query("rollback").catch(() => undefined);
+    throw error;
+  } finally {
+    client.release();
+  }
+}
+
 /** Chilled water and export meters carry negative values by nature. */
 function expectedSign(facts: MeterFacts): 1 | -1 {
   const natural = facts.carrier === "cooling" ? -1 : 1;
@@ -114,33 +166,7 @@ export async function estimateMeter(
     timeZone: facts.timeZone,
     profileWeeks: PROFILE_WEEKS,
   });
-  if (estimates.length > 0) {
-    await pool.query("select ensure_month_partitions($1, $2)", [
-      estimates[0].hourStart,
-      estimates.at(-1)!.hourStart,
-    ]);
-    await pool.query(
-      `insert into intervals (organization_id, meter_id, hour_start, energy_kwh, quality, estimate_method)
-       select $1, $2, h, k, 'estimated', m from unnest($3::timestamptz[], $4::numeric[], $5::text[]) as u(h, k, m)
-       on conflict (organization_id, meter_id, hour_start) do update set
-         energy_kwh = excluded.energy_kwh, estimate_method = excluded.estimate_method, updated_at = now()
-       where intervals.quality in ('estimated', 'missing')`,
-      [
-        organizationId,
-        meterId,
-        estimates.map((e) => e.hourStart),
-        estimates.map((e) => e.energyKwh.toFixed(6)),
-        estimates.map((e) => e.method),
-      ],
-    );
-    await refreshRollupsNow(
-      organizationId,
-      meterId,
-      estimates[0].hourStart,
-      new Date(estimates.at(-1)!.hourStart.getTime() + 3_600_000),
-      { source: "estimate", reason: "gap estimates updated" },
-    );
-  }
+  await storeEstimates(organizationId, meterId, estimates);
   await flagHours(
     organizationId,
     meterId,

@@ -1,4 +1,4 @@
-import { createHash } from "node:crypto";
+import { hash } from "node:crypto";
 import { evaluateItem } from "~/physics/evaluate";
 import { parseReading, type ParsedReading } from "./reading-schema";
 import type { IngestMeter } from "./meter-lookup.server";
@@ -23,20 +23,33 @@ export interface Rejection {
   reason: string;
 }
 
-/** JSON with sorted keys, so the same reading in another key order is a repeat. */
-function canonicalJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(",")}]`;
+/**
+ * JSON with sorted keys, so the same reading in another key order is a
+ * repeat. Stored hashes depend on this exact text: it must not change.
+ */
+export function canonicalJson(value: unknown): string {
+  if (Array.isArray(value)) {
+    let out = "[";
+    for (let i = 0; i < value.length; i++) {
+      // As Array#join: an element with no JSON text adds nothing.
+      out += (i ? "," : "") + (canonicalJson(value[i]) ?? "");
+    }
+    return out + "]";
+  }
   if (value && typeof value === "object") {
-    const entries = Object.entries(value as Record<string, unknown>).sort(
-      ([a], [b]) => (a < b ? -1 : a > b ? 1 : 0),
-    );
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(",")}}`;
+    const object = value as Record<string, unknown>;
+    const keys = Object.keys(object).sort();
+    let out = "{";
+    for (let i = 0; i < keys.length; i++) {
+      out += `${i ? "," : ""}${JSON.stringify(keys[i])}:${canonicalJson(object[keys[i]])}`;
+    }
+    return out + "}";
   }
   return JSON.stringify(value);
 }
 
 export function hashPayload(payload: unknown): string {
-  return createHash("sha256").update(canonicalJson(payload)).digest("hex");
+  return hash("sha256", canonicalJson(payload));
 }
 
 /** Export meters measure what leaves the site: the sign flips (design.md). */
@@ -46,9 +59,15 @@ export function orientationSign(
   return meter.orientation === "export" ? -1 : 1;
 }
 
-/** The meter's configured sensor position and pressure fill what a reading leaves out. */
-function withMeterDefaults(item: Record<string, unknown>, meter: IngestMeter) {
-  const filled = { ...item };
+/**
+ * The meter's configured sensor position and pressure fill what a reading
+ * leaves out. The item is the parser's own copy of the reading (never the
+ * stored payload), so it is completed in place.
+ */
+function withMeterDefaults(
+  filled: Record<string, unknown>,
+  meter: IngestMeter,
+) {
   if (
     filled.quantity === "water_heat" &&
     filled.sensor_at === undefined &&
@@ -110,10 +129,13 @@ function prepareOne(
     };
   }
   const payload = raw as Record<string, unknown>;
-  const base = { index, meter, payload, payloadHash: hashPayload(payload) };
+  const payloadHash = hashPayload(payload);
   if (reading.kind === "register") {
     return {
-      ...base,
+      index,
+      meter,
+      payload,
+      payloadHash,
       readingTime: reading.time,
       endTime: null,
       energyKwh: null,
@@ -126,7 +148,10 @@ function prepareOne(
   const signed = result.energy_kwh * orientationSign(meter);
   const mpePercent = result.details.en1434_mpe_percent;
   return {
-    ...base,
+    index,
+    meter,
+    payload,
+    payloadHash,
     readingTime: reading.start,
     endTime: reading.end,
     energyKwh: signed.toFixed(6),

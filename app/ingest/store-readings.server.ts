@@ -1,17 +1,30 @@
 /**
  * The write path of ingest, in one transaction on one connection: raw
- * readings (idempotent on meter and time), conflicts kept for review, and the
- * hourly intervals derived from what was new. Plain SQL with unnest() keeps a
- * 5,000-reading batch to a handful of round trips.
+ * readings (idempotent on meter and time), conflicts kept for review, the
+ * hourly intervals derived from what was new, and the monthly rollups moved
+ * by exactly what the hours gained. Set-based statements over arrays keep a
+ * batch to a handful of round trips, whatever its size.
+ *
+ * Locks are always taken in the same order (register meters, raw readings,
+ * intervals, rollups; each by sorted key), so concurrent batches on the same
+ * meters wait for each other but never deadlock.
  */
 import type { PoolClient } from "pg";
-import { splitAcrossHours, floorToHour, HOUR_MS } from "./hours";
-import { registerDeltas } from "./register-series";
 import {
-  refreshRollups,
+  applyRollupDeltas,
   type ChangeAttribution,
+  type RollupDelta,
 } from "~/ledger/refresh-rollups.server";
+import { hourPieces } from "./hour-pieces";
+import { named } from "./named-statement.server";
+import { ensurePartitions } from "./partitions.server";
 import type { PreparedReading, Rejection } from "./prepare-readings.server";
+import {
+  lockRegisterMeters,
+  recomputeRegisterSpan,
+  type RegisterMeterSpan,
+} from "./register-hours.server";
+import { writeIntervals } from "./write-intervals.server";
 
 export interface StoreOutcome {
   accepted: number;
@@ -21,56 +34,65 @@ export interface StoreOutcome {
   touched: Map<string, { from: Date; to: Date }>;
 }
 
+type Range = { from: Date; to: Date };
+
 const keyOf = (meterId: string, time: Date) => `${meterId}|${time.getTime()}`;
 
-async function ensurePartitions(
-  client: PoolClient,
-  readings: PreparedReading[],
-) {
+function timeRange(readings: PreparedReading[]): Range {
   let min = Infinity;
   let max = -Infinity;
   for (const r of readings) {
     min = Math.min(min, r.readingTime.getTime());
     max = Math.max(max, (r.endTime ?? r.readingTime).getTime());
   }
-  await client.query("select ensure_month_partitions($1, $2)", [
-    new Date(min),
-    new Date(max),
-  ]);
+  return { from: new Date(min), to: new Date(max) };
 }
 
-/** Inserts what is new; returns the keys that were stored by this call. */
+/**
+ * Inserts what is new in key order; answers the readings that were already
+ * stored. The payloads travel as one JSON array: one parse, and no escaping
+ * of every quote as an array literal would need.
+ */
+const INSERT_RAW = `with u as (
+       select * from rows from (
+           unnest($3::int[]), unnest($4::uuid[]), unnest($5::timestamptz[]), unnest($6::timestamptz[]),
+           jsonb_array_elements($7::jsonb), unnest($8::text[]), unnest($9::numeric[]), unnest($10::numeric[]),
+           unnest($11::numeric[]))
+         as u(i, m, t, e, p, h, k, r, x)
+     ), ins as (
+       insert into raw_readings
+         (organization_id, meter_id, reading_time, end_time, payload, payload_hash, energy_kwh, register_kwh, uncertainty_kwh, batch_id)
+       select $1, m, t, e, p, h, k, r, x, $2 from u order by m, t
+       on conflict do nothing
+       returning meter_id, reading_time
+     )
+     select u.i from u
+      where not exists (select 1 from ins where ins.meter_id = u.m and ins.reading_time = u.t)`;
+
+/** Returns the readings already stored (by another batch, perhaps one committing now). */
 async function insertRaw(
   client: PoolClient,
   organizationId: string,
   batchId: string,
   rows: PreparedReading[],
-): Promise<Set<string>> {
-  const { rows: inserted } = await client.query<{
-    meter_id: string;
-    reading_time: Date;
-  }>(
-    `insert into raw_readings
-       (organization_id, meter_id, reading_time, end_time, payload, payload_hash, energy_kwh, register_kwh, uncertainty_kwh, batch_id)
-     select $1, m, t, e, p, h, k, r, x, $2
-       from unnest($3::uuid[], $4::timestamptz[], $5::timestamptz[], $6::jsonb[], $7::text[], $8::numeric[], $9::numeric[], $10::numeric[])
-         as u(m, t, e, p, h, k, r, x)
-     on conflict do nothing
-     returning meter_id, reading_time`,
-    [
+): Promise<PreparedReading[]> {
+  const { rows: stored } = await client.query<{ i: number }>({
+    ...named(INSERT_RAW),
+    values: [
       organizationId,
       batchId,
+      rows.map((_, i) => i),
       rows.map((r) => r.meter.id),
-      rows.map((r) => r.readingTime),
-      rows.map((r) => r.endTime),
-      rows.map((r) => JSON.stringify(r.payload)),
+      rows.map((r) => r.readingTime.toISOString()),
+      rows.map((r) => r.endTime?.toISOString() ?? null),
+      JSON.stringify(rows.map((r) => r.payload)),
       rows.map((r) => r.payloadHash),
       rows.map((r) => r.energyKwh),
       rows.map((r) => r.registerKwh),
       rows.map((r) => r.uncertaintyKwh),
     ],
-  );
-  return new Set(inserted.map((r) => keyOf(r.meter_id, r.reading_time)));
+  });
+  return stored.map(({ i }) => rows[i]);
 }
 
 async function storedHashes(
@@ -119,205 +141,46 @@ async function recordConflicts(
   );
 }
 
-interface HourRow {
-  meterId: string;
-  hourStart: Date;
-  energyKwh: string;
-  uncertaintyKwh: string;
-  readingTime: Date;
-}
-
-/** A reading's energy and its MPE band, split over its hours alike (by time). */
-function hourPieces(r: PreparedReading): HourRow[] {
-  const energy = splitAcrossHours(
-    r.readingTime,
-    r.endTime!,
-    Number(r.energyKwh),
-  );
-  const band = splitAcrossHours(
-    r.readingTime,
-    r.endTime!,
-    Number(r.uncertaintyKwh ?? 0),
-  );
-  return energy.map((p, i) => ({
-    meterId: r.meter.id,
-    hourStart: p.hourStart,
-    energyKwh: p.energyKwh.toFixed(6),
-    uncertaintyKwh: band[i].energyKwh.toFixed(6),
-    readingTime: r.readingTime,
-  }));
-}
+const PIECES = `unnest($2::uuid[], $3::timestamptz[], $4::numeric[], $5::timestamptz[], $6::numeric[])
+                as p(m, h, k, t, x)`;
 
 /**
  * Interval readings add into their hours. An estimate is replaced by what was
  * measured; a human edit stands, flagged that data arrived after it.
  */
-async function addIntervalReadings(
+function addIntervalReadings(
   client: PoolClient,
   organizationId: string,
   rows: PreparedReading[],
-) {
-  const pieces = rows.flatMap(hourPieces);
-  if (pieces.length === 0) return;
-  await client.query(
-    `insert into intervals (organization_id, meter_id, hour_start, energy_kwh, uncertainty_kwh, quality, source_reading_times)
-     select $1, m, h, sum(k), sum(x), 'measured', array_agg(t order by t)
-       from unnest($2::uuid[], $3::timestamptz[], $4::numeric[], $5::timestamptz[], $6::numeric[]) as u(m, h, k, t, x)
-      group by m, h
-     on conflict (organization_id, meter_id, hour_start) do update set
-       energy_kwh = case
-         when intervals.quality = 'edited' then intervals.energy_kwh
-         when intervals.quality in ('estimated', 'missing') then excluded.energy_kwh
-         else intervals.energy_kwh + excluded.energy_kwh end,
+): Promise<RollupDelta[]> {
+  const p = hourPieces(rows);
+  return writeIntervals(client, organizationId, {
+    // Hours shared by several readings are summed first; usually each hour
+    // has one reading and the grouping would only cost time.
+    input: p.shared
+      ? `select m, h, sum(k) as k, sum(x) as x, array_agg(t order by t) as ts from ${PIECES} group by m, h`
+      : `select m, h, k, x, array[t] as ts from ${PIECES}`,
+    params: [p.meterIds, p.hours, p.energies, p.readingTimes, p.bands],
+    insertColumns: "energy_kwh, uncertainty_kwh, quality, source_reading_times",
+    insertValues: "u.k, u.x, 'measured', u.ts",
+    update: `energy_kwh = case
+         when i.quality = 'edited' then i.energy_kwh
+         when i.quality in ('estimated', 'missing') then u.k
+         else i.energy_kwh + u.k end,
        uncertainty_kwh = case
-         when intervals.quality = 'edited' then intervals.uncertainty_kwh
-         when intervals.quality in ('estimated', 'missing') then excluded.uncertainty_kwh
-         else intervals.uncertainty_kwh + excluded.uncertainty_kwh end,
-       quality = case when intervals.quality = 'edited' then 'edited'::interval_quality else 'measured' end,
-       flags = case when intervals.quality = 'edited'
-         then array(select distinct unnest(intervals.flags || '{late_data_after_edit}'))
-         else intervals.flags end,
-       estimate_method = case when intervals.quality = 'edited' then intervals.estimate_method end,
-       source_reading_times = case when intervals.quality in ('estimated', 'missing')
-         then excluded.source_reading_times
-         else intervals.source_reading_times || excluded.source_reading_times end,
-       updated_at = now()`,
-    [
-      organizationId,
-      pieces.map((p) => p.meterId),
-      pieces.map((p) => p.hourStart),
-      pieces.map((p) => p.energyKwh),
-      pieces.map((p) => p.readingTime),
-      pieces.map((p) => p.uncertaintyKwh),
-    ],
-  );
-}
-
-interface RegisterMeterSpan {
-  meter: PreparedReading["meter"];
-  times: Date[];
-}
-
-/**
- * A register read changes the deltas on both sides of it, so the hours
- * between its neighbours are recomputed from all reads that touch them (late
- * reads included) and replaced, not added.
- */
-async function recomputeRegisterSpan(
-  client: PoolClient,
-  organizationId: string,
-  span: RegisterMeterSpan,
-): Promise<{ from: Date; to: Date }> {
-  const lo = new Date(Math.min(...span.times.map((t) => t.getTime())));
-  const hi = new Date(Math.max(...span.times.map((t) => t.getTime())));
-  const { rows: bounds } = await client.query<{
-    prev: Date | null;
-    next: Date | null;
-  }>(
-    `select (select max(reading_time) from raw_readings where organization_id = $1 and meter_id = $2 and reading_time < $3) as prev,
-            (select min(reading_time) from raw_readings where organization_id = $1 and meter_id = $2 and reading_time > $4) as next`,
-    [organizationId, span.meter.id, lo, hi],
-  );
-  const from = floorToHour(bounds[0].prev ?? lo);
-  const to = new Date(floorToHour(bounds[0].next ?? hi).getTime() + HOUR_MS);
-  const { rows: reads } = await client.query<{
-    reading_time: Date;
-    register_kwh: string;
-  }>(
-    `select reading_time, register_kwh from raw_readings
-      where organization_id = $1 and meter_id = $2
-        and reading_time >= coalesce((select max(reading_time) from raw_readings
-                                       where organization_id = $1 and meter_id = $2 and reading_time < $3), $3)
-        and reading_time <= coalesce((select min(reading_time) from raw_readings
-                                       where organization_id = $1 and meter_id = $2 and reading_time > $4), $4)
-      order by reading_time`,
-    [organizationId, span.meter.id, from, to],
-  );
-  const deltas = registerDeltas(
-    reads.map((r) => ({
-      time: r.reading_time,
-      registerKwh: Number(r.register_kwh),
-    })),
-    {
-      multiplier: Number(span.meter.multiplier),
-      capacityKwh:
-        span.meter.rolloverKwh === null
-          ? undefined
-          : Number(span.meter.rolloverKwh),
-    },
-  );
-  await replaceRegisterHours(
-    client,
-    organizationId,
-    span.meter,
-    deltas,
-    from,
-    to,
-  );
-  // The hours touched end at the last read: a delta ends there (exclusive).
-  return { from, to: bounds[0].next ?? hi };
-}
-
-async function replaceRegisterHours(
-  client: PoolClient,
-  organizationId: string,
-  meter: PreparedReading["meter"],
-  deltas: ReturnType<typeof registerDeltas>,
-  from: Date,
-  to: Date,
-) {
-  const sign = meter.orientation === "export" ? -1 : 1;
-  const hours = new Map<
-    number,
-    { energy: number; flags: Set<string>; spread: boolean; sources: Date[] }
-  >();
-  for (const d of deltas) {
-    const spread = d.to.getTime() - d.from.getTime() > HOUR_MS;
-    for (const piece of splitAcrossHours(d.from, d.to, d.energyKwh * sign)) {
-      const t = piece.hourStart.getTime();
-      if (t < from.getTime() || t >= to.getTime()) continue;
-      const hour = hours.get(t) ?? {
-        energy: 0,
-        flags: new Set<string>(),
-        spread: false,
-        sources: [],
-      };
-      hour.energy += piece.energyKwh;
-      hour.spread ||= spread;
-      hour.sources.push(d.to);
-      if (d.flag && floorToHour(new Date(d.to.getTime() - 1)).getTime() === t)
-        hour.flags.add(d.flag);
-      hours.set(t, hour);
-    }
-  }
-  if (hours.size === 0) return;
-  const entries = [...hours.entries()];
-  await client.query(
-    `insert into intervals (organization_id, meter_id, hour_start, energy_kwh, quality, flags, estimate_method, source_reading_times)
-     select $1, $2, h, k, q::interval_quality, string_to_array(f, ','), em, string_to_array(s, ',')::timestamptz[]
-       from unnest($3::timestamptz[], $4::numeric[], $5::text[], $6::text[], $7::text[], $8::text[]) as u(h, k, q, f, em, s)
-     on conflict (organization_id, meter_id, hour_start) do update set
-       energy_kwh = case when intervals.quality = 'edited' then intervals.energy_kwh else excluded.energy_kwh end,
-       quality = case when intervals.quality = 'edited' then intervals.quality else excluded.quality end,
-       flags = case when intervals.quality = 'edited'
-         then array(select distinct unnest(intervals.flags || '{late_data_after_edit}'))
-         else excluded.flags end,
-       estimate_method = case when intervals.quality = 'edited' then intervals.estimate_method else excluded.estimate_method end,
-       source_reading_times = excluded.source_reading_times,
-       updated_at = now()`,
-    [
-      organizationId,
-      meter.id,
-      entries.map(([t]) => new Date(t)),
-      entries.map(([, h]) => h.energy.toFixed(6)),
-      // A delta over several hours is spread evenly: the total is measured,
-      // its split between the hours is an estimate.
-      entries.map(([, h]) => (h.spread ? "estimated" : "measured")),
-      entries.map(([, h]) => [...h.flags].join(",")),
-      entries.map(([, h]) => (h.spread ? "register_spread" : null)),
-      entries.map(([, h]) => h.sources.map((s) => s.toISOString()).join(",")),
-    ],
-  );
+         when i.quality = 'edited' then i.uncertainty_kwh
+         when i.quality in ('estimated', 'missing') then u.x
+         else i.uncertainty_kwh + u.x end,
+       quality = case when i.quality = 'edited' then 'edited'::interval_quality else 'measured' end,
+       flags = case when i.quality = 'edited'
+         then array(select distinct unnest(i.flags || '{late_data_after_edit}'))
+         else i.flags end,
+       estimate_method = case when i.quality = 'edited' then i.estimate_method end,
+       source_reading_times = case when i.quality in ('estimated', 'missing')
+         then u.ts else i.source_reading_times || u.ts end`,
+    from: new Date(p.from),
+    to: new Date(p.to),
+  });
 }
 
 function classifyRepeats(
@@ -334,7 +197,17 @@ function classifyRepeats(
   return { repeats, conflicts };
 }
 
-/** Splits a batch into first occurrences and in-batch duplicates of a key. */
+/** Key order (meter, then time), as PostgreSQL sorts uuid and timestamptz. */
+function byKey(a: PreparedReading, b: PreparedReading): number {
+  if (a.meter.id !== b.meter.id) return a.meter.id < b.meter.id ? -1 : 1;
+  return a.readingTime.getTime() - b.readingTime.getTime();
+}
+
+/**
+ * Splits a batch into first occurrences and in-batch duplicates of a key;
+ * the first occurrences come in key order, which the statements keep anyway
+ * (lock order), so PostgreSQL's sorts find them sorted.
+ */
 function firstOccurrences(readings: PreparedReading[]) {
   const seen = new Set<string>();
   const first: PreparedReading[] = [];
@@ -347,30 +220,11 @@ function firstOccurrences(readings: PreparedReading[]) {
       first.push(r);
     }
   }
-  return { first, later };
-}
-
-/**
- * Two batches for one register meter at once would each recompute deltas
- * without the other's reads; they take turns per meter (ordered, so two
- * batches never wait on each other in a cycle).
- */
-async function lockRegisterMeters(
-  client: PoolClient,
-  readings: PreparedReading[],
-) {
-  const ids = [
-    ...new Set(
-      readings.filter((r) => r.registerKwh !== null).map((r) => r.meter.id),
-    ),
-  ].sort();
-  for (const id of ids) {
-    await client.query("select pg_advisory_xact_lock(hashtext($1))", [id]);
-  }
+  return { first: first.sort(byKey), later };
 }
 
 function widen(
-  touched: Map<string, { from: Date; to: Date }>,
+  touched: Map<string, Range>,
   meterId: string,
   from: Date,
   to: Date,
@@ -382,6 +236,40 @@ function widen(
   });
 }
 
+function registerSpans(fresh: PreparedReading[]): RegisterMeterSpan[] {
+  const spans = new Map<string, RegisterMeterSpan>();
+  for (const r of fresh.filter((f) => f.registerKwh !== null)) {
+    const span = spans.get(r.meter.id) ?? { meter: r.meter, times: [] };
+    span.times.push(r.readingTime);
+    spans.set(r.meter.id, span);
+  }
+  // In meter order, like the advisory locks and every other key.
+  return [...spans.values()].sort((a, b) =>
+    a.meter.id < b.meter.id ? -1 : a.meter.id > b.meter.id ? 1 : 0,
+  );
+}
+
+/** The new readings' hours; returns what the rollups gain. */
+async function deriveHours(
+  client: PoolClient,
+  organizationId: string,
+  fresh: PreparedReading[],
+  touched: Map<string, Range>,
+): Promise<RollupDelta[]> {
+  const intervalReadings = fresh.filter((r) => r.energyKwh !== null);
+  const deltas = intervalReadings.length
+    ? await addIntervalReadings(client, organizationId, intervalReadings)
+    : [];
+  for (const span of registerSpans(fresh)) {
+    const range = await recomputeRegisterSpan(client, organizationId, span);
+    widen(touched, span.meter.id, range.from, range.to);
+    deltas.push(...range.deltas);
+  }
+  for (const r of fresh)
+    widen(touched, r.meter.id, r.readingTime, r.endTime ?? r.readingTime);
+  return deltas;
+}
+
 export async function storeReadings(
   client: PoolClient,
   organizationId: string,
@@ -389,53 +277,24 @@ export async function storeReadings(
   readings: PreparedReading[],
   change: ChangeAttribution,
 ): Promise<StoreOutcome> {
-  const touched = new Map<string, { from: Date; to: Date }>();
+  const touched = new Map<string, Range>();
   if (readings.length === 0)
     return { accepted: 0, repeats: 0, conflicts: [], touched };
-  await ensurePartitions(client, readings);
+  const range = timeRange(readings);
+  await ensurePartitions(client, range.from, range.to);
   await lockRegisterMeters(client, readings);
   const { first, later } = firstOccurrences(readings);
-  const storedNow = await insertRaw(client, organizationId, batchId, first);
-  const fresh = first.filter((r) =>
-    storedNow.has(keyOf(r.meter.id, r.readingTime)),
-  );
-  const notFresh = [
-    ...first.filter((r) => !storedNow.has(keyOf(r.meter.id, r.readingTime))),
-    ...later,
-  ];
+  const alreadyStored = await insertRaw(client, organizationId, batchId, first);
+  const notFresh = new Set([...alreadyStored, ...later]);
+  const fresh = first.filter((r) => !notFresh.has(r));
   const { repeats, conflicts } = classifyRepeats(
-    notFresh,
-    await storedHashes(client, organizationId, notFresh),
+    [...notFresh],
+    await storedHashes(client, organizationId, [...notFresh]),
   );
   await recordConflicts(client, organizationId, batchId, conflicts);
-  await addIntervalReadings(
-    client,
-    organizationId,
-    fresh.filter((r) => r.energyKwh !== null),
-  );
-  const registerSpans = new Map<string, RegisterMeterSpan>();
-  for (const r of fresh.filter((f) => f.registerKwh !== null)) {
-    const span = registerSpans.get(r.meter.id) ?? { meter: r.meter, times: [] };
-    span.times.push(r.readingTime);
-    registerSpans.set(r.meter.id, span);
-  }
-  for (const span of registerSpans.values()) {
-    const range = await recomputeRegisterSpan(client, organizationId, span);
-    widen(touched, span.meter.id, range.from, range.to);
-  }
-  for (const r of fresh)
-    widen(touched, r.meter.id, r.readingTime, r.endTime ?? r.readingTime);
+  const deltas = await deriveHours(client, organizationId, fresh, touched);
   // The ledger's monthly rollups move in the same transaction as the hours.
-  for (const [meterId, range] of touched) {
-    await refreshRollups(
-      client,
-      organizationId,
-      meterId,
-      range.from,
-      range.to,
-      change,
-    );
-  }
+  await applyRollupDeltas(client, organizationId, deltas, change);
   return {
     accepted: fresh.length,
     repeats: repeats.length,

@@ -1,0 +1,26 @@
+import type { PoolClient } from "pg";
+
+/**
+ * Makes sure raw_readings and intervals have their monthly partitions for
+ * [from, to]. ensure_month_partitions serialises on one advisory lock that is
+ * held until the caller's commit, so it is called only when a partition is
+ * actually missing: otherwise every batch would wait for every other one.
+ * The names are the ones the function gives (`<table>_YYYY_MM`, UTC months).
+ */
+export async function ensurePartitions(
+  client: PoolClient,
+  from: Date,
+  to: Date,
+): Promise<void> {
+  await client.query({
+    name: "ingest_ensure_partitions",
+    text: `select ensure_month_partitions($1, $2)
+      where exists (
+        select 1
+          from generate_series(date_trunc('month', $1::timestamptz, 'UTC'), $2::timestamptz, interval '1 month') as m,
+               lateral (select to_char(m at time zone 'UTC', 'YYYY_MM') as suffix) as n
+         where to_regclass('raw_readings_' || n.suffix) is null
+            or to_regclass('intervals_' || n.suffix) is null)`,
+    values: [from, to],
+  });
+}
