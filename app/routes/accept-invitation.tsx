@@ -15,6 +15,7 @@ import {
   type InvitationState,
 } from "~/organizations/members.server";
 import type { Route } from "./+types/accept-invitation";
+import { NewPasswordFields } from "~/components/new-password-fields";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Invitation · Joulebook" },
@@ -203,23 +204,7 @@ export default function AcceptInvitation({
           required
           error={errors.name}
         />
-        <Field
-          label="Choose a password"
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          hint="At least 10 characters."
-          required
-          error={errors.password}
-        />
-        <Field
-          label="Repeat the password"
-          name="confirm"
-          type="password"
-          autoComplete="new-password"
-          required
-          error={errors.confirm}
-        />
+        <NewPasswordFields errors={errors} />
         <Button type="submit">Create the account and join</Button>
       </Form>
     );

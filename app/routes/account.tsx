@@ -15,6 +15,7 @@ import {
 } from "~/components/ui";
 import { newPasswordField, parseForm } from "~/lib/forms";
 import type { Route } from "./+types/account";
+import { NewPasswordFields } from "~/components/new-password-fields";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Account · Joulebook" },
@@ -134,23 +135,7 @@ export default function Account({
               required
               error={errors.current}
             />
-            <Field
-              label="New password"
-              name="password"
-              type="password"
-              autoComplete="new-password"
-              hint="At least 10 characters."
-              required
-              error={errors.password}
-            />
-            <Field
-              label="Repeat the new password"
-              name="confirm"
-              type="password"
-              autoComplete="new-password"
-              required
-              error={errors.confirm}
-            />
+            <NewPasswordFields errors={errors} replacing />
             <Button type="submit">Change password</Button>
           </Form>
         </Card>

@@ -1,7 +1,7 @@
 import { data, Form, Link, redirect } from "react-router";
 import { z } from "zod";
 import { AuthFrame } from "~/components/auth-frame";
-import { Button, Field, Notice } from "~/components/ui";
+import { Button, Notice } from "~/components/ui";
 import {
   resetPassword,
   resetTokenState,
@@ -9,6 +9,7 @@ import {
 } from "~/auth/password-reset.server";
 import { newPasswordField, parseForm } from "~/lib/forms";
 import type { Route } from "./+types/reset-password";
+import { NewPasswordFields } from "~/components/new-password-fields";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Choose a new password · Joulebook" },
@@ -63,23 +64,7 @@ export default function ResetPassword({
       ) : (
         <Form method="post" className="flex flex-col gap-5" noValidate>
           {errors.form ? <Notice tone="error">{errors.form}</Notice> : null}
-          <Field
-            label="New password"
-            name="password"
-            type="password"
-            autoComplete="new-password"
-            hint="At least 10 characters."
-            required
-            error={errors.password}
-          />
-          <Field
-            label="Repeat the new password"
-            name="confirm"
-            type="password"
-            autoComplete="new-password"
-            required
-            error={errors.confirm}
-          />
+          <NewPasswordFields errors={errors} replacing />
           <Button type="submit">Set the new password</Button>
         </Form>
       )}

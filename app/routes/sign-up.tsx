@@ -17,6 +17,7 @@ import {
 } from "~/lib/forms";
 import { requestInfoContext } from "~/request-context";
 import type { Route } from "./+types/sign-up";
+import { NewPasswordFields } from "~/components/new-password-fields";
 
 // Carries Retry-After of a refused sign-up onto the page's response.
 export const headers: Route.HeadersFunction = ({ actionHeaders }) =>
@@ -129,23 +130,7 @@ export default function SignUp({
           required
           error={errors.email}
         />
-        <Field
-          label="Choose a password"
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          hint="At least 10 characters."
-          required
-          error={errors.password}
-        />
-        <Field
-          label="Repeat the password"
-          name="confirm"
-          type="password"
-          autoComplete="new-password"
-          required
-          error={errors.confirm}
-        />
+        <NewPasswordFields errors={errors} />
         <Button type="submit" disabled={busy}>
           {busy ? "Creating…" : "Create the organisation"}
         </Button>
