@@ -491,6 +491,34 @@ describe("what the verifier refuses, and why", () => {
     });
   });
 
+  it("an edited copy of the CA inside the signature block: says the block was changed", () => {
+    // The CA certificate travels in the CMS blob as DER, written as hex.
+    const caHex = new X509Certificate(ours.caCertificatePem).raw
+      .toString("hex")
+      .toUpperCase();
+    const text = signed.toString("latin1");
+    const upper = text.toUpperCase();
+    const found = upper.indexOf(caHex);
+    expect(found).toBeGreaterThan(0);
+    // A digit inside the CA's own signature value (its last bytes): the
+    // certificate still parses, with the same name, but other bytes.
+    const at = found + caHex.length - 10;
+    const digit = text[at];
+    const changed = withByte(
+      signed,
+      at,
+      (digit === "0" ? "1" : "0").charCodeAt(0),
+    );
+    const result = verifySignedPdf(changed, ours.trustedCaPems);
+    expect(result).toMatchObject({
+      ok: false,
+      reason: "untrusted_certificate",
+    });
+    expect(result.ok ? "" : result.message).toMatch(
+      /differs from the trusted certificate: the signature block was changed/,
+    );
+  });
+
   it("anything in the zero padding after the signature block: malformed", () => {
     const { end } = contentsHex(signed);
     const changed = withByte(signed, end - 5, 0x37);

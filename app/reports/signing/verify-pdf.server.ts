@@ -207,11 +207,16 @@ function chainProblem(
   const passenger = cms.certificates.find(
     (c) => !path.includes(c) && !trusted.some((t) => t.raw.equals(c.raw)),
   );
-  if (passenger)
+  if (!passenger) return null;
+  // Same name as a trusted CA but other bytes: most likely the signature
+  // block itself was edited, which is what a reader should be told.
+  if (trusted.some((t) => t.subject === passenger.subject))
     return untrusted(
-      `The signature carries a certificate (${commonName(passenger)}) that is neither on the signer's chain nor a trusted CA.`,
+      `The signature carries a copy of ${commonName(passenger)} that differs from the trusted certificate: the signature block was changed after signing.`,
     );
-  return null;
+  return untrusted(
+    `The signature carries a certificate (${commonName(passenger)}) that is neither on the signer's chain nor a trusted CA.`,
+  );
 }
 
 function untrusted(message: string): Problem {
