@@ -11,7 +11,7 @@ import {
   parse,
   unsupported,
 } from "./errors";
-import { input, reply } from "./http";
+import { input, reply, retrieveRoute } from "./http";
 import { previewInvoice, type QuantityChange } from "./invoices";
 import {
   createCheckoutSession,
@@ -66,10 +66,7 @@ export function billingRoutes(ctx: Ctx): Router {
     );
     reply(ctx, res, listOf(found, "/v1/subscriptions", p), p.expand);
   });
-  r.get("/v1/subscriptions/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    reply(ctx, res, findSub(req.params.id), p.expand);
-  });
+  retrieveRoute(r, ctx, "/v1/subscriptions", findSub);
   r.post("/v1/subscriptions/:id", (req, res) => {
     const p = parse(P.subscriptionUpdate, input(req));
     const sub = findSub(req.params.id);
@@ -90,10 +87,12 @@ export function billingRoutes(ctx: Ctx): Router {
     reply(ctx, res, cancelSubscription(ctx, findSub(req.params.id)), p.expand);
   });
 
-  r.get("/v1/subscription_items/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    reply(ctx, res, subOfItem(ctx, req.params.id).items.data[0], p.expand);
-  });
+  retrieveRoute(
+    r,
+    ctx,
+    "/v1/subscription_items",
+    (id) => subOfItem(ctx, id).items.data[0],
+  );
   r.post("/v1/subscription_items/:id", (req, res) => {
     const p = parse(P.subscriptionItemUpdate, input(req));
     const sub = subOfItem(ctx, req.params.id);
@@ -135,15 +134,9 @@ export function billingRoutes(ctx: Ctx): Router {
         : null;
     reply(ctx, res, previewInvoice(ctx, sub, quantityChange), p.expand);
   });
-  r.get("/v1/invoices/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    reply(
-      ctx,
-      res,
-      mustFind(state.invoices, req.params.id, "invoice"),
-      p.expand,
-    );
-  });
+  retrieveRoute(r, ctx, "/v1/invoices", (id) =>
+    mustFind(state.invoices, id, "invoice"),
+  );
   r.post("/v1/invoices/:id/pay", (req, res) => {
     const p = parse(P.onlyExpand, input(req));
     const invoice = mustFind(state.invoices, req.params.id, "invoice");
@@ -164,15 +157,10 @@ export function billingRoutes(ctx: Ctx): Router {
       );
     reply(ctx, res, createCheckoutSession(ctx, p), p.expand);
   });
-  r.get("/v1/checkout/sessions/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    const session = mustFind(
-      state.checkoutSessions,
-      req.params.id,
-      "checkout.session",
-    );
+  retrieveRoute(r, ctx, "/v1/checkout/sessions", (id) => {
+    const session = mustFind(state.checkoutSessions, id, "checkout.session");
     refreshExpiry(ctx, session);
-    reply(ctx, res, session, p.expand);
+    return session;
   });
   r.post("/v1/checkout/sessions/:id/expire", (req, res) => {
     const p = parse(P.onlyExpand, input(req));

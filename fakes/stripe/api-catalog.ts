@@ -5,7 +5,7 @@
 import { Router } from "express";
 import { listOf, mustFind, type Ctx } from "./context";
 import { invalid, parse } from "./errors";
-import { input, reply } from "./http";
+import { input, reply, retrieveRoute } from "./http";
 import { newCustomer, newPrice, newProduct } from "./objects";
 import * as P from "./params";
 import { mergeMetadata, type Metadata } from "./store";
@@ -30,15 +30,9 @@ export function catalogRoutes(ctx: Ctx): Router {
     );
     reply(ctx, res, listOf(found, "/v1/customers", p), p.expand);
   });
-  r.get("/v1/customers/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    reply(
-      ctx,
-      res,
-      mustFind(state.customers, req.params.id, "customer"),
-      p.expand,
-    );
-  });
+  retrieveRoute(r, ctx, "/v1/customers", (id) =>
+    mustFind(state.customers, id, "customer"),
+  );
   r.post("/v1/customers/:id", (req, res) => {
     const p = parse(P.customerCreate, input(req));
     const customer = mustFind(state.customers, req.params.id, "customer");
@@ -57,15 +51,9 @@ export function catalogRoutes(ctx: Ctx): Router {
     state.products.push(product);
     reply(ctx, res, product, p.expand);
   });
-  r.get("/v1/products/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    reply(
-      ctx,
-      res,
-      mustFind(state.products, req.params.id, "product"),
-      p.expand,
-    );
-  });
+  retrieveRoute(r, ctx, "/v1/products", (id) =>
+    mustFind(state.products, id, "product"),
+  );
 
   r.post("/v1/prices", (req, res) => {
     const p = parse(P.priceCreate, input(req));
@@ -85,10 +73,9 @@ export function catalogRoutes(ctx: Ctx): Router {
     );
     reply(ctx, res, listOf(found, "/v1/prices", p), p.expand);
   });
-  r.get("/v1/prices/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    reply(ctx, res, mustFind(state.prices, req.params.id, "price"), p.expand);
-  });
+  retrieveRoute(r, ctx, "/v1/prices", (id) =>
+    mustFind(state.prices, id, "price"),
+  );
 
   r.get("/v1/invoiceitems", (req, res) => {
     const p = parse(P.invoiceItemList, input(req));
@@ -100,25 +87,18 @@ export function catalogRoutes(ctx: Ctx): Router {
     );
     reply(ctx, res, listOf(found, "/v1/invoiceitems", p), p.expand);
   });
-  r.get("/v1/invoiceitems/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    reply(
-      ctx,
-      res,
-      mustFind(state.invoiceItems, req.params.id, "invoiceitem"),
-      p.expand,
-    );
-  });
+  retrieveRoute(r, ctx, "/v1/invoiceitems", (id) =>
+    mustFind(state.invoiceItems, id, "invoiceitem"),
+  );
 
   r.get("/v1/events", (req, res) => {
     const p = parse(P.eventList, input(req));
     const found = state.events.filter((e) => !p.type || e.type === p.type);
     reply(ctx, res, listOf(found, "/v1/events", p), p.expand);
   });
-  r.get("/v1/events/:id", (req, res) => {
-    const p = parse(P.onlyExpand, input(req));
-    reply(ctx, res, mustFind(state.events, req.params.id, "event"), p.expand);
-  });
+  retrieveRoute(r, ctx, "/v1/events", (id) =>
+    mustFind(state.events, id, "event"),
+  );
   return r;
 }
 

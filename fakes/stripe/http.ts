@@ -2,9 +2,10 @@
  * HTTP plumbing of the API half: key check, idempotent replays, reading the
  * parameters the SDK sends, and answering with (optionally expanded) objects.
  */
-import type { Request, RequestHandler, Response } from "express";
+import type { Request, RequestHandler, Response, Router } from "express";
 import { expandPaths, type Ctx } from "./context";
-import { StripeFakeError } from "./errors";
+import { parse, StripeFakeError } from "./errors";
+import { onlyExpand } from "./params";
 import { newId } from "./store";
 
 /** The SDK puts GET and DELETE parameters in the query, others in the body. */
@@ -20,6 +21,19 @@ export function reply(
   expand?: string[],
 ): void {
   res.json(expandPaths(ctx, body, expand));
+}
+
+/** `GET <path>/:id`: one object by id, with `expand[]` as the only parameter. */
+export function retrieveRoute(
+  r: Router,
+  ctx: Ctx,
+  path: string,
+  find: (id: string) => object,
+): void {
+  r.get(`${path}/:id`, (req, res) => {
+    const p = parse(onlyExpand, input(req));
+    reply(ctx, res, find(String(req.params.id)), p.expand);
+  });
 }
 
 export const requestId: RequestHandler = (_req, res, next) => {
