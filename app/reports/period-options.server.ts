@@ -1,4 +1,6 @@
+import { monthsBetween } from "~/baselines/degree-days";
 import { pool } from "~/db/client.server";
+import { anchorFor, longMonthLabel } from "./periods";
 
 export interface PeriodOption {
   /** "month:2026-03", "quarter:2026-Q1" or "year:2026", as the form sends it */
@@ -13,12 +15,6 @@ export interface PeriodChoices {
   /** The latest whole month with data: the sensible default. */
   suggested: string | null;
 }
-
-const monthFormat = new Intl.DateTimeFormat("en-GB", {
-  month: "long",
-  year: "numeric",
-  timeZone: "UTC",
-});
 
 /**
  * The periods worth offering: every month, quarter and year from the first
@@ -40,12 +36,12 @@ export async function periodChoices(
   if (!first || !last)
     return { months: [], quarters: [], years: [], suggested: null };
   const months = monthsBetween(first, last).reverse();
-  const quarters = [...new Set(months.map(quarterOf))];
-  const years = [...new Set(months.map((m) => m.slice(0, 4)))];
+  const quarters = [...new Set(months.map((m) => anchorFor("quarter", m)))];
+  const years = [...new Set(months.map((m) => anchorFor("year", m)))];
   return {
     months: months.map((m) => ({
       value: `month:${m}`,
-      label: monthFormat.format(new Date(`${m}-01T00:00:00Z`)),
+      label: longMonthLabel(m),
     })),
     quarters: quarters.map((q) => ({
       value: `quarter:${q}`,
@@ -54,23 +50,4 @@ export async function periodChoices(
     years: years.map((y) => ({ value: `year:${y}`, label: y })),
     suggested: months[1] ? `month:${months[1]}` : `month:${months[0]}`,
   };
-}
-
-function quarterOf(month: string): string {
-  return `${month.slice(0, 4)}-Q${Math.ceil(Number(month.slice(5, 7)) / 3)}`;
-}
-
-function monthsBetween(first: string, last: string): string[] {
-  const out: string[] = [];
-  let [y, m] = first.split("-").map(Number);
-  const [ly, lm] = last.split("-").map(Number);
-  while (y < ly || (y === ly && m <= lm)) {
-    out.push(`${y}-${String(m).padStart(2, "0")}`);
-    m += 1;
-    if (m === 13) {
-      m = 1;
-      y += 1;
-    }
-  }
-  return out;
 }

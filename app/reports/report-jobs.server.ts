@@ -15,7 +15,12 @@ import { sendEmail } from "~/email/mailer.server";
 import { reportReadyEmail } from "~/email/templates.server";
 import { appUrl } from "~/env.server";
 import { organizations, reports, users } from "~/db/schema";
-import { periodKinds, reportPeriod, type ReportPeriod } from "./periods";
+import {
+  anchorFor,
+  periodKinds,
+  reportPeriod,
+  type ReportPeriod,
+} from "./periods";
 import { loadReportData } from "./report-data.server";
 import {
   createReportDocument,
@@ -129,13 +134,14 @@ async function authorAndOrganization(
     .where(eq(organizations.id, organizationId));
   const [author] = userId
     ? await db
-        .select({ name: users.name })
+        .select({ name: users.name, email: users.email })
         .from(users)
         .where(eq(users.id, userId))
     : [];
   return {
     organizationName: organization?.name ?? "",
     authorName: author?.name ?? "A former member",
+    authorEmail: author?.email ?? null,
   };
 }
 
@@ -145,10 +151,8 @@ export async function runReportJob(job: JobKey): Promise<void> {
   if (!row) return;
   const progress = progressWriter(job);
   try {
-    const { organizationName, authorName } = await authorAndOrganization(
-      row.organizationId,
-      row.createdByUserId,
-    );
+    const { organizationName, authorName, authorEmail } =
+      await authorAndOrganization(row.organizationId, row.createdByUserId);
     const generatedAt = new Date();
     await progress(0.02, "Reading the ledger");
     const data = await loadReportData({
@@ -179,8 +183,16 @@ export async function runReportJob(job: JobKey): Promise<void> {
     doc.end();
     await progress(0.92, "Signing");
     const signed = await signPdf(await bytesPromise, identity);
-    await store(job, signed, pageCount, data.allMonthsClosed);
-    await tellAuthor(row, signed, pageCount, data.allMonthsClosed);
+    const sha256 = await store(job, signed, pageCount, data.allMonthsClosed);
+    if (authorEmail)
+      await tellAuthor({
+        to: authorEmail,
+        title: row.title,
+        pageCount,
+        sha256,
+        allMonthsClosed: data.allMonthsClosed,
+        url: `${appUrl()}/o/${row.organizationId}/reports`,
+      });
   } catch (error) {
     await markFailed(job, error);
   }
@@ -191,31 +203,9 @@ export async function runReportJob(job: JobKey): Promise<void> {
  * gets an e-mail once it is stored. A failed e-mail does not fail the report.
  */
 async function tellAuthor(
-  row: {
-    organizationId: string;
-    title: string;
-    createdByUserId: string | null;
-  },
-  pdf: Buffer,
-  pageCount: number,
-  allMonthsClosed: boolean,
+  message: Parameters<typeof reportReadyEmail>[0],
 ): Promise<void> {
-  if (!row.createdByUserId) return;
-  const [author] = await db
-    .select({ email: users.email })
-    .from(users)
-    .where(eq(users.id, row.createdByUserId));
-  if (!author) return;
-  await sendEmail(
-    reportReadyEmail({
-      to: author.email,
-      title: row.title,
-      pageCount,
-      sha256: createHash("sha256").update(pdf).digest("hex"),
-      allMonthsClosed,
-      url: `${appUrl()}/o/${row.organizationId}/reports`,
-    }),
-  ).catch((error) =>
+  await sendEmail(reportReadyEmail(message)).catch((error) =>
     console.error("[reports] could not e-mail the author", error),
   );
 }
@@ -225,7 +215,8 @@ async function store(
   pdf: Buffer,
   pageCount: number,
   allMonthsClosed: boolean,
-): Promise<void> {
+): Promise<string> {
+  const sha256 = createHash("sha256").update(pdf).digest("hex");
   await db
     .update(reports)
     .set({
@@ -233,7 +224,7 @@ async function store(
       progress: 100,
       progressNote: "Signed and stored",
       pdf,
-      sha256: createHash("sha256").update(pdf).digest("hex"),
+      sha256,
       byteSize: pdf.length,
       pageCount,
       allMonthsClosed,
@@ -246,6 +237,7 @@ async function store(
         eq(reports.id, job.reportId),
       ),
     );
+  return sha256;
 }
 
 async function markFailed(job: JobKey, error: unknown): Promise<void> {
@@ -302,13 +294,6 @@ export function reportPeriodFromRow(row: {
 }): ReportPeriod {
   const kind = periodKinds.find((k) => k === row.periodKind);
   if (!kind) throw new Error(`Unknown period kind "${row.periodKind}".`);
-  const year = row.periodStart.slice(0, 4);
-  const month = Number(row.periodStart.slice(5, 7));
-  const anchor =
-    kind === "month"
-      ? row.periodStart.slice(0, 7)
-      : kind === "quarter"
-        ? `${year}-Q${Math.ceil(month / 3)}`
-        : year;
+  const anchor = anchorFor(kind, row.periodStart.slice(0, 7));
   return reportPeriod(kind, anchor);
 }

@@ -27,17 +27,6 @@ const summaryColumns = {
   completedAt: reports.completedAt,
 };
 
-function toSummary(row: {
-  [K in keyof typeof summaryColumns]: unknown;
-}): ReportSummary {
-  const r = row as Record<string, unknown>;
-  return {
-    ...(r as unknown as ReportSummary),
-    createdAt: (r.createdAt as Date).toISOString(),
-    completedAt: r.completedAt ? (r.completedAt as Date).toISOString() : null,
-  };
-}
-
 export async function listReports(
   organizationId: string,
   limit = 100,
@@ -49,7 +38,13 @@ export async function listReports(
     .where(eq(reports.organizationId, organizationId))
     .orderBy(desc(reports.createdAt))
     .limit(limit);
-  return rows.map(toSummary);
+  return rows.map((row) => ({
+    ...row,
+    // The column is text; the job only ever writes these four.
+    status: row.status as ReportSummary["status"],
+    createdAt: row.createdAt.toISOString(),
+    completedAt: row.completedAt?.toISOString() ?? null,
+  }));
 }
 
 type RequestOutcome =
@@ -57,7 +52,7 @@ type RequestOutcome =
 
 /**
  * Records a report request (queued) and its audit entry in one transaction;
- * the caller hands the id to the job queue after the commit.
+ * queueReport (report-jobs.server.ts) hands the id to the job after commit.
  */
 export async function requestReport(input: {
   organizationId: string;
