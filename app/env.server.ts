@@ -25,6 +25,12 @@ const envSchema = z
       .url("RESEND_BASE_URL must be an absolute URL")
       .refine((u) => !u.endsWith("/"), "RESEND_BASE_URL must not end with /")
       .optional(),
+    // Opens the whole development Outbox to the machine's operator
+    // (npm start makes one and prints the link); unset, nobody reads all.
+    OUTBOX_OPERATOR_KEY: z
+      .string()
+      .min(24, "OUTBOX_OPERATOR_KEY must be at least 24 characters")
+      .optional(),
     EMAIL_FROM: z
       .string()
       .min(3)

@@ -14,6 +14,7 @@ export default [
   route("invitations/:token", "routes/accept-invitation.tsx"),
   route("sign-up", "routes/sign-up.tsx"),
   route("signing-ca.pem", "routes/signing-ca.ts"),
+  route("operator/outbox", "routes/operator-outbox.tsx"),
   layout("routes/app-layout.tsx", [
     route("account", "routes/account.tsx"),
     route("outbox", "routes/outbox.tsx"),

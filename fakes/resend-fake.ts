@@ -25,7 +25,15 @@ const emailSchema = z
     cc: addressList.optional(),
     bcc: addressList.optional(),
     headers: z.record(z.string(), z.string()).optional(),
-    tags: z.array(z.object({ name: z.string(), value: z.string() })).optional(),
+    // The real service allows ASCII letters, digits, _ and - in tags.
+    tags: z
+      .array(
+        z.object({
+          name: z.string().regex(/^[\w-]{1,256}$/),
+          value: z.string().regex(/^[\w-]{1,256}$/),
+        }),
+      )
+      .optional(),
   })
   .refine((m) => m.html !== undefined || m.text !== undefined, {
     message: "Either html or text is required",
@@ -40,6 +48,7 @@ export interface StoredEmail {
   subject: string;
   html: string | null;
   text: string | null;
+  tags: { name: string; value: string }[];
   last_event: "delivered";
 }
 
@@ -78,6 +87,7 @@ export function createResendFake(options: { outboxFile?: string } = {}) {
       subject: message.subject,
       html: message.html ?? null,
       text: message.text ?? null,
+      tags: message.tags ?? [],
       last_event: "delivered",
     };
     outbox.push(email);

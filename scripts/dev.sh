@@ -14,6 +14,8 @@ export RESEND_FAKE_PORT="${RESEND_FAKE_PORT:-54330}"
 export RESEND_BASE_URL="${RESEND_BASE_URL:-http://127.0.0.1:$RESEND_FAKE_PORT}"
 OUTBOX_FILE="$DATA_DIR/outbox.json" node --import tsx fakes/resend-fake.ts &
 fake_pid=$!
+ensure_outbox_operator_key
+echo "All mail (operator only): http://${HOST:-127.0.0.1}:${PORT:-3000}/operator/outbox?key=$OUTBOX_OPERATOR_KEY"
 # Billing goes to the local Stripe fake unless a key or a base URL is given.
 stripe_pid=""
 if [ -z "${STRIPE_API_BASE:-}" ] && [ -z "${STRIPE_SECRET_KEY:-}" ]; then

@@ -161,3 +161,13 @@ ensure_poppler() {
   command -v certutil >/dev/null 2>&1 || missing+=(libnss3-tools)
   if [ ${#missing[@]} -gt 0 ]; then apt_install "${missing[@]}"; fi
 }
+
+# The key that opens every message of the local e-mail fake to the machine's
+# operator (/operator/outbox); made once, readable by this user only.
+ensure_outbox_operator_key() {
+  local file="$DATA_DIR/outbox-operator-key"
+  if [ ! -s "$file" ]; then
+    (umask 077; head -c 32 /dev/urandom | base64 | tr -dc 'A-Za-z0-9' >"$file")
+  fi
+  export OUTBOX_OPERATOR_KEY="${OUTBOX_OPERATOR_KEY:-$(cat "$file")}"
+}

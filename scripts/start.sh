@@ -31,11 +31,15 @@ export NODE_ENV=production
 
 # Mail goes to the local fake unless a real key and no base URL are given.
 fake_pid=""
+outbox_info="E-mail:                               sent through Resend"
 if [ -z "${RESEND_BASE_URL:-}" ] && [ -z "${RESEND_API_KEY:-}" ]; then
   export RESEND_FAKE_PORT="${RESEND_FAKE_PORT:-54330}"
   export RESEND_BASE_URL="http://127.0.0.1:$RESEND_FAKE_PORT"
   OUTBOX_FILE="$DATA_DIR/outbox.json" node --import tsx fakes/resend-fake.ts &
   fake_pid=$!
+  ensure_outbox_operator_key
+  outbox_info="Outbox, your own mail:                http://$HOST:$PORT/outbox
+  All mail (operator only, keep secret): http://$HOST:$PORT/operator/outbox?key=$OUTBOX_OPERATOR_KEY"
 fi
 
 # Billing goes to the local Stripe fake unless a key or a base URL is given.
@@ -68,7 +72,7 @@ cat <<INFO
     other org owner  owner@hollowmead.example
     two orgs         consultant@fernbank.example
   Demo gateway key (development only): $demo_key
-  Outbox (e-mail caught locally):       http://$HOST:$PORT/outbox
+  $outbox_info
   $stripe_info
   Stop the database afterwards with:    npm run db:stop
 

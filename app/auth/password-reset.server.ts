@@ -1,5 +1,5 @@
 import { and, eq, gt, isNull } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { db, type Executor } from "~/db/client.server";
 import { passwordResetTokens, users } from "~/db/schema";
 import { appUrl } from "~/env.server";
 import { sendEmail } from "~/email/mailer.server";
@@ -7,16 +7,23 @@ import { passwordResetEmail } from "~/email/templates.server";
 import { hashPassword } from "./password.server";
 import { endAllSessions } from "./session.server";
 import { findUserByEmail } from "./sign-in.server";
+import { claimPasswordReset } from "./throttle.server";
 import { hashToken, newToken } from "./tokens.server";
 
 import { RESET_LINK_MINUTES } from "./policy";
 export { RESET_LINK_MINUTES };
 
 /**
- * Sends a reset link when the address has an account. The caller answers the
- * same either way, so the form does not reveal who has an account.
+ * Sends a reset link when the address has an account and the throttle allows
+ * (a few an hour per address and per client). The caller answers the same in
+ * every case, so the form reveals neither who has an account nor the limit.
  */
-export async function requestPasswordReset(email: string): Promise<void> {
+export async function requestPasswordReset(
+  email: string,
+  clientAddress: string,
+): Promise<void> {
+  const claim = await claimPasswordReset(email.toLowerCase(), clientAddress);
+  if (!claim.admitted) return;
   const user = await findUserByEmail(email);
   if (!user) return;
   const token = newToken();
@@ -37,25 +44,49 @@ export async function requestPasswordReset(email: string): Promise<void> {
   });
 }
 
-export type ResetTokenState = "valid" | "expired" | "used" | "unknown";
+export type ResetTokenState =
+  "valid" | "expired" | "used" | "ended" | "unknown";
+
+/**
+ * Ends every outstanding link of a person: called when their password
+ * changes, by a reset link or on the account page, so an older link (in a
+ * mailbox someone else may read) cannot set it again.
+ */
+export async function endResetLinks(
+  executor: Executor,
+  userId: string,
+): Promise<void> {
+  await executor
+    .update(passwordResetTokens)
+    .set({ endedAt: new Date() })
+    .where(
+      and(
+        eq(passwordResetTokens.userId, userId),
+        isNull(passwordResetTokens.usedAt),
+        isNull(passwordResetTokens.endedAt),
+      ),
+    );
+}
 
 export async function resetTokenState(token: string): Promise<ResetTokenState> {
   const [row] = await db
     .select({
       expiresAt: passwordResetTokens.expiresAt,
       usedAt: passwordResetTokens.usedAt,
+      endedAt: passwordResetTokens.endedAt,
     })
     .from(passwordResetTokens)
     .where(eq(passwordResetTokens.tokenHash, hashToken(token)));
   if (!row) return "unknown";
   if (row.usedAt) return "used";
+  if (row.endedAt) return "ended";
   if (row.expiresAt.getTime() <= Date.now()) return "expired";
   return "valid";
 }
 
 /**
  * Spends the token (once, atomically) and sets the new password; every
- * session of the account ends. Returns the user id, or the token's state.
+ * session and every other outstanding link of the account ends. Returns the user id, or the token's state.
  */
 export async function resetPassword(
   token: string,
@@ -72,6 +103,7 @@ export async function resetPassword(
         and(
           eq(passwordResetTokens.tokenHash, hashToken(token)),
           isNull(passwordResetTokens.usedAt),
+          isNull(passwordResetTokens.endedAt),
           gt(passwordResetTokens.expiresAt, new Date()),
         ),
       )
@@ -81,6 +113,7 @@ export async function resetPassword(
       .update(users)
       .set({ passwordHash })
       .where(eq(users.id, spent.userId));
+    await endResetLinks(tx, spent.userId);
     return spent.userId;
   });
   if (!userId) return { ok: false, state: await resetTokenState(token) };

@@ -1,8 +1,15 @@
+import { setTimeout as sleep } from "node:timers/promises";
 import { eq, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { users } from "~/db/schema";
 import { verifyPassword } from "./password.server";
-import { recordSignInAttempt, signInThrottle } from "./throttle.server";
+import {
+  attemptSucceeded,
+  claimSignIn,
+  isTrustedDevice,
+  slowDownMs,
+} from "./throttle.server";
+import { hashToken } from "./tokens.server";
 
 export type SignInResult =
   | { ok: true; userId: string }
@@ -22,23 +29,37 @@ export async function findUserByEmail(email: string) {
   return user ?? null;
 }
 
+/**
+ * Judges one password guess, if the throttle admits it. `deviceToken` is the
+ * browser's device cookie (app/auth/device-cookie.server.ts), new or kept: a
+ * browser that signed in to this address before is throttled on its own, and
+ * a success makes this one such a browser.
+ */
 export async function signIn(
   email: string,
   password: string,
   clientAddress: string,
+  deviceToken: string,
 ): Promise<SignInResult> {
   const key = email.toLowerCase();
-  const throttle = await signInThrottle(key, clientAddress);
-  if (throttle.blocked) {
+  const deviceHash = hashToken(deviceToken);
+  const trusted = await isTrustedDevice(key, deviceHash);
+  const claim = await claimSignIn(
+    key,
+    clientAddress,
+    trusted ? deviceHash : null,
+  );
+  if (!claim.admitted) {
     return {
       ok: false,
       reason: "throttled",
-      retryAfterSeconds: throttle.retryAfterSeconds,
+      retryAfterSeconds: claim.retryAfterSeconds,
     };
   }
+  await sleep(slowDownMs(claim.rank));
   const user = await findUserByEmail(key);
   const valid = await verifyPassword(user?.passwordHash ?? null, password);
-  await recordSignInAttempt(key, clientAddress, valid);
   if (!user || !valid) return { ok: false, reason: "invalid" };
+  await attemptSucceeded(claim.attemptId, deviceHash);
   return { ok: true, userId: user.id };
 }

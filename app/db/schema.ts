@@ -73,26 +73,45 @@ export const passwordResetTokens = pgTable(
       .references(() => users.id, { onDelete: "cascade" }),
     expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
     usedAt: timestamp("used_at", { withTimezone: true }),
+    /** Set when a password change or another used link ended this one. */
+    endedAt: timestamp("ended_at", { withTimezone: true }),
     createdAt: createdAt(),
   },
   (t) => [index("password_reset_user_idx").on(t.userId)],
 );
 
-/** Every attempt, kept to throttle guessing per e-mail address and per client. */
+/**
+ * Every attempt at something a stranger may repeat (signing in, signing up,
+ * asking for a reset link), kept to throttle guessing per e-mail address and
+ * per client (app/auth/throttle.server.ts). `device_hash` names the browser a
+ * sign-in came from when it carried a trusted-device cookie.
+ */
+export const attemptKindEnum = pgEnum("attempt_kind", [
+  "sign-in",
+  "sign-up",
+  "password-reset",
+]);
+
 export const signInAttempts = pgTable(
   "sign_in_attempts",
   {
     id: bigserial("id", { mode: "number" }).primaryKey(),
+    kind: attemptKindEnum("kind").notNull().default("sign-in"),
     email: text("email").notNull(),
     clientAddress: text("client_address").notNull(),
+    deviceHash: text("device_hash"),
     succeeded: boolean("succeeded").notNull(),
     attemptedAt: timestamp("attempted_at", { withTimezone: true })
       .notNull()
       .defaultNow(),
   },
   (t) => [
-    index("sign_in_attempts_email_idx").on(t.email, t.attemptedAt),
-    index("sign_in_attempts_client_idx").on(t.clientAddress, t.attemptedAt),
+    index("sign_in_attempts_email_idx").on(t.kind, t.email, t.attemptedAt),
+    index("sign_in_attempts_client_idx").on(
+      t.kind,
+      t.clientAddress,
+      t.attemptedAt,
+    ),
   ],
 );
 

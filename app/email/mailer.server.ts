@@ -1,11 +1,18 @@
 import { Resend } from "resend";
 import { env } from "~/env.server";
 
+/** Resend's message tags: ASCII letters, digits, `_` and `-` only. */
+export interface EmailTag {
+  name: string;
+  value: string;
+}
+
 export interface OutgoingEmail {
   to: string;
   subject: string;
   text: string;
   html: string;
+  tags?: EmailTag[];
 }
 
 let client: Resend | undefined;
@@ -45,14 +52,20 @@ export interface OutboxMessage {
   subject: string;
   html: string | null;
   text: string | null;
+  tags: EmailTag[];
 }
 
-/** Reads the local fake's store; used by the development Outbox page. */
+/**
+ * Reads the local fake's whole store, for the development Outbox page, which
+ * shows each person only their own part (app/email/outbox-visibility.ts).
+ */
 export async function listOutbox(): Promise<OutboxMessage[]> {
   const base = env().RESEND_BASE_URL;
   if (!base) return [];
   const response = await fetch(`${base}/emails`);
   if (!response.ok) throw new Error(`Outbox unavailable (${response.status})`);
-  const body = (await response.json()) as { data: OutboxMessage[] };
-  return body.data;
+  const body = (await response.json()) as {
+    data: (Omit<OutboxMessage, "tags"> & { tags?: EmailTag[] })[];
+  };
+  return body.data.map((m) => ({ ...m, tags: m.tags ?? [] }));
 }

@@ -33,6 +33,7 @@ export function passwordResetEmail(
   ];
   return {
     to,
+    tags: [{ name: "kind", value: "password_reset" }],
     subject: "Reset your Joulebook password",
     text: `${lines.join("\n\n")}\n\n${url}\n`,
     html: layout("Reset your password", lines, {
@@ -44,6 +45,7 @@ export function passwordResetEmail(
 
 export function invitationEmail(args: {
   to: string;
+  organizationId: string;
   organizationName: string;
   inviterName: string;
   roleLabel: string;
@@ -56,6 +58,11 @@ export function invitationEmail(args: {
   ];
   return {
     to: args.to,
+    // The Outbox shows an organisation's owners the invitations it sent.
+    tags: [
+      { name: "kind", value: "invitation" },
+      { name: "organization", value: args.organizationId },
+    ],
     subject: `Join ${args.organizationName} on Joulebook`,
     text: `${lines.join("\n\n")}\n\n${args.url}\n`,
     html: layout(`Join ${args.organizationName}`, lines, {

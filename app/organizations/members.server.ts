@@ -201,6 +201,7 @@ export async function inviteMember(args: {
     await sendEmail(
       invitationEmail({
         to: email,
+        organizationId: args.organizationId,
         organizationName: args.organizationName,
         inviterName: args.actor.name,
         roleLabel: roleLabels[args.role],

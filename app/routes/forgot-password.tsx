@@ -5,6 +5,7 @@ import { Button, Field, Notice } from "~/components/ui";
 import { RESET_LINK_MINUTES } from "~/auth/policy";
 import { requestPasswordReset } from "~/auth/password-reset.server";
 import { emailField, parseForm } from "~/lib/forms";
+import { requestInfoContext } from "~/request-context";
 import type { Route } from "./+types/forgot-password";
 
 export const meta: Route.MetaFunction = () => [
@@ -13,12 +14,13 @@ export const meta: Route.MetaFunction = () => [
 
 const schema = z.strictObject({ email: emailField });
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const form = parseForm(await request.formData(), schema);
   if (!form.ok)
     return data({ errors: form.errors, sent: false }, { status: 400 });
   try {
-    await requestPasswordReset(form.data.email);
+    const { clientAddress } = context.get(requestInfoContext);
+    await requestPasswordReset(form.data.email, clientAddress);
   } catch (error) {
     console.error("[password-reset]", error);
     return data(

@@ -25,6 +25,8 @@ const schema = z
 const stateMessages: Record<Exclude<ResetTokenState, "valid">, string> = {
   expired: "This link has expired. Ask for a new one.",
   used: "This link has already been used. Ask for a new one if you need to.",
+  ended:
+    "This link no longer works: the password was changed after it was sent. Ask for a new one if you need to.",
   unknown:
     "This link is not valid. Check that you copied all of it, or ask for a new one.",
 };

@@ -2,6 +2,10 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { AuthFrame } from "~/components/auth-frame";
 import { Button, Field, Notice } from "~/components/ui";
+import {
+  deviceTokenCookie,
+  readDeviceToken,
+} from "~/auth/device-cookie.server";
 import { getUser, startSession } from "~/auth/session.server";
 import { safeRedirectPath } from "~/lib/redirect";
 import { signIn } from "~/auth/sign-in.server";
@@ -41,15 +45,21 @@ export async function action({ request, context }: Route.ActionArgs) {
   const form = parseForm(await request.formData(), signInSchema);
   if (!form.ok) return data({ errors: form.errors }, { status: 400 });
   const { clientAddress } = context.get(requestInfoContext);
+  const device = await deviceTokenCookie(
+    request,
+    await readDeviceToken(request),
+  );
   const result = await signIn(
     form.data.email,
     form.data.password,
     clientAddress,
+    device.token,
   );
   if (result.ok) {
-    throw redirect(safeRedirectPath(form.data.redirectTo), {
-      headers: { "Set-Cookie": await startSession(request, result.userId) },
-    });
+    const headers = new Headers();
+    headers.append("Set-Cookie", await startSession(request, result.userId));
+    headers.append("Set-Cookie", device.setCookie);
+    throw redirect(safeRedirectPath(form.data.redirectTo), { headers });
   }
   if (result.reason === "throttled") {
     const minutes = Math.ceil(result.retryAfterSeconds / 60);

@@ -1,10 +1,7 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { getUser, startSession } from "~/auth/session.server";
-import {
-  claimSignUp,
-  signUpSucceeded,
-} from "~/billing/sign-up-throttle.server";
+import { attemptSucceeded, claimSignUp } from "~/auth/throttle.server";
 import { signUpOwner } from "~/billing/sign-up.server";
 import { AuthFrame } from "~/components/auth-frame";
 import { Button, Field, Notice } from "~/components/ui";
@@ -88,7 +85,7 @@ export async function action({ request, context }: Route.ActionArgs) {
       { status: 409 },
     );
   }
-  await signUpSucceeded(claim.attemptId);
+  await attemptSucceeded(claim.attemptId);
   throw redirect(`/o/${result.organizationId}`, {
     headers: { "Set-Cookie": await startSession(request, result.userId) },
   });

@@ -5,6 +5,7 @@
  * loopback ports.
  */
 import { spawn, type ChildProcess } from "node:child_process";
+import { randomBytes } from "node:crypto";
 import type { AddressInfo } from "node:net";
 import { drizzle } from "drizzle-orm/node-postgres";
 import pg from "pg";
@@ -18,6 +19,7 @@ declare module "vitest" {
   export interface ProvidedContext {
     baseUrl: string;
     resendUrl: string;
+    outboxOperatorKey: string;
     stripeUrl: string;
   }
 }
@@ -74,6 +76,7 @@ export default async function setup(project: TestProject) {
   }).listen(0, "127.0.0.1");
   const stripeUrl = stripeFake.url;
 
+  const outboxOperatorKey = randomBytes(24).toString("base64url");
   const childEnv: NodeJS.ProcessEnv = {
     ...process.env,
     NODE_ENV: "production",
@@ -81,6 +84,9 @@ export default async function setup(project: TestProject) {
     HOST: "127.0.0.1",
     RESEND_BASE_URL: resendUrl,
     RESEND_API_KEY: "re_test_key",
+    OUTBOX_OPERATOR_KEY: outboxOperatorKey,
+    // As behind a proxy: tests speak for several clients by X-Forwarded-For.
+    TRUST_PROXY: "1",
     STRIPE_API_BASE: stripeUrl,
     STRIPE_SECRET_KEY: "sk_test_joulebook",
     STRIPE_WEBHOOK_SECRET: stripeWebhookSecret,
@@ -101,6 +107,7 @@ export default async function setup(project: TestProject) {
 
   project.provide("baseUrl", baseUrl);
   project.provide("resendUrl", resendUrl);
+  project.provide("outboxOperatorKey", outboxOperatorKey);
   project.provide("stripeUrl", stripeUrl);
 
   return async () => {

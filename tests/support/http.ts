@@ -8,6 +8,13 @@ export class Client {
   readonly baseUrl = inject("baseUrl");
   private cookies = new Map<string, string>();
 
+  /**
+   * `clientAddress` speaks as another client: the test server trusts one
+   * proxy hop (TRUST_PROXY=1), as behind a load balancer, and reads the
+   * address from X-Forwarded-For. Without it, the client is 127.0.0.1.
+   */
+  constructor(private readonly clientAddress?: string) {}
+
   private remember(response: Response) {
     for (const header of response.headers.getSetCookie()) {
       const [pair, ...attributes] = header.split(";");
@@ -26,6 +33,7 @@ export class Client {
   async request(path: string, init: RequestInit = {}): Promise<Response> {
     const headers = new Headers(init.headers);
     if (this.cookies.size) headers.set("cookie", this.cookieHeader());
+    if (this.clientAddress) headers.set("x-forwarded-for", this.clientAddress);
     const response = await fetch(`${this.baseUrl}${path}`, {
       ...init,
       headers,
