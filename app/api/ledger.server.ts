@@ -2,7 +2,12 @@ import type { NextFunction, Request, Response } from "express";
 import { MONTH_PATTERN, monthCount } from "~/lib/months";
 import ExcelJS from "exceljs";
 import { z } from "zod";
-import { ledgerRows, type Ledger } from "~/ledger/ledger-rows.server";
+import { toCsv } from "~/lib/csv-export";
+import {
+  ledgerRows,
+  type Ledger,
+  type LedgerRow,
+} from "~/ledger/ledger-rows.server";
 import { sendError, sendValidationError } from "./respond.server";
 
 const monthField = (name: string) =>
@@ -62,24 +67,30 @@ export async function getLedger(
   }
 }
 
+/**
+ * The export columns. `text` cells carry words, some typed by people (site
+ * names), and stay text in XLSX; `decimal` cells are exact PostgreSQL numerics
+ * sent as text, written as numbers; `number` cells are numbers already.
+ */
 const COLUMNS = [
-  ["site", "site_name"],
-  ["month", "month"],
-  ["carrier", "carrier"],
-  ["imports_kwh", "imports_kwh"],
-  ["exports_kwh", "exports_kwh"],
-  ["net_kwh", "net_kwh"],
-  ["estimated_kwh", "estimated_kwh"],
-  ["estimated_share", "estimated_share"],
-  ["status", "status"],
-  ["adjustments_kwh", "adjustments_kwh"],
-  ["adjustment_count", "adjustment_count"],
-] as const;
+  { header: "site", key: "site_name", kind: "text" },
+  { header: "month", key: "month", kind: "text" },
+  { header: "carrier", key: "carrier", kind: "text" },
+  { header: "imports_kwh", key: "imports_kwh", kind: "decimal" },
+  { header: "exports_kwh", key: "exports_kwh", kind: "decimal" },
+  { header: "net_kwh", key: "net_kwh", kind: "decimal" },
+  { header: "estimated_kwh", key: "estimated_kwh", kind: "decimal" },
+  { header: "estimated_share", key: "estimated_share", kind: "number" },
+  { header: "status", key: "status", kind: "text" },
+  { header: "adjustments_kwh", key: "adjustments_kwh", kind: "decimal" },
+  { header: "adjustment_count", key: "adjustment_count", kind: "number" },
+] as const satisfies readonly {
+  header: string;
+  key: keyof LedgerRow;
+  kind: "text" | "decimal" | "number";
+}[];
 
-function csvCell(value: unknown): string {
-  const text = value === null || value === undefined ? "" : String(value);
-  return /[",\n]/.test(text) ? `"${text.replaceAll('"', '""')}"` : text;
-}
+type Column = (typeof COLUMNS)[number];
 
 function filename(ledger: Ledger, ext: string): string {
   return `joulebook-ledger-${ledger.from}-to-${ledger.to}.${ext}`;
@@ -94,16 +105,26 @@ export async function getLedgerCsv(
   try {
     const ledger = await loadLedger(req, res);
     if (!ledger) return;
-    const lines = [COLUMNS.map(([h]) => h).join(",")];
-    for (const row of ledger.rows)
-      lines.push(COLUMNS.map(([, k]) => csvCell(row[k])).join(","));
+    const csv = toCsv(
+      COLUMNS.map((c) => c.header),
+      ledger.rows.map((row) => COLUMNS.map((c) => row[c.key])),
+    );
     res
       .type("text/csv; charset=utf-8")
       .attachment(filename(ledger, "csv"))
-      .send(`${lines.join("\n")}\n`);
+      .send(csv);
   } catch (error) {
     next(error);
   }
+}
+
+/**
+ * A plain JS string becomes a string cell, never a formula: exceljs writes a
+ * formula only for `{ formula }` objects, which no column produces.
+ */
+function xlsxValue(column: Column, row: LedgerRow): string | number {
+  const value = row[column.key];
+  return column.kind === "text" ? String(value) : Number(value);
 }
 
 /** GET …/ledger.xlsx: the same rows as numbers, with a totals line. */
@@ -118,23 +139,17 @@ export async function getLedgerXlsx(
     const book = new ExcelJS.Workbook();
     book.creator = "Joulebook";
     const sheet = book.addWorksheet("Ledger");
-    sheet.columns = COLUMNS.map(([header, key]) => ({
-      header,
-      key,
-      width: header === "site" ? 32 : 16,
+    sheet.columns = COLUMNS.map((c) => ({
+      header: c.header,
+      key: c.key,
+      width: c.key === "site_name" ? 32 : 16,
+      // Text format, so a spreadsheet keeps a name such as "=HYPERLINK(…)"
+      // as text even when someone edits the cell.
+      style: c.kind === "text" ? { numFmt: "@" } : {},
     }));
-    const numeric = new Set([
-      "imports_kwh",
-      "exports_kwh",
-      "net_kwh",
-      "estimated_kwh",
-      "adjustments_kwh",
-    ]);
     for (const row of ledger.rows) {
       sheet.addRow(
-        Object.fromEntries(
-          COLUMNS.map(([, k]) => [k, numeric.has(k) ? Number(row[k]) : row[k]]),
-        ),
+        Object.fromEntries(COLUMNS.map((c) => [c.key, xlsxValue(c, row)])),
       );
     }
     sheet.addRow({
