@@ -9,6 +9,7 @@ import express from "express";
 import { RouterContextProvider } from "react-router";
 import { apiRouter } from "./api/router.server";
 import { pool } from "./db/client.server";
+import { databaseGate } from "./db/unavailable.server";
 import { estimationIdle } from "./ingest/after-ingest.server";
 import { requestInfoContext } from "./request-context";
 import { runAllAlerts } from "./alerts/run-alerts.server";
@@ -18,6 +19,7 @@ import { reportJobsIdle, resumeReportJobs } from "./reports/report-jobs.server";
 
 export const app = express();
 
+app.use(databaseGate);
 app.use("/api/v1", apiRouter());
 
 app.use(
@@ -36,7 +38,13 @@ app.use(
 const alertMinutes = env().ALERTS_INTERVAL_MINUTES;
 const alertTimer =
   alertMinutes > 0
-    ? setInterval(() => void runAllAlerts(), alertMinutes * 60_000)
+    ? setInterval(
+        () =>
+          void runAllAlerts().catch((error) =>
+            console.error("[alerts] run failed", error),
+          ),
+        alertMinutes * 60_000,
+      )
     : null;
 alertTimer?.unref();
 

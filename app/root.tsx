@@ -7,8 +7,14 @@ import {
   ScrollRestoration,
 } from "react-router";
 import type { Route } from "./+types/root";
+import { pageOrOutage } from "./db/unavailable.server";
 import { ErrorPage } from "./components/error-page";
 import "./app.css";
+
+/** A page whose database went away mid-request answers 503, not 500. */
+export const middleware: Route.MiddlewareFunction[] = [
+  async (_args, next) => pageOrOutage(await next()),
+];
 
 export const links: Route.LinksFunction = () => [
   { rel: "icon", href: "/favicon.svg", type: "image/svg+xml" },

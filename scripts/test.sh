@@ -15,6 +15,8 @@ else
   ensure_cluster
   recreate_database joulebook_test
   export DATABASE_URL="$(managed_url joulebook_test)"
+  # The database-outage test stops and starts this cluster under a server.
+  export JOULEBOOK_PG_DIR="$PG_DIR" JOULEBOOK_PG_BIN="$PG_BIN"
 fi
 node --import tsx scripts/migrate.ts
 export SIGNING_DIR="${SIGNING_DIR:-$DATA_DIR/signing}"

@@ -1,5 +1,6 @@
 import type { ErrorRequestHandler, Response } from "express";
 import type { z } from "zod";
+import { isOutage, sendUnavailable } from "~/db/unavailable.server";
 
 /** Every API error has the same shape: a code, a sentence, and field issues. */
 export interface ApiErrorBody {
@@ -63,6 +64,9 @@ export const apiErrorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
       "Send the body as UTF-8 JSON.",
     );
   }
+  // The database went away mid-request: nothing was committed, so the
+  // client may send the same request again.
+  if (isOutage(err)) return sendUnavailable(res, true);
   console.error("[api] unexpected error", err);
   sendError(
     res,

@@ -1,14 +1,25 @@
 import { drizzle } from "drizzle-orm/node-postgres";
 import pg from "pg";
 import { env } from "~/env.server";
+import { noteDatabaseError, watchPool } from "./availability.server";
 import * as schema from "./schema";
 
 // One pool per process; kept on globalThis so Vite's dev reloads reuse it.
 const globalForDb = globalThis as unknown as { joulebookPool?: pg.Pool };
 
-export const pool =
-  globalForDb.joulebookPool ??
-  new pg.Pool({ connectionString: env().DATABASE_URL, max: 10 });
+function createPool(): pg.Pool {
+  const created = new pg.Pool({
+    connectionString: env().DATABASE_URL,
+    max: 10,
+    // A request waits at most this long for a connection while the database
+    // is away, then gets 503 instead of hanging.
+    connectionTimeoutMillis: 5_000,
+  });
+  watchPool(created);
+  return created;
+}
+
+export const pool = globalForDb.joulebookPool ?? createPool();
 globalForDb.joulebookPool = pool;
 
 export const db = drizzle(pool, { schema });
@@ -20,7 +31,8 @@ export async function databaseReachable(): Promise<boolean> {
   try {
     await pool.query("select 1");
     return true;
-  } catch {
+  } catch (error) {
+    noteDatabaseError(pool, error);
     return false;
   }
 }

@@ -5,13 +5,35 @@
  */
 import { estimateMeter } from "./estimate-meter.server";
 
+import { isDatabaseUnavailable } from "~/db/availability.server";
+
 type Range = { from: Date; to: Date };
-const pending = new Map<
-  string,
-  { organizationId: string; meterId: string; range: Range }
->();
+interface PendingEstimate {
+  organizationId: string;
+  meterId: string;
+  range: Range;
+}
+const pending = new Map<string, PendingEstimate>();
 let running: Promise<void> | null = null;
 let timer: NodeJS.Timeout | null = null;
+let retryTimer: NodeJS.Timeout | null = null;
+
+/** Adds a meter's range to the work, merged with what is already pending. */
+function enqueue(key: string, job: PendingEstimate): void {
+  const current = pending.get(key);
+  pending.set(key, {
+    ...job,
+    range: current
+      ? {
+          from:
+            current.range.from < job.range.from
+              ? current.range.from
+              : job.range.from,
+          to: current.range.to > job.range.to ? current.range.to : job.range.to,
+        }
+      : job.range,
+  });
+}
 const listeners = new Set<
   (organizationId: string, meterIds: string[]) => void
 >();
@@ -24,25 +46,23 @@ export function afterIngest(
   touched: Map<string, Range>,
 ): void {
   if (touched.size === 0) return;
-  for (const [meterId, range] of touched) {
-    const key = `${organizationId}|${meterId}`;
-    const current = pending.get(key);
-    pending.set(key, {
-      organizationId,
-      meterId,
-      range: current
-        ? {
-            from:
-              current.range.from < range.from ? current.range.from : range.from,
-            to: current.range.to > range.to ? current.range.to : range.to,
-          }
-        : range,
-    });
-  }
+  for (const [meterId, range] of touched)
+    enqueue(`${organizationId}|${meterId}`, { organizationId, meterId, range });
   for (const listener of listeners)
     listener(organizationId, [...touched.keys()]);
   if (timer) clearTimeout(timer);
   timer = setTimeout(() => void drain(), SETTLE_MS);
+}
+
+const RETRY_AFTER_OUTAGE_MS = 5_000;
+
+function requeue(key: string, job: PendingEstimate): void {
+  enqueue(key, job);
+  retryTimer ??= setTimeout(() => {
+    retryTimer = null;
+    void drain();
+  }, RETRY_AFTER_OUTAGE_MS);
+  retryTimer.unref();
 }
 
 async function drain(): Promise<void> {
@@ -56,14 +76,25 @@ async function drain(): Promise<void> {
     while (pending.size > 0) {
       const [key, job] = pending.entries().next().value!;
       pending.delete(key);
-      await estimateMeter(
+      const outage = await estimateMeter(
         job.organizationId,
         job.meterId,
         job.range.from,
         job.range.to,
-      ).catch((error: unknown) =>
-        console.error("[estimate] meter", job.meterId, error),
+      ).then(
+        () => false,
+        (error: unknown) => {
+          if (isDatabaseUnavailable(error)) return true;
+          console.error("[estimate] meter", job.meterId, error);
+          return false;
+        },
       );
+      // The database went away: keep the work and try again later rather
+      // than leave the meter's gaps unestimated.
+      if (outage) {
+        requeue(key, job);
+        break;
+      }
     }
   })();
   await running;

@@ -5,13 +5,10 @@
  * nothing may be half-stored, re-sending must be harmless, and the intervals
  * must add up to the raw readings to the last digit.
  */
-import { spawn, type ChildProcess } from "node:child_process";
-import type { AddressInfo } from "node:net";
-import { createServer } from "node:net";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { appTestEnv } from "../support/app-env";
 import { pool } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
+import { freePort, ServerProcess } from "../support/server-process";
 
 const READINGS_PER_BATCH = 200;
 /** At most this many batches are ever planned: 250 × 200 h ends in 2025-09. */
@@ -42,16 +39,6 @@ interface Batch {
   ack: IngestAnswer | null;
 }
 
-async function freePort(): Promise<number> {
-  return new Promise((resolve, reject) => {
-    const probe = createServer().listen(0, "127.0.0.1", () => {
-      const { port } = probe.address() as AddressInfo;
-      probe.close(() => resolve(port));
-    });
-    probe.on("error", reject);
-  });
-}
-
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** Batch k: water-heat hourly readings for hours [200k, 200k + 200) after 2020-01-01. */
@@ -80,64 +67,6 @@ function makeBatch(meterCode: string, index: number): Batch {
     sent: false,
     ack: null,
   };
-}
-
-class ServerProcess {
-  child: ChildProcess | null = null;
-  readonly baseUrl: string;
-
-  constructor(readonly port: number) {
-    this.baseUrl = `http://127.0.0.1:${port}`;
-  }
-
-  async start(): Promise<void> {
-    const env: NodeJS.ProcessEnv = {
-      ...process.env,
-      NODE_ENV: "production",
-      PORT: String(this.port),
-      HOST: "127.0.0.1",
-      ...appTestEnv(),
-      GATEWAY_RATE_LIMIT_PER_MINUTE: "100000",
-    };
-    // A server spawned from vitest must not think it runs under vitest.
-    delete env.VITEST;
-    const child = spawn(process.execPath, ["--import", "tsx", "server.ts"], {
-      env,
-      stdio: ["ignore", "inherit", "inherit"],
-    });
-    this.child = child;
-    const deadline = Date.now() + 60_000;
-    while (Date.now() < deadline) {
-      if (child.exitCode !== null || child.signalCode !== null)
-        throw new Error(
-          `server exited (${child.exitCode ?? child.signalCode}) while starting`,
-        );
-      try {
-        const response = await fetch(`${this.baseUrl}/api/v1/health`);
-        if (response.ok) return;
-      } catch {
-        // not listening yet
-      }
-      await sleep(100);
-    }
-    throw new Error("server did not become healthy within 60 s");
-  }
-
-  /** Sends the signal and waits (bounded) until the process is gone. */
-  async stop(signal: NodeJS.Signals): Promise<void> {
-    const child = this.child;
-    if (!child || child.exitCode !== null || child.signalCode !== null) return;
-    const exited = new Promise((r) => child.once("exit", r));
-    child.kill(signal);
-    const inTime = await Promise.race([
-      exited.then(() => true),
-      sleep(10_000).then(() => false),
-    ]);
-    if (!inTime) {
-      child.kill("SIGKILL");
-      await Promise.race([exited, sleep(5_000)]);
-    }
-  }
 }
 
 async function post(
@@ -189,7 +118,9 @@ describe("readings ingest survives a SIGKILL mid-flight", () => {
 
   beforeAll(async () => {
     org = await createMeteredOrg();
-    server = new ServerProcess(await freePort());
+    server = new ServerProcess(await freePort(), {
+      GATEWAY_RATE_LIMIT_PER_MINUTE: "100000",
+    });
     await server.start();
   });
 
