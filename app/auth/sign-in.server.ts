@@ -7,8 +7,8 @@ import {
   attemptSucceeded,
   claimSignIn,
   isTrustedDevice,
-  slowDownMs,
 } from "./throttle.server";
+import { slowDownMs } from "./policy";
 import { hashToken } from "./tokens.server";
 
 export type SignInResult =

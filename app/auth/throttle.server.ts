@@ -103,8 +103,6 @@ export async function attemptSucceeded(
 export const SIGN_IN_WINDOW_MINUTES = 15;
 /** Guesses at one address from one client (or one trusted browser). */
 export const MAX_GUESSES_PER_ADDRESS = 5;
-/** Guesses answered at once before each further one is slowed down. */
-export const UNSLOWED_GUESSES = 2;
 /** Failed sign-ins and sign-ups from one client address, over all addresses. */
 export const MAX_FAILURES_PER_CLIENT = 100;
 /** How long a browser that signed in stays trusted for that address. */
@@ -203,17 +201,6 @@ export function claimSignIn(
     { kind: "sign-in", email, clientAddress, deviceHash: trustedDeviceHash },
     limits,
   );
-}
-
-/**
- * The pause before judging the rank-th guess in a row: none for the first
- * two, then 0.25 s, 0.5 s, 1 s…, so a person who mistypes is not slowed but
- * a guesser's last guesses before refusal cost time.
- */
-export function slowDownMs(rank: number): number {
-  return rank <= UNSLOWED_GUESSES
-    ? 0
-    : 250 * 2 ** (rank - UNSLOWED_GUESSES - 1);
 }
 
 // ---------------------------------------------------------- password reset

@@ -62,6 +62,22 @@ describe("safeRedirectPath", () => {
     expect(safeRedirectPath("https://evil.example")).toBe("/");
     expect(safeRedirectPath(null)).toBe("/");
   });
+
+  it("refuses what a browser would turn into another host", () => {
+    // Browsers drop tab and line breaks from URLs and read \ as /.
+    for (const value of [
+      "/\t/evil.example/",
+      "/\r\n/evil.example",
+      "/\n/evil.example",
+      "/\u0000x",
+      "/\u007fx",
+      "/\\evil.example",
+      "/%5C", // stays a path: kept, encoded
+    ].slice(0, 6))
+      expect(safeRedirectPath(value), JSON.stringify(value)).toBe("/");
+    expect(safeRedirectPath("/%5Cevil.example")).toBe("/%5Cevil.example");
+    expect(safeRedirectPath("/ledger#march")).toBe("/ledger#march");
+  });
 });
 
 describe("parseEnv", () => {
