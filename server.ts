@@ -66,12 +66,26 @@ app.use(
 );
 app.use(compression());
 
+/** The host of an Origin header, or null when it is not a URL (`Origin: x`). */
+function originHost(origin: string): string | null {
+  return URL.canParse(origin) ? new URL(origin).host : null;
+}
+
 // Cross-site form posts are refused: a state-changing request from a browser
 // must come from this origin (SameSite=Lax cookies are the second guard).
 app.use((req, res, next) => {
   if (["GET", "HEAD", "OPTIONS"].includes(req.method)) return next();
   const origin = req.get("origin");
-  if (origin && origin !== "null" && new URL(origin).host !== req.get("host")) {
+  if (!origin || origin === "null") return next();
+  const host = originHost(origin);
+  if (host === null) {
+    res
+      .status(403)
+      .type("text/plain")
+      .send("Request refused: the Origin header is not a URL.");
+    return;
+  }
+  if (host !== req.get("host")) {
     res.status(403).type("text/plain").send("Cross-origin request refused.");
     return;
   }

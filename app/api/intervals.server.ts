@@ -4,6 +4,7 @@ import {
   latestIntervalHour,
   listIntervals,
 } from "~/ingest/list-intervals.server";
+import { isUuid } from "~/lib/ids";
 import { getMeter } from "~/sites/meters.server";
 import { sendError, sendValidationError } from "./respond.server";
 
@@ -33,7 +34,7 @@ export async function getIntervals(
   try {
     const { organizationId } = res.locals.member!;
     const meterId = String(req.params.meterId);
-    if (!z.uuid().safeParse(meterId).success)
+    if (!isUuid(meterId))
       return sendError(res, 404, "not_found", "No such meter.");
     const meter = await getMeter({ organizationId, meterId });
     if (!meter) return sendError(res, 404, "not_found", "No such meter.");

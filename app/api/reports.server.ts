@@ -4,7 +4,7 @@
  * verify a PDF sent as the request body.
  */
 import type { NextFunction, Request, Response } from "express";
-import { z } from "zod";
+import { isUuid } from "~/lib/ids";
 import { queueReport } from "~/reports/report-jobs.server";
 import {
   reportRequestSchema,
@@ -52,7 +52,7 @@ export const postReport = handle(async (req, res) => {
 /** GET /orgs/:orgId/reports/:reportId/pdf: the stored signed bytes. */
 export const getReportPdf = handle(async (req, res) => {
   const reportId = String(req.params.reportId);
-  const file = z.uuid().safeParse(reportId).success
+  const file = isUuid(reportId)
     ? await reportFile(member(res).organizationId, reportId)
     : null;
   if (!file)

@@ -3,6 +3,7 @@ import { data } from "react-router";
 import type { User } from "lucia";
 import { db } from "~/db/client.server";
 import { memberships, organizations } from "~/db/schema";
+import { isUuid } from "~/lib/ids";
 import { can, type Permission, type Role } from "./permissions";
 import { requireUser } from "./session.server";
 
@@ -12,10 +13,18 @@ export interface OrganizationContext {
   role: Role;
 }
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
-
 export function notFound(message = "Not found"): never {
   throw data({ message }, { status: 404 });
+}
+
+/**
+ * An id from the page's URL (`:siteId`, `:meterId`, `:reportId`): any other
+ * shape answers 404 with the same message as an id that does not exist,
+ * before it can reach a query as a malformed uuid.
+ */
+export function idParam(value: string | undefined, message: string): string {
+  if (!isUuid(value)) notFound(message);
+  return value;
 }
 
 export function forbidden(message = "Your role does not allow this."): never {
@@ -23,7 +32,7 @@ export function forbidden(message = "Your role does not allow this."): never {
 }
 
 export async function findMembership(userId: string, organizationId: string) {
-  if (!UUID.test(organizationId)) return null;
+  if (!isUuid(organizationId)) return null;
   const [row] = await db
     .select({
       id: organizations.id,

@@ -1,7 +1,9 @@
 import { hash } from "node:crypto";
+import { isStorableText } from "~/lib/storable-text";
 import { evaluateItem } from "~/physics/evaluate";
 import { parseReading, type ParsedReading } from "./reading-schema";
 import type { IngestMeter } from "./meter-lookup.server";
+import { installedError } from "./time-rules";
 
 /** A reading ready to store: its key, what arrived and its signed energy. */
 export interface PreparedReading {
@@ -101,12 +103,6 @@ function withMeterDefaults(
   return filled;
 }
 
-function installedAt(meter: IngestMeter, time: Date): boolean {
-  return (
-    time >= meter.installedAt && (!meter.removedAt || time <= meter.removedAt)
-  );
-}
-
 function prepareOne(
   index: number,
   raw: unknown,
@@ -121,13 +117,8 @@ function prepareOne(
       reason: `quantity: meter ${meter.code} measures ${meter.quantity}`,
     };
   }
-  if (!installedAt(meter, at)) {
-    return {
-      index,
-      meter: meter.code,
-      reason: `meter ${meter.code} was not installed at ${at.toISOString()}`,
-    };
-  }
+  const notInstalled = installedError(meter, at);
+  if (notInstalled) return { index, meter: meter.code, reason: notInstalled };
   const payload = raw as Record<string, unknown>;
   const payloadHash = hashPayload(payload);
   if (reading.kind === "register") {
@@ -203,7 +194,10 @@ export function codesIn(raws: readonly unknown[]): string[] {
   const codes = new Set<string>();
   for (const raw of raws) {
     const code = (raw as { meter?: unknown } | null)?.meter;
-    if (typeof code === "string" && code.trim()) codes.add(code.trim());
+    // A code PostgreSQL cannot hold would fail the lookup of every code;
+    // its reading is refused by the schema instead.
+    if (typeof code === "string" && code.trim() && isStorableText(code))
+      codes.add(code.trim());
   }
   return [...codes];
 }

@@ -108,3 +108,30 @@ describe("parseReading", () => {
     });
   });
 });
+
+describe("text PostgreSQL cannot store", () => {
+  const reading = (meter: string) => ({
+    meter,
+    quantity: "water_heat",
+    start: "2026-03-01T10:00:00Z",
+    end: "2026-03-01T11:00:00Z",
+    volume_m3: 2,
+  });
+
+  it("refuses a meter code with NUL or a lone surrogate for that reading, by both paths", () => {
+    for (const meter of ["W-1\u0000", "\u0000", "W-\uD800", "W-\uDC00x"]) {
+      const expected = {
+        ok: false,
+        error:
+          "meter: contains a NUL character or a lone UTF-16 surrogate, which cannot be stored",
+      };
+      expect(parseReading(reading(meter), NOW), meter).toEqual(expected);
+      expect(parseWithSchemas(reading(meter), NOW), meter).toEqual(expected);
+    }
+  });
+
+  it("accepts a code with a character outside the BMP (a surrogate pair)", () => {
+    const parsed = parseReading(reading("W-\uD83D\uDE00"), NOW);
+    expect(parsed.ok && parsed.reading.meter).toBe("W-\uD83D\uDE00");
+  });
+});

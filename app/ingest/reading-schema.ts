@@ -4,14 +4,11 @@
  * by the physics item schemas when the energy is computed.
  */
 import { z } from "zod";
+import { isStorableText, storableText } from "../lib/storable-text";
 import { QUANTITIES } from "../physics/evaluate-schema";
+import { instantError, intervalError } from "./time-rules";
 
 export const MAX_READINGS_PER_BATCH = 5000;
-export const EARLIEST_READING = new Date("1990-01-01T00:00:00Z");
-/** Gateway clocks drift; a reading this far ahead of ours is still taken. */
-export const CLOCK_SKEW_MS = 10 * 60_000;
-/** One reading may cover at most this long an interval. */
-export const MAX_INTERVAL_MS = 31 * 86_400_000;
 
 export const REGISTER_QUANTITIES = [
   "electric_register",
@@ -23,11 +20,16 @@ export function isRegisterQuantity(q: string): q is RegisterQuantity {
   return (REGISTER_QUANTITIES as readonly string[]).includes(q);
 }
 
-const meterCode = z
-  .string({ error: "meter: expected the meter's code as a string" })
-  .trim()
-  .min(1, "meter: must not be empty")
-  .max(64, "meter: at most 64 characters");
+// The code is looked up and stored: a NUL in it would fail the whole batch's
+// statements, so it is refused here, for this reading alone.
+const meterCode = storableText(
+  z
+    .string({ error: "meter: expected the meter's code as a string" })
+    .trim()
+    .min(1, "meter: must not be empty")
+    .max(64, "meter: at most 64 characters"),
+  "meter",
+);
 
 const instant = (field: string) =>
   z.iso
@@ -79,14 +81,6 @@ export type ParsedReading =
       registerKwh: number;
     };
 
-function checkTime(field: string, at: Date, now: Date): string | null {
-  if (at < EARLIEST_READING)
-    return `${field}: before 1990-01-01 is not accepted`;
-  if (at.getTime() > now.getTime() + CLOCK_SKEW_MS)
-    return `${field}: is in the future`;
-  return null;
-}
-
 function firstIssue(error: z.ZodError): string {
   const issue = error.issues[0];
   const path = issue.path.map(String).join(".");
@@ -112,23 +106,13 @@ function quickEnvelope(raw: Record<string, unknown>): IntervalEnvelope | null {
   const { meter, quantity } = raw;
   if (typeof meter !== "string" || typeof quantity !== "string") return null;
   const code = meter.trim();
-  if (code.length < 1 || code.length > 64) return null;
+  if (code.length < 1 || code.length > 64 || !isStorableText(code)) return null;
   const known = (QUANTITIES as readonly string[]).includes(quantity);
   if (!known || isRegisterQuantity(quantity)) return null;
   const { start, end } = raw;
   if (typeof start !== "string" || !ISO_INSTANT.test(start)) return null;
   if (typeof end !== "string" || !ISO_INSTANT.test(end)) return null;
   return { meter: code, quantity, start: new Date(start), end: new Date(end) };
-}
-
-function intervalError(start: Date, end: Date, now: Date): string | null {
-  const timeError =
-    checkTime("start", start, now) ?? checkTime("end", end, now);
-  if (timeError) return timeError;
-  if (end <= start) return "end: must be after start";
-  if (end.getTime() - start.getTime() > MAX_INTERVAL_MS)
-    return "end: one reading may cover at most 31 days";
-  return null;
 }
 
 function intervalReading(
@@ -184,7 +168,7 @@ function parseRegister(raw: object, now: Date) {
   const parsed = registerSchema.safeParse(raw);
   if (!parsed.success)
     return { ok: false as const, error: firstIssue(parsed.error) };
-  const timeError = checkTime("time", parsed.data.time, now);
+  const timeError = instantError("time", parsed.data.time, now);
   if (timeError) return { ok: false as const, error: timeError };
   return {
     ok: true as const,

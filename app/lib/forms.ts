@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { isStorableText, UNSTORABLE_FIELD_MESSAGE } from "./storable-text";
 
 export type FieldErrors = Record<string, string>;
 
@@ -24,6 +25,8 @@ export function parseForm<T>(
     }
     values[key] = value;
   }
+  const unstorable = unstorableFields(values);
+  if (unstorable) return { ok: false, errors: unstorable };
   const parsed = schema.safeParse(values);
   if (parsed.success) return { ok: true, data: parsed.data };
   const errors: FieldErrors = {};
@@ -35,6 +38,19 @@ export function parseForm<T>(
     errors[key] ??= issue.message;
   }
   return { ok: false, errors };
+}
+
+/**
+ * Every field of every form passes the one rule for text PostgreSQL can
+ * store (names, reasons, codes alike), before its schema is asked.
+ */
+function unstorableFields(values: Record<string, unknown>): FieldErrors | null {
+  const errors: FieldErrors = {};
+  for (const [key, value] of Object.entries(values)) {
+    if (typeof value === "string" && !isStorableText(value))
+      errors[key] = UNSTORABLE_FIELD_MESSAGE;
+  }
+  return Object.keys(errors).length > 0 ? errors : null;
 }
 
 export const emailField = z

@@ -1,5 +1,5 @@
 import { data, Form, redirect } from "react-router";
-import { notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { MeterFields } from "~/components/meter-fields";
 import { Button, Card, Notice, PageHeader } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
@@ -24,7 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   );
   const site = await getSite({
     organizationId: organization.id,
-    siteId: params.siteId,
+    siteId: idParam(params.siteId, "No such site."),
   });
   if (!site) notFound("No such site.");
   const parents = (
@@ -41,7 +41,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   );
   const site = await getSite({
     organizationId: organization.id,
-    siteId: params.siteId,
+    siteId: idParam(params.siteId, "No such site."),
   });
   if (!site) notFound("No such site.");
   const form = parseForm(await request.formData(), meterFormSchema);

@@ -3,7 +3,7 @@ import { useHydrated } from "~/lib/use-hydrated";
 
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
-import { notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { CarpetPlot } from "~/components/readings/carpet-plot";
 import { IntervalGrid } from "~/components/readings/interval-grid";
@@ -37,7 +37,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   );
   const meter = await getMeter({
     organizationId: organization.id,
-    meterId: params.meterId,
+    meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
   return {
@@ -93,20 +93,25 @@ export async function action({ request, params }: Route.ActionArgs) {
   );
   const meter = await getMeter({
     organizationId: organization.id,
-    meterId: params.meterId,
+    meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
   const form = parseForm(await request.formData(), editSchema);
   if (!form.ok)
     return data({ errors: form.errors, saved: false }, { status: 400 });
-  await editInterval({
+  const edit = await editInterval({
     organizationId: organization.id,
     actorUserId: user.id,
-    meterId: meter.id,
+    meter,
     hourStart: new Date(form.data.hourStart),
     energyKwh: form.data.energyKwh,
     reason: form.data.reason,
   });
+  if (!edit.ok)
+    return data(
+      { errors: { hourStart: edit.reason }, saved: false },
+      { status: 400 },
+    );
   return { errors: {} as Record<string, string>, saved: true };
 }
 

@@ -1,6 +1,6 @@
 import { format } from "date-fns";
 import { data, Form, Link, redirect } from "react-router";
-import { notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { MeterFields } from "~/components/meter-fields";
 import {
@@ -38,7 +38,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { organization, role } = await requireMembership(request, params.orgId);
   const meter = await getMeter({
     organizationId: organization.id,
-    meterId: params.meterId,
+    meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
   const siblings = await listSiteMeters({
@@ -72,7 +72,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   );
   const meter = await getMeter({
     organizationId: organization.id,
-    meterId: params.meterId,
+    meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
   const formData = await request.formData();

@@ -1,8 +1,6 @@
-import { notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { reportFile } from "~/reports/reports.server";
 import type { Route } from "./+types/report-pdf";
-
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 /** The signed PDF exactly as stored: the bytes the SHA-256 was taken of. */
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -11,8 +9,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     params.orgId,
     "reports.download",
   );
-  if (!UUID.test(params.reportId)) notFound("No such report.");
-  const file = await reportFile(organization.id, params.reportId);
+  const reportId = idParam(params.reportId, "No such report.");
+  const file = await reportFile(organization.id, reportId);
   if (!file) notFound("No such report, or it is not finished.");
   return new Response(new Uint8Array(file.pdf), {
     headers: {

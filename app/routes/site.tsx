@@ -1,5 +1,5 @@
 import { data, Form, Link } from "react-router";
-import { notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { Boundary, formatKwh } from "~/components/boundary";
 import { Cautions } from "~/components/cautions";
@@ -36,7 +36,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const { organization, role } = await requireMembership(request, params.orgId);
   const site = await getSite({
     organizationId: organization.id,
-    siteId: params.siteId,
+    siteId: idParam(params.siteId, "No such site."),
   });
   if (!site) notFound("No such site.");
   const [meters, energy, months] = await Promise.all([
@@ -77,6 +77,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     params.orgId,
     "sites.manage",
   );
+  const siteId = idParam(params.siteId, "No such site.");
   const form = parseForm(await request.formData(), siteFormSchema);
   if (!form.ok)
     return data({ errors: form.errors, saved: false }, { status: 400 });
@@ -85,7 +86,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const saved = await updateSite({
       organizationId: organization.id,
       actorUserId: user.id,
-      siteId: params.siteId,
+      siteId,
       input,
     });
     if (!saved) notFound("No such site.");

@@ -37,6 +37,7 @@ import {
 } from "~/components/weather/weather-upload";
 import type { Carrier } from "~/db/schema";
 import { parseForm } from "~/lib/forms";
+import { idField, isUuid } from "~/lib/ids";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 import { getSite, listSites } from "~/sites/sites.server";
 import type { Route } from "./+types/weather-baselines";
@@ -45,7 +46,6 @@ export const meta: Route.MetaFunction = () => [
   { title: "Weather & baselines · Joulebook" },
 ];
 
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 const MONTH = /^\d{4}-(0[1-9]|1[0-2])$/;
 /** A period of at most ten years. */
 const MAX_MONTHS = 120;
@@ -81,7 +81,7 @@ function periodErrors(
 
 /** A site of this organisation, or 404: ids of other organisations reveal nothing. */
 async function siteOr404(organizationId: string, siteId: string) {
-  const site = UUID.test(siteId)
+  const site = isUuid(siteId)
     ? await getSite({ organizationId, siteId })
     : null;
   if (!site) notFound("No such site.");
@@ -155,7 +155,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const baselineParam = q("baseline") ?? "";
   // A saved baseline of another site or carrier is not applied here.
   const saved =
-    carrier && UUID.test(baselineParam)
+    carrier && isUuid(baselineParam)
       ? await getBaseline({
           organizationId: organization.id,
           id: baselineParam,
@@ -195,7 +195,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 const saveSchema = z.strictObject({
   intent: z.literal("save-baseline"),
-  siteId: z.string().trim().max(64),
+  siteId: idField("Choose a site."),
   carrier: z.enum(carriers, { error: "Choose a carrier." }),
   driver: z.enum(["hdd", "cdd"], { error: "Choose degree days." }),
   from: z.string().regex(MONTH, "Choose a month, like 2025-01."),
@@ -261,10 +261,11 @@ async function uploadWeather(
   const keys = [...new Set(formData.keys())];
   if (keys.some((k) => !["intent", "siteId", "file"].includes(k)))
     return fail({ form: "The form has fields it should not have." });
-  const siteId = formData.get("siteId");
-  if (typeof siteId !== "string" || formData.getAll("siteId").length !== 1)
+  const chosen = formData.get("siteId");
+  const siteId = typeof chosen === "string" ? chosen.trim() : "";
+  if (!isUuid(siteId) || formData.getAll("siteId").length !== 1)
     return fail({ siteId: "Choose a site." });
-  const site = await siteOr404(organizationId, siteId.trim());
+  const site = await siteOr404(organizationId, siteId);
   const file = formData.get("file");
   if (!(file instanceof File) || formData.getAll("file").length !== 1)
     return fail({ file: "Choose a CSV file." });

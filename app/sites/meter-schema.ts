@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { optionalIdField } from "~/lib/ids";
 import { QUANTITIES } from "~/physics/evaluate-schema";
 
 /** What a meter can measure: the quantities the physics core evaluates. */
@@ -98,7 +99,7 @@ export const meterFormSchema = z
     orientation: z.enum(["import", "export"], {
       error: "Choose import or export.",
     }),
-    parentMeterId: z.string().trim().max(64),
+    parentMeterId: optionalIdField("Choose a parent meter from the list."),
     serial: z.string().trim().max(64, "Use at most 64 characters."),
     multiplier: decimal("Multiplier", 0.0001, 100_000).transform((v) => v ?? 1),
     rolloverKwh: decimal("Roll-over point", 1, 1e12),

@@ -54,6 +54,37 @@ describe("parseForm", () => {
   });
 });
 
+describe("parseForm and text PostgreSQL cannot store", () => {
+  const named = z.strictObject({ name: z.string(), note: z.string() });
+  it("refuses a NUL in any field, under that field, before the schema", () => {
+    expect(
+      parseForm(
+        form([
+          ["name", "Boiler\u0000room"],
+          ["note", "fine"],
+        ]),
+        named,
+      ),
+    ).toEqual({
+      ok: false,
+      errors: {
+        name: "This contains a NUL character or a lone UTF-16 surrogate, which cannot be stored; remove it.",
+      },
+    });
+  });
+  it("takes every other character, astral ones included", () => {
+    expect(
+      parseForm(
+        form([
+          ["name", "Kesselhaus \u{1F525} ñ"],
+          ["note", ""],
+        ]),
+        named,
+      ),
+    ).toEqual({ ok: true, data: { name: "Kesselhaus \u{1F525} ñ", note: "" } });
+  });
+});
+
 describe("safeRedirectPath", () => {
   it("keeps same-site paths and drops anything else", () => {
     expect(safeRedirectPath("/o/abc/members?x=1")).toBe("/o/abc/members?x=1");
