@@ -36,7 +36,9 @@ export async function loader({ request }: Route.LoaderArgs) {
     throw redirect(safeRedirectPath(url.searchParams.get("redirectTo")));
   }
   return {
-    redirectTo: url.searchParams.get("redirectTo") ?? "",
+    // Only a safe path reaches the form, so a hostile link cannot make the
+    // sign-in itself fail on a hidden field.
+    redirectTo: safeRedirectPath(url.searchParams.get("redirectTo"), ""),
     reset: url.searchParams.get("reset") === "1",
   };
 }

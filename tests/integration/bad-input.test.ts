@@ -7,6 +7,7 @@ import { afterAll, beforeEach, describe, expect, it } from "vitest";
 import { Client } from "../support/http";
 import { db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
+import { meterFormFields } from "../support/forms";
 
 afterAll(() => pool.end());
 beforeEach(async () => {
@@ -161,25 +162,12 @@ describe("ids that are not UUIDs", () => {
   it("in a form's parentMeterId answer 400 with the error beside the field", async () => {
     const org = await createMeteredOrg();
     const owner = await signedIn(org);
-    const meterForm = {
-      intent: "save-meter",
+    const meterForm = meterFormFields({
       code: `N-${org.tag}`,
       name: "New meter",
-      quantity: "electric_register",
-      carrier: "electricity",
-      orientation: "import",
       parentMeterId: "nonsense",
-      serial: "",
       multiplier: "1",
-      rolloverKwh: "",
-      sensorAt: "",
-      defaultPressureBarAbs: "",
-      spikeFactor: "",
-      accuracyClass: "",
-      deltaThetaMinK: "",
-      qpM3PerH: "",
-      installedAt: "2024-01-01",
-    };
+    });
     const created = await owner.post(
       `/o/${org.org.id}/sites/${org.siteId}/meters/new`,
       meterForm,

@@ -16,6 +16,7 @@ import {
 import { Client } from "../support/http";
 import { createOrganization, db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
+import { meterFormFields } from "../support/forms";
 
 const stripeUrl = inject("stripeUrl");
 const fakeAddress = new URL(stripeUrl);
@@ -123,25 +124,7 @@ async function addMeteredSite(
   const siteId = created.headers.get("location")!.split("/").pop()!;
   const meter = await client.post(
     `/o/${organizationId}/sites/${siteId}/meters/new`,
-    {
-      intent: "save-meter",
-      code: `B-${tag}`,
-      name: `Billing meter ${tag}`,
-      quantity: "electric_register",
-      carrier: "electricity",
-      orientation: "import",
-      parentMeterId: "",
-      serial: "",
-      multiplier: "",
-      rolloverKwh: "",
-      sensorAt: "",
-      defaultPressureBarAbs: "",
-      spikeFactor: "",
-      accuracyClass: "",
-      deltaThetaMinK: "",
-      qpM3PerH: "",
-      installedAt: "2024-01-01",
-    },
+    meterFormFields({ code: `B-${tag}`, name: `Billing meter ${tag}` }),
   );
   expect(meter.status).toBe(302);
   const [row] = await db

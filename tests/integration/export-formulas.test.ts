@@ -3,6 +3,7 @@ import Papa from "papaparse";
 import { afterAll, describe, expect, it } from "vitest";
 import { Client } from "../support/http";
 import { createOrganization, pool } from "../support/db";
+import { meterFormFields } from "../support/forms";
 
 afterAll(() => pool.end());
 
@@ -14,25 +15,8 @@ const HOSTILE_NAMES = [
   "@SUM(1+1)",
 ];
 
-const meterFields = (code: string, orientation: "import" | "export") => ({
-  intent: "save-meter",
-  code,
-  name: `Register ${code}`,
-  quantity: "electric_register",
-  carrier: "electricity",
-  orientation,
-  parentMeterId: "",
-  serial: "",
-  multiplier: "",
-  rolloverKwh: "",
-  sensorAt: "",
-  defaultPressureBarAbs: "",
-  spikeFactor: "",
-  accuracyClass: "",
-  deltaThetaMinK: "",
-  qpM3PerH: "",
-  installedAt: "2024-01-01",
-});
+const meterFields = (code: string, orientation: "import" | "export") =>
+  meterFormFields({ code, name: `Register ${code}`, orientation });
 
 /**
  * A site with one electricity register and three hours of reads in May 2026,

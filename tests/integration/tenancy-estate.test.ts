@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { Client } from "../support/http";
 import { db, organizationId, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
+import { meterFormFields } from "../support/forms";
 
 afterAll(() => pool.end());
 
@@ -160,25 +161,14 @@ describe("roles on the estate", () => {
       address: "",
     });
     expect(dup.status).toBe(409);
-    const meterFields = {
-      intent: "save-meter",
+    const meterFields = meterFormFields({
       code: `AX-${Date.now()}`,
       name: "Annexe heat",
       quantity: "water_heat",
-      carrier: "electricity",
-      orientation: "import",
-      parentMeterId: "",
-      serial: "",
       multiplier: "1",
-      rolloverKwh: "",
-      sensorAt: "",
-      defaultPressureBarAbs: "",
       spikeFactor: "10",
-      accuracyClass: "",
-      deltaThetaMinK: "",
-      qpM3PerH: "",
       installedAt: "2026-01-01",
-    };
+    });
     const wrong = await manager.post(
       `/o/${larchmere}/sites/${siteId}/meters/new`,
       meterFields,
