@@ -14,17 +14,61 @@ die() { printf '\033[1;31m[joulebook] %s\033[0m\n' "$*" >&2; exit 1; }
 
 is_root() { [ "$(id -u)" = "0" ]; }
 
+# How long apt-get waits for another apt or dpkg (say, unattended upgrades)
+# to let go of its lock before giving up.
+APT_LOCK_TIMEOUT="${JOULEBOOK_APT_LOCK_TIMEOUT:-600}"
+# Pause between tries of `apt-get update` while the package-lists lock is held.
+APT_LOCK_POLL_SECONDS="${JOULEBOOK_APT_LOCK_POLL_SECONDS:-5}"
+
 apt_install() {
   is_root || die "Missing $*; install it with: sudo apt-get install -y $*"
   log "Installing $* with apt-get (one time)…"
-  for attempt in 1 2 3; do
-    if (apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$@") >"$DATA_DIR/apt.log" 2>&1; then
-      return 0
+  APT_LOG="$DATA_DIR/apt.log"
+  : >"$APT_LOG"
+  local deadline=$((SECONDS + APT_LOCK_TIMEOUT))
+  apt_get_waiting_for_lock "$deadline" update ||
+    die "apt-get update failed; see $APT_LOG"
+  apt_get_waiting_for_lock "$deadline" install -y "$@" ||
+    die "apt-get install $* failed; see $APT_LOG"
+}
+
+# One apt-get command, its output added to $APT_LOG. apt waits for the dpkg
+# lock itself (DPkg::Lock::Timeout) and retries downloads (Acquire::Retries);
+# this says on the terminal when it waits. `apt-get update` does not wait for
+# the package-lists lock (apt 2.6 refuses at once even with the timeout), so
+# that refusal is tried again every few seconds until the same deadline.
+apt_get_waiting_for_lock() {
+  local deadline="$1"; shift
+  local output status announced=""
+  output="$(mktemp)"
+  while :; do
+    local remaining=$((deadline - SECONDS))
+    [ "$remaining" -ge 1 ] || remaining=1
+    DEBIAN_FRONTEND=noninteractive apt-get -q -o DPkg::Lock::Timeout="$remaining" \
+      -o Acquire::Retries=3 "$@" >"$output" 2>&1 &
+    local pid=$!
+    while kill -0 "$pid" 2>/dev/null; do
+      [ -z "$announced" ] && grep -q 'Waiting for cache lock' "$output" &&
+        announce_apt_lock_wait "$output" "$remaining" && announced=1
+      sleep 0.2
+    done
+    if wait "$pid"; then status=0; else status=$?; fi
+    cat "$output" >>"$APT_LOG"
+    if [ "$status" -ne 0 ] && grep -q 'Could not get lock' "$output" && [ "$SECONDS" -lt "$deadline" ]; then
+      [ -z "$announced" ] && announce_apt_lock_wait "$output" "$((deadline - SECONDS))" && announced=1
+      sleep "$APT_LOCK_POLL_SECONDS"
+      continue
     fi
-    log "apt-get failed (attempt $attempt, see $DATA_DIR/apt.log); retrying in 10 s"
-    sleep 10
+    rm -f "$output"
+    return "$status"
   done
-  die "apt-get install $* failed; see $DATA_DIR/apt.log"
+}
+
+# "Waiting for the apt lock (held by process 812 (unattended-upgr)), up to 600 s…"
+announce_apt_lock_wait() {
+  local holder
+  holder="$(grep -o -m1 'held by process [0-9]* ([^)]*)' "$1" || true)"
+  log "Waiting for the apt lock${holder:+ ($holder)}, up to $2 s…"
 }
 
 # npm ci when node_modules is missing or older than the lock file.
