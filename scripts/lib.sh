@@ -211,7 +211,9 @@ ensure_poppler() {
 # port recorded in the data folder (like the cluster's), or any free one, and
 # reports the port it got; see fakes/listen-as-script.ts.
 
+# The fakes this script started, and their names, index by index.
 FAKE_PIDS=()
+FAKE_NAMES=()
 
 # Mail and billing go to local fakes unless real services are configured:
 # exports RESEND_BASE_URL and STRIPE_API_BASE (with their keys) for the server,
@@ -258,6 +260,7 @@ launch_fake() {
   env "$@" FAKE_PREFERRED_PORT="$(cat "$DATA_DIR/$name-port" 2>/dev/null || true)" \
     FAKE_READY_FILE="$DATA_DIR/$name.ready" node --import tsx "$ROOT/fakes/$name.ts" &
   FAKE_PIDS+=("$!")
+  FAKE_NAMES+=("$name")
   echo "$! $$" >"$DATA_DIR/$name.pid"
 }
 
@@ -306,7 +309,7 @@ stop_leftover_fake() {
 is_fake_of_this_checkout() {
   local pid="$1" name="$2"
   [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null || return 1
-  tr '\0' ' ' <"/proc/$pid/cmdline" 2>/dev/null | grep -q "$ROOT/fakes/$name.ts"
+  tr '\0' ' ' <"/proc/$pid/cmdline" 2>/dev/null | grep -qF "$ROOT/fakes/$name.ts"
 }
 
 is_running_script() {
@@ -315,12 +318,9 @@ is_running_script() {
 }
 
 stop_local_fakes() {
-  local pid name
-  for pid in "${FAKE_PIDS[@]}"; do kill "$pid" 2>/dev/null || true; done
-  for name in resend-fake stripe-fake; do
-    local fake=""
-    [ -f "$DATA_DIR/$name.pid" ] && read -r fake _ <"$DATA_DIR/$name.pid"
-    [[ " ${FAKE_PIDS[*]} " == *" $fake "* ]] && rm -f "$DATA_DIR/$name.pid"
+  local i
+  for i in "${!FAKE_PIDS[@]}"; do
+    kill "${FAKE_PIDS[$i]}" 2>/dev/null || true
+    rm -f "$DATA_DIR/${FAKE_NAMES[$i]}.pid"
   done
-  return 0
 }

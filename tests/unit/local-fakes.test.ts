@@ -19,6 +19,9 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { runLibSh, startLibSh, type RunningShell } from "../support/lib-sh";
 
+// Each start runs the fakes through tsx: seconds on a quiet machine, much
+// longer on a busy one, hence the generous limits below.
+
 // Starts the fakes, prints where they are, and keeps them until stdin closes.
 const START_AND_HOLD = `start_local_fakes
 echo "FAKES $RESEND_BASE_URL $STRIPE_API_BASE"
@@ -162,7 +165,7 @@ describe("start_local_fakes", () => {
     expect(again.resend).toBe(a.resend);
     expect(again.stripe).toBe(a.stripe);
     await again.stop();
-  }, 60_000);
+  }, 120_000);
 
   it("fails loudly when an explicit RESEND_FAKE_PORT is taken", async () => {
     const result = await runLibSh(START_AND_HOLD, {
@@ -176,7 +179,7 @@ describe("start_local_fakes", () => {
       `RESEND_FAKE_PORT=${foreignPort}: port ${foreignPort} on 127.0.0.1 is already in use`,
     );
     expect(result.stderr).toContain("the e-mail fake did not start");
-  }, 30_000);
+  }, 60_000);
 
   it("stops a fake left behind by a killed start and takes its port back", async () => {
     const dir = dataDir("leftover");
@@ -198,5 +201,5 @@ describe("start_local_fakes", () => {
     expect(next.resend).toBe(killed.resend);
     expect(() => process.kill(leftoverPid, 0)).toThrow();
     await next.stop();
-  }, 60_000);
+  }, 120_000);
 });
