@@ -3,11 +3,17 @@
  * (POST /emails, POST /emails/batch, GET /emails[/:id]) plus a JSON view and a
  * reset for tests. Messages are kept in memory and, when OUTBOX_FILE is set,
  * in a JSON file so that a restart of `npm start` keeps the demo outbox.
+ *
+ * Run alone: `node --import tsx fakes/resend-fake.ts`, on RESEND_FAKE_PORT or
+ * a free port (it prints which); see fakes/listen-as-script.ts.
  */
 import { randomUUID } from "node:crypto";
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
-import express, { type Request, type Response } from "express";
+import type { Server } from "node:http";
+import type { AddressInfo } from "node:net";
+import express, { type Express, type Request, type Response } from "express";
 import { z } from "zod";
+import { exitOnFailure, listenAsScript } from "./listen-as-script";
 
 const addressList = z.union([
   z.string().min(3).max(320),
@@ -166,15 +172,29 @@ export function createResendFake(options: { outboxFile?: string } = {}) {
   return app;
 }
 
+/** Listens on 127.0.0.1 (port 0: any free port) and resolves once it does. */
+function listenOn(app: Express, port: number) {
+  return new Promise<{ port: number; server: Server }>((resolve, reject) => {
+    const server = app.listen(port, "127.0.0.1");
+    server.once("error", reject);
+    server.once("listening", () =>
+      resolve({ port: (server.address() as AddressInfo).port, server }),
+    );
+  });
+}
+
 const isEntryPoint = process.argv[1]?.endsWith("resend-fake.ts");
 if (isEntryPoint) {
-  const port = Number(process.env.RESEND_FAKE_PORT ?? 54330);
-  const server = createResendFake({
-    outboxFile: process.env.OUTBOX_FILE,
-  }).listen(port, "127.0.0.1", () =>
-    console.log(`[resend-fake] listening on http://127.0.0.1:${port}`),
-  );
-  const stop = () => server.close(() => process.exit(0));
-  process.on("SIGTERM", stop);
-  process.on("SIGINT", stop);
+  const app = createResendFake({ outboxFile: process.env.OUTBOX_FILE });
+  exitOnFailure("resend-fake", async () => {
+    const { port, server } = await listenAsScript(
+      "resend-fake",
+      "RESEND_FAKE_PORT",
+      (wanted) => listenOn(app, wanted),
+    );
+    console.log(`[resend-fake] listening on http://127.0.0.1:${port}`);
+    const stop = () => server.close(() => process.exit(0));
+    process.on("SIGTERM", stop);
+    process.on("SIGINT", stop);
+  });
 }

@@ -7,12 +7,14 @@
  * answers a Stripe-shaped error, never a body the SDK would take for success.
  *
  * Run alone: `node --import tsx fakes/stripe-fake.ts` with STRIPE_FAKE_PORT
- * (54331), STRIPE_FAKE_WEBHOOK_URL, STRIPE_WEBHOOK_SECRET and optionally
+ * (else a free port, which it prints; see fakes/listen-as-script.ts),
+ * STRIPE_FAKE_WEBHOOK_URL, STRIPE_WEBHOOK_SECRET and optionally
  * STRIPE_FAKE_STATE_FILE to keep its objects across restarts.
  */
 import type { Server } from "node:http";
 import type { AddressInfo } from "node:net";
 import express, { type Request, type Response } from "express";
+import { exitOnFailure, listenAsScript } from "./listen-as-script";
 import { billingRoutes } from "./stripe/api-billing";
 import { catalogRoutes } from "./stripe/api-catalog";
 import { createContext, type Ctx } from "./stripe/context";
@@ -109,18 +111,23 @@ function buildApp(ctx: Ctx, persist: () => void) {
 
 const isEntryPoint = process.argv[1]?.endsWith("stripe-fake.ts");
 if (isEntryPoint) {
-  const port = Number(process.env.STRIPE_FAKE_PORT ?? 54331);
   const fake = createStripeFake({
     webhookUrl: process.env.STRIPE_FAKE_WEBHOOK_URL || undefined,
     webhookSecret: process.env.STRIPE_WEBHOOK_SECRET || undefined,
     stateFile: process.env.STRIPE_FAKE_STATE_FILE || undefined,
   });
-  const running = await fake.listen(port);
-  console.log(`[stripe-fake] listening on ${running.url}`);
-  const stop = () => {
-    // Shutting down must not wait for a dead endpoint's retries.
-    void running.close({ flush: false }).then(() => process.exit(0));
-  };
-  process.on("SIGTERM", stop);
-  process.on("SIGINT", stop);
+  exitOnFailure("stripe-fake", async () => {
+    const running = await listenAsScript(
+      "stripe-fake",
+      "STRIPE_FAKE_PORT",
+      (port) => fake.listen(port),
+    );
+    console.log(`[stripe-fake] listening on ${running.url}`);
+    const stop = () => {
+      // Shutting down must not wait for a dead endpoint's retries.
+      void running.close({ flush: false }).then(() => process.exit(0));
+    };
+    process.on("SIGTERM", stop);
+    process.on("SIGINT", stop);
+  });
 }

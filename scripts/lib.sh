@@ -14,17 +14,61 @@ die() { printf '\033[1;31m[joulebook] %s\033[0m\n' "$*" >&2; exit 1; }
 
 is_root() { [ "$(id -u)" = "0" ]; }
 
+# How long apt-get waits for another apt or dpkg (say, unattended upgrades)
+# to let go of its lock before giving up.
+APT_LOCK_TIMEOUT="${JOULEBOOK_APT_LOCK_TIMEOUT:-600}"
+# Pause between tries of `apt-get update` while the package-lists lock is held.
+APT_LOCK_POLL_SECONDS="${JOULEBOOK_APT_LOCK_POLL_SECONDS:-5}"
+
 apt_install() {
   is_root || die "Missing $*; install it with: sudo apt-get install -y $*"
   log "Installing $* with apt-get (one time)…"
-  for attempt in 1 2 3; do
-    if (apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq "$@") >"$DATA_DIR/apt.log" 2>&1; then
-      return 0
+  APT_LOG="$DATA_DIR/apt.log"
+  : >"$APT_LOG"
+  local deadline=$((SECONDS + APT_LOCK_TIMEOUT))
+  apt_get_waiting_for_lock "$deadline" update ||
+    die "apt-get update failed; see $APT_LOG"
+  apt_get_waiting_for_lock "$deadline" install -y "$@" ||
+    die "apt-get install $* failed; see $APT_LOG"
+}
+
+# One apt-get command, its output added to $APT_LOG. apt waits for the dpkg
+# lock itself (DPkg::Lock::Timeout) and retries downloads (Acquire::Retries);
+# this says on the terminal when it waits. `apt-get update` does not wait for
+# the package-lists lock (apt 2.6 refuses at once even with the timeout), so
+# that refusal is tried again every few seconds until the same deadline.
+apt_get_waiting_for_lock() {
+  local deadline="$1"; shift
+  local output status announced=""
+  output="$(mktemp)"
+  while :; do
+    local remaining=$((deadline - SECONDS))
+    [ "$remaining" -ge 1 ] || remaining=1
+    DEBIAN_FRONTEND=noninteractive apt-get -q -o DPkg::Lock::Timeout="$remaining" \
+      -o Acquire::Retries=3 "$@" >"$output" 2>&1 &
+    local pid=$!
+    while kill -0 "$pid" 2>/dev/null; do
+      [ -z "$announced" ] && grep -q 'Waiting for cache lock' "$output" &&
+        announce_apt_lock_wait "$output" "$remaining" && announced=1
+      sleep 0.2
+    done
+    if wait "$pid"; then status=0; else status=$?; fi
+    cat "$output" >>"$APT_LOG"
+    if [ "$status" -ne 0 ] && grep -q 'Could not get lock' "$output" && [ "$SECONDS" -lt "$deadline" ]; then
+      [ -z "$announced" ] && announce_apt_lock_wait "$output" "$((deadline - SECONDS))" && announced=1
+      sleep "$APT_LOCK_POLL_SECONDS"
+      continue
     fi
-    log "apt-get failed (attempt $attempt, see $DATA_DIR/apt.log); retrying in 10 s"
-    sleep 10
+    rm -f "$output"
+    return "$status"
   done
-  die "apt-get install $* failed; see $DATA_DIR/apt.log"
+}
+
+# "Waiting for the apt lock (held by process 812 (unattended-upgr)), up to 600 s…"
+announce_apt_lock_wait() {
+  local holder
+  holder="$(grep -o -m1 'held by process [0-9]* ([^)]*)' "$1" || true)"
+  log "Waiting for the apt lock${holder:+ ($holder)}, up to $2 s…"
 }
 
 # npm ci when node_modules is missing or older than the lock file.
@@ -160,6 +204,125 @@ ensure_poppler() {
   command -v pdfsig >/dev/null 2>&1 || missing+=(poppler-utils)
   command -v certutil >/dev/null 2>&1 || missing+=(libnss3-tools)
   if [ ${#missing[@]} -gt 0 ]; then apt_install "${missing[@]}"; fi
+}
+
+# Local fakes of hosted services ---------------------------------------------
+# Every checkout runs fakes of its own on ports of its own: each fake binds the
+# port recorded in the data folder (like the cluster's), or any free one, and
+# reports the port it got; see fakes/listen-as-script.ts.
+
+# The fakes this script started, and their names, index by index.
+FAKE_PIDS=()
+FAKE_NAMES=()
+
+# Mail and billing go to local fakes unless real services are configured:
+# exports RESEND_BASE_URL and STRIPE_API_BASE (with their keys) for the server,
+# and sets RESEND_FAKE_URL / STRIPE_FAKE_URL to the fakes it started. The
+# fakes stop when the calling script exits.
+start_local_fakes() {
+  local app_host="${HOST:-127.0.0.1}"
+  [ "$app_host" = "0.0.0.0" ] && app_host="127.0.0.1"
+  RESEND_FAKE_URL="" STRIPE_FAKE_URL=""
+  mkdir -p "$DATA_DIR"
+  trap stop_local_fakes EXIT
+  local mail="" billing=""
+  if [ -z "${RESEND_BASE_URL:-}" ] && [ -z "${RESEND_API_KEY:-}" ]; then
+    launch_fake resend-fake OUTBOX_FILE="$DATA_DIR/outbox.json"
+    mail=1
+  fi
+  if [ -z "${STRIPE_API_BASE:-}" ] && [ -z "${STRIPE_SECRET_KEY:-}" ]; then
+    export STRIPE_WEBHOOK_SECRET="${STRIPE_WEBHOOK_SECRET:-whsec_local_fake_development_secret}"
+    launch_fake stripe-fake STRIPE_FAKE_STATE_FILE="$DATA_DIR/stripe-fake.json" \
+      STRIPE_FAKE_WEBHOOK_URL="http://$app_host:${PORT:-3000}/api/v1/billing/webhook"
+    billing=1
+  fi
+  # Both start at once; each is waited for before the server may call it.
+  if [ -n "$mail" ]; then
+    wait_for_fake resend-fake "the e-mail fake" RESEND_FAKE_PORT
+    RESEND_FAKE_URL="http://127.0.0.1:$FAKE_PORT"
+    export RESEND_BASE_URL="$RESEND_FAKE_URL"
+  fi
+  if [ -n "$billing" ]; then
+    wait_for_fake stripe-fake "the Stripe fake" STRIPE_FAKE_PORT
+    STRIPE_FAKE_URL="http://127.0.0.1:$FAKE_PORT"
+    export STRIPE_API_BASE="$STRIPE_FAKE_URL"
+    export STRIPE_SECRET_KEY="sk_test_local_fake_key"
+  fi
+}
+
+# launch_fake NAME [VAR=value…]: starts fakes/NAME.ts in the background. Its
+# pid file names the fake and the script that started it (see
+# stop_leftover_fake).
+launch_fake() {
+  local name="$1"; shift
+  stop_leftover_fake "$name"
+  rm -f "$DATA_DIR/$name.ready"
+  env "$@" FAKE_PREFERRED_PORT="$(cat "$DATA_DIR/$name-port" 2>/dev/null || true)" \
+    FAKE_READY_FILE="$DATA_DIR/$name.ready" node --import tsx "$ROOT/fakes/$name.ts" &
+  FAKE_PIDS+=("$!")
+  FAKE_NAMES+=("$name")
+  echo "$! $$" >"$DATA_DIR/$name.pid"
+}
+
+# Sets FAKE_PORT once the fake listens, and records the port it chose for the
+# next run (a port given in PORT_VARIABLE is the caller's, not recorded). A
+# fake that cannot listen stops the script: the server must never fall back
+# to another checkout's fake.
+wait_for_fake() {
+  local name="$1" what="$2" port_variable="$3"
+  local ready="$DATA_DIR/$name.ready" pid
+  read -r pid _ <"$DATA_DIR/$name.pid"
+  local deadline=$((SECONDS + 60))
+  until [ -s "$ready" ]; do
+    kill -0 "$pid" 2>/dev/null || die "$what did not start (its message is above)"
+    [ "$SECONDS" -lt "$deadline" ] || die "$what did not listen within 60 s"
+    sleep 0.1
+  done
+  FAKE_PORT="$(cat "$ready")"
+  rm -f "$ready"
+  [ -n "${!port_variable:-}" ] || echo "$FAKE_PORT" >"$DATA_DIR/$name-port"
+}
+
+# A fake of this checkout may still run when a start is begun: left behind by
+# a start that was killed (its starter is gone), which is stopped so its port
+# and files are free again; or serving another start of this checkout that is
+# still running, which this start refuses to share files with.
+stop_leftover_fake() {
+  local name="$1" pid_file="$DATA_DIR/$1.pid" fake="" starter=""
+  [ -f "$pid_file" ] || return 0
+  read -r fake starter <"$pid_file" || true
+  if is_fake_of_this_checkout "$fake" "$name"; then
+    if [ "$starter" != "$$" ] && is_running_script "$starter"; then
+      die "This checkout's $name already runs (pid $fake) for another start (pid $starter); stop that one first, or give this one its own JOULEBOOK_DATA_DIR"
+    fi
+    log "Stopping the $name left running by an earlier start (pid $fake)"
+    kill "$fake" 2>/dev/null || true
+    local tries=0
+    while kill -0 "$fake" 2>/dev/null && [ "$tries" -lt 50 ]; do sleep 0.1; tries=$((tries + 1)); done
+    kill -0 "$fake" 2>/dev/null && kill -9 "$fake" 2>/dev/null
+  fi
+  rm -f "$pid_file"
+}
+
+# Guards against a recycled pid: the process must be node running this
+# checkout's fakes/NAME.ts.
+is_fake_of_this_checkout() {
+  local pid="$1" name="$2"
+  [ -n "$pid" ] && kill -0 "$pid" 2>/dev/null || return 1
+  tr '\0' ' ' <"/proc/$pid/cmdline" 2>/dev/null | grep -qF "$ROOT/fakes/$name.ts"
+}
+
+is_running_script() {
+  [ -n "$1" ] && kill -0 "$1" 2>/dev/null &&
+    tr '\0' ' ' <"/proc/$1/cmdline" 2>/dev/null | grep -q bash
+}
+
+stop_local_fakes() {
+  local i
+  for i in "${!FAKE_PIDS[@]}"; do
+    kill "${FAKE_PIDS[$i]}" 2>/dev/null || true
+    rm -f "$DATA_DIR/${FAKE_NAMES[$i]}.pid"
+  done
 }
 
 # The key that opens every message of the local e-mail fake to the machine's

@@ -1,6 +1,6 @@
 #!/usr/bin/env bash
 # npm start: install what is missing, run PostgreSQL, migrate, seed once,
-# build, and serve the app with the local e-mail fake beside it.
+# build, and serve the app with the local e-mail and Stripe fakes beside it.
 source "$(dirname "$0")/lib.sh"
 cd "$ROOT"
 started=$SECONDS
@@ -29,35 +29,21 @@ export PORT="${PORT:-3000}"
 export HOST="${HOST:-127.0.0.1}"
 export NODE_ENV=production
 
-# Mail goes to the local fake unless a real key and no base URL are given.
-fake_pid=""
-outbox_info="E-mail:                               sent through Resend"
-if [ -z "${RESEND_BASE_URL:-}" ] && [ -z "${RESEND_API_KEY:-}" ]; then
-  export RESEND_FAKE_PORT="${RESEND_FAKE_PORT:-54330}"
-  export RESEND_BASE_URL="http://127.0.0.1:$RESEND_FAKE_PORT"
-  OUTBOX_FILE="$DATA_DIR/outbox.json" node --import tsx fakes/resend-fake.ts &
-  fake_pid=$!
+# Mail and billing go to this checkout's own fakes unless real services are
+# configured; the server starts only once they listen.
+start_local_fakes
+if [ -n "$RESEND_FAKE_URL" ]; then
   ensure_outbox_operator_key
-  outbox_info="Outbox, your own mail:                http://$HOST:$PORT/outbox
+  mail_info="Outbox, your own mail:                http://$HOST:$PORT/outbox  (fake: $RESEND_FAKE_URL)
   All mail (operator only, keep secret): http://$HOST:$PORT/operator/outbox?key=$OUTBOX_OPERATOR_KEY"
+else
+  mail_info="E-mail:                               sent through ${RESEND_BASE_URL:-the Resend API}"
 fi
-
-# Billing goes to the local Stripe fake unless a key or a base URL is given.
-stripe_pid=""
-stripe_info="Billing:                              Stripe (${STRIPE_API_BASE:-api.stripe.com})"
-if [ -z "${STRIPE_API_BASE:-}" ] && [ -z "${STRIPE_SECRET_KEY:-}" ]; then
-  export STRIPE_FAKE_PORT="${STRIPE_FAKE_PORT:-54331}"
-  export STRIPE_API_BASE="http://127.0.0.1:$STRIPE_FAKE_PORT"
-  export STRIPE_SECRET_KEY="sk_test_local_fake_key"
-  export STRIPE_WEBHOOK_SECRET="${STRIPE_WEBHOOK_SECRET:-whsec_local_fake_development_secret}"
-  app_host="$HOST"; [ "$app_host" = "0.0.0.0" ] && app_host="127.0.0.1"
-  STRIPE_FAKE_STATE_FILE="$DATA_DIR/stripe-fake.json" \
-    STRIPE_FAKE_WEBHOOK_URL="http://$app_host:$PORT/api/v1/billing/webhook" \
-    node --import tsx fakes/stripe-fake.ts &
-  stripe_pid=$!
-  stripe_info="Stripe fake (test card 4242…):        $STRIPE_API_BASE/_fake/state"
+if [ -n "$STRIPE_FAKE_URL" ]; then
+  stripe_info="Stripe fake (test card 4242…):        $STRIPE_FAKE_URL/_fake/state"
+else
+  stripe_info="Billing:                              Stripe (${STRIPE_API_BASE:-api.stripe.com})"
 fi
-trap '[ -n "$fake_pid" ] && kill "$fake_pid" 2>/dev/null; [ -n "$stripe_pid" ] && kill "$stripe_pid" 2>/dev/null; true' EXIT
 
 demo_key="${DEMO_GATEWAY_KEY:-$(node --import tsx -e 'import("./seeds/demo-people.ts").then(m => console.log(m.DEFAULT_DEMO_GATEWAY_KEY))')}"
 cat <<INFO
@@ -72,7 +58,7 @@ cat <<INFO
     other org owner  owner@hollowmead.example
     two orgs         consultant@fernbank.example
   Demo gateway key (development only): $demo_key
-  $outbox_info
+  $mail_info
   $stripe_info
   Stop the database afterwards with:    npm run db:stop
 
