@@ -1,5 +1,5 @@
 import express, { Router } from "express";
-import { stripeWebhook, WEBHOOK_BODY_LIMIT } from "~/billing/webhook.server";
+import { stripeWebhook, WEBHOOK_BODY_LIMIT } from "./billing-webhook.server";
 import { evaluateEnergy, EVALUATE_BODY_LIMIT } from "./evaluate.server";
 import { health } from "./health.server";
 import { getLedger, getLedgerCsv, getLedgerXlsx } from "./ledger.server";

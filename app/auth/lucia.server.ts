@@ -1,12 +1,17 @@
 /**
- * The only module that talks to lucia. lucia 3 is no longer developed, so the
- * rest of the app goes through session.server.ts and could move to another
- * session library by changing this file alone.
+ * The only module that imports lucia (and its adapter). lucia 3 is no longer
+ * developed, so the rest of the app goes through session.server.ts and could
+ * move to another session library by changing this file alone
+ * (docs/architecture.md says what that would take).
  */
 import { DrizzlePostgreSQLAdapter } from "@lucia-auth/adapter-drizzle";
-import { Lucia, TimeSpan } from "lucia";
+import { Lucia, TimeSpan, type Session, type User } from "lucia";
 import { db } from "~/db/client.server";
 import { sessions, users } from "~/db/schema";
+
+/** lucia's records under the app's own names, so no other module imports lucia. */
+export type AuthSession = Session;
+export type AuthUser = User;
 
 const adapter = new DrizzlePostgreSQLAdapter(db, sessions, users);
 

@@ -1,14 +1,13 @@
 import { and, asc, eq } from "drizzle-orm";
 import { data } from "react-router";
-import type { User } from "lucia";
 import { db } from "~/db/client.server";
 import { memberships, organizations } from "~/db/schema";
 import { isUuid } from "~/lib/ids";
 import { can, type Permission, type Role } from "./permissions";
-import { requireUser } from "./session.server";
+import { requireUser, type SignedInUser } from "./session.server";
 
 export interface OrganizationContext {
-  user: User;
+  user: SignedInUser;
   organization: { id: string; name: string };
   role: Role;
 }

@@ -1,8 +1,7 @@
 import { redirect } from "react-router";
-import type { Session, User } from "lucia";
-import { lucia } from "./lucia.server";
+import { lucia, type AuthSession, type AuthUser } from "./lucia.server";
 
-export type SignedInUser = User;
+export type SignedInUser = AuthUser;
 
 /** Secure cookies whenever the request reached us over TLS. */
 function isTls(request: Request): boolean {
@@ -22,8 +21,8 @@ function sessionIdFrom(request: Request): string | null {
 }
 
 export interface CurrentSession {
-  user: User;
-  session: Session;
+  user: AuthUser;
+  session: AuthSession;
   /** Set when lucia extended the session and the cookie must be re-sent. */
   refreshCookie: string | null;
 }
@@ -41,12 +40,12 @@ export async function getCurrentSession(
   return { user, session, refreshCookie };
 }
 
-export async function getUser(request: Request): Promise<User | null> {
+export async function getUser(request: Request): Promise<AuthUser | null> {
   return (await getCurrentSession(request))?.user ?? null;
 }
 
 /** The signed-in user, or a redirect to sign-in that comes back here after. */
-export async function requireUser(request: Request): Promise<User> {
+export async function requireUser(request: Request): Promise<AuthUser> {
   const user = await getUser(request);
   if (user) return user;
   const url = new URL(request.url);
