@@ -14,6 +14,7 @@ import { estimationIdle } from "./ingest/after-ingest.server";
 import { requestInfoContext } from "./request-context";
 import { runAllAlerts } from "./alerts/run-alerts.server";
 import { env } from "./env.server";
+import { pruneAuthRecords } from "./auth/housekeeping.server";
 import { reconcileBilling } from "./billing/reconcile.server";
 import { reportJobsIdle, resumeReportJobs } from "./reports/report-jobs.server";
 
@@ -73,11 +74,22 @@ const reconcileTimer =
     : null;
 reconcileTimer?.unref();
 
+// Expired sessions, old sign-in attempts and spent reset links, hourly.
+const housekeepingTimer = setInterval(
+  () =>
+    void pruneAuthRecords().catch((error) =>
+      console.error("[housekeeping] pruning failed", error),
+    ),
+  60 * 60_000,
+);
+housekeepingTimer.unref();
+
 /** Finishes estimation already queued, then closes the pool. */
 export async function closeResources(): Promise<void> {
   if (alertTimer) clearInterval(alertTimer);
   if (reconcileTimer) clearInterval(reconcileTimer);
   clearInterval(reportTimer);
+  clearInterval(housekeepingTimer);
   await reportJobsIdle();
   await estimationIdle();
   await pool.end();
