@@ -26,7 +26,7 @@ const unavailablePage = `<!doctype html>
 <meta name="viewport" content="width=device-width, initial-scale=1">
 <meta http-equiv="refresh" content="${RETRY_AFTER_SECONDS}">
 <title>Back in a moment · Joulebook</title>
-<style>body{font-family:system-ui,sans-serif;color:#1c2430;max-width:36rem;margin:15vh auto;padding:0 1.25rem}
+<style>body{font-family:system-ui,sans-serif;color:#1c2430;background:#f4f3ee;max-width:36rem;margin:15vh auto;padding:0 1.25rem}
 h1{font-size:1.5rem}p{color:#5b6675;line-height:1.5}</style></head>
 <body><p><strong>Joulebook</strong></p><h1>Back in a moment</h1>
 <p>${MESSAGE}</p><p>This page tries again by itself every ${RETRY_AFTER_SECONDS} seconds.</p></body></html>`;
