@@ -432,8 +432,11 @@ export default function LedgerPage({
       />
       <div className="flex flex-col gap-6">
         <p>
-          Signed by the IUPAC convention: energy entering a site is positive,
-          energy leaving it negative.
+          Delivered energy is positive and exported energy negative, for each
+          carrier; chilled water shows as cooling delivered. Carriers are never
+          added together, so each has its own total. The signed thermodynamic
+          view (heat and work into the site positive) is on each site&apos;s
+          energy balance.
         </p>
         <Card aria-labelledby="filters-heading">
           <h2 id="filters-heading" className="sr-only">
