@@ -29,6 +29,16 @@ for (const [label, viewport] of [
     fullPage: true,
   });
   const orgPath = new URL(page.url()).pathname;
+  // The Overview's chart and the Ledger's grid draw in the browser: wait for them.
+  await page.goto(`${base}${orgPath}/overview`);
+  await page.locator(".recharts-bar-rectangle").first().waitFor();
+  await page.screenshot({
+    path: `${out}/${label}-overview.png`,
+    fullPage: true,
+  });
+  await page.goto(`${base}${orgPath}/ledger`);
+  await page.locator('[row-id^="total"]').first().waitFor();
+  await page.screenshot({ path: `${out}/${label}-ledger.png`, fullPage: true });
   for (const path of ["members", "../../outbox", "../../account"]) {
     await page.goto(new URL(path, `${base}${orgPath}/`).href);
     await page.screenshot({

@@ -96,7 +96,7 @@ function filename(ledger: Ledger, ext: string): string {
   return `joulebook-ledger-${ledger.from}-to-${ledger.to}.${ext}`;
 }
 
-/** GET …/ledger.csv: exact decimal kWh, signed (into the site positive). */
+/** GET …/ledger.csv: exact decimal kWh, delivered ≥ 0 and exported ≤ 0 per carrier. */
 export async function getLedgerCsv(
   req: Request,
   res: Response,
@@ -127,7 +127,7 @@ function xlsxValue(column: Column, row: LedgerRow): string | number {
   return column.kind === "text" ? String(value) : Number(value);
 }
 
-/** GET …/ledger.xlsx: the same rows as numbers, with a totals line. */
+/** GET …/ledger.xlsx: the same rows as numbers, with a totals line per carrier. */
 export async function getLedgerXlsx(
   req: Request,
   res: Response,
@@ -152,12 +152,16 @@ export async function getLedgerXlsx(
         Object.fromEntries(COLUMNS.map((c) => [c.key, xlsxValue(c, row)])),
       );
     }
-    sheet.addRow({
-      site_name: "Total",
-      imports_kwh: Number(ledger.totals.imports_kwh),
-      exports_kwh: Number(ledger.totals.exports_kwh),
-      net_kwh: Number(ledger.totals.net_kwh),
-    }).font = { bold: true };
+    // Unlike carriers are never added: one totals line per carrier.
+    for (const total of ledger.totals) {
+      sheet.addRow({
+        site_name: "Total",
+        carrier: total.carrier,
+        imports_kwh: Number(total.imports_kwh),
+        exports_kwh: Number(total.exports_kwh),
+        net_kwh: Number(total.net_kwh),
+      }).font = { bold: true };
+    }
     sheet.getRow(1).font = { bold: true };
     const buffer = await book.xlsx.writeBuffer();
     res

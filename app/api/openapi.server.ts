@@ -52,7 +52,7 @@ export function openApiDocument() {
       title: "Joulebook API",
       version: "1.0.0",
       description:
-        "Meter gateways and signed-in tools call this API. Energy is signed by the IUPAC convention: what enters a site is positive. Figures are for energy management; billing third parties needs meters approved under local legal-metrology rules.",
+        "Meter gateways and signed-in tools call this API. Evaluated energy and stored hours are signed by the IUPAC convention: what enters a site is positive (chilled water negative). The ledger shows delivered (imports_kwh >= 0) and exported (exports_kwh <= 0) energy per carrier, chilled water as cooling delivered, never added across carriers. Figures are for energy management; billing third parties needs meters approved under local legal-metrology rules.",
     },
     servers: [{ url: "/api/v1" }],
     security: [{ gatewayKey: [] }, { session: [] }],

@@ -2,18 +2,19 @@
  * A site's monthly energy of one carrier for baselines, from the monthly
  * rollups of the meters on its boundary (parent_meter_id is null: sub-meters
  * are inside the boundary and already counted by their parent). Savings are
- * reckoned on what was imported, as a magnitude, so chilled water (negative
- * by the boundary convention) and heat both count as energy used; export
- * meters are listed apart and never offset the consumption.
+ * reckoned on the energy delivered, as the ledger shows it (chilled water is
+ * cooling delivered, positive: ~/ledger/delivered.ts); export meters are
+ * listed apart and never offset the consumption.
  */
 import { pool } from "~/db/client.server";
+import { deliveredSignSql } from "~/ledger/delivered";
 import type { Carrier } from "~/db/schema";
 import type { MonthlyEnergy } from "./analysis";
 
 export interface SiteMonthlyEnergy extends MonthlyEnergy {
-  /** Signed import total, as the ledger shows it, kWh. */
+  /** Delivered energy, as the ledger shows it, kWh (≥ 0). */
   importsKwh: number;
-  /** Signed export total, kWh (zero or negative). */
+  /** Exported energy, as the ledger shows it, kWh (zero or negative). */
   exportsKwh: number;
 }
 
@@ -33,9 +34,9 @@ export async function siteMonthlyEnergy(args: {
     import_meters: number;
   }>(
     `select to_char(r.month, 'YYYY-MM') as month,
-            coalesce(sum(r.energy_kwh) filter (where m.orientation = 'import'), 0)::text as imports_kwh,
-            coalesce(sum(r.energy_kwh) filter (where m.orientation = 'export'), 0)::text as exports_kwh,
-            coalesce(sum(r.estimated_kwh) filter (where m.orientation = 'import'), 0)::text as estimated_kwh,
+            coalesce(sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where m.orientation = 'import'), 0)::text as imports_kwh,
+            coalesce(sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where m.orientation = 'export'), 0)::text as exports_kwh,
+            coalesce(sum(${deliveredSignSql("m.carrier")} * r.estimated_kwh) filter (where m.orientation = 'import'), 0)::text as estimated_kwh,
             count(*) filter (where m.orientation = 'import')::int as import_meters
        from monthly_rollups r
        join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
@@ -52,8 +53,8 @@ export async function siteMonthlyEnergy(args: {
     .filter((r) => r.import_meters > 0)
     .map((r) => ({
       month: r.month,
-      kwh: Math.abs(Number(r.imports_kwh)),
-      estimatedKwh: Math.abs(Number(r.estimated_kwh)),
+      kwh: Number(r.imports_kwh),
+      estimatedKwh: Number(r.estimated_kwh),
       importsKwh: Number(r.imports_kwh),
       exportsKwh: Number(r.exports_kwh),
     }));

@@ -2,7 +2,8 @@
  * The site's Boundary: a dashed system boundary with its meters as arrows.
  * Imports point in from the left, exports leave to the right, sub-meters hang
  * inside the boundary under their parent. Each arrow carries the signed
- * energy of the last 30 days (into the site positive).
+ * energy of the last 30 days in the thermodynamic view (into the site
+ * positive), so chilled water on an import meter reads negative.
  */
 import { Link } from "react-router";
 
@@ -224,9 +225,11 @@ export function Boundary({
         })}
       </svg>
       <figcaption className="mt-2 text-sm text-ink-muted">
-        Arrows in are imports (+), arrows out are exports (−); sub-meters sit
-        inside the boundary under their parent. Figures: the last 30 days.
-        Faded: retired meters.
+        Thermodynamic view: arrows in are import meters, arrows out export
+        meters; figures are heat and work into the site (+) or out of it (−), so
+        a chilled-water import reads − (cooling delivered is heat leaving the
+        site). Sub-meters sit inside the boundary under their parent. Figures:
+        the last 30 days. Faded: retired meters.
       </figcaption>
     </figure>
   );

@@ -1,8 +1,10 @@
 /**
- * The site's energy balance for one month: a flow diagram from the boundary
- * meters through the site (drawn in the browser only, it measures the page),
- * and under it each parent meter against its sub-meters, with the residual
- * flagged beyond the tolerance.
+ * The site's energy balance for one month: the boundary per carrier as
+ * delivered and exported energy (the ledger's view), then a flow diagram in
+ * the thermodynamic view, labelled as such, from the boundary meters through
+ * the site (drawn in the browser only, it measures the page), and under it
+ * each parent meter against its sub-meters, with the residual flagged beyond
+ * the tolerance.
  */
 import { useMemo } from "react";
 import { Form, Link, useNavigate } from "react-router";
@@ -60,7 +62,7 @@ const tolerancePercent = `${(RESIDUAL_TOLERANCE * 100).toLocaleString("en-GB")} 
 
 function nodeValueLabel(node: BalanceNode): string {
   const value = formatKwh(node.signedKwh);
-  return node.kind === "site" ? `net ${value}` : value;
+  return node.kind === "site" ? `Q + W ${value}` : value;
 }
 
 /** A node with its name and signed energy beside it, outside the flows. */
@@ -295,7 +297,7 @@ export function SiteBalanceView({
           {balance.boundary.map((b) => (
             <li key={b.carrier}>
               <span className="font-semibold">{carrierLabels[b.carrier]}</span>:
-              imports {formatDecimal(b.importsKwh, 0)} kWh · exports{" "}
+              delivered {formatDecimal(b.importsKwh, 0)} kWh · exported{" "}
               {formatDecimal(b.exportsKwh, 0)} kWh · net{" "}
               <span className="font-semibold tabular-nums">
                 {formatDecimal(b.netKwh, 0)} kWh
@@ -316,11 +318,13 @@ export function SiteBalanceView({
             <div style={{ height: HEIGHT }} aria-hidden="true" />
           )}
           <figcaption className="mt-2 text-sm text-ink-muted">
-            {monthLabel(balance.month)}, from the monthly ledger. Widths are
-            magnitudes; labels keep the sign (into the site +, out of it −).
-            Imports enter through their meter; exports and chilled water leave
-            through theirs. A parent meter splits into its sub-meters and the
-            distribution loss.
+            <span className="font-semibold text-ink">Thermodynamic view.</span>{" "}
+            {monthLabel(balance.month)}, from the monthly ledger: heat and work
+            signed, into the site +, out of it −, and the site&apos;s net Q + W.
+            Widths are magnitudes; labels keep the sign. What enters comes in
+            through its meter; exports and chilled water leave through theirs
+            (cooling delivered is heat leaving the site). A parent meter splits
+            into its sub-meters and the distribution loss.
           </figcaption>
         </figure>
       )}

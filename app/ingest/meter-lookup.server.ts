@@ -15,6 +15,7 @@ export async function findMetersByCode(
       id: meters.id,
       code: meters.code,
       quantity: meters.quantity,
+      carrier: meters.carrier,
       orientation: meters.orientation,
       multiplier: meters.multiplier,
       rolloverKwh: meters.rolloverKwh,

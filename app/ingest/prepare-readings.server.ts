@@ -54,11 +54,20 @@ export function hashPayload(payload: unknown): string {
   return hash("sha256", canonicalJson(payload));
 }
 
-/** Export meters measure what leaves the site: the sign flips (design.md). */
-export function orientationSign(
-  meter: Pick<IngestMeter, "orientation">,
+/**
+ * The sign that turns what a meter measures into energy into the site
+ * (design.md). Export meters measure what leaves the site: the sign flips.
+ * A cooling meter's register counts the cooling it delivered, a magnitude,
+ * while that cooling is heat leaving the site: its hours are negative, as
+ * chilled water measured by flow and return comes out by itself.
+ */
+export function siteSign(
+  meter: Pick<IngestMeter, "orientation" | "carrier" | "quantity">,
 ): 1 | -1 {
-  return meter.orientation === "export" ? -1 : 1;
+  const orientation = meter.orientation === "export" ? -1 : 1;
+  const registersCoolingDelivered =
+    meter.carrier === "cooling" && meter.quantity === "heat_register";
+  return registersCoolingDelivered ? (-orientation as 1 | -1) : orientation;
 }
 
 /**
@@ -136,7 +145,7 @@ function prepareOne(
   }
   const result = evaluateItem(withMeterDefaults(reading.item, meter));
   if (!result.ok) return { index, meter: meter.code, reason: result.error };
-  const signed = result.energy_kwh * orientationSign(meter);
+  const signed = result.energy_kwh * siteSign(meter);
   const mpePercent = result.details.en1434_mpe_percent;
   return {
     index,

@@ -6,7 +6,7 @@
 import type { PoolClient } from "pg";
 import type { RollupDelta } from "~/ledger/refresh-rollups.server";
 import { splitAcrossHours, floorToHour, HOUR_MS } from "./hours";
-import type { PreparedReading } from "./prepare-readings.server";
+import { siteSign, type PreparedReading } from "./prepare-readings.server";
 import { registerDeltas } from "./register-series";
 import { writeIntervals } from "./write-intervals.server";
 
@@ -94,7 +94,7 @@ function hoursFromDeltas(
   from: Date,
   to: Date,
 ): Map<number, RegisterHour> {
-  const sign = meter.orientation === "export" ? -1 : 1;
+  const sign = siteSign(meter);
   const hours = new Map<number, RegisterHour>();
   for (const d of deltas) {
     const spread = d.to.getTime() - d.from.getTime() > HOUR_MS;

@@ -171,10 +171,9 @@ describe("balanceDiagram", () => {
     ]);
     // The loss stays inside the boundary: it reaches the site node like the sub-meters.
     expect(flowsAt(diagram, diagram.site).into).toBeCloseTo(1000, 9);
-    expect(flowsAt(diagram, named(diagram, "Imports (Heat)")).out).toBeCloseTo(
-      1000,
-      9,
-    );
+    expect(
+      flowsAt(diagram, named(diagram, "Into the site (Heat)")).out,
+    ).toBeCloseTo(1000, 9);
   });
 
   it("sub-meters exceeding their parent are flagged, not drawn as a negative loss", () => {
@@ -209,7 +208,7 @@ describe("balanceDiagram", () => {
     const cw = named(diagram, "CW ·");
     const cw1 = named(diagram, "CW1");
     const loss = named(diagram, "Distribution loss (Cooling)");
-    expect(named(diagram, "Imports (Cooling)")).toBe(-1);
+    expect(named(diagram, "Into the site (Cooling)")).toBe(-1);
     // Out of the site into the sub-meters and the loss, on to the parent, out of the boundary.
     const link = (s: number, t: number) =>
       diagram.links.find((l) => l.source === s && l.target === t);

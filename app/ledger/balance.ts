@@ -1,14 +1,17 @@
 /**
  * The site energy balance of one month, as a flow diagram (pure; no database).
  *
- * Sign convention (design.md): energy into the site is positive, energy out
- * of it negative; every figure arrives signed from the monthly rollups, as a
- * decimal string. A flow diagram needs positive widths, so links carry
- * magnitudes and keep the sign in `signedKwh` and in the labels.
+ * The thermodynamic view (design.md): heat and work into the site are
+ * positive, out of it negative; every meter's figure arrives signed from the
+ * monthly rollups, as a decimal string. A flow diagram needs positive
+ * widths, so links carry magnitudes and keep the sign in `signedKwh` and in
+ * the labels. (The per-carrier `boundary` figures are the other view,
+ * delivered and exported energy, as the ledger shows them: delivered.ts.)
  *
- * - Imports flow from "Imports (<carrier>)" through their boundary meter into
- *   the site node; exports (and chilled water, a negative import) flow out of
- *   the site node to their meter. Σ into the site − Σ out of it = the net.
+ * - What enters flows from "Into the site (<carrier>)" through its boundary
+ *   meter into the site node; exports (and chilled water, cooling delivered
+ *   as heat leaving the site) flow out of the site node to their meter.
+ *   Σ into the site − Σ out of it = the net, Q + W.
  * - A parent meter splits into its sub-meters plus a "Distribution loss" node
  *   for the residual, parent − Σ sub-meters, when that residual is a loss
  *   (positive in the parent's direction). Sub-meters that add up to more than
@@ -57,7 +60,11 @@ export interface ParentBalance {
   flag: ResidualFlag;
 }
 
-/** Boundary meters only (no parent): what crosses the site's boundary. */
+/**
+ * Boundary meters only (no parent): what crosses the site's boundary, as
+ * delivered (≥ 0) and exported (≤ 0) energy of the carrier, the ledger's
+ * view: chilled water is cooling delivered, positive.
+ */
 export interface CarrierBoundary {
   carrier: Carrier;
   importsKwh: string;
@@ -71,7 +78,11 @@ export interface SiteBalance {
   meters: BalanceMeter[];
   parents: ParentBalance[];
   boundary: CarrierBoundary[];
-  /** Net of all boundary meters, all carriers, kWh (decimal string). */
+  /**
+   * The thermodynamic net, Q + W into the site over every boundary meter,
+   * kWh (decimal string): the only figure that adds carriers, as the first
+   * law does.
+   */
   netKwh: string;
 }
 
@@ -344,7 +355,7 @@ export function balanceDiagram(
     const direction = kwh > 0 ? 1 : -1;
     if (direction > 0) {
       const imports = node(`imports:${root.carrier}`, () => ({
-        name: `Imports (${carrierLabels[root.carrier]})`,
+        name: `Into the site (${carrierLabels[root.carrier]})`,
         kind: "imports",
         carrier: root.carrier,
         signedKwh: 0,

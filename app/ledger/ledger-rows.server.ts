@@ -1,4 +1,5 @@
 import { pool } from "~/db/client.server";
+import { deliveredSignSql } from "./delivered";
 
 export interface LedgerQuery {
   organizationId: string;
@@ -9,6 +10,11 @@ export interface LedgerQuery {
   carrier?: string | null;
 }
 
+/**
+ * One site × month × carrier. Energies are delivered and exported energy of
+ * the carrier (delivered.ts): `imports_kwh` ≥ 0, `exports_kwh` ≤ 0, `net_kwh`
+ * their sum; chilled water is cooling delivered, a positive figure.
+ */
 export interface LedgerRow {
   site_id: string;
   site_name: string;
@@ -26,18 +32,30 @@ export interface LedgerRow {
   adjustment_count: number;
 }
 
+/** One carrier's sums over every row: unlike carriers are never added. */
+export interface CarrierTotal {
+  carrier: string;
+  imports_kwh: string;
+  exports_kwh: string;
+  net_kwh: string;
+}
+
 export interface Ledger {
   from: string;
   to: string;
   rows: LedgerRow[];
-  totals: { imports_kwh: string; exports_kwh: string; net_kwh: string };
+  /** One per carrier in the rows, in carrier order. */
+  totals: CarrierTotal[];
 }
 
 /**
  * Sites × months × carriers from the monthly rollups (never from intervals).
  * Sub-meters are inside the boundary, so only boundary meters are summed. A
  * closed month shows the figures as closed; what changed since is shown
- * beside them as adjusting entries. All sums are PostgreSQL numeric.
+ * beside them as adjusting entries. The rollups hold signed energy (into the
+ * site +); each meter's is turned by its carrier's delivered sign before it
+ * is summed, so a cooling import meter's negative heat flow becomes cooling
+ * delivered. All sums are PostgreSQL numeric.
  */
 export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
   const { rows } = await pool.query<{ ledger: Ledger }>(
@@ -49,6 +67,7 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
         group by site_id, month
      ), base as (
        select s.id as site_id, s.name as site_name, s.floor_area_m2, r.month, m.carrier, m.orientation,
+              ${deliveredSignSql("m.carrier")} as sign,
               r.meter_id, r.energy_kwh, r.estimated_kwh, r.uncertainty_kwh,
               least(cs.closed_at, co.closed_at) as closed_at
          from monthly_rollups r
@@ -70,17 +89,21 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
         group by b.meter_id, b.month
      ), ledger as (
        select b.site_id, b.site_name, b.floor_area_m2, b.month, b.carrier,
-              coalesce(sum(b.energy_kwh - coalesce(a.delta, 0)) filter (where b.orientation = 'import'), 0) as imports_kwh,
-              coalesce(sum(b.energy_kwh - coalesce(a.delta, 0)) filter (where b.orientation = 'export'), 0) as exports_kwh,
-              sum(b.energy_kwh - coalesce(a.delta, 0)) as net_kwh,
-              sum(b.estimated_kwh) as estimated_kwh,
+              coalesce(sum(b.sign * (b.energy_kwh - coalesce(a.delta, 0))) filter (where b.orientation = 'import'), 0) as imports_kwh,
+              coalesce(sum(b.sign * (b.energy_kwh - coalesce(a.delta, 0))) filter (where b.orientation = 'export'), 0) as exports_kwh,
+              sum(b.sign * (b.energy_kwh - coalesce(a.delta, 0))) as net_kwh,
+              sum(b.sign * b.estimated_kwh) as estimated_kwh,
               sum(b.uncertainty_kwh) as uncertainty_kwh,
               coalesce(sum(abs(b.estimated_kwh)) / nullif(sum(abs(b.energy_kwh)), 0), 0) as estimated_share,
               bool_or(b.closed_at is not null) as closed,
-              coalesce(sum(a.delta), 0) as adjustments_kwh,
+              coalesce(sum(b.sign * a.delta), 0) as adjustments_kwh,
               coalesce(sum(a.n), 0) as adjustment_count
          from base b left join adj a on a.meter_id = b.meter_id and a.month = b.month
         group by b.site_id, b.site_name, b.floor_area_m2, b.month, b.carrier
+     ), totals as (
+       select carrier, sum(imports_kwh) as imports_kwh, sum(exports_kwh) as exports_kwh,
+              sum(net_kwh) as net_kwh
+         from ledger group by carrier
      )
      select json_build_object(
        'from', $2::text, 'to', $3::text,
@@ -94,10 +117,10 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
            'status', case when closed then 'closed' else 'open' end,
            'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int)
          order by site_name, month, carrier), '[]'::json),
-       'totals', json_build_object(
-         'imports_kwh', coalesce(sum(imports_kwh), 0)::text,
-         'exports_kwh', coalesce(sum(exports_kwh), 0)::text,
-         'net_kwh', coalesce(sum(net_kwh), 0)::text)) as ledger
+       'totals', (select coalesce(json_agg(json_build_object(
+           'carrier', carrier, 'imports_kwh', imports_kwh::text,
+           'exports_kwh', exports_kwh::text, 'net_kwh', net_kwh::text)
+         order by carrier), '[]'::json) from totals)) as ledger
        from ledger`,
     [
       query.organizationId,

@@ -9,6 +9,7 @@ import {
 
 export { MONTH_PATTERN } from "~/lib/months";
 import { MONTH_PATTERN } from "~/lib/months";
+import { deliveredSignSql } from "./delivered";
 
 /**
  * One site's energy balance for one site-local month, from the monthly
@@ -16,9 +17,11 @@ import { MONTH_PATTERN } from "~/lib/months";
  * per parent meter the sum of its direct sub-meters and the residual
  * (parent − Σ sub-meters, the distribution loss) with its share of the
  * parent, and the boundary totals per carrier (boundary meters only: no
- * parent). The figures are the rollups as they stand, corrections after a
- * month close included. Sums are PostgreSQL numeric and come back as decimal
- * strings.
+ * parent). Meters, parents and the site's net are the thermodynamic view
+ * (into the site +); the boundary totals per carrier are delivered and
+ * exported energy, as the ledger shows them (delivered.ts). The figures are
+ * the rollups as they stand, corrections after a month close included. Sums
+ * are PostgreSQL numeric and come back as decimal strings.
  */
 export async function siteBalance({
   organizationId,
@@ -58,9 +61,10 @@ export async function siteBalance({
         group by p.id, p.code, p.name, p.carrier, p.energy_kwh
      ), boundary as (
        select carrier,
-              coalesce(sum(energy_kwh) filter (where orientation = 'import'), 0) as imports_kwh,
-              coalesce(sum(energy_kwh) filter (where orientation = 'export'), 0) as exports_kwh,
-              sum(energy_kwh) as net_kwh
+              coalesce(sum(${deliveredSignSql("carrier")} * energy_kwh) filter (where orientation = 'import'), 0) as imports_kwh,
+              coalesce(sum(${deliveredSignSql("carrier")} * energy_kwh) filter (where orientation = 'export'), 0) as exports_kwh,
+              sum(${deliveredSignSql("carrier")} * energy_kwh) as net_kwh,
+              sum(energy_kwh) as into_site_kwh
          from present where parent_meter_id is null
         group by carrier
      )
@@ -82,7 +86,7 @@ export async function siteBalance({
            'carrier', carrier, 'importsKwh', imports_kwh::text,
            'exportsKwh', exports_kwh::text, 'netKwh', net_kwh::text)
            order by carrier) from boundary), '[]'::json),
-       'netKwh', (select coalesce(sum(net_kwh), 0)::text from boundary)) as balance`,
+       'netKwh', (select coalesce(sum(into_site_kwh), 0)::text from boundary)) as balance`,
     [organizationId, siteId, month],
   );
   const balance = rows[0].balance;

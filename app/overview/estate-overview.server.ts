@@ -2,12 +2,16 @@ import { listBaselines, siteMonths } from "~/baselines/baselines.server";
 import { avoidedEnergy, predict } from "~/baselines/regression";
 import { pool } from "~/db/client.server";
 import type { Carrier } from "~/db/schema";
+import { deliveredSignSql } from "~/ledger/delivered";
 
+/** One site and carrier: its energy delivered in a month against a year before. */
 export interface SiteDrift {
   site_id: string;
   site_name: string;
+  carrier: Carrier;
   month: string;
-  net_kwh: number;
+  /** Delivered energy of the carrier (≥ 0 for consistent data), kWh. */
+  delivered_kwh: number;
   previous_year_kwh: number | null;
   change: number | null;
 }
@@ -22,8 +26,11 @@ export interface SilentMeter {
 }
 
 /**
- * Each site's latest full month against the same month a year before, from
- * the rollups (boundary meters, all carriers). The biggest changes first.
+ * Each site's energy delivered per carrier in its latest full month, against
+ * the same month a year before, from the rollups of its boundary import
+ * meters (delivered.ts: chilled water is cooling delivered, positive).
+ * Carriers are compared each on their own, never added. The biggest changes
+ * first.
  */
 export async function siteDrift(
   organizationId: string,
@@ -32,38 +39,55 @@ export async function siteDrift(
   const { rows } = await pool.query<{
     site_id: string;
     site_name: string;
-    net: string | null;
+    carrier: Carrier;
+    delivered: string | null;
     previous: string | null;
   }>(
-    `select s.id as site_id, s.name as site_name,
-            sum(r.energy_kwh) filter (where r.month = to_date($2, 'YYYY-MM'))::text as net,
-            sum(r.energy_kwh) filter (where r.month = to_date($2, 'YYYY-MM') - interval '1 year')::text as previous
+    `select s.id as site_id, s.name as site_name, m.carrier::text as carrier,
+            sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where r.month = to_date($2, 'YYYY-MM'))::text as delivered,
+            sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where r.month = to_date($2, 'YYYY-MM') - interval '1 year')::text as previous
        from sites s
-       left join meters m on m.organization_id = s.organization_id and m.site_id = s.id and m.parent_meter_id is null
-       left join monthly_rollups r on r.organization_id = m.organization_id and r.meter_id = m.id
+       join meters m on m.organization_id = s.organization_id and m.site_id = s.id
+        and m.parent_meter_id is null and m.orientation = 'import'
+       join monthly_rollups r on r.organization_id = m.organization_id and r.meter_id = m.id
         and r.month in (to_date($2, 'YYYY-MM'), (to_date($2, 'YYYY-MM') - interval '1 year')::date)
       where s.organization_id = $1 and s.archived_at is null
-      group by s.id, s.name`,
+      group by s.id, s.name, m.carrier`,
     [organizationId, month],
   );
   return rows
     .map((r) => {
-      const net = Number(r.net ?? 0);
+      const delivered = Number(r.delivered ?? 0);
       const previous = r.previous === null ? null : Number(r.previous);
       const change =
         previous && previous !== 0
-          ? (net - previous) / Math.abs(previous)
+          ? (delivered - previous) / Math.abs(previous)
           : null;
       return {
         site_id: r.site_id,
         site_name: r.site_name,
+        carrier: r.carrier,
         month,
-        net_kwh: net,
+        delivered_kwh: delivered,
         previous_year_kwh: previous,
         change,
       };
     })
-    .sort((a, b) => Math.abs(b.change ?? 0) - Math.abs(a.change ?? 0));
+    .sort(
+      (a, b) =>
+        Math.abs(b.change ?? 0) - Math.abs(a.change ?? 0) ||
+        a.site_name.localeCompare(b.site_name) ||
+        a.carrier.localeCompare(b.carrier),
+    );
+}
+
+/** The organisation's sites in use (not archived). */
+export async function activeSiteCount(organizationId: string): Promise<number> {
+  const { rows } = await pool.query<{ n: number }>(
+    "select count(*)::int as n from sites where organization_id = $1 and archived_at is null",
+    [organizationId],
+  );
+  return rows[0].n;
 }
 
 /** Meters (still installed) whose newest measured hour is older than `hours`. */
@@ -118,18 +142,34 @@ export async function completeness(
   };
 }
 
-/** Net energy per month and carrier over the estate, for the overview chart. */
+/** One month and carrier over the estate, for the overview chart. */
+export interface CarrierMonth {
+  month: string;
+  carrier: Carrier;
+  /** Delivered energy, kWh (≥ 0): cooling delivered for chilled water. */
+  delivered_kwh: number;
+  /** Exported energy, kWh (≤ 0). */
+  exported_kwh: number;
+}
+
+/**
+ * Delivered and exported energy per month and carrier over the estate's
+ * boundary meters, each carrier on its own (delivered.ts).
+ */
 export async function monthlyByCarrier(
   organizationId: string,
   from: string,
   to: string,
-) {
+): Promise<CarrierMonth[]> {
   const { rows } = await pool.query<{
     month: string;
-    carrier: string;
-    net: string;
+    carrier: Carrier;
+    delivered: string;
+    exported: string;
   }>(
-    `select to_char(r.month, 'YYYY-MM') as month, m.carrier::text as carrier, sum(r.energy_kwh)::text as net
+    `select to_char(r.month, 'YYYY-MM') as month, m.carrier::text as carrier,
+            coalesce(sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where m.orientation = 'import'), 0)::text as delivered,
+            coalesce(sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where m.orientation = 'export'), 0)::text as exported
        from monthly_rollups r join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
       where r.organization_id = $1 and m.parent_meter_id is null
         and r.month between to_date($2, 'YYYY-MM') and to_date($3, 'YYYY-MM')
@@ -139,7 +179,8 @@ export async function monthlyByCarrier(
   return rows.map((r) => ({
     month: r.month,
     carrier: r.carrier,
-    net_kwh: Number(r.net),
+    delivered_kwh: Number(r.delivered),
+    exported_kwh: Number(r.exported),
   }));
 }
 

@@ -6,7 +6,11 @@
  * residuals, the saved baselines and weather, the adjusting entries and the
  * hour counts behind the data-quality summary. The PDF modules draw it.
  */
-import { ledgerRows, type LedgerRow } from "~/ledger/ledger-rows.server";
+import {
+  ledgerRows,
+  type CarrierTotal,
+  type LedgerRow,
+} from "~/ledger/ledger-rows.server";
 import type { ReportPeriod } from "./periods";
 import { periodAdjustments } from "./data/adjustments.server";
 import { compareWithBaseline } from "./data/baseline-comparison";
@@ -19,7 +23,6 @@ import {
   carrierTotals,
   monthStatuses,
   toEntry,
-  totalOf,
 } from "./data/ledger-tables";
 import { meterPeriodEnergy } from "./data/meter-energy.server";
 import { methodFacts } from "./data/method-facts";
@@ -64,7 +67,7 @@ function siteReport(args: {
     const actual = new Map(
       entries
         .filter((e) => e.carrier === baseline.carrier)
-        .map((e) => [e.month, Math.abs(Number(e.importsKwh))]),
+        .map((e) => [e.month, Number(e.importsKwh)]),
     );
     return compareWithBaseline({
       baseline,
@@ -77,10 +80,27 @@ function siteReport(args: {
   return {
     ...site,
     tables,
-    total: totalOf(entries),
     baselines,
     balance: siteBalanceOf(tables, args.meters),
   };
+}
+
+/** Each carrier's energy totals as the ledger itself gives them: the same digits. */
+function withLedgerTotals(
+  totals: ReportData["carrierTotals"],
+  ledger: readonly CarrierTotal[],
+): ReportData["carrierTotals"] {
+  return totals.map((t) => {
+    const own = ledger.find((l) => l.carrier === t.carrier);
+    return own
+      ? {
+          ...t,
+          importsKwh: own.imports_kwh,
+          exportsKwh: own.exports_kwh,
+          netKwh: own.net_kwh,
+        }
+      : t;
+  });
 }
 
 /** The zone of the site(s) reported on; UTC when the sites differ. */
@@ -141,12 +161,10 @@ export async function loadReportData(
     months: statuses,
     closedMonths,
     allMonthsClosed: closedMonths === statuses.length,
-    totals: {
-      importsKwh: ledger.totals.imports_kwh,
-      exportsKwh: ledger.totals.exports_kwh,
-      netKwh: ledger.totals.net_kwh,
-    },
-    carrierTotals: carrierTotals(ledger.rows.map(toEntry)),
+    carrierTotals: withLedgerTotals(
+      carrierTotals(ledger.rows.map(toEntry)),
+      ledger.totals,
+    ),
     sites: listed.map((site) =>
       siteReport({
         site,

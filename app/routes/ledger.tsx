@@ -432,8 +432,11 @@ export default function LedgerPage({
       />
       <div className="flex flex-col gap-6">
         <p>
-          Signed by the IUPAC convention: energy entering a site is positive,
-          energy leaving it negative.
+          Delivered energy is positive and exported energy negative, for each
+          carrier; chilled water shows as cooling delivered. Carriers are never
+          added together, so each has its own total. The signed thermodynamic
+          view (heat and work into the site positive) is on each site&apos;s
+          energy balance.
         </p>
         <Card aria-labelledby="filters-heading">
           <h2 id="filters-heading" className="sr-only">
@@ -545,10 +548,11 @@ export default function LedgerPage({
               permissible error (EN 1434), where it applies. Adjustments:
               corrections entered after the month was closed, with their count.
               {perM2
-                ? " Per m²: each site's figures divided by its floor area; the total by the floor area of all sites listed."
+                ? " Per m²: each site's figures divided by its floor area; a carrier's total by the floor area of the sites listed with it."
                 : ""}{" "}
-              The total row adds the uncertainty bands, a bound that holds even
-              when meter errors are correlated.
+              One total row per carrier (carriers are never added together);
+              each adds its uncertainty bands, a bound that holds even when
+              meter errors are correlated.
             </Legend>
           </Card>
         ) : null}

@@ -4,7 +4,6 @@ import { useHydrated } from "~/lib/use-hydrated";
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import { requireMembership } from "~/auth/membership.server";
-import { formatKwh } from "~/components/boundary";
 import { Cautions } from "~/components/cautions";
 import { CarrierChart } from "~/components/overview/carrier-chart";
 import {
@@ -23,6 +22,7 @@ import {
 import { parseForm } from "~/lib/forms";
 import { carrierLabels } from "~/sites/meter-schema";
 import {
+  activeSiteCount,
   againstBaseline,
   completeness,
   monthlyByCarrier,
@@ -60,8 +60,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const firstOfChart = new Date(
     Date.UTC(lastFull.getUTCFullYear(), lastFull.getUTCMonth() - 11, 1),
   );
-  const [drift, silentList, complete, byCarrier, baselines] = await Promise.all(
-    [
+  const [siteCount, drift, silentList, complete, byCarrier, baselines] =
+    await Promise.all([
+      activeSiteCount(organization.id),
       siteDrift(organization.id, monthKey(lastFull)),
       silentMeters(organization.id, silent, now),
       completeness(organization.id, 30, now),
@@ -71,12 +72,12 @@ export async function loader({ request, params }: Route.LoaderArgs) {
         monthKey(lastFull),
       ),
       againstBaseline(organization.id, monthKey(lastFull)),
-    ],
-  );
+    ]);
   const alerts = await alertPreferences(organization.id, user.id, role);
   return {
     organization,
     month: monthKey(lastFull),
+    siteCount,
     drift,
     silentList,
     silent,
@@ -301,6 +302,7 @@ export default function Overview({
   const {
     organization,
     month,
+    siteCount,
     drift,
     silentList,
     silent,
@@ -313,7 +315,7 @@ export default function Overview({
   const mounted = useHydrated();
   const base = `/o/${organization.id}`;
   const stats = [
-    ["Sites", String(drift.length)],
+    ["Sites", String(siteCount)],
     [
       "Measured, last 30 days",
       `${(complete.measuredShare * 100).toFixed(1)} %`,
@@ -328,7 +330,7 @@ export default function Overview({
     <>
       <PageHeader
         title="Overview"
-        description={`${organization.name} at a glance. Signed: energy entering a site is positive.`}
+        description={`${organization.name} at a glance. Energy delivered to the sites is positive, energy exported negative, each carrier on its own; chilled water counts as cooling delivered.`}
       />
       <div className="flex flex-col gap-6">
         <dl className="grid grid-cols-2 gap-4 lg:grid-cols-4">
@@ -344,8 +346,12 @@ export default function Overview({
         </dl>
         <Card aria-labelledby="carrier-heading">
           <h2 id="carrier-heading" className="text-lg">
-            Net energy per month
+            Energy delivered and exported per month
           </h2>
+          <p className="text-sm text-ink-muted">
+            Boundary meters, by carrier: delivered above zero, exported below
+            it. Carriers are shown side by side, never added together.
+          </p>
           {byCarrier.length === 0 ? (
             <div className="mt-3">
               <EmptyState title="No monthly figures yet">
@@ -364,20 +370,28 @@ export default function Overview({
               Sites that changed most
             </h2>
             <p className="text-sm text-ink-muted">
-              {month} against the same month a year before, all carriers,
-              boundary meters.
+              Energy delivered in {month} against the same month a year before,
+              per carrier (boundary import meters; chilled water as cooling
+              delivered).
             </p>
             <table className="mt-3 w-full text-left">
               <thead className="text-sm text-ink-muted">
                 <tr>
                   <th className="py-1 font-semibold">Site</th>
-                  <th className="py-1 text-right font-semibold">{month}</th>
+                  <th className="py-1 font-semibold">Carrier</th>
+                  <th className="py-1 text-right font-semibold">
+                    Delivered, {month}
+                  </th>
                   <th className="py-1 text-right font-semibold">Change</th>
                 </tr>
               </thead>
               <tbody className="divide-y divide-line">
                 {drift.map((d) => (
-                  <tr key={d.site_id}>
+                  <tr
+                    key={`${d.site_id}|${d.carrier}`}
+                    data-site={d.site_id}
+                    data-carrier={d.carrier}
+                  >
                     <td className="py-2">
                       <Link
                         className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
@@ -386,8 +400,9 @@ export default function Overview({
                         {d.site_name}
                       </Link>
                     </td>
+                    <td className="py-2">{carrierLabels[d.carrier]}</td>
                     <td className="py-2 text-right tabular-nums">
-                      {formatKwh(d.net_kwh)}
+                      {kwh(d.delivered_kwh)}
                     </td>
                     <td className="py-2 text-right tabular-nums">
                       <Badge

@@ -181,7 +181,7 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                     <th className="py-2 pr-3 font-semibold">Carrier</th>
                     <th className="py-2 pr-3 font-semibold">Orientation</th>
                     <th className="py-2 pr-3 text-right font-semibold">
-                      Last 30 days
+                      Last 30 days, into the site +
                     </th>
                     <th className="py-2 font-semibold">
                       <span className="sr-only">Links</span>

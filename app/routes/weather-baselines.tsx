@@ -990,7 +990,7 @@ export default function WeatherBaselines({
             ) : null}
             {!view.carrier ? (
               <EmptyState title="No import meters on this site's boundary">
-                Baselines are fitted on what a site imports.
+                Baselines are fitted on the energy delivered to a site.
               </EmptyState>
             ) : null}
             {analysis ? (

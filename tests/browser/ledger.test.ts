@@ -4,7 +4,7 @@ import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
 import { launchBrowser, signInPage } from "../support/browser";
 import { db, pool, schema } from "../support/db";
-import { createMeteredOrg } from "../support/metered-org";
+import { addCoolingMeter, createMeteredOrg } from "../support/metered-org";
 
 const baseUrl = inject("baseUrl");
 let browser: Browser;
@@ -19,14 +19,26 @@ afterAll(async () => {
 });
 
 describe("the Ledger page", () => {
-  it("shows the database's totals, exports CSV and closes a month", async () => {
+  it("shows the database's totals per carrier, cooling delivered positive, exports CSV and closes a month", async () => {
     const org = await createMeteredOrg({ roles: ["energy_manager"] });
-    const reads = [0, 1, 2, 3, 4].map((h) => ({
-      meter: org.meters.register.code,
-      quantity: "electric_register",
-      time: `2026-09-15T0${h}:00:00Z`,
-      register_kwh: 2000 + h * h * 10.25,
-    }));
+    const cooling = await addCoolingMeter(org);
+    const reads = [
+      ...[0, 1, 2, 3, 4].map((h) => ({
+        meter: org.meters.register.code,
+        quantity: "electric_register",
+        time: `2026-09-15T0${h}:00:00Z`,
+        register_kwh: 2000 + h * h * 10.25,
+      })),
+      {
+        meter: cooling.code,
+        quantity: "water_heat",
+        start: "2026-09-15T12:00:00Z",
+        end: "2026-09-15T13:00:00Z",
+        volume_m3: 5,
+        flow_temp_c: 6,
+        return_temp_c: 12,
+      },
+    ];
     const posted = await fetch(`${baseUrl}/api/v1/readings`, {
       method: "POST",
       headers: {
@@ -36,11 +48,22 @@ describe("the Ledger page", () => {
       body: JSON.stringify({ readings: reads }),
     });
     expect(posted.status).toBe(200);
-    const { rows } = await pool.query<{ net: string }>(
-      "select sum(energy_kwh)::text as net from monthly_rollups where organization_id = $1",
-      [org.org.id],
-    );
-    const net = Number(rows[0].net); // 16 × 10.25 = 164 kWh
+    const rollup = async (meterId: string) => {
+      const { rows } = await pool.query<{ kwh: string }>(
+        "select sum(energy_kwh)::text as kwh from monthly_rollups where organization_id = $1 and meter_id = $2",
+        [org.org.id, meterId],
+      );
+      return Number(rows[0].kwh);
+    };
+    const net = await rollup(org.meters.register.id); // 16 × 10.25 = 164 kWh
+    // Stored as heat leaving the site (about −35 kWh); delivered as cooling.
+    const heatFlow = await rollup(cooling.id);
+    expect(heatFlow).toBeLessThan(0);
+    const oneDecimal = (kwh: number) =>
+      kwh.toLocaleString("en-GB", {
+        minimumFractionDigits: 1,
+        maximumFractionDigits: 1,
+      });
 
     const page = await signInPage(browser, baseUrl, org.org.members[0], {
       viewport: { width: 1366, height: 900 },
@@ -48,14 +71,18 @@ describe("the Ledger page", () => {
     await page.goto(
       `${baseUrl}/o/${org.org.id}/ledger?from=2026-09&to=2026-09`,
     );
-    const totalRow = page.locator('[row-id="total"]').first();
+    // One totals row per carrier, none over both.
+    const totalRow = page.locator('[row-id="total|electricity"]').first();
     await totalRow.getByText("Total").waitFor();
-    expect(await totalRow.textContent()).toContain(
-      net.toLocaleString("en-GB", {
-        minimumFractionDigits: 1,
-        maximumFractionDigits: 1,
-      }),
-    );
+    expect(await totalRow.textContent()).toContain(oneDecimal(net));
+    const coolingTotal = await page
+      .locator('[row-id="total|cooling"]')
+      .first()
+      .textContent();
+    expect(coolingTotal).toContain(oneDecimal(-heatFlow));
+    expect(coolingTotal).not.toContain("\u2212");
+    expect(await page.locator('[row-id="total"]').count()).toBe(0);
+    await page.getByText("Delivered (kWh)").first().waitFor();
 
     const [download] = await Promise.all([
       page.waitForEvent("download"),
@@ -64,8 +91,11 @@ describe("the Ledger page", () => {
     const csv = readFileSync((await download.path())!, "utf8")
       .trim()
       .split("\n");
-    expect(csv).toHaveLength(2);
-    expect(Number(csv[1].split(",")[5])).toBe(net);
+    expect(csv).toHaveLength(3);
+    const line = (carrier: string) =>
+      csv.find((l) => l.split(",")[2] === carrier)!.split(",");
+    expect(Number(line("electricity")[5])).toBe(net);
+    expect(Number(line("cooling")[3])).toBe(-heatFlow);
 
     await page.getByLabel("Month to close").fill("2026-09");
     await page.getByRole("button", { name: "Close month" }).click();

@@ -197,7 +197,8 @@ describe("demo estate months", () => {
       );
       expect(estimated[0].n).toBe(gapHours);
 
-      // The ledger API: per site, month and carrier, boundary meters only.
+      // The ledger API: per site, month and carrier, boundary meters only;
+      // delivered ≥ 0 and exported ≤ 0 for every carrier.
       const { rows: boundary } = await pool.query<{
         site_id: string;
         month: string;
@@ -209,12 +210,15 @@ describe("demo estate months", () => {
         `select s.id as site_id,
                 to_char(date_trunc('month', i.hour_start at time zone s.time_zone), 'YYYY-MM') as month,
                 m.carrier::text as carrier,
-                coalesce(sum(i.energy_kwh) filter (where m.orientation = 'import'), 0)::text as imports_kwh,
-                coalesce(sum(i.energy_kwh) filter (where m.orientation = 'export'), 0)::text as exports_kwh,
-                sum(i.energy_kwh)::text as net_kwh
+                coalesce(sum(d.kwh) filter (where m.orientation = 'import'), 0)::text as imports_kwh,
+                coalesce(sum(d.kwh) filter (where m.orientation = 'export'), 0)::text as exports_kwh,
+                sum(d.kwh)::text as net_kwh
            from intervals i
            join meters m on m.organization_id = i.organization_id and m.id = i.meter_id
            join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+           -- Delivered view: chilled water's heat flow is cooling delivered.
+           cross join lateral (select case when m.carrier = 'cooling' then -i.energy_kwh
+                                           else i.energy_kwh end as kwh) d
           where i.organization_id = $1 and m.parent_meter_id is null
           group by 1, 2, 3`,
         [org.id],
@@ -246,6 +250,10 @@ describe("demo estate months", () => {
       ];
       const byKey = (a: string[], b: string[]) => a[0].localeCompare(b[0]);
       expect(ledger.rows.every((r) => r.status === "open")).toBe(true);
+      for (const r of ledger.rows) {
+        expect(Number(r.imports_kwh), key(r)).toBeGreaterThanOrEqual(0);
+        expect(Number(r.exports_kwh), key(r)).toBeLessThanOrEqual(0);
+      }
       expect(ledger.rows.map(figures).sort(byKey)).toEqual(
         boundary.map(figures).sort(byKey),
       );

@@ -54,7 +54,12 @@ type LedgerAnswer = {
     adjustments_kwh: string;
     adjustment_count: number;
   }[];
-  totals: { imports_kwh: string; exports_kwh: string; net_kwh: string };
+  totals: {
+    carrier: string;
+    imports_kwh: string;
+    exports_kwh: string;
+    net_kwh: string;
+  }[];
 };
 
 async function member(org: MeteredOrg, index: number) {
@@ -128,11 +133,13 @@ describe("monthly ledger", () => {
       expect(Number(row.imports_kwh)).toBeGreaterThan(0);
       expect(Number(row.exports_kwh)).toBeLessThan(0);
     }
+    // One carrier here, so one total: its own rows' sum.
     const total = answer.rows.reduce((s, r) => s + Number(r.net_kwh), 0);
-    expect(Number(answer.totals.net_kwh)).toBeCloseTo(total, 6);
+    expect(answer.totals.map((t) => t.carrier)).toEqual(["electricity"]);
+    expect(Number(answer.totals[0].net_kwh)).toBeCloseTo(total, 6);
   });
 
-  it("chilled water is negative by itself; sub-meters are not added to the boundary", async () => {
+  it("chilled water is stored negative by itself and shows as cooling delivered; sub-meters are not added to the boundary", async () => {
     const org = await createMeteredOrg({ roles: ["auditor"] });
     const [chilled] = await db
       .insert(schema.meters)
@@ -180,9 +187,16 @@ describe("monthly ledger", () => {
       "2026-06",
     );
     const cooling = answer.rows.find((r) => r.carrier === "cooling")!;
-    // 5 m³ warmed by 6 K gives off about 5 × 1000 kg × 4.19 kJ/(kg·K) × 6 K ≈ 35 kWh (common practice), signed negative.
-    expect(Number(cooling.net_kwh)).toBeLessThan(-33);
-    expect(Number(cooling.net_kwh)).toBeGreaterThan(-36);
+    // 5 m³ warmed by 6 K takes up about 5 × 1000 kg × 4.19 kJ/(kg·K) × 6 K ≈ 35 kWh (common practice):
+    // stored as heat leaving the site, shown as cooling delivered.
+    const { rows: stored } = await pool.query<{ e: string }>(
+      "select sum(energy_kwh)::text as e from intervals where organization_id = $1 and meter_id = $2",
+      [org.org.id, chilled.id],
+    );
+    expect(Number(stored[0].e)).toBeLessThan(-33);
+    expect(Number(stored[0].e)).toBeGreaterThan(-36);
+    expect(Number(cooling.imports_kwh)).toBe(-Number(stored[0].e));
+    expect(cooling.net_kwh).toBe(cooling.imports_kwh);
     const electricity = answer.rows.find((r) => r.carrier === "electricity")!;
     const { rows } = await pool.query<{ e: string }>(
       "select sum(energy_kwh)::text as e from intervals where organization_id = $1 and meter_id = $2",

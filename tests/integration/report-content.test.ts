@@ -185,12 +185,15 @@ describe("report content", () => {
       authorName: owner.name,
       generatedAt: new Date(),
     });
-    // The report's totals are the ledger's, digit for digit.
-    expect(data.totals).toEqual({
-      importsKwh: ledger.totals.imports_kwh,
-      exportsKwh: ledger.totals.exports_kwh,
-      netKwh: ledger.totals.net_kwh,
-    });
+    // The report's totals are the ledger's, digit for digit, per carrier.
+    expect(
+      data.carrierTotals.map((t) => ({
+        carrier: t.carrier,
+        imports_kwh: t.importsKwh,
+        exports_kwh: t.exportsKwh,
+        net_kwh: t.netKwh,
+      })),
+    ).toEqual(ledger.totals);
     expect(data.months.map((m) => [m.month, m.closed])).toEqual([
       ["2025-01", true],
       ["2025-02", false],
@@ -241,11 +244,11 @@ describe("report content", () => {
     const flat = text.replace(/\s+/g, " ");
     expect(text).toContain(data.sites[0].name);
     expect(text).toContain(org.org.name);
-    for (const total of [
-      ledger.totals.imports_kwh,
-      ledger.totals.exports_kwh,
-      ledger.totals.net_kwh,
-    ])
+    for (const total of ledger.totals.flatMap((t) => [
+      t.imports_kwh,
+      t.exports_kwh,
+      t.net_kwh,
+    ]))
       expect(text).toContain(formatDecimal(total, 1));
     for (const row of ledger.rows)
       expect(text).toContain(formatDecimal(row.net_kwh, 1));

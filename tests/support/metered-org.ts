@@ -138,3 +138,31 @@ export async function createMeteredOrg(
     tag,
   };
 }
+
+/**
+ * Adds a chilled-water meter (water_heat, cooling, import; `C-<tag>` unless
+ * another code is given) on the org's site, sensor in the return pipe, 4 bar
+ * abs by default. Its readings come out negative from the physics (flow
+ * colder than return).
+ */
+export async function addCoolingMeter(
+  org: MeteredOrg,
+  code = `C-${org.tag}`,
+): Promise<MeterRef> {
+  const [meter] = await db
+    .insert(schema.meters)
+    .values({
+      organizationId: org.org.id,
+      siteId: org.siteId,
+      installedAt: METERS_INSTALLED_AT,
+      code,
+      name: `Chilled water ${code}`,
+      quantity: "water_heat",
+      carrier: "cooling",
+      orientation: "import",
+      sensorAt: "return",
+      defaultPressureBarAbs: "4",
+    })
+    .returning({ id: schema.meters.id, code: schema.meters.code });
+  return meter;
+}

@@ -116,49 +116,54 @@ function sortRows(rows: LedgerRow[]): GridRow[] {
 const abs = (value: string | null) => Math.abs(Number(value ?? 0)) || 0;
 
 /**
- * The totals row. Imports, exports and net come from the server; the rest is
- * summed here. The estimated share is, as in each entry, estimated energy over
- * the energy metered in and out; uncertainty bands are added, a bound that
- * holds even when the meters' errors are correlated; per m², the estate's
- * total is divided by the floor area of every site listed, or not at all when
- * one of them has none.
+ * The totals rows, one per carrier: unlike carriers are never added.
+ * Delivered, exported and net come from the server; the rest is summed here
+ * over the carrier's rows. The estimated share is, as in each entry,
+ * estimated energy over the energy metered in and out; uncertainty bands are
+ * added, a bound that holds even when the meters' errors are correlated; per
+ * m², the carrier's total is divided by the floor area of every site listed
+ * with it, or not at all when one of them has none.
  */
-function totalRow(ledger: Ledger): GridRow {
-  const { rows } = ledger;
-  const metered = rows.reduce(
-    (s, r) => s + abs(r.imports_kwh) + abs(r.exports_kwh),
-    0,
-  );
-  const estimated = rows.reduce((s, r) => s + abs(r.estimated_kwh), 0);
-  const bands = rows.filter((r) => r.uncertainty_kwh !== null);
-  const areas = new Map(rows.map((r) => [r.site_id, r.floor_area_m2]));
-  const floorArea = [...areas.values()].every((a) => a !== null && +a > 0)
-    ? [...areas.values()].reduce((s, a) => s + Number(a), 0)
-    : null;
-  return {
-    id: "total",
-    site_id: "",
-    site_name: "Total",
-    floor_area_m2: floorArea === null ? null : String(floorArea),
-    month: "",
-    carrier: null,
-    imports_kwh: ledger.totals.imports_kwh,
-    exports_kwh: ledger.totals.exports_kwh,
-    net_kwh: ledger.totals.net_kwh,
-    estimated_kwh: String(estimated),
-    estimated_share: metered > 0 ? estimated / metered : 0,
-    uncertainty_kwh: bands.length
-      ? String(bands.reduce((s, r) => s + abs(r.uncertainty_kwh), 0))
-      : null,
-    status: null,
-    adjustments_kwh: String(
-      rows.reduce((s, r) => s + (Number(r.adjustments_kwh) || 0), 0),
-    ),
-    adjustment_count: rows.reduce((s, r) => s + r.adjustment_count, 0),
-    firstOfSite: true,
-    firstOfMonth: true,
-    isTotal: true,
-  };
+function totalRows(ledger: Ledger): GridRow[] {
+  return [...ledger.totals]
+    .sort((a, b) => carrierOrder(a.carrier) - carrierOrder(b.carrier))
+    .map((total) => {
+      const rows = ledger.rows.filter((r) => r.carrier === total.carrier);
+      const metered = rows.reduce(
+        (s, r) => s + abs(r.imports_kwh) + abs(r.exports_kwh),
+        0,
+      );
+      const estimated = rows.reduce((s, r) => s + abs(r.estimated_kwh), 0);
+      const bands = rows.filter((r) => r.uncertainty_kwh !== null);
+      const areas = new Map(rows.map((r) => [r.site_id, r.floor_area_m2]));
+      const floorArea = [...areas.values()].every((a) => a !== null && +a > 0)
+        ? [...areas.values()].reduce((s, a) => s + Number(a), 0)
+        : null;
+      return {
+        id: `total|${total.carrier}`,
+        site_id: "",
+        site_name: "Total",
+        floor_area_m2: floorArea === null ? null : String(floorArea),
+        month: "",
+        carrier: total.carrier,
+        imports_kwh: total.imports_kwh,
+        exports_kwh: total.exports_kwh,
+        net_kwh: total.net_kwh,
+        estimated_kwh: String(estimated),
+        estimated_share: metered > 0 ? estimated / metered : 0,
+        uncertainty_kwh: bands.length
+          ? String(bands.reduce((s, r) => s + abs(r.uncertainty_kwh), 0))
+          : null,
+        status: null,
+        adjustments_kwh: String(
+          rows.reduce((s, r) => s + (Number(r.adjustments_kwh) || 0), 0),
+        ),
+        adjustment_count: rows.reduce((s, r) => s + r.adjustment_count, 0),
+        firstOfSite: true,
+        firstOfMonth: true,
+        isTotal: true,
+      };
+    });
 }
 
 function StatusCell({ value }: ICellRendererParams<GridRow>) {
@@ -211,7 +216,7 @@ export function LedgerGrid({
   perM2: boolean;
 }) {
   const rows = useMemo(() => sortRows(ledger.rows), [ledger]);
-  const totals = useMemo(() => [totalRow(ledger)], [ledger]);
+  const totals = useMemo(() => totalRows(ledger), [ledger]);
 
   const columns = useMemo<ColDef<GridRow>[]>(() => {
     const places = perM2 ? decimals[unit].perM2 : decimals[unit].total;
@@ -277,8 +282,8 @@ export function LedgerGrid({
         minWidth: 84,
         flex: 1,
       },
-      energyColumn("Imports", (r) => r.imports_kwh),
-      energyColumn("Exports", (r) => r.exports_kwh),
+      energyColumn("Delivered", (r) => r.imports_kwh),
+      energyColumn("Exported", (r) => r.exports_kwh),
       {
         ...energyColumn("Net", (r) => r.net_kwh),
         cellStyle: { fontWeight: 600 },

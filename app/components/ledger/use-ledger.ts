@@ -1,6 +1,10 @@
 import { useCallback, useEffect, useRef, useState } from "react";
 
-/** One monthly entry: a site, a month and a carrier; energies in kWh, signed. */
+/**
+ * One monthly entry: a site, a month and a carrier; energies in kWh,
+ * delivered (imports, ≥ 0) and exported (exports, ≤ 0) of that carrier.
+ * Chilled water is cooling delivered, a positive figure.
+ */
 export interface LedgerRow {
   site_id: string;
   site_name: string;
@@ -18,11 +22,19 @@ export interface LedgerRow {
   adjustment_count: number;
 }
 
+/** One carrier's totals: unlike carriers are never added together. */
+export interface CarrierTotal {
+  carrier: LedgerRow["carrier"];
+  imports_kwh: string;
+  exports_kwh: string;
+  net_kwh: string;
+}
+
 export interface Ledger {
   from: string;
   to: string;
   rows: LedgerRow[];
-  totals: { imports_kwh: string; exports_kwh: string; net_kwh: string };
+  totals: CarrierTotal[];
 }
 
 export interface LedgerFilters {

@@ -3,46 +3,85 @@ import {
   BarChart,
   CartesianGrid,
   Legend,
+  ReferenceLine,
   ResponsiveContainer,
   Tooltip,
   XAxis,
   YAxis,
 } from "recharts";
+import { carrierLabels, carriers } from "~/sites/meter-schema";
+
+type Carrier = (typeof carriers)[number];
 
 export interface CarrierMonth {
   month: string;
-  carrier: string;
-  net_kwh: number;
+  carrier: Carrier;
+  /** kWh delivered to the estate (≥ 0); chilled water is cooling delivered. */
+  delivered_kwh: number;
+  /** kWh exported (≤ 0). */
+  exported_kwh: number;
 }
 
-const colours: Record<string, string> = {
+const colours: Record<Carrier, string> = {
   heat: "#a9501f",
   cooling: "#255f9e",
   steam: "#6a4a9c",
   electricity: "#7a5d00",
 };
 
-/** Net energy per month, one bar per carrier, in MWh (signed: cooling below zero). */
+/**
+ * Delivered and exported energy per month in MWh: one column per carrier,
+ * delivered above zero and exported below it. Carriers stand side by side,
+ * never stacked on each other: unlike carriers are not added.
+ */
 export function CarrierChart({ data }: { data: CarrierMonth[] }) {
-  const carriers = [...new Set(data.map((d) => d.carrier))];
+  const present = new Set(data.map((d) => d.carrier));
+  const shown = carriers.filter((c) => present.has(c));
+  const exporting = new Set(
+    data.filter((d) => d.exported_kwh !== 0).map((d) => d.carrier),
+  );
   const months = [...new Set(data.map((d) => d.month))];
   const rows = months.map((month) => ({
     month,
     ...Object.fromEntries(
       data
         .filter((d) => d.month === month)
-        .map((d) => [d.carrier, d.net_kwh / 1000]),
+        .flatMap((d) => [
+          [`${d.carrier}:delivered`, d.delivered_kwh / 1000],
+          [`${d.carrier}:exported`, d.exported_kwh / 1000],
+        ]),
     ),
   }));
+  const series = shown.flatMap((c) => [
+    {
+      key: `${c}:delivered`,
+      carrier: c,
+      name: `${carrierLabels[c]} delivered`,
+      opacity: 1,
+    },
+    ...(exporting.has(c)
+      ? [
+          {
+            key: `${c}:exported`,
+            carrier: c,
+            name: `${carrierLabels[c]} exported`,
+            opacity: 0.45,
+          },
+        ]
+      : []),
+  ]);
   return (
     <div
       style={{ width: "100%", height: 300 }}
       role="img"
-      aria-label={`Net energy per month for ${carriers.join(", ")}`}
+      aria-label={`Energy delivered and exported per month, by carrier: ${shown
+        .map((c) => carrierLabels[c].toLowerCase())
+        .join(", ")}`}
     >
       <ResponsiveContainer>
         <BarChart
           data={rows}
+          stackOffset="sign"
           margin={{ top: 8, right: 16, bottom: 8, left: 8 }}
         >
           <CartesianGrid stroke="#dcd6ca" strokeDasharray="3 3" />
@@ -57,18 +96,22 @@ export function CarrierChart({ data }: { data: CarrierMonth[] }) {
               fill: "#4f5966",
             }}
           />
+          <ReferenceLine y={0} stroke="#4f5966" />
           <Tooltip
             formatter={(v) =>
               `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 1 })} MWh`
             }
           />
           <Legend />
-          {carriers.map((c) => (
+          {series.map((s) => (
             <Bar
-              key={c}
-              dataKey={c}
-              name={c}
-              fill={colours[c] ?? "#4f5966"}
+              key={s.key}
+              dataKey={s.key}
+              name={s.name}
+              // Delivered and exported of one carrier share a column.
+              stackId={s.carrier}
+              fill={colours[s.carrier]}
+              fillOpacity={s.opacity}
               isAnimationActive={false}
             />
           ))}

@@ -3,7 +3,13 @@ import {
   compareWithBaseline,
   type SavedBaselineRow,
 } from "./baseline-comparison";
-import { residuals, type MeterPeriodEnergy } from "./period-balance";
+import { sumDecimals } from "./decimal";
+import {
+  residuals,
+  siteBalanceOf,
+  type MeterPeriodEnergy,
+} from "./period-balance";
+import type { CarrierTable } from "./types";
 
 const meter = (over: Partial<MeterPeriodEnergy>): MeterPeriodEnergy => ({
   id: "p",
@@ -125,5 +131,44 @@ describe("a saved baseline against the report's months", () => {
     });
     // 28 × 20.5 = 574 K·d, above the 400 the model saw.
     expect(c.months[0]).toMatchObject({ dd: 574, extrapolated: true });
+  });
+});
+
+describe("the site balance of a period", () => {
+  const table = (
+    carrier: CarrierTable["carrier"],
+    importsKwh: string,
+    exportsKwh = "0",
+  ): CarrierTable => ({
+    carrier,
+    entries: [],
+    total: {
+      importsKwh,
+      exportsKwh,
+      netKwh: sumDecimals([importsKwh, exportsKwh]),
+      estimatedShare: 0,
+      uncertaintyKwh: null,
+      adjustmentsKwh: "0",
+      adjustmentCount: 0,
+    },
+  });
+
+  it("keeps the ledger's delivered figures per carrier; its net is Q + W, cooling delivered as heat out", () => {
+    const balance = siteBalanceOf(
+      [
+        table("electricity", "50.5", "-10.25"),
+        table("cooling", "40.125"),
+        table("heat", "100"),
+      ],
+      [],
+    );
+    expect(balance.carriers.map((c) => [c.carrier, c.importsKwh])).toEqual([
+      ["heat", "100"],
+      ["cooling", "40.125"],
+      ["electricity", "50.5"],
+    ]);
+    // 100 of heat in, 40.125 of heat out as cooling, 50.5 − 10.25 of work in.
+    expect(balance.netIntoSiteKwh).toBe("100.125");
+    expect(balance).not.toHaveProperty("importsKwh");
   });
 });

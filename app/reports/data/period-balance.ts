@@ -1,10 +1,13 @@
 /**
  * A site's energy balance over a report's period. The boundary figures per
  * carrier are the ledger's (the tables' totals), so the balance and the
- * tables agree; the sub-meter residuals compare each parent meter with its
- * direct sub-meters from the monthly rollups as they stand. Pure.
+ * tables agree; the net is the thermodynamic view of the same figures, heat
+ * and work into the site (cooling delivered is heat leaving it). The
+ * sub-meter residuals compare each parent meter with its direct sub-meters
+ * from the monthly rollups as they stand, signed as stored. Pure.
  */
 import { residualFlag } from "~/ledger/balance";
+import { deliveredSign } from "~/ledger/delivered";
 import { subtractDecimals, sumDecimals } from "./decimal";
 import { CARRIER_ORDER } from "./ledger-tables";
 import type {
@@ -75,9 +78,13 @@ export function siteBalanceOf(
     }));
   return {
     carriers,
-    importsKwh: sumDecimals(carriers.map((c) => c.importsKwh)),
-    exportsKwh: sumDecimals(carriers.map((c) => c.exportsKwh)),
-    netKwh: sumDecimals(carriers.map((c) => c.netKwh)),
+    netIntoSiteKwh: sumDecimals(
+      carriers.map((c) =>
+        deliveredSign(c.carrier) < 0
+          ? subtractDecimals("0", c.netKwh)
+          : c.netKwh,
+      ),
+    ),
     residuals: residuals(meters),
   };
 }

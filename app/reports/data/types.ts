@@ -2,8 +2,11 @@
  * Everything a report shows, as plain data: the loaders fill it from the
  * database (report-data.server.ts), the PDF modules only draw it. Energy
  * figures that the ledger shows stay decimal strings (kWh, PostgreSQL
- * numeric, signed: into the site positive) so the report prints exactly the
- * ledger's digits; derived model figures are numbers.
+ * numeric) so the report prints exactly the ledger's digits; derived model
+ * figures are numbers. Ledger figures are delivered (≥ 0) and exported (≤ 0)
+ * energy of one carrier (~/ledger/delivered.ts) and are never added across
+ * carriers; only the site's energy balance carries the signed thermodynamic
+ * view (into the site positive), and says so.
  */
 import type { ResidualFlag } from "~/ledger/balance";
 import type { ReportPeriod } from "../periods";
@@ -27,7 +30,9 @@ export interface MonthStatus {
 export interface LedgerEntry {
   month: string;
   carrier: Carrier;
+  /** Delivered, ≥ 0 (cooling delivered for chilled water). */
   importsKwh: string;
+  /** Exported, ≤ 0. */
   exportsKwh: string;
   netKwh: string;
   estimatedKwh: string;
@@ -126,6 +131,7 @@ export interface Residual {
   flag: ResidualFlag;
 }
 
+/** A carrier's boundary figures for the period: the ledger's, delivered view. */
 export interface CarrierBalance {
   carrier: Carrier;
   importsKwh: string;
@@ -135,9 +141,11 @@ export interface CarrierBalance {
 
 export interface SiteEnergyBalance {
   carriers: CarrierBalance[];
-  importsKwh: string;
-  exportsKwh: string;
-  netKwh: string;
+  /**
+   * The thermodynamic view: heat and work into the site, signed (+ in), over
+   * every carrier, Q + W. Cooling delivered counts as heat out (Q < 0).
+   */
+  netIntoSiteKwh: string;
   residuals: Residual[];
 }
 
@@ -149,7 +157,6 @@ export interface SiteReport {
   floorAreaM2: number | null;
   archived: boolean;
   tables: CarrierTable[];
-  total: EntryTotal;
   baselines: BaselineComparison[];
   balance: SiteEnergyBalance;
 }
@@ -238,8 +245,7 @@ export interface ReportData {
   months: MonthStatus[];
   closedMonths: number;
   allMonthsClosed: boolean;
-  /** The ledger's own totals for the period and scope. */
-  totals: { importsKwh: string; exportsKwh: string; netKwh: string };
+  /** Per carrier, the ledger's own totals for the period and scope. */
   carrierTotals: (EntryTotal & { carrier: Carrier })[];
   sites: SiteReport[];
   adjustments: AdjustmentEntry[];

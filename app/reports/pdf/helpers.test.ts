@@ -4,6 +4,8 @@ import { axisFor, energyScale, niceStep, tickLabel } from "./charts/scale";
 import { fontFile, runs, subsetOf, woffToSfnt } from "./fonts.server";
 import { band, factor, kwh, share, signedPercent } from "./format";
 import { tokens } from "./formula";
+import { flows } from "./sections/site-balance";
+import type { SiteReport } from "../data/types";
 
 describe("fonts", () => {
   it("sends each character to a subset that covers it", () => {
@@ -92,5 +94,42 @@ describe("formula markup", () => {
       },
     ]);
     expect(() => tokens("√{3")).toThrow(/Unbalanced/);
+  });
+});
+
+describe("the balance diagram's flows", () => {
+  it("puts cooling delivered on the way out (heat leaving the site) and closes with Q + W", () => {
+    const carrier = (
+      c: "heat" | "cooling" | "electricity",
+      i: string,
+      e = "0",
+    ) => ({
+      carrier: c,
+      importsKwh: i,
+      exportsKwh: e,
+      netKwh: i,
+    });
+    const { inflows, outflows } = flows({
+      balance: {
+        carriers: [
+          carrier("heat", "100"),
+          carrier("cooling", "40"),
+          carrier("electricity", "50", "-10"),
+        ],
+        netIntoSiteKwh: "100",
+        residuals: [],
+      },
+    } as unknown as SiteReport);
+    expect(inflows.map((f) => [f.label, f.kwh])).toEqual([
+      ["Heat delivered", 100],
+      ["Electricity delivered", 50],
+    ]);
+    expect(outflows.map((f) => [f.label, f.kwh, f.detail])).toEqual([
+      ["Cooling delivered (heat out)", 40, "−40.0 kWh"],
+      ["Electricity exported", 10, "−10.0 kWh"],
+      ["Used or lost within the site", 100, "+100.0 kWh"],
+    ]);
+    const sum = (fs: typeof inflows) => fs.reduce((s, f) => s + f.kwh, 0);
+    expect(sum(inflows)).toBe(sum(outflows));
   });
 });

@@ -1,6 +1,7 @@
 /**
  * Drawing without a database: a hand-made report with the awkward cases
- * (negative net, sub-meters over their parent, a baseline without weather,
+ * (cooling delivered beyond the heat, so a negative thermodynamic net;
+ * sub-meters over their parent, a baseline without weather,
  * a site without entries, long reasons, names outside Latin-1) and an empty
  * one must draw, paginate and end as a PDF.
  */
@@ -46,7 +47,8 @@ const total = (net: string) => ({
 function site(name: string, withData: boolean): SiteReport {
   const months = ["2025-01", "2025-02", "2025-03"];
   const heat = months.map((m) => entry(m, "heat", "1234.5"));
-  const cooling = months.map((m) => entry(m, "cooling", "-4000.25"));
+  // Cooling delivered: positive in the ledger, heat out of the site.
+  const cooling = months.map((m) => entry(m, "cooling", "4000.25"));
   return {
     id: name,
     name,
@@ -57,10 +59,9 @@ function site(name: string, withData: boolean): SiteReport {
     tables: withData
       ? [
           { carrier: "heat", entries: heat, total: total("3703.5") },
-          { carrier: "cooling", entries: cooling, total: total("-12000.75") },
+          { carrier: "cooling", entries: cooling, total: total("12000.75") },
         ]
       : [],
-    total: total(withData ? "-8297.25" : "0"),
     baselines: withData
       ? [
           {
@@ -117,15 +118,14 @@ function site(name: string, withData: boolean): SiteReport {
             },
             {
               carrier: "cooling",
-              importsKwh: "-12000.75",
+              importsKwh: "12000.75",
               exportsKwh: "0",
-              netKwh: "-12000.75",
+              netKwh: "12000.75",
             },
           ]
         : [],
-      importsKwh: "-8297.25",
-      exportsKwh: "0",
-      netKwh: withData ? "-8297.25" : "0",
+      // Q + W: 3703.5 of heat in, 12000.75 of heat out as cooling delivered.
+      netIntoSiteKwh: withData ? "-8297.25" : "0",
       residuals: withData
         ? [
             {
@@ -164,7 +164,6 @@ function report(sites: SiteReport[]): ReportData {
     })),
     closedMonths: 3,
     allMonthsClosed: true,
-    totals: { importsKwh: "-8297.25", exportsKwh: "0", netKwh: "-8297.25" },
     carrierTotals: sites.length
       ? [{ carrier: "heat", ...total("3703.5") }]
       : [],

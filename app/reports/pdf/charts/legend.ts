@@ -7,6 +7,8 @@ export interface LegendItem {
   label: string;
   color: string;
   shape: "box" | "line" | "hollow";
+  /** Fill opacity of a box, 1 by default. */
+  opacity?: number;
 }
 
 function swatch(
@@ -15,7 +17,12 @@ function swatch(
   x: number,
   y: number,
 ) {
-  if (item.shape === "box") doc.rect(x, y + 1.5, 9, 7).fill(item.color);
+  if (item.shape === "box")
+    doc
+      .fillOpacity(item.opacity ?? 1)
+      .rect(x, y + 1.5, 9, 7)
+      .fill(item.color)
+      .fillOpacity(1);
   else if (item.shape === "line") {
     doc
       .moveTo(x - 1, y + 5)

@@ -1,7 +1,8 @@
 /**
- * Monthly energy as bars, stacked by series and signed (into the site above
- * the zero line, out of it below), with an optional line: the energy a
- * baseline expects. Vector graphics only.
+ * Monthly energy as bars, signed (delivered above the zero line, exported
+ * below), with an optional line: the energy a baseline expects. Series of
+ * one group stack in one bar; groups (carriers) stand side by side, so
+ * unlike carriers are never stacked into one height. Vector graphics only.
  */
 import { shortMonthLabel } from "../../periods";
 import { ensureSpace, frame } from "../layout";
@@ -15,6 +16,10 @@ export interface BarSeries {
   color: string;
   /** kWh per month, signed; null where there is no figure. */
   values: (number | null)[];
+  /** Series of one group stack in one bar; groups stand side by side. One group by default. */
+  group?: string;
+  /** Fill opacity, 1 by default (a lighter shade for exports). */
+  opacity?: number;
 }
 
 export interface LineSeries {
@@ -50,18 +55,29 @@ function monthTicks(months: readonly string[]): string[] {
   );
 }
 
-/** Stacked extremes per month: the bars reach from the sum of negatives to the sum of positives. */
+function groupsOf(spec: MonthlyChartSpec): BarSeries[][] {
+  const groups = new Map<string, BarSeries[]>();
+  for (const s of spec.bars)
+    groups.set(s.group ?? "", [...(groups.get(s.group ?? "") ?? []), s]);
+  return [...groups.values()];
+}
+
+/** Stacked extremes per month and group: a bar reaches from the sum of its negatives to the sum of its positives. */
 function stackedExtremes(spec: MonthlyChartSpec): number[] {
+  const groups = groupsOf(spec);
   return spec.months.flatMap((_, i) => {
-    let up = 0;
-    let down = 0;
-    for (const s of spec.bars) {
-      const v = s.values[i] ?? 0;
-      if (v > 0) up += v;
-      else down += v;
-    }
+    const ends = groups.flatMap((group) => {
+      let up = 0;
+      let down = 0;
+      for (const s of group) {
+        const v = s.values[i] ?? 0;
+        if (v > 0) up += v;
+        else down += v;
+      }
+      return [up, down];
+    });
     const line = spec.line?.values[i];
-    return line === null || line === undefined ? [up, down] : [up, down, line];
+    return line === null || line === undefined ? ends : [...ends, line];
   });
 }
 
@@ -102,22 +118,33 @@ export function drawMonthlyChart(
   }
 
   const slot = width / Math.max(1, spec.months.length);
-  const barWidth = Math.min(slot * 0.62, 38);
+  const groups = groupsOf(spec);
+  const groupsWidth = Math.min(
+    slot * (groups.length > 1 ? 0.8 : 0.62),
+    38 * groups.length,
+  );
+  const barWidth = groupsWidth / Math.max(1, groups.length);
   spec.months.forEach((_, i) => {
-    const x = left + i * slot + (slot - barWidth) / 2;
-    let up = 0;
-    let down = 0;
-    for (const series of spec.bars) {
-      const v = series.values[i];
-      if (!v) continue;
-      const from = v > 0 ? up : down;
-      const to = from + v;
-      if (v > 0) up = to;
-      else down = to;
-      const y1 = yOf(Math.max(from, to));
-      const y2 = yOf(Math.min(from, to));
-      doc.rect(x, y1, barWidth, Math.max(0.6, y2 - y1)).fill(series.color);
-    }
+    groups.forEach((group, g) => {
+      const x = left + i * slot + (slot - groupsWidth) / 2 + g * barWidth;
+      let up = 0;
+      let down = 0;
+      for (const series of group) {
+        const v = series.values[i];
+        if (!v) continue;
+        const from = v > 0 ? up : down;
+        const to = from + v;
+        if (v > 0) up = to;
+        else down = to;
+        const y1 = yOf(Math.max(from, to));
+        const y2 = yOf(Math.min(from, to));
+        doc
+          .fillOpacity(series.opacity ?? 1)
+          .rect(x, y1, barWidth, Math.max(0.6, y2 - y1))
+          .fill(series.color)
+          .fillOpacity(1);
+      }
+    });
   });
 
   if (spec.line)
@@ -137,6 +164,7 @@ export function drawMonthlyChart(
     label: s.label,
     color: s.color,
     shape: "box",
+    opacity: s.opacity,
   }));
   if (spec.line) {
     legend.push({

@@ -27,15 +27,23 @@ function note(doc: PDFKit.PDFDocument, text: Parameters<typeof body>[1]) {
 }
 
 function signConvention(doc: PDFKit.PDFDocument) {
-  heading(doc, "Sign convention", 2);
-  note(
-    doc,
-    "A site is a thermodynamic system, and its meters stand on its boundary. Following the IUPAC convention, energy that enters the site, as heat Q or as work W, is positive; energy that leaves it is negative:",
-  );
+  heading(doc, "Sign convention: two views, never mixed", 2);
+  note(doc, [
+    { text: "Delivered and exported energy by carrier. ", weight: "semibold" },
+    {
+      text: "The ledger's tables, totals and charts show what a site took in of each carrier as delivered energy (positive) and what it sent out as exported energy (negative), as EN ISO 52000-1 names them. Chilled water delivered to a site is cooling delivered, a positive quantity of its own carrier. Unlike carriers are never added into one kWh figure; only cost, carbon or primary energy could be totalled across them.",
+    },
+  ]);
+  note(doc, [
+    { text: "The thermodynamic view. ", weight: "semibold" },
+    {
+      text: "A site is a thermodynamic system, and its meters stand on its boundary. Following the IUPAC convention, energy that enters the site, as heat Q or as work W, is positive; energy that leaves it is negative:",
+    },
+  ]);
   formula(doc, "ΔU = Q + W");
   note(
     doc,
-    "Each meter has a boundary orientation. An import meter keeps the sign of what it measures; an export meter (solar power sent to the grid, heat sold to a neighbour) flips it. Chilled water comes out negative by itself: the site gives heat to the chilled-water loop. Sub-meters hang under a parent inside the boundary, so the ledger sums boundary meters only.",
+    "Cooling delivered is heat leaving the site (Q < 0): the site gives heat to the chilled-water loop, so chilled water measured by flow and return comes out negative by itself. Each meter has a boundary orientation: an import meter keeps the sign of what it measures; an export meter (solar power sent to the grid, heat sold to a neighbour) flips it. Hourly figures are stored in this view; the ledger turns a cooling meter's heat flow into cooling delivered, and each site's energy balance shows this view, labelled. Sub-meters hang under a parent inside the boundary, so the ledger sums boundary meters only.",
   );
 }
 
@@ -147,7 +155,7 @@ function baselines(doc: PDFKit.PDFDocument, data: ReportData) {
   heading(doc, "Baselines and their statistics", 2, 140);
   note(
     doc,
-    "A baseline regresses a site's monthly imported energy E on the month's degree days DD by ordinary least squares, E = a + b·DD, and is saved with its data so later changes never alter it. Its fit is judged by ASHRAE Guideline 14, with y the metered energy, ŷ the model, n periods and p = 2 parameters; the divisor is n − p, and NMBE is positive when the metered energy lies above the model:",
+    "A baseline regresses a site's monthly delivered energy E of one carrier on the month's degree days DD by ordinary least squares, E = a + b·DD, and is saved with its data so later changes never alter it. Its fit is judged by ASHRAE Guideline 14, with y the metered energy, ŷ the model, n periods and p = 2 parameters; the divisor is n − p, and NMBE is positive when the metered energy lies above the model:",
   );
   formula(
     doc,

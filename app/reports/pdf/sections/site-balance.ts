@@ -1,7 +1,8 @@
 /**
- * A site's energy balance over the period: the flow diagram of what entered
- * and left its boundary and what stayed, and each parent meter against its
- * sub-meters (the distribution loss).
+ * A site's energy balance over the period, the thermodynamic view (heat and
+ * work into the site positive): the flow diagram of what entered and left
+ * its boundary and what stayed, and each parent meter against its
+ * sub-meters (the distribution loss), signed as stored.
  */
 import type { Residual, SiteReport } from "../../data/types";
 import {
@@ -9,61 +10,53 @@ import {
   drawBalanceChart,
   type Flow,
 } from "../charts/balance-chart";
-import { kwh, share } from "../format";
+import { deliveredSign } from "~/ledger/delivered";
+import { kwh, share, signedNumber } from "../format";
 import { body, heading, space } from "../layout";
 import { drawTable, widths, type Cell } from "../table";
 import { carrierColours, carrierNames, colours } from "../theme";
 
-/** Positive figures flow in, negative ones out; the net closes the balance. */
-export function flows(site: SiteReport): { inflows: Flow[]; outflows: Flow[] } {
-  const inflows: Flow[] = [];
-  const outflows: Flow[] = [];
+type Flows = { inflows: Flow[]; outflows: Flow[] };
+
+/**
+ * The thermodynamic view of the ledger's figures: each carrier's delivered
+ * and exported energy turned into heat or work into the site (delivered.ts),
+ * positive flowing in, negative out; the net Q + W closes the balance.
+ * Cooling delivered is heat taken out of the site, so it flows out.
+ */
+export function flows(site: SiteReport): Flows {
+  const result: Flows = { inflows: [], outflows: [] };
   for (const c of site.balance.carriers) {
     const name = carrierNames[c.carrier];
     const color = carrierColours[c.carrier];
-    const imports = Number(c.importsKwh);
-    const exports = Number(c.exportsKwh);
-    const detail = (value: string) => `${kwh(value)} kWh`;
-    if (imports > 0)
-      inflows.push({
-        label: `${name} imported`,
-        kwh: imports,
-        detail: detail(c.importsKwh),
+    const sign = deliveredSign(c.carrier);
+    const add = (kind: "delivered" | "exported", value: string) => {
+      const intoSite = sign * Number(value);
+      if (intoSite === 0) return;
+      const heat =
+        sign < 0 ? (intoSite > 0 ? " (heat in)" : " (heat out)") : "";
+      const flow = {
+        label: `${name} ${kind}${heat}`,
+        kwh: Math.abs(intoSite),
+        detail: `${signedNumber(intoSite)} kWh`,
         color,
-      });
-    // Chilled water reads negative on an import meter: heat taken out of the site.
-    if (imports < 0)
-      outflows.push({
-        label: `${name}: heat taken out`,
-        kwh: -imports,
-        detail: detail(c.importsKwh),
-        color,
-      });
-    if (exports < 0)
-      outflows.push({
-        label: `${name} exported`,
-        kwh: -exports,
-        detail: detail(c.exportsKwh),
-        color,
-      });
-    if (exports > 0)
-      inflows.push({
-        label: `${name} on export meters`,
-        kwh: exports,
-        detail: detail(c.exportsKwh),
-        color,
-      });
+      };
+      (intoSite > 0 ? result.inflows : result.outflows).push(flow);
+    };
+    add("delivered", c.importsKwh);
+    add("exported", c.exportsKwh);
   }
-  const net = Number(site.balance.netKwh);
+  const net = Number(site.balance.netIntoSiteKwh);
   const netFlow = {
     kwh: Math.abs(net),
-    detail: `${kwh(site.balance.netKwh)} kWh`,
+    detail: `${kwh(site.balance.netIntoSiteKwh)} kWh`,
     color: colours.inkFaint,
   };
   if (net > 0)
-    outflows.push({ ...netFlow, label: "Used or lost within the site" });
-  if (net < 0) inflows.push({ ...netFlow, label: "More out than in (net)" });
-  return { inflows, outflows };
+    result.outflows.push({ ...netFlow, label: "Used or lost within the site" });
+  if (net < 0)
+    result.inflows.push({ ...netFlow, label: "More out than in (net)" });
+  return result;
 }
 
 function check(r: Residual, tolerance: number): Cell {
@@ -122,11 +115,16 @@ export function drawSiteBalance(
   const { inflows, outflows } = flows(site);
   const chart = {
     siteName: site.name,
-    netDetail: `${kwh(site.balance.netKwh)} kWh`,
+    netDetail: `Q + W ${kwh(site.balance.netIntoSiteKwh)} kWh`,
     inflows,
     outflows,
   };
-  heading(doc, "Energy balance", 2, balanceChartHeight(chart));
+  heading(
+    doc,
+    "Energy balance (thermodynamic view)",
+    2,
+    balanceChartHeight(chart),
+  );
   if (site.balance.carriers.length === 0) {
     body(doc, "Nothing crossed this site's boundary in the period.", {
       color: colours.inkMuted,
@@ -136,7 +134,7 @@ export function drawSiteBalance(
   drawBalanceChart(doc, chart);
   body(
     doc,
-    "Boundary meters only, with the ledger's figures for the period: what entered the site on the left, what left it on the right, and the net, which was used or lost within the boundary. Both sides add up to the same energy.",
+    "The site as a thermodynamic system: heat Q and work W signed, into the site positive. Boundary meters only, with the ledger's figures for the period: what entered the site on the left, what left it on the right, and the net Q + W, which was used or lost within the boundary. Cooling delivered is heat leaving the site, so it stands on the right. Both sides add up to the same energy. This is the only place the report adds carriers together.",
     { color: colours.inkMuted, size: 8.5 },
   );
   if (site.balance.residuals.length === 0) return;

@@ -139,7 +139,7 @@ function drawComparison(doc: PDFKit.PDFDocument, b: BaselineComparison) {
       months: b.months.map((m) => m.month),
       bars: [
         {
-          label: `Metered ${carrierNames[b.carrier].toLowerCase()} imports`,
+          label: `Metered ${carrierNames[b.carrier].toLowerCase()} delivered`,
           color: carrierColours[b.carrier],
           values: b.months.map((m) => m.actualKwh),
         },
@@ -152,7 +152,7 @@ function drawComparison(doc: PDFKit.PDFDocument, b: BaselineComparison) {
         hollowLabel: "Degree days outside the fitted range",
       },
       height: 130,
-      axisTitle: "Energy imported",
+      axisTitle: "Energy delivered",
     });
   drawModel(doc, b);
   space(doc, 8);
@@ -184,7 +184,7 @@ export function drawSiteBaselines(
     const chart = site.tables.length > 0 && months.length > 1;
     body(
       doc,
-      `No baseline is saved for this site, so there is nothing to compare with. A baseline is fitted and saved on the Weather & baselines page.${chart ? " The chart shows the site's net energy per month by carrier." : ""}`,
+      `No baseline is saved for this site, so there is nothing to compare with. A baseline is fitted and saved on the Weather & baselines page.${chart ? " The chart shows the site's energy delivered and exported per month, by carrier." : ""}`,
       { color: colours.inkMuted },
     );
     if (chart)
@@ -192,7 +192,7 @@ export function drawSiteBaselines(
         months: [...months],
         bars: monthlyByCarrierOfSite(site, months),
         height: 120,
-        axisTitle: "Net energy, signed",
+        axisTitle: "Delivered (+) and exported (−)",
       });
     return;
   }

@@ -1,11 +1,32 @@
 /** Chart series built from the ledger tables of one or more sites. */
 import { sumDecimals } from "../../data/decimal";
 import { CARRIER_ORDER } from "../../data/ledger-tables";
-import type { SiteReport } from "../../data/types";
+import type { Carrier, LedgerEntry, SiteReport } from "../../data/types";
 import type { BarSeries } from "../charts/monthly-chart";
 import { carrierColours, carrierNames } from "../theme";
 
-/** Net energy per month (YYYY-MM) and carrier, summed over the sites. */
+/** A figure of one carrier per month (YYYY-MM), summed over the sites. */
+function perMonth(
+  sites: readonly SiteReport[],
+  carrier: Carrier,
+  months: readonly string[],
+  pick: (e: LedgerEntry) => string,
+): (number | null)[] {
+  return months.map((month) => {
+    const values = sites.flatMap((s) =>
+      s.tables
+        .filter((t) => t.carrier === carrier)
+        .flatMap((t) => t.entries.filter((e) => e.month === month).map(pick)),
+    );
+    return values.length ? Number(sumDecimals(values)) : null;
+  });
+}
+
+/**
+ * Delivered (≥ 0) and exported (≤ 0) energy per month, one bar per carrier:
+ * carriers stand side by side, never stacked on each other. An exported
+ * series appears only for a carrier that exported something.
+ */
 export function monthlyByCarrier(
   sites: readonly SiteReport[],
   months: readonly string[],
@@ -13,20 +34,30 @@ export function monthlyByCarrier(
   const carriers = CARRIER_ORDER.filter((c) =>
     sites.some((s) => s.tables.some((t) => t.carrier === c)),
   );
-  return carriers.map((carrier) => ({
-    label: carrierNames[carrier],
-    color: carrierColours[carrier],
-    values: months.map((month) => {
-      const values = sites.flatMap((s) =>
-        s.tables
-          .filter((t) => t.carrier === carrier)
-          .flatMap((t) =>
-            t.entries.filter((e) => e.month === month).map((e) => e.netKwh),
-          ),
-      );
-      return values.length ? Number(sumDecimals(values)) : null;
-    }),
-  }));
+  return carriers.flatMap((carrier) => {
+    const delivered: BarSeries = {
+      label: `${carrierNames[carrier]} delivered`,
+      color: carrierColours[carrier],
+      values: perMonth(sites, carrier, months, (e) => e.importsKwh),
+      group: carrier,
+    };
+    const exportedValues = perMonth(
+      sites,
+      carrier,
+      months,
+      (e) => e.exportsKwh,
+    );
+    const exported: BarSeries = {
+      label: `${carrierNames[carrier]} exported`,
+      color: carrierColours[carrier],
+      values: exportedValues,
+      group: carrier,
+      opacity: 0.45,
+    };
+    return exportedValues.some((v) => v !== null && v !== 0)
+      ? [delivered, exported]
+      : [delivered];
+  });
 }
 
 export function monthlyByCarrierOfSite(

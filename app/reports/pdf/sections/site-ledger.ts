@@ -1,8 +1,14 @@
 /**
- * A site's monthly ledger: one band per carrier, its months, the carrier's
- * total, and the site's total over every carrier.
+ * A site's monthly ledger: one band per carrier, its months and the
+ * carrier's total. Delivered and exported energy of each carrier; carriers
+ * are never added into one total.
  */
-import type { EntryTotal, LedgerEntry, SiteReport } from "../../data/types";
+import type {
+  Carrier,
+  EntryTotal,
+  LedgerEntry,
+  SiteReport,
+} from "../../data/types";
 import { shortMonthLabel } from "../../periods";
 import { band, kwh, share } from "../format";
 import { drawTable, widths, type Row } from "../table";
@@ -12,8 +18,8 @@ function columns() {
   const w = widths(1.05, 1.3, 1.15, 1.3, 0.85, 1.1, 1.2, 0.7);
   return [
     { header: "Month", width: w[0] },
-    { header: "Imports (kWh)", width: w[1], align: "right" as const },
-    { header: "Exports (kWh)", width: w[2], align: "right" as const },
+    { header: "Delivered (kWh)", width: w[1], align: "right" as const },
+    { header: "Exported (kWh)", width: w[2], align: "right" as const },
     { header: "Net (kWh)", width: w[3], align: "right" as const },
     { header: "Estimated", width: w[4], align: "right" as const },
     { header: "± EN 1434 band (kWh)", width: w[5], align: "right" as const },
@@ -66,6 +72,13 @@ function totalRow(label: string, t: EntryTotal): Row {
   };
 }
 
+/** "Cooling delivered (chilled water)" says what the cooling band's figures are. */
+function bandLabel(carrier: Carrier): string {
+  return carrier === "cooling"
+    ? "Cooling delivered (chilled water)"
+    : carrierNames[carrier];
+}
+
 export function drawSiteLedger(
   doc: PDFKit.PDFDocument,
   site: SiteReport,
@@ -76,7 +89,7 @@ export function drawSiteLedger(
       kind: "band",
       cells: [
         {
-          text: carrierNames[table.carrier],
+          text: bandLabel(table.carrier),
           color: carrierColours[table.carrier],
         },
       ],
@@ -84,7 +97,6 @@ export function drawSiteLedger(
     rows.push(...table.entries.map(entryRow));
     rows.push(totalRow("Total", table.total));
   }
-  if (site.tables.length > 1) rows.push(totalRow("Site total", site.total));
   drawTable(doc, {
     columns: columns(),
     rows,

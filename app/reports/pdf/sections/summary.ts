@@ -1,9 +1,9 @@
 /**
  * The summary: each month's status, the totals per carrier (the ledger's
- * own totals for the period), one line per site, and the net energy per
- * month by carrier as a chart.
+ * own totals for the period), each site's figures per carrier, and the
+ * energy delivered and exported per month by carrier as a chart. Unlike
+ * carriers are never added into one kWh figure.
  */
-import { totalOf } from "../../data/ledger-tables";
 import type { EntryTotal, ReportData } from "../../data/types";
 import { shortMonthLabel } from "../../periods";
 import { chartHeight, drawMonthlyChart } from "../charts/monthly-chart";
@@ -56,8 +56,8 @@ const carrierColumns = (first: string) => {
   const w = widths(1.25, 1.35, 1.2, 1.35, 0.8, 1.1, 1.05);
   return [
     { header: first, width: w[0] },
-    { header: "Imports (kWh)", width: w[1], align: "right" as const },
-    { header: "Exports (kWh)", width: w[2], align: "right" as const },
+    { header: "Delivered (kWh)", width: w[1], align: "right" as const },
+    { header: "Exported (kWh)", width: w[2], align: "right" as const },
     { header: "Net (kWh)", width: w[3], align: "right" as const },
     { header: "Estimated", width: w[4], align: "right" as const },
     { header: "± EN 1434 band (kWh)", width: w[5], align: "right" as const },
@@ -88,9 +88,7 @@ function totalCells(label: string, t: EntryTotal): string[] {
 }
 
 function drawCarrierTotals(doc: PDFKit.PDFDocument, data: ReportData) {
-  const all = totalOf(
-    data.sites.flatMap((s) => s.tables.flatMap((t) => t.entries)),
-  );
+  // The ledger's own totals, one per carrier: the digits the Ledger page shows.
   const rows: Row[] = data.carrierTotals.map((t) => ({
     cells: [
       {
@@ -101,14 +99,6 @@ function drawCarrierTotals(doc: PDFKit.PDFDocument, data: ReportData) {
       ...totalCells("", t).slice(1),
     ],
   }));
-  // The ledger's own totals: the same digits the Ledger page shows.
-  const ledger = {
-    ...all,
-    importsKwh: data.totals.importsKwh,
-    exportsKwh: data.totals.exportsKwh,
-    netKwh: data.totals.netKwh,
-  };
-  rows.push({ kind: "total", cells: totalCells("Total", ledger) });
   drawTable(doc, {
     columns: carrierColumns("Carrier"),
     rows,
@@ -116,17 +106,19 @@ function drawCarrierTotals(doc: PDFKit.PDFDocument, data: ReportData) {
   });
 }
 
+/** Each site's figures, one line per carrier; the site's months closed on its first line. */
 function drawSiteTotals(doc: PDFKit.PDFDocument, data: ReportData) {
-  const w = widths(2.3, 1.3, 1.15, 1.3, 0.8, 0.95);
+  const w = widths(1.9, 1.0, 1.2, 1.1, 1.2, 0.8, 0.9);
   const columns = [
     { header: "Site", width: w[0] },
-    { header: "Imports (kWh)", width: w[1], align: "right" as const },
-    { header: "Exports (kWh)", width: w[2], align: "right" as const },
-    { header: "Net (kWh)", width: w[3], align: "right" as const },
-    { header: "Estimated", width: w[4], align: "right" as const },
-    { header: "Months closed", width: w[5], align: "right" as const },
+    { header: "Carrier", width: w[1] },
+    { header: "Delivered (kWh)", width: w[2], align: "right" as const },
+    { header: "Exported (kWh)", width: w[3], align: "right" as const },
+    { header: "Net (kWh)", width: w[4], align: "right" as const },
+    { header: "Estimated", width: w[5], align: "right" as const },
+    { header: "Months closed", width: w[6], align: "right" as const },
   ];
-  const rows: Row[] = data.sites.map((site) => {
+  const rows: Row[] = data.sites.flatMap((site): Row[] => {
     const months = new Map<string, boolean>();
     for (const t of site.tables)
       for (const e of t.entries)
@@ -135,30 +127,21 @@ function drawSiteTotals(doc: PDFKit.PDFDocument, data: ReportData) {
           (months.get(e.month) ?? true) && e.status === "closed",
         );
     const closed = [...months.values()].filter(Boolean).length;
-    return {
+    const name = { text: site.name, weight: "semibold" as const };
+    const status = months.size ? `${closed} of ${months.size}` : "no entries";
+    if (site.tables.length === 0)
+      return [{ cells: [name, "—", "", "", "", "", status] }];
+    return site.tables.map((t, i) => ({
       cells: [
-        { text: site.name, weight: "semibold" as const },
-        kwh(site.total.importsKwh),
-        kwh(site.total.exportsKwh),
-        kwh(site.total.netKwh),
-        share(site.total.estimatedShare),
-        months.size ? `${closed} of ${months.size}` : "no entries",
+        i === 0 ? name : "",
+        { text: carrierNames[t.carrier], color: carrierColours[t.carrier] },
+        kwh(t.total.importsKwh),
+        kwh(t.total.exportsKwh),
+        kwh(t.total.netKwh),
+        share(t.total.estimatedShare),
+        i === 0 ? status : "",
       ],
-    };
-  });
-  rows.push({
-    kind: "total",
-    cells: [
-      "All sites listed",
-      kwh(data.totals.importsKwh),
-      kwh(data.totals.exportsKwh),
-      kwh(data.totals.netKwh),
-      share(
-        totalOf(data.sites.flatMap((s) => s.tables.flatMap((t) => t.entries)))
-          .estimatedShare,
-      ),
-      `${data.closedMonths} of ${data.months.length}`,
-    ],
+    }));
   });
   drawTable(doc, { columns, rows, caption: "Sites" });
 }
@@ -170,11 +153,11 @@ export function drawSummary(doc: PDFKit.PDFDocument, data: ReportData): void {
       text: `Energy that crossed the boundaries of ${data.scope.siteId ? data.scope.label : "the organisation's sites"} in ${data.period.label}, from the monthly ledger. `,
     },
     {
-      text: "Energy into a site is positive, energy out of it negative",
+      text: "Energy delivered to a site is positive and energy exported negative, per carrier",
       weight: "semibold",
     },
     {
-      text: " (the IUPAC convention: heat supplied to the system and work done on it count as positive). The estimated column is the share of the energy that comes from estimated hours; the band is the EN 1434 maximum permissible error of rated heat meters, added up.",
+      text: " (delivered and exported energy, as EN ISO 52000-1 names them). Chilled water is cooling delivered, a positive quantity of its own carrier. Unlike carriers are never added into one kWh figure. The signed thermodynamic view (heat and work into the site positive) appears only in each site's energy balance. The estimated column is the share of the energy that comes from estimated hours; the band is the EN 1434 maximum permissible error of rated heat meters, added up.",
     },
   ]);
   space(doc, 4);
@@ -190,7 +173,12 @@ export function drawSummary(doc: PDFKit.PDFDocument, data: ReportData): void {
   drawSiteTotals(doc, data);
   space(doc, 14);
   if (data.carrierTotals.length > 0 && data.months.length > 1) {
-    heading(doc, "Net energy per month, by carrier", 3, chartHeight(120));
+    heading(
+      doc,
+      "Energy delivered and exported per month, by carrier",
+      3,
+      chartHeight(120),
+    );
     drawMonthlyChart(doc, {
       months: data.months.map((m) => m.month),
       bars: monthlyByCarrier(
@@ -198,7 +186,7 @@ export function drawSummary(doc: PDFKit.PDFDocument, data: ReportData): void {
         data.months.map((m) => m.month),
       ),
       height: 120,
-      axisTitle: "Net energy, signed",
+      axisTitle: "Delivered (+) and exported (−)",
     });
   }
 }
