@@ -463,7 +463,11 @@ export const monthlyRollups = pgTable(
       .notNull()
       .defaultNow(),
   },
-  (t) => [primaryKey({ columns: [t.organizationId, t.meterId, t.month] })],
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId, t.month] }),
+    // The ledger, Overview and reports read an organisation's months.
+    index("monthly_rollups_month_idx").on(t.organizationId, t.month),
+  ],
 );
 
 /** A closed month, for one site or (site_id null) the whole organisation. */
@@ -659,8 +663,15 @@ export const billingAccounts = pgTable(
       .notNull()
       .defaultNow(),
   },
-  // Not unique: a sharded store can only enforce keys that hold organization_id.
-  (t) => [index("billing_accounts_customer_idx").on(t.stripeCustomerId)],
+  (t) => [
+    // Not unique: a sharded store can only enforce keys that hold organization_id.
+    index("billing_accounts_customer_idx").on(t.stripeCustomerId),
+    // Stripe's subscription statuses, and none before the first subscription.
+    check(
+      "billing_accounts_status_check",
+      sql`${t.status} in ('none', 'trialing', 'active', 'past_due', 'canceled', 'incomplete', 'incomplete_expired', 'unpaid', 'paused')`,
+    ),
+  ],
 );
 
 export const billingInvoices = pgTable(
@@ -682,7 +693,13 @@ export const billingInvoices = pgTable(
     hostedInvoiceUrl: text("hosted_invoice_url"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull(),
   },
-  (t) => [primaryKey({ columns: [t.organizationId, t.stripeInvoiceId] })],
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.stripeInvoiceId] }),
+    check(
+      "billing_invoices_status_check",
+      sql`${t.status} in ('draft', 'open', 'paid', 'uncollectible', 'void')`,
+    ),
+  ],
 );
 
 /**
@@ -745,5 +762,17 @@ export const reports = pgTable(
     primaryKey({ columns: [t.organizationId, t.id] }),
     index("reports_sha256_idx").on(t.organizationId, t.sha256),
     index("reports_created_idx").on(t.organizationId, t.createdAt),
+    // Job pickup at start and every minute: only unfinished reports.
+    index("reports_pickup_idx")
+      .on(t.status, t.heartbeatAt)
+      .where(sql`${t.status} in ('queued', 'running')`),
+    check(
+      "reports_status_check",
+      sql`${t.status} in ('queued', 'running', 'done', 'failed')`,
+    ),
+    check(
+      "reports_period_kind_check",
+      sql`${t.periodKind} in ('month', 'quarter', 'year')`,
+    ),
   ],
 );

@@ -1,0 +1,6 @@
+CREATE INDEX "monthly_rollups_month_idx" ON "monthly_rollups" USING btree ("organization_id","month");--> statement-breakpoint
+CREATE INDEX "reports_pickup_idx" ON "reports" USING btree ("status","heartbeat_at") WHERE "reports"."status" in ('queued', 'running');--> statement-breakpoint
+ALTER TABLE "billing_accounts" ADD CONSTRAINT "billing_accounts_status_check" CHECK ("billing_accounts"."status" in ('none', 'trialing', 'active', 'past_due', 'canceled', 'incomplete', 'incomplete_expired', 'unpaid', 'paused'));--> statement-breakpoint
+ALTER TABLE "billing_invoices" ADD CONSTRAINT "billing_invoices_status_check" CHECK ("billing_invoices"."status" in ('draft', 'open', 'paid', 'uncollectible', 'void'));--> statement-breakpoint
+ALTER TABLE "reports" ADD CONSTRAINT "reports_status_check" CHECK ("reports"."status" in ('queued', 'running', 'done', 'failed'));--> statement-breakpoint
+ALTER TABLE "reports" ADD CONSTRAINT "reports_period_kind_check" CHECK ("reports"."period_kind" in ('month', 'quarter', 'year'));
