@@ -21,6 +21,7 @@ import {
   PageHeader,
 } from "~/components/ui";
 import {
+  CONFIRMED_SPIKE_FLAG,
   confirmLabel,
   correctionHint,
   formatKwh,
@@ -171,7 +172,7 @@ function Summary({ intervals }: { intervals: Interval[] }) {
         ? `${((100 * estimated) / intervals.length).toFixed(1)} %`
         : "—",
     ],
-    ["Edited", String(edited)],
+    ["Corrected", String(edited)],
     ["Flagged", String(flagged)],
   ];
   return (
@@ -184,6 +185,11 @@ function Summary({ intervals }: { intervals: Interval[] }) {
       ))}
     </dl>
   );
+}
+
+/** "250000.000000" as a person would type it: "250000". Exact, no float. */
+function withoutTrailingZeros(decimal: string): string {
+  return decimal.includes(".") ? decimal.replace(/\.?0+$/, "") : decimal;
 }
 
 /** Quality in the energy manager's words. */
@@ -235,11 +241,9 @@ function EditPanel({
     >
       {answer?.saved ? (
         <Notice tone="success">
-          Saved as corrected by hand
-          {answer.saved.flags.length
-            ? `, flagged ${answer.saved.flags.join(", ")}`
-            : ""}
-          ; the change and reason are in the audit log.
+          {answer.saved.flags.includes(CONFIRMED_SPIKE_FLAG)
+            ? `Saved as corrected by hand and flagged as a confirmed spike (${CONFIRMED_SPIKE_FLAG}); the change, the reason and your confirmation are in the audit log.`
+            : "Saved as corrected by hand; the change and the reason are in the audit log."}
         </Notice>
       ) : null}
       {errors.form ? <Notice tone="error">{errors.form}</Notice> : null}
@@ -255,7 +259,7 @@ function EditPanel({
         name="energyKwh"
         inputMode="decimal"
         hint={hint}
-        defaultValue={selected.energy_kwh}
+        defaultValue={withoutTrailingZeros(selected.energy_kwh)}
         error={errors.energyKwh ?? errors.hourStart}
       />
       {answer?.confirm ? (
@@ -367,7 +371,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
               </h2>
               <p className="text-sm text-ink-muted">
                 Each row a day, each column an hour; darker is more energy.
-                Outlined cells are estimated or edited.
+                Outlined cells are estimated or corrected.
               </p>
               <CarpetPlot intervals={intervals} timeZone={meter.timeZone} />
             </Card>

@@ -52,7 +52,7 @@ describe("correcting an hour on the meter's readings page", () => {
     // Europe/London is on UTC in early March.
     await page.getByRole("gridcell", { name: "10 Mar 2026, 03:00" }).click();
     await expect
-      .poll(() => panel(page).textContent())
+      .poll(() => panel(page).textContent(), { timeout: 15_000 })
       .toMatch(/now [\d.,]+ kWh, actual reading/);
 
     await panel(page)
@@ -61,7 +61,7 @@ describe("correcting an hour on the meter's readings page", () => {
     await panel(page).getByLabel("Reason").fill("Checked against the site log");
     await panel(page).getByRole("button", { name: "Save correction" }).click();
     await expect
-      .poll(() => panel(page).textContent())
+      .poll(() => panel(page).textContent(), { timeout: 15_000 })
       .toContain("now 60.5 kWh, corrected by hand");
     expect(
       await page.getByRole("gridcell", { name: "60.5", exact: true }).count(),
@@ -84,7 +84,7 @@ describe("correcting an hour on the meter's readings page", () => {
       .check();
     await panel(page).getByRole("button", { name: "Save correction" }).click();
     await expect
-      .poll(() => panel(page).textContent())
+      .poll(() => panel(page).textContent(), { timeout: 15_000 })
       .toContain("now 250,000 kWh, corrected by hand");
     await page.getByRole("gridcell", { name: "confirmed_spike" }).waitFor();
     await page.close();
