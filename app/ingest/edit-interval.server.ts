@@ -4,44 +4,95 @@ import {
   applyRollupDeltas,
   type RollupDelta,
 } from "~/ledger/refresh-rollups.server";
+import {
+  CONFIRMED_SPIKE_FLAG,
+  jumpMessage,
+  spikeJump,
+  VALUE_FLAGS,
+  wrongSignError,
+  type CorrectedMeter,
+  type Jump,
+} from "./correction-rules";
+import { loadSeries, windowFor } from "./estimate-meter.server";
 import { ensurePartitions } from "./partitions.server";
 import { correctionHourError, type InstalledPeriod } from "./time-rules";
 import { writeIntervals } from "./write-intervals.server";
 
-/** The hour becomes `edited` with the person's value, new or stored. */
+/**
+ * The hour becomes `edited` with the person's value, new or stored. Flags
+ * about the old value (a spike, a wrong sign) go with it; `flags` are the
+ * ones the new value carries.
+ */
 function writeEdit(
   client: PoolClient,
   args: { organizationId: string; meterId: string; hourStart: Date },
   energyKwh: string,
+  flags: string[],
 ): Promise<RollupDelta[]> {
   return writeIntervals(client, args.organizationId, {
-    input: "select $2::uuid as m, $3::timestamptz as h, $4::numeric as k",
-    params: [args.meterId, args.hourStart, energyKwh],
+    // vf: the value flags to drop; in the input, as the claim also sees $6.
+    input: `select $2::uuid as m, $3::timestamptz as h, $4::numeric as k,
+                   $5::text[] as f, $6::text[] as vf`,
+    params: [args.meterId, args.hourStart, energyKwh, flags, VALUE_FLAGS],
     insertColumns: "energy_kwh, quality, flags",
-    insertValues: "u.k, 'edited', '{}'",
-    update: "energy_kwh = u.k, quality = 'edited', estimate_method = null",
+    insertValues: "u.k, 'edited', u.f",
+    update: `energy_kwh = u.k, quality = 'edited', estimate_method = null,
+      flags = array(select flag from unnest(i.flags) as flag where flag <> all(u.vf)) || u.f`,
     from: args.hourStart,
     to: args.hourStart,
   });
 }
 
-export type EditOutcome = { ok: true } | { ok: false; reason: string };
+/** The meter's hours around `hourStart`, as ingest's spike check sees them. */
+async function historyAround(
+  client: PoolClient,
+  organizationId: string,
+  meterId: string,
+  hourStart: Date,
+) {
+  const { start, end } = await windowFor(
+    organizationId,
+    meterId,
+    hourStart,
+    hourStart,
+    client,
+  );
+  return loadSeries(organizationId, meterId, start, end, client);
+}
+
+export type EditOutcome =
+  | { ok: true; flags: string[] }
+  | {
+      ok: false;
+      /** The form field the reason belongs beside. */
+      field: "hourStart" | "energyKwh";
+      reason: string;
+      /** Set when the value may be saved once the person confirms the jump. */
+      jump?: Jump;
+    };
 
 /**
  * A person's correction of one hour: the value becomes `edited`, keeps its
  * link to the raw readings, and the old value, new value and reason go to the
  * audit log in the same transaction as the month's rollup (and, for a closed
- * month, its adjusting entry). An hour ingest would refuse (before the meter
- * was installed, after it was removed, in the future, before 1990, not on the
- * hour) is refused with the reason, and nothing is written.
+ * month, its adjusting entry). Refused, with nothing written:
+ *  - an hour ingest would refuse (before the meter was installed, after it
+ *    was removed, in the future, before 1990, not on the hour);
+ *  - a value of the wrong sign for the meter (an import meter's hours are
+ *    never negative: correction-rules.ts);
+ *  - a value ingest would flag as a spike against the meter's own history,
+ *    unless `confirmedSpike`: then it is stored flagged `confirmed_spike`
+ *    and the audit entry records the jump and the confirmation.
  */
 export async function editInterval(args: {
   organizationId: string;
   actorUserId: string;
-  meter: InstalledPeriod & { id: string };
+  meter: InstalledPeriod & CorrectedMeter & { id: string };
   hourStart: Date;
   energyKwh: number;
   reason: string;
+  /** The person confirmed this very value after being shown its jump. */
+  confirmedSpike?: boolean;
   now?: Date;
 }): Promise<EditOutcome> {
   const refused = correctionHourError(
@@ -49,10 +100,29 @@ export async function editInterval(args: {
     args.hourStart,
     args.now ?? new Date(),
   );
-  if (refused) return { ok: false, reason: refused };
+  if (refused) return { ok: false, field: "hourStart", reason: refused };
+  const wrongSign = wrongSignError(args.meter, args.energyKwh);
+  if (wrongSign) return { ok: false, field: "energyKwh", reason: wrongSign };
   const client = await pool.connect();
   try {
     await client.query("begin");
+    const history = await historyAround(
+      client,
+      args.organizationId,
+      args.meter.id,
+      args.hourStart,
+    );
+    const jump = spikeJump(args.meter, args.energyKwh, history, args.hourStart);
+    if (jump && !args.confirmedSpike) {
+      await client.query("rollback");
+      return {
+        ok: false,
+        field: "energyKwh",
+        reason: jumpMessage(args.energyKwh, jump),
+        jump,
+      };
+    }
+    const flags = jump ? [CONFIRMED_SPIKE_FLAG] : [];
     await ensurePartitions(client, args.hourStart, args.hourStart);
     const before = await client.query<{ energy_kwh: string; quality: string }>(
       `select energy_kwh::text, quality from intervals
@@ -66,7 +136,7 @@ export async function editInterval(args: {
       meterId: args.meter.id,
       hourStart: args.hourStart,
     };
-    const deltas = await writeEdit(client, hour, energyKwh);
+    const deltas = await writeEdit(client, hour, energyKwh, flags);
     await client.query(
       `insert into audit_log (organization_id, actor_user_id, action, subject, details)
        values ($1, $2, 'interval.edited', $3, $4)`,
@@ -80,6 +150,7 @@ export async function editInterval(args: {
             : null,
           to: { energyKwh },
           reason: args.reason,
+          ...(jump ? { confirmedSpike: auditedJump(jump) } : {}),
         }),
       ],
     );
@@ -89,11 +160,21 @@ export async function editInterval(args: {
       actorUserId: args.actorUserId,
     });
     await client.query("commit");
-    return { ok: true };
+    return { ok: true, flags };
   } catch (error) {
     await client.query("rollback").catch(() => undefined);
     throw error;
   } finally {
     client.release();
   }
+}
+
+/** The jump as the audit log keeps it: decimal text, as kWh are stored. */
+function auditedJump(jump: Jump) {
+  return {
+    confirmed: true,
+    typicalHourKwh: jump.typicalHourKwh.toFixed(6),
+    timesTypical: Number(jump.timesTypical.toFixed(1)),
+    spikeFactor: jump.spikeFactor,
+  };
 }

@@ -1,8 +1,9 @@
+import type { Pool, PoolClient } from "pg";
 import { pool } from "~/db/client.server";
 import { applyRollupDeltas } from "~/ledger/refresh-rollups.server";
 import { estimateGaps } from "./estimate";
 import { ensurePartitions } from "./partitions.server";
-import { detectNegative, detectSpikes } from "./validate";
+import { detectNegative, detectSpikes, expectedSign } from "./validate";
 import type { HourlyPoint, Quality } from "./series";
 import { writeIntervals } from "./write-intervals.server";
 
@@ -43,14 +44,19 @@ async function meterFacts(
     : null;
 }
 
-/** The window to look at: from the known hour before `from`, less the profile history. */
-async function windowFor(
+/**
+ * The window to look at: from the known hour before `from`, less the profile
+ * history, to the known hour after `to`. A correction is judged against the
+ * same window (edit-interval.server.ts).
+ */
+export async function windowFor(
   organizationId: string,
   meterId: string,
   from: Date,
   to: Date,
+  db: Pool | PoolClient = pool,
 ) {
-  const { rows } = await pool.query<{
+  const { rows } = await db.query<{
     before: Date | null;
     after: Date | null;
   }>(
@@ -66,13 +72,14 @@ async function windowFor(
   return { start, end: rows[0].after ?? to };
 }
 
-async function loadSeries(
+export async function loadSeries(
   organizationId: string,
   meterId: string,
   start: Date,
   end: Date,
+  db: Pool | PoolClient = pool,
 ): Promise<HourlyPoint[]> {
-  const { rows } = await pool.query<{
+  const { rows } = await db.query<{
     hour_start: Date;
     energy_kwh: string;
     quality: Quality;
@@ -139,12 +146,6 @@ async function storeEstimates(
   } finally {
     client.release();
   }
-}
-
-/** Chilled water and export meters carry negative values by nature. */
-function expectedSign(facts: MeterFacts): 1 | -1 {
-  const natural = facts.carrier === "cooling" ? -1 : 1;
-  return (facts.orientation === "export" ? -natural : natural) as 1 | -1;
 }
 
 /**

@@ -46,12 +46,39 @@ export function detectSpikes(
   if (!(factor > 0)) throw new RangeError("factor must be greater than 0");
   const typical = typicalHourlyValue(series);
   if (typical === null) return [];
-  const limit = factor * typical;
   return series.filter(
     (p) =>
       (p.quality === "measured" || p.registerSpread === true) &&
-      Math.abs(p.energyKwh) > limit,
+      isSpike(p.energyKwh, typical, factor),
   );
+}
+
+/**
+ * The one spike rule, for ingest's flags and for a person's correction
+ * alike: |value| above factor × the meter's typical hour.
+ */
+export function isSpike(
+  energyKwh: number,
+  typical: number,
+  factor: number,
+): boolean {
+  return Math.abs(energyKwh) > factor * typical;
+}
+
+/** What a meter's hours mean: its carrier and its boundary orientation. */
+export interface MeterBoundary {
+  carrier: string;
+  orientation: "import" | "export";
+}
+
+/**
+ * The sign every hour of this meter has in the ledger (docs/physics.md,
+ * "Sign convention"): chilled water comes out of the physics negative, and
+ * an export meter's values are flipped.
+ */
+export function expectedSign(meter: MeterBoundary): 1 | -1 {
+  const natural = meter.carrier === "cooling" ? -1 : 1;
+  return meter.orientation === "export" ? (-natural as 1 | -1) : natural;
 }
 
 /**

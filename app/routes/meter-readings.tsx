@@ -20,6 +20,12 @@ import {
   Notice,
   PageHeader,
 } from "~/components/ui";
+import {
+  CONFIRMED_SPIKE_FLAG,
+  confirmLabel,
+  correctionHint,
+  formatKwh,
+} from "~/ingest/correction-rules";
 import { editInterval } from "~/ingest/edit-interval.server";
 import { parseForm } from "~/lib/forms";
 import { getMeter } from "~/sites/meters.server";
@@ -50,6 +56,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       siteName: meter.siteName,
       timeZone: meter.timeZone,
       carrier: meter.carrier,
+      orientation: meter.orientation,
     },
     canEdit: can(role, "readings.edit"),
   };
@@ -83,7 +90,25 @@ const editSchema = z.strictObject({
     .trim()
     .min(5, "Say why, in at least 5 characters: it goes to the audit log.")
     .max(500, "Use at most 500 characters."),
+  /**
+   * The value the person confirmed after being shown how far it lies from
+   * the meter's history: a confirmation of another value does not count.
+   */
+  confirmSpike: z.string().trim().max(24).optional(),
 });
+
+type EditAnswer = {
+  errors: Record<string, string>;
+  saved: { hourStart: string; flags: string[] } | null;
+  /** The value to confirm, when it lies far outside the meter's history. */
+  confirm: { hourStart: string; energyKwh: string } | null;
+};
+
+const refusal = (answer: Partial<EditAnswer>) =>
+  data<EditAnswer>(
+    { errors: {}, saved: null, confirm: null, ...answer },
+    { status: 400 },
+  );
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { organization, user } = await requireMembership(
@@ -97,22 +122,28 @@ export async function action({ request, params }: Route.ActionArgs) {
   });
   if (!meter) notFound("No such meter.");
   const form = parseForm(await request.formData(), editSchema);
-  if (!form.ok)
-    return data({ errors: form.errors, saved: false }, { status: 400 });
+  if (!form.ok) return refusal({ errors: form.errors });
+  const { hourStart, energyKwh, reason, confirmSpike } = form.data;
   const edit = await editInterval({
     organizationId: organization.id,
     actorUserId: user.id,
-    meter,
-    hourStart: new Date(form.data.hourStart),
-    energyKwh: form.data.energyKwh,
-    reason: form.data.reason,
+    meter: { ...meter, spikeFactor: Number(meter.spikeFactor) },
+    hourStart: new Date(hourStart),
+    energyKwh,
+    reason,
+    confirmedSpike:
+      confirmSpike !== undefined && Number(confirmSpike) === energyKwh,
   });
   if (!edit.ok)
-    return data(
-      { errors: { hourStart: edit.reason }, saved: false },
-      { status: 400 },
-    );
-  return { errors: {} as Record<string, string>, saved: true };
+    return refusal({
+      errors: { [edit.field]: edit.reason },
+      confirm: edit.jump ? { hourStart, energyKwh: String(energyKwh) } : null,
+    });
+  return data<EditAnswer>({
+    errors: {},
+    saved: { hourStart, flags: edit.flags },
+    confirm: null,
+  });
 }
 
 function monthRange(month: string): { from: string; to: string } | null {
@@ -141,7 +172,7 @@ function Summary({ intervals }: { intervals: Interval[] }) {
         ? `${((100 * estimated) / intervals.length).toFixed(1)} %`
         : "—",
     ],
-    ["Edited", String(edited)],
+    ["Corrected", String(edited)],
     ["Flagged", String(flagged)],
   ];
   return (
@@ -156,22 +187,45 @@ function Summary({ intervals }: { intervals: Interval[] }) {
   );
 }
 
+/** "250000.000000" as a person would type it: "250000". Exact, no float. */
+function withoutTrailingZeros(decimal: string): string {
+  return decimal.includes(".") ? decimal.replace(/\.?0+$/, "") : decimal;
+}
+
+/** Quality in the energy manager's words. */
+const qualityWords: Record<Interval["quality"], string> = {
+  measured: "actual reading",
+  estimated: "estimated",
+  edited: "corrected by hand",
+  missing: "missing",
+};
+
 function EditPanel({
   selected,
   timeZone,
+  hint,
 }: {
   selected: Interval | null;
   timeZone: string;
+  /** What the meter's hours are and which sign they take. */
+  hint: string;
 }) {
   const actionData = useActionData<typeof action>();
   const busy = useNavigation().state === "submitting";
-  const errors: Record<string, string | undefined> = actionData?.errors ?? {};
   if (!selected)
     return (
       <p className="text-ink-muted">
         Select an hour in the table to correct it.
       </p>
     );
+  // An answer is about the hour it was posted for, not the one selected since.
+  const forThisHour = actionData?.saved
+    ? actionData.saved.hourStart === selected.hour_start
+    : actionData?.confirm
+      ? actionData.confirm.hourStart === selected.hour_start
+      : true;
+  const answer = forThisHour ? actionData : undefined;
+  const errors: Record<string, string | undefined> = answer?.errors ?? {};
   const label = new Intl.DateTimeFormat("en-GB", {
     timeZone,
     dateStyle: "full",
@@ -182,28 +236,43 @@ function EditPanel({
       method="post"
       className="flex flex-col gap-4"
       noValidate
-      key={selected.hour_start}
+      // A saved value remounts the form, so its fields start from the new value.
+      key={`${selected.hour_start}|${selected.energy_kwh}|${selected.quality}`}
     >
-      {actionData?.saved ? (
+      {answer?.saved ? (
         <Notice tone="success">
-          Saved as edited; the change and reason are in the audit log.
+          {answer.saved.flags.includes(CONFIRMED_SPIKE_FLAG)
+            ? `Saved as corrected by hand and flagged as a confirmed spike (${CONFIRMED_SPIKE_FLAG}); the change, the reason and your confirmation are in the audit log.`
+            : "Saved as corrected by hand; the change and the reason are in the audit log."}
         </Notice>
       ) : null}
       {errors.form ? <Notice tone="error">{errors.form}</Notice> : null}
       <p>
         Correcting <strong>{label}</strong>: now{" "}
-        {Number(selected.energy_kwh).toLocaleString("en-GB")} kWh (
-        {selected.quality}).
+        {formatKwh(Number(selected.energy_kwh))} kWh,{" "}
+        {qualityWords[selected.quality]}.
       </p>
       <input type="hidden" name="intent" value="edit" />
       <input type="hidden" name="hourStart" value={selected.hour_start} />
       <Field
-        label="Corrected energy (kWh, signed)"
+        label="Corrected energy (kWh)"
         name="energyKwh"
         inputMode="decimal"
-        defaultValue={selected.energy_kwh}
+        hint={hint}
+        defaultValue={withoutTrailingZeros(selected.energy_kwh)}
         error={errors.energyKwh ?? errors.hourStart}
       />
+      {answer?.confirm ? (
+        <label className="flex items-start gap-2 font-semibold">
+          <input
+            type="checkbox"
+            name="confirmSpike"
+            value={answer.confirm.energyKwh}
+            className="mt-1 h-5 w-5 accent-spruce-700"
+          />
+          {confirmLabel(Number(answer.confirm.energyKwh))}
+        </label>
+      ) : null}
       <Field label="Reason" name="reason" required error={errors.reason} />
       <div>
         <Button type="submit" disabled={busy}>
@@ -223,7 +292,9 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
     meter.id,
     range,
   );
-  const [selected, setSelected] = useState<Interval | null>(null);
+  // The hour, not the row: after a correction the grid's data is fetched
+  // again, and the panel must show the new row, not the one clicked.
+  const [selectedHour, setSelectedHour] = useState<string | null>(null);
   // Charts and the grid measure the page, so they render in the browser only.
   const mounted = useHydrated();
   const navigation = useNavigation();
@@ -232,6 +303,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
     if (navigation.state === "idle" && mounted) void reload();
   }, [navigation.state, mounted, reload]);
   const intervals = page?.intervals ?? [];
+  const selected = intervals.find((i) => i.hour_start === selectedHour) ?? null;
   return (
     <>
       <PageHeader
@@ -299,7 +371,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
               </h2>
               <p className="text-sm text-ink-muted">
                 Each row a day, each column an hour; darker is more energy.
-                Outlined cells are estimated or edited.
+                Outlined cells are estimated or corrected.
               </p>
               <CarpetPlot intervals={intervals} timeZone={meter.timeZone} />
             </Card>
@@ -310,7 +382,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
               <IntervalGrid
                 intervals={intervals}
                 timeZone={meter.timeZone}
-                onSelect={setSelected}
+                onSelect={(row) => setSelectedHour(row?.hour_start ?? null)}
               />
             </Card>
             {canEdit ? (
@@ -319,7 +391,11 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
                   Correct an hour
                 </h2>
                 <div className="mt-3">
-                  <EditPanel selected={selected} timeZone={meter.timeZone} />
+                  <EditPanel
+                    selected={selected}
+                    timeZone={meter.timeZone}
+                    hint={correctionHint(meter)}
+                  />
                 </div>
               </Card>
             ) : null}

@@ -31,6 +31,14 @@ const theme = themeQuartz.withParams({
   fontSize: 14,
 });
 
+/** Quality in the energy manager's words; the API keeps the stored names. */
+const qualityLabel: Record<Interval["quality"], string> = {
+  measured: "actual",
+  estimated: "estimated",
+  edited: "corrected",
+  missing: "missing",
+};
+
 const qualityColour: Record<Interval["quality"], string> = {
   measured: "#0b4238",
   estimated: "#7a4b00",
@@ -78,7 +86,10 @@ export function IntervalGrid({
       {
         headerName: "Quality",
         field: "quality",
+        valueFormatter: (p) => qualityLabel[p.value as Interval["quality"]],
         filter: "agTextColumnFilter",
+        filterValueGetter: (p) =>
+          p.data ? qualityLabel[p.data.quality] : undefined,
         cellStyle: (p) => ({
           color: qualityColour[p.value as Interval["quality"]],
           fontWeight: 600,

@@ -9,7 +9,7 @@ import {
 } from "recharts";
 import type { Interval } from "./use-intervals";
 
-/** Hourly energy over the range; estimated and edited hours in their own series. */
+/** Hourly energy over the range; estimated and corrected hours in their own series. */
 export function LoadProfile({
   intervals,
   timeZone,
@@ -86,7 +86,7 @@ export function LoadProfile({
           <Area
             type="stepAfter"
             dataKey="other"
-            name="Estimated or edited"
+            name="Estimated or corrected"
             stroke="#a9501f"
             fill="#fbf0e8"
             isAnimationActive={false}

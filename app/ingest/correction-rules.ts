@@ -1,0 +1,133 @@
+/**
+ * What a person's correction of one hour must respect besides the time rules
+ * (time-rules.ts): the sign of the meter's hours, and the meter's own
+ * history. A wrong sign is refused; a value the spike rule of ingest
+ * (validate.ts) would flag needs a confirmation that names the jump, and is
+ * then stored with the flag `confirmed_spike` (docs/ingest.md, "Rules").
+ *
+ * Pure: the page shows the same words the write path answers with.
+ */
+import type { HourlyPoint } from "./series";
+import {
+  expectedSign,
+  isSpike,
+  typicalHourlyValue,
+  type MeterBoundary,
+} from "./validate";
+
+/** A correction far outside the meter's history that a person confirmed. */
+export const CONFIRMED_SPIKE_FLAG = "confirmed_spike";
+
+/**
+ * Flags that describe an hour's value rather than the readings behind it:
+ * a correction replaces the value, so they go with it. (`rollover`,
+ * `register_drop` and `late_data_after_edit` stay: they are about readings.)
+ */
+export const VALUE_FLAGS = ["spike", "wrong_sign", CONFIRMED_SPIKE_FLAG];
+
+export interface CorrectedMeter extends MeterBoundary {
+  code: string;
+  spikeFactor: number;
+}
+
+/** How far a corrected value lies from the meter's history. */
+export interface Jump {
+  typicalHourKwh: number;
+  timesTypical: number;
+  spikeFactor: number;
+}
+
+/** kWh as people read them: grouped, at most 3 decimals, a real minus sign. */
+export function formatKwh(kwh: number, minimumFractionDigits = 0): string {
+  return kwh
+    .toLocaleString("en-GB", {
+      minimumFractionDigits,
+      maximumFractionDigits: Math.max(3, minimumFractionDigits),
+    })
+    .replace(/^-/, "−");
+}
+
+const carrierNouns: Record<string, string> = {
+  heat: "heat",
+  cooling: "cooling",
+  steam: "steam",
+  electricity: "electricity",
+};
+
+function direction(meter: MeterBoundary): string {
+  return meter.orientation === "import"
+    ? "delivered to the site"
+    : "exported from the site";
+}
+
+/** What the meter's hours are, for the correction field's hint. */
+export function correctionHint(meter: MeterBoundary): string {
+  const noun = carrierNouns[meter.carrier] ?? meter.carrier;
+  const what = `${noun[0].toUpperCase()}${noun.slice(1)} ${direction(meter)}`;
+  if (expectedSign(meter) === 1)
+    return `${what}: enter a positive number of kWh (or 0).`;
+  const why = meter.carrier === "cooling" ? " (heat taken out)" : "";
+  return `${what}, which the ledger counts as negative kWh${why}: enter −12.5 for 12.5 kWh.`;
+}
+
+/** Null when the value has the sign of the meter's hours (0 always has). */
+export function wrongSignError(
+  meter: CorrectedMeter,
+  energyKwh: number,
+): string | null {
+  const sign = expectedSign(meter);
+  if (energyKwh * sign >= 0) return null;
+  const noun = carrierNouns[meter.carrier] ?? meter.carrier;
+  const counted = sign === 1 ? "positive" : "negative";
+  const verb = meter.orientation === "import" ? "delivered" : "exported";
+  return (
+    `${meter.code} records ${noun} ${direction(meter)}, which the ledger counts as ` +
+    `${counted} kWh (or 0): ${formatKwh(energyKwh)} kWh has the wrong sign. ` +
+    `If ${formatKwh(Math.abs(energyKwh))} kWh was ${verb}, enter ${formatKwh(-energyKwh)}.`
+  );
+}
+
+/**
+ * The jump, when the value is a spike by ingest's rule against the meter's
+ * history (the hour being corrected left out: its old value is what the
+ * person is replacing). Null when it is not, or when the history has no
+ * non-zero actual reading to compare with.
+ */
+export function spikeJump(
+  meter: CorrectedMeter,
+  energyKwh: number,
+  history: readonly HourlyPoint[],
+  hourStart: Date,
+): Jump | null {
+  const others = history.filter(
+    (p) => p.hourStart.getTime() !== hourStart.getTime(),
+  );
+  const typical = typicalHourlyValue(others);
+  if (typical === null || !isSpike(energyKwh, typical, meter.spikeFactor))
+    return null;
+  return {
+    typicalHourKwh: typical,
+    timesTypical: Math.abs(energyKwh) / typical,
+    spikeFactor: meter.spikeFactor,
+  };
+}
+
+function formatTimes(times: number): string {
+  return times.toLocaleString("en-GB", {
+    maximumFractionDigits: times < 100 ? 1 : 0,
+  });
+}
+
+/** Names the jump, for the refusal that asks for a confirmation. */
+export function jumpMessage(energyKwh: number, jump: Jump): string {
+  return (
+    `${formatKwh(energyKwh)} kWh is ${formatTimes(jump.timesTypical)} × this meter's ` +
+    `typical hour of ${formatKwh(jump.typicalHourKwh, 1)} kWh; hours above ` +
+    `${formatTimes(jump.spikeFactor)} × are flagged as spikes. Confirm the value to save it.`
+  );
+}
+
+/** The confirmation's own words: it names the value it stands behind. */
+export function confirmLabel(energyKwh: number): string {
+  return `Yes, ${formatKwh(energyKwh)} kWh is right: save it and flag the hour as a confirmed spike`;
+}
