@@ -153,10 +153,31 @@ CONF
   fi
   choose_pg_port
   if ! as_pg "$PG_BIN/pg_ctl" -D "$PG_DIR" status >/dev/null 2>&1; then
-    log "Starting PostgreSQL on 127.0.0.1:$PG_PORT"
-    as_pg "$PG_BIN/pg_ctl" -D "$PG_DIR" -l "$PG_DIR/server.log" -w -t 60 start >/dev/null ||
-      { tail -n 20 "$PG_DIR/server.log" >&2; die "PostgreSQL did not start (log above)"; }
+    start_cluster
   fi
+}
+
+# Starts the cluster on its recorded port. Choosing a free port and binding it
+# are two steps, so another checkout (or any program) may take the port in
+# between: then the cluster moves to the next free port, recorded for later
+# runs (the last `port =` line of postgresql.conf wins).
+start_cluster() {
+  local attempt
+  for attempt in 1 2 3 4 5; do
+    log "Starting PostgreSQL on 127.0.0.1:$PG_PORT"
+    if as_pg "$PG_BIN/pg_ctl" -D "$PG_DIR" -l "$PG_DIR/server.log" -w -t 60 start >/dev/null; then
+      return 0
+    fi
+    if ! tail -n 20 "$PG_DIR/server.log" | grep -q "could not bind\|Address already in use"; then
+      break
+    fi
+    log "Port $PG_PORT is taken; moving this cluster to the next free port"
+    while port_in_use "$PG_PORT"; do PG_PORT=$((PG_PORT + 1)); done
+    echo "port = $PG_PORT" >>"$PG_DIR/postgresql.conf"
+    echo "$PG_PORT" >"$PG_PORT_FILE"
+  done
+  tail -n 20 "$PG_DIR/server.log" >&2
+  die "PostgreSQL did not start (log above)"
 }
 
 managed_url() {
