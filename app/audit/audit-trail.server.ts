@@ -99,7 +99,9 @@ const ENTRIES_SQL = `
                     case when a.action = 'interval.edited'
                          then substring(a.subject from '^(${UUID})@')::uuid end) as placed_meter_id,
            coalesce(a.before, case when a.action = 'interval.edited' then nullif(a.details->'from', 'null'::jsonb) end) as placed_before,
-           coalesce(a.after, case when a.action = 'interval.edited' then nullif(a.details->'to', 'null'::jsonb) end) as placed_after,
+           -- A corrected hour is always "edited" afterwards; the entry keeps only its value.
+           coalesce(a.after, case when a.action = 'interval.edited'
+                                  then a.details->'to' || '{"quality": "edited"}'::jsonb end) as placed_after,
            coalesce(a.reason, case when a.action = 'interval.edited' then a.details->>'reason' end) as placed_reason
       from audit_log a
      where a.organization_id = $1

@@ -96,6 +96,13 @@ function plain(value: unknown): string {
   return String(value);
 }
 
+/** Exact decimals as stored ("2.5000") without their padding zeros. */
+function decimal(value: unknown): string {
+  if (typeof value === "string" && /^-?\d+\.\d+$/.test(value))
+    return value.replace(/\.?0+$/, "");
+  return plain(value);
+}
+
 const meterCode: Format = (value, names) =>
   typeof value === "string" && value !== ""
     ? (names.meterCodes.get(value) ?? "another meter")
@@ -147,24 +154,27 @@ const FIELDS: Record<string, { label: string; format?: Format }> = {
     format: fromTable({ import: "Import (+)", export: "Export (−)" }),
   },
   parentMeterId: { label: "Parent meter", format: meterCode },
-  replacementMeterId: { label: "Replaced by", format: meterCode },
-  multiplier: { label: "Multiplier" },
+  multiplier: { label: "Multiplier", format: decimal },
   rolloverKwh: { label: "Roll-over point", format: energy },
   sensorAt: {
     label: "Flow sensor in",
     format: fromTable({ flow: "Flow pipe", return: "Return pipe" }),
   },
-  defaultPressureBarAbs: { label: "Default pressure (bar abs)" },
-  spikeFactor: { label: "Spike factor" },
+  defaultPressureBarAbs: {
+    label: "Default pressure (bar abs)",
+    format: decimal,
+  },
+  spikeFactor: { label: "Spike factor", format: decimal },
   accuracyClass: { label: "EN 1434 class" },
-  deltaThetaMinK: { label: "Δθmin (K)" },
-  qpM3PerH: { label: "qp (m³/h)" },
+  deltaThetaMinK: { label: "Δθmin (K)", format: decimal },
+  qpM3PerH: { label: "qp (m³/h)", format: decimal },
   installedAt: { label: "Installed on", format: instant },
   removedAt: { label: "Removed on", format: instant },
   swappedAt: { label: "Swapped on", format: instant },
+  replacementMeterId: { label: "Replaced by", format: meterCode },
   timeZone: { label: "Time zone" },
-  floorAreaM2: { label: "Floor area (m²)" },
-  degreeDayBaseC: { label: "Degree-day base (°C)" },
+  floorAreaM2: { label: "Floor area (m²)", format: decimal },
+  degreeDayBaseC: { label: "Degree-day base (°C)", format: decimal },
   address: { label: "Address" },
   keyPrefix: { label: "Key starts with" },
   status: {
@@ -236,10 +246,21 @@ function line(
   };
 }
 
+/** Known fields in the order above, then any others alphabetically. */
+const FIELD_ORDER = Object.keys(FIELDS);
+function byFieldOrder(a: string, b: string): number {
+  const rank = (key: string) => {
+    const i = FIELD_ORDER.indexOf(key);
+    return i === -1 ? FIELD_ORDER.length : i;
+  };
+  return rank(a) - rank(b) || a.localeCompare(b);
+}
+
 /**
- * One line per field in before or after, in the order written (before's
- * fields first). A field that shows the same on both sides is left out: an
- * unchanged value, or an empty setting of something added or removed.
+ * One line per field in before or after, in a fixed order (PostgreSQL's
+ * jsonb keeps no order of its own). A field that shows the same on both
+ * sides is left out: an unchanged value, or an empty setting of something
+ * added or removed.
  */
 export function describeChanges(
   before: Record<string, unknown> | null,
@@ -248,7 +269,7 @@ export function describeChanges(
 ): ChangeLine[] {
   const keys = [
     ...new Set([...Object.keys(before ?? {}), ...Object.keys(after ?? {})]),
-  ];
+  ].sort(byFieldOrder);
   return keys
     .map((key) => line(key, before, after, names))
     .filter((l) => l.before !== l.after);
