@@ -131,16 +131,6 @@ const FIELDS: Record<string, { label: string; format?: Format }> = {
       missing: "Missing",
     }),
   },
-  state: {
-    label: "State",
-    format: fromTable({
-      open: "Open",
-      closed: "Closed",
-      active: "Active",
-      revoked: "Revoked",
-      withdrawn: "Withdrawn",
-    }),
-  },
   month: { label: "Month", format: calendar },
   role: { label: "Role", format: role },
   email: { label: "E-mail" },
@@ -221,6 +211,16 @@ const FIELDS: Record<string, { label: string; format?: Format }> = {
   updated: { label: "Days replaced" },
   title: { label: "Title" },
   period: { label: "Period" },
+  state: {
+    label: "State",
+    format: fromTable({
+      open: "Open",
+      closed: "Closed",
+      active: "Active",
+      revoked: "Revoked",
+      withdrawn: "Withdrawn",
+    }),
+  },
 };
 
 /** "rolloverKwh" → "Rollover kwh": the fallback for fields not listed. */

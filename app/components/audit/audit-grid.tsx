@@ -8,7 +8,7 @@ import {
   type ICellRendererParams,
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
-import { useMemo } from "react";
+import { useMemo, type ReactNode } from "react";
 import { Badge } from "~/components/ui";
 import type { AuditEntry } from "./use-audit";
 
@@ -37,19 +37,33 @@ const when = new Intl.DateTimeFormat("en-GB", {
   minute: "2-digit",
 });
 
+/**
+ * Cells hold several short lines: each renderer pads its own content, as
+ * auto-height rows are measured from the content, not the cell.
+ */
+function Lines({ children }: { children: ReactNode }) {
+  return <div className="py-2 leading-snug">{children}</div>;
+}
+
 function WhenCell({ data }: ICellRendererParams<AuditEntry>) {
   if (!data) return null;
   return (
-    <time dateTime={data.occurred_at} title={data.occurred_at}>
-      {when.format(new Date(data.occurred_at))}
-    </time>
+    <Lines>
+      <time dateTime={data.occurred_at} title={data.occurred_at}>
+        {when.format(new Date(data.occurred_at))}
+      </time>
+    </Lines>
   );
+}
+
+function ReasonCell({ data }: ICellRendererParams<AuditEntry>) {
+  return data?.reason ? <Lines>{data.reason}</Lines> : null;
 }
 
 function ChangeCell({ data }: ICellRendererParams<AuditEntry>) {
   if (!data) return null;
   return (
-    <div className="flex flex-col items-start gap-1 py-2 leading-snug">
+    <div className="flex flex-col items-start gap-0.5 py-2 leading-snug">
       <span className="font-semibold">{data.action_label}</span>
       <span className="text-sm text-ink-muted">{data.subject}</span>
     </div>
@@ -58,19 +72,27 @@ function ChangeCell({ data }: ICellRendererParams<AuditEntry>) {
 
 function WhoCell({ data }: ICellRendererParams<AuditEntry>) {
   if (!data) return null;
-  return data.actor.type === "person" ? (
-    <span>{data.actor.name}</span>
-  ) : (
-    <Badge tone={data.actor.type === "gateway" ? "frost" : undefined}>
-      {data.actor.name}
-    </Badge>
+  return (
+    <Lines>
+      {data.actor.type === "person" ? (
+        data.actor.name
+      ) : (
+        <Badge tone={data.actor.type === "gateway" ? "frost" : undefined}>
+          {data.actor.name}
+        </Badge>
+      )}
+    </Lines>
   );
 }
 
 function WhereCell({ data }: ICellRendererParams<AuditEntry>) {
   if (!data) return null;
   if (!data.site && !data.meter)
-    return <span className="text-ink-muted">Organisation</span>;
+    return (
+      <Lines>
+        <span className="text-ink-muted">Organisation</span>
+      </Lines>
+    );
   return (
     <div className="flex flex-col py-2 leading-snug">
       {data.site ? <span>{data.site.name}</span> : null}
@@ -85,7 +107,11 @@ function WhereCell({ data }: ICellRendererParams<AuditEntry>) {
 function ChangesCell({ data }: ICellRendererParams<AuditEntry>) {
   if (!data) return null;
   if (data.changes.length === 0)
-    return <span className="text-ink-muted">—</span>;
+    return (
+      <Lines>
+        <span className="text-ink-muted">—</span>
+      </Lines>
+    );
   return (
     <ul className="flex flex-col gap-0.5 py-2 leading-snug">
       {data.changes.map((c) => (
@@ -149,8 +175,7 @@ export function AuditGrid({ entries }: { entries: AuditEntry[] }) {
       {
         headerName: "Why",
         field: "reason",
-        valueFormatter: (p) => p.value ?? "",
-        cellClass: "leading-snug py-2",
+        cellRenderer: ReasonCell,
         minWidth: 140,
         flex: 1.5,
       },
