@@ -58,6 +58,19 @@ describe("before and after in words", () => {
     ).toEqual([]);
   });
 
+  it("rounds a baseline's fitted coefficients", () => {
+    expect(
+      describeChanges(
+        null,
+        { slope: 30.000000412, intercept: -1.23456 },
+        names,
+      ),
+    ).toEqual([
+      { field: "Slope (kWh per degree day)", before: "—", after: "30" },
+      { field: "Base load (kWh per month)", before: "—", after: "\u22121.235" },
+    ]);
+  });
+
   it("writes one side on one line for the CSV", () => {
     const lines = describeChanges(
       { role: "owner" },

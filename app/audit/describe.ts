@@ -103,6 +103,17 @@ function decimal(value: unknown): string {
   return plain(value);
 }
 
+const threePlaces = new Intl.NumberFormat("en-GB", {
+  maximumFractionDigits: 3,
+});
+
+/** A fitted coefficient: three decimals say all a reader can use. */
+function rounded(value: unknown): string {
+  return typeof value === "number" && Number.isFinite(value)
+    ? threePlaces.format(value).replace("-", "\u2212")
+    : plain(value);
+}
+
 const meterCode: Format = (value, names) =>
   typeof value === "string" && value !== ""
     ? (names.meterCodes.get(value) ?? "another meter")
@@ -203,8 +214,8 @@ const FIELDS: Record<string, { label: string; format?: Format }> = {
     label: "Driver",
     format: fromTable(driverLabels),
   },
-  slope: { label: "Slope (kWh per degree day)" },
-  intercept: { label: "Base load (kWh per month)" },
+  slope: { label: "Slope (kWh per degree day)", format: rounded },
+  intercept: { label: "Base load (kWh per month)", format: rounded },
   n: { label: "Months fitted" },
   days: { label: "Days" },
   inserted: { label: "Days added" },
