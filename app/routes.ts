@@ -29,6 +29,7 @@ export default [
       route("meters/:meterId/readings", "routes/meter-readings.tsx"),
       route("readings", "routes/readings.tsx"),
       route("ledger", "routes/ledger.tsx"),
+      route("audit", "routes/audit.tsx"),
       route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),
       route("reports", "routes/reports.tsx"),

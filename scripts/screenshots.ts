@@ -39,8 +39,12 @@ for (const [label, viewport] of [
   await page.goto(`${base}${orgPath}/ledger`);
   await page.locator('[row-id^="total"]').first().waitFor();
   await page.screenshot({ path: `${out}/${label}-ledger.png`, fullPage: true });
-  for (const path of ["members", "../../outbox", "../../account"]) {
-    await page.goto(new URL(path, `${base}${orgPath}/`).href);
+  for (const path of ["members", "audit", "../../outbox", "../../account"]) {
+    // Pages that fetch their rows after loading (the audit trail) are
+    // pictured once the network is quiet.
+    await page.goto(new URL(path, `${base}${orgPath}/`).href, {
+      waitUntil: "networkidle",
+    });
     await page.screenshot({
       path: `${out}/${label}-${path.replaceAll("../", "")}.png`,
       fullPage: true,

@@ -1,3 +1,4 @@
+import { auditKinds } from "~/audit/kinds";
 import { evaluateOpenApi } from "~/physics/evaluate";
 
 const errorSchema = {
@@ -43,6 +44,66 @@ const orgIdParameter = {
   required: true,
   schema: { type: "string", format: "uuid" },
 };
+
+const queryParameter = (
+  name: string,
+  schema: Record<string, unknown>,
+  description: string,
+) => ({ name, in: "query", schema, description });
+
+/** The audit trail's filters, shared by the JSON and CSV routes. */
+const auditFilterParameters = [
+  queryParameter(
+    "site",
+    { type: "string", format: "uuid" },
+    "Entries about this site or its meters",
+  ),
+  queryParameter(
+    "meter",
+    { type: "string", format: "uuid" },
+    "Entries about this meter",
+  ),
+  queryParameter(
+    "person",
+    { type: "string" },
+    "Changes made by this person (user id)",
+  ),
+  queryParameter(
+    "kind",
+    { enum: [...auditKinds] },
+    "correction, adjustment, month, meter, site, gateway, member, billing, baseline or report",
+  ),
+  queryParameter(
+    "from",
+    { type: "string", format: "date" },
+    "First day, included",
+  ),
+  queryParameter(
+    "to",
+    { type: "string", format: "date" },
+    "Last day, included",
+  ),
+  queryParameter(
+    "tz",
+    { type: "string" },
+    "IANA time zone of from and to; UTC by default",
+  ),
+  queryParameter(
+    "month",
+    { type: "string", pattern: "^\\d{4}-\\d{2}$" },
+    "The ledger month an entry concerns (adjusting entries, closes)",
+  ),
+  queryParameter(
+    "carrier",
+    { enum: ["heat", "cooling", "steam", "electricity"] },
+    "Entries about meters of this carrier",
+  ),
+  queryParameter(
+    "since",
+    { type: "string", format: "date-time" },
+    "Entries made at or after this instant",
+  ),
+];
 
 /** The OpenAPI 3.1 description of /api/v1, served at /api/v1/openapi.json. */
 export function openApiDocument() {
@@ -330,6 +391,59 @@ export function openApiDocument() {
             "404": errorResponse(
               "No such meter in an organisation you belong to",
             ),
+          },
+        },
+      },
+      "/orgs/{orgId}/audit": {
+        parameters: [orgIdParameter],
+        get: {
+          summary:
+            "The audit trail: every change, newest first (owners and auditors)",
+          description:
+            "Corrections, adjusting entries, month close and reopen, meters and swaps, sites, gateway keys, members and roles, billing state, baselines and weather, reports. Each entry has who (`actor`: a person, a gateway, or Stripe/Joulebook), when (`occurred_at`), why (`reason`), the values `before` and `after` as stored, and `changes`: the same as readable lines. 200 entries a page; pass `next_before` back as `before` for older ones.",
+          security: [{ session: [] }],
+          parameters: [
+            ...auditFilterParameters,
+            {
+              name: "limit",
+              in: "query",
+              schema: { type: "integer", minimum: 1, maximum: 500 },
+              description: "Entries per page; 200 by default",
+            },
+            {
+              name: "before",
+              in: "query",
+              schema: { type: "integer" },
+              description: "The previous page's `next_before`",
+            },
+          ],
+          responses: {
+            "200": jsonResponse(
+              "`{ entries: [{ id, occurred_at, action, action_label, kind, kind_label, actor: { type, id, name }, site, meter, subject, reason, changes: [{ field, before, after }], before, after, details }], next_before }`",
+            ),
+            "400": errorResponse("A filter that is not valid"),
+            "403": errorResponse("The role may not read the audit trail"),
+            "404": errorResponse("No such organisation of yours"),
+          },
+        },
+      },
+      "/orgs/{orgId}/audit.csv": {
+        parameters: [orgIdParameter],
+        get: {
+          summary: "The audit trail as CSV, with the same filters",
+          description:
+            "Columns: occurred_at_utc, kind, change, who, site, meter, subject, reason, before, after, entry_id. Cells a spreadsheet would run as formulas are written as text. At most 50,000 entries (`400 too_many_entries` beyond).",
+          security: [{ session: [] }],
+          parameters: auditFilterParameters,
+          responses: {
+            "200": {
+              description: "The CSV file",
+              content: { "text/csv": { schema: { type: "string" } } },
+            },
+            "400": errorResponse(
+              "A filter that is not valid, or too many entries",
+            ),
+            "403": errorResponse("The role may not read the audit trail"),
           },
         },
       },

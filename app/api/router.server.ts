@@ -1,5 +1,6 @@
 import express, { Router } from "express";
 import { stripeWebhook, WEBHOOK_BODY_LIMIT } from "./billing-webhook.server";
+import { getAuditCsv, getAuditEntries } from "./audit.server";
 import { evaluateEnergy, EVALUATE_BODY_LIMIT } from "./evaluate.server";
 import { health } from "./health.server";
 import { getLedger, getLedgerCsv, getLedgerXlsx } from "./ledger.server";
@@ -59,6 +60,16 @@ export function apiRouter(): Router {
     "/orgs/:orgId/ledger.xlsx",
     requireOrgMember("ledger.view"),
     getLedgerXlsx,
+  );
+  router.get(
+    "/orgs/:orgId/audit",
+    requireOrgMember("audit.view"),
+    getAuditEntries,
+  );
+  router.get(
+    "/orgs/:orgId/audit.csv",
+    requireOrgMember("audit.view"),
+    getAuditCsv,
   );
   router.get(
     "/orgs/:orgId/meters/:meterId/intervals",

@@ -17,7 +17,8 @@ export const roleDescriptions: Record<Role, string> = {
   energy_manager:
     "Sites, meters, gateways, readings, estimates and edits, month close.",
   finance: "Billing, and the ledger read-only.",
-  auditor: "The ledger and readings read-only; downloads and verifies reports.",
+  auditor:
+    "The ledger, readings and audit trail read-only; downloads and verifies reports.",
 };
 
 const everyone: readonly Role[] = roles;
@@ -40,6 +41,7 @@ export const permissions = {
   "reports.create": managers,
   "reports.download": everyone,
   "reports.verify": ["owner", "auditor"],
+  "audit.view": ["owner", "auditor"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof permissions;

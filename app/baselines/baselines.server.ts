@@ -5,6 +5,7 @@
  * saved baseline silently.
  */
 import { and, desc, eq } from "drizzle-orm";
+import { recordAuditWith } from "~/audit/record-audit.server";
 import { db, pool } from "~/db/client.server";
 import { baselines, users, type Carrier } from "~/db/schema";
 import { joinMonths, pointsIn, type MonthFigure } from "./analysis";
@@ -103,25 +104,22 @@ export async function saveBaseline(args: {
       ],
     );
     const id = rows[0].id;
-    await client.query(
-      `insert into audit_log (organization_id, actor_user_id, action, subject, details)
-       values ($1, $2, 'baseline.saved', $3, $4)`,
-      [
-        args.organizationId,
-        args.actorUserId,
-        id,
-        JSON.stringify({
-          siteId: args.site.id,
-          carrier: args.carrier,
-          from: args.from,
-          to: args.to,
-          driver: args.driver,
-          slope: model.slope,
-          intercept: model.intercept,
-          n: model.n,
-        }),
-      ],
-    );
+    await recordAuditWith(client, {
+      organizationId: args.organizationId,
+      actorUserId: args.actorUserId,
+      action: "baseline.saved",
+      subject: id,
+      siteId: args.site.id,
+      after: {
+        carrier: args.carrier,
+        from: args.from,
+        to: args.to,
+        driver: args.driver,
+        slope: model.slope,
+        intercept: model.intercept,
+        n: model.n,
+      },
+    });
     await client.query("commit");
     return { ok: true, id };
   } catch (error) {

@@ -2,6 +2,7 @@
  * Daily weather per site: stored from uploads (all rows or none) and from
  * the demo seed, and summed into monthly degree days in the site's months.
  */
+import { recordAuditWith } from "~/audit/record-audit.server";
 import { pool } from "~/db/client.server";
 import {
   monthlyDegreeDays,
@@ -51,16 +52,14 @@ export async function storeWeather(args: {
     );
     const inserted = rows.filter((r) => r.inserted).length;
     const result = { inserted, updated: rows.length - inserted, from, to };
-    await client.query(
-      `insert into audit_log (organization_id, actor_user_id, action, subject, details)
-       values ($1, $2, 'weather.uploaded', $3, $4)`,
-      [
-        args.organizationId,
-        args.actorUserId,
-        args.siteId,
-        JSON.stringify(result),
-      ],
-    );
+    await recordAuditWith(client, {
+      organizationId: args.organizationId,
+      actorUserId: args.actorUserId,
+      action: "weather.uploaded",
+      subject: args.siteId,
+      siteId: args.siteId,
+      after: result,
+    });
     await client.query("commit");
     return result;
   } catch (error) {

@@ -3,6 +3,7 @@
  * and the subscription state Stripe's events keep up to date.
  */
 import { eq } from "drizzle-orm";
+import { recordAudit } from "~/audit/record-audit.server";
 import { db, type Executor } from "~/db/client.server";
 import { billingAccounts, organizations } from "~/db/schema";
 import { env } from "~/env.server";
@@ -72,16 +73,29 @@ export async function ensureBillingAccount(
     id: organizationId,
     name: org.name,
   });
-  await db
-    .insert(billingAccounts)
-    .values(
-      newAccountValues({
-        organizationId,
-        stripeCustomerId: customerId,
-        trialStart: org.createdAt,
-      }),
-    )
-    .onConflictDoNothing();
+  await db.transaction(async (tx) => {
+    const [opened] = await tx
+      .insert(billingAccounts)
+      .values(
+        newAccountValues({
+          organizationId,
+          stripeCustomerId: customerId,
+          trialStart: org.createdAt,
+        }),
+      )
+      .onConflictDoNothing()
+      .returning();
+    // A concurrent first use opened it already, and recorded that.
+    if (!opened) return;
+    await recordAudit(tx, {
+      organizationId,
+      actorUserId: null,
+      action: "billing.opened",
+      subject: customerId,
+      reason: "Free trial started",
+      after: { status: opened.status, trialEndsAt: opened.trialEndsAt },
+    });
+  });
   return (await findBillingAccount(organizationId))!;
 }
 

@@ -7,6 +7,7 @@
  */
 import { and, eq } from "drizzle-orm";
 import type Stripe from "stripe";
+import { recordAudit } from "~/audit/record-audit.server";
 import { db, type Transaction } from "~/db/client.server";
 import { billingEvents, billingInvoices } from "~/db/schema";
 import type { BillingAccount } from "./account.server";
@@ -79,6 +80,7 @@ async function applySubscription(
     }
   }
   const result = await mirrorSubscription(tx, account, subscriptionId, {
+    cause: `Stripe event ${event.type}`,
     eventBehindAt: behindAt(event),
   });
   if (!result.stored) return { outcome: "ignored" };
@@ -99,6 +101,7 @@ async function applyInvoice(
   tx: Transaction,
   account: BillingAccount,
   invoice: Stripe.Invoice,
+  eventType: string,
 ): Promise<boolean> {
   const {
     customerId: _c,
@@ -125,6 +128,22 @@ async function applyInvoice(
       target: [billingInvoices.organizationId, billingInvoices.stripeInvoiceId],
       set: values,
     });
+  if (existing?.status !== row.status)
+    await recordAudit(tx, {
+      organizationId: account.organizationId,
+      actorUserId: null,
+      action: "billing.invoice_changed",
+      subject: row.stripeInvoiceId,
+      reason: `Stripe event ${eventType}`,
+      before: existing ? { invoiceStatus: existing.status } : null,
+      after: { invoiceStatus: row.status },
+      details: {
+        number: row.number,
+        currency: row.currency,
+        amountDue: row.amountDue,
+        amountPaid: row.amountPaid,
+      },
+    });
   return true;
 }
 
@@ -141,6 +160,7 @@ async function applyEffect(
       tx,
       account,
       event.data.object as Stripe.Invoice,
+      event.type,
     );
     return { outcome: applied ? "applied" : "ignored" };
   }

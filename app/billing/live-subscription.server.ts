@@ -20,6 +20,7 @@ import {
   hasLiveSubscription,
   type BillingAccount,
 } from "./account.server";
+import { recordBillingChange } from "./billing-audit.server";
 import { nextPastDueSince } from "./standing";
 import {
   subscriptionSnapshot,
@@ -109,7 +110,12 @@ export async function mirrorSubscription(
   tx: Transaction,
   account: BillingAccount,
   subscriptionId: string,
-  options: { eventBehindAt?: Date | null; reconciledAt?: Date } = {},
+  options: {
+    /** What prompted the read, as the audit trail gives it for any change. */
+    cause: string;
+    eventBehindAt?: Date | null;
+    reconciledAt?: Date;
+  },
 ): Promise<MirrorResult> {
   const live = await retrieveLiveSubscription(subscriptionId);
   if (!live) return { stored: false, reason: "missing" };
@@ -126,14 +132,23 @@ export async function mirrorSubscription(
     return { stored: false, reason: "other_subscription" };
   }
   const now = new Date();
+  const state = {
+    stripeSubscriptionId: snapshot.subscriptionId,
+    status: snapshot.status,
+    quantity: snapshot.quantity,
+    currentPeriodEnd: snapshot.currentPeriodEnd,
+    cancelAtPeriodEnd: snapshot.cancelAtPeriodEnd,
+  };
+  await recordBillingChange(tx, {
+    organizationId: account.organizationId,
+    before: account,
+    after: state,
+    reason: options.cause,
+  });
   await tx
     .update(billingAccounts)
     .set({
-      stripeSubscriptionId: snapshot.subscriptionId,
-      status: snapshot.status,
-      quantity: snapshot.quantity,
-      currentPeriodEnd: snapshot.currentPeriodEnd,
-      cancelAtPeriodEnd: snapshot.cancelAtPeriodEnd,
+      ...state,
       pastDueSince: nextPastDueSince(
         snapshot.status,
         account.pastDueSince,

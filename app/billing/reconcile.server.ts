@@ -111,6 +111,7 @@ async function reconcileAccount(
     const locked = await lockAccount(tx, organizationId);
     if (!locked) throw new Error(`no billing account for ${organizationId}`);
     return mirrorSubscription(tx, locked, subscriptionId, {
+      cause: "Checked against Stripe (reconciliation)",
       reconciledAt: new Date(),
     });
   });

@@ -62,7 +62,8 @@ export async function signUpOwner(input: {
         actorUserId: id,
         action: "organization.created",
         subject: organizationId,
-        details: { name: input.organizationName, via: "sign-up" },
+        after: { name: input.organizationName },
+        details: { via: "sign-up" },
       });
       return id;
     });

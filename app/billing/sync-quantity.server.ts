@@ -5,10 +5,12 @@
  * drift is logged and the reconciliation job repairs it.
  */
 import { eq } from "drizzle-orm";
+import { actionLabel } from "~/audit/kinds";
 import { db } from "~/db/client.server";
 import { billingAccounts } from "~/db/schema";
 import { env } from "~/env.server";
 import { findBillingAccount, hasLiveSubscription } from "./account.server";
+import { recordBillingChange } from "./billing-audit.server";
 import { quantityKey } from "./idempotency";
 import { countMeteredSites } from "./metered-sites.server";
 import { planQuantity } from "./plan";
@@ -51,16 +53,38 @@ export async function syncSubscriptionQuantity(args: {
       { idempotencyKey: quantityKey(item.id, args.cause, target) },
     );
   }
-  await db
-    .update(billingAccounts)
-    .set({ quantity: target, updatedAt: new Date() })
-    .where(eq(billingAccounts.organizationId, args.organizationId));
+  await db.transaction(async (tx) => {
+    const [before] = await tx
+      .select()
+      .from(billingAccounts)
+      .where(eq(billingAccounts.organizationId, args.organizationId))
+      .for("update");
+    if (!before) return;
+    await tx
+      .update(billingAccounts)
+      .set({ quantity: target, updatedAt: new Date() })
+      .where(eq(billingAccounts.organizationId, args.organizationId));
+    await recordBillingChange(tx, {
+      organizationId: args.organizationId,
+      before,
+      after: { ...before, quantity: target },
+      reason: causeInWords(args.cause),
+    });
+  });
   return {
     organizationId: args.organizationId,
     from,
     to: target,
     changed: from !== target,
   };
+}
+
+/** `meter.created:<id>` as a reason someone reads in the audit trail. */
+function causeInWords(cause: string): string {
+  const [what] = cause.split(":");
+  if (what === "linked")
+    return "Metered sites counted when the subscription was linked";
+  return `Metered sites counted after: ${actionLabel(what)}`;
 }
 
 /** How long a user's request waits for Stripe before answering anyway. */

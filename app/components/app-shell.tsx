@@ -42,6 +42,7 @@ const areas: Area[] = [
   { label: "Reports", path: "/reports", permission: "reports.download" },
   { label: "Billing", path: "/billing", permission: "billing.view" },
   { label: "Members", path: "/members", permission: "members.view" },
+  { label: "Audit trail", path: "/audit", permission: "audit.view" },
 ];
 
 function navClass({ isActive }: { isActive: boolean }) {

@@ -184,7 +184,14 @@ export const gateways = pgTable(
   ],
 );
 
-/** Who changed what, for every human change inside an organisation. */
+/**
+ * Who changed what, when, why, and the values before and after, for every
+ * change inside an organisation (the Audit trail page). Written in the same
+ * transaction as the change (app/audit/record-audit.server.ts). `site_id` and
+ * `meter_id` say where the change applies, for filtering; a change made by a
+ * gateway (late readings) names it in `actor_gateway_id`, one made by Stripe
+ * or by Joulebook itself has neither actor.
+ */
 export const auditLog = pgTable(
   "audit_log",
   {
@@ -195,14 +202,23 @@ export const auditLog = pgTable(
     actorUserId: text("actor_user_id").references(() => users.id, {
       onDelete: "set null",
     }),
+    actorGatewayId: uuid("actor_gateway_id"),
     action: text("action").notNull(),
     subject: text("subject").notNull(),
+    siteId: uuid("site_id"),
+    meterId: uuid("meter_id"),
+    reason: text("reason"),
+    before: jsonb("before").$type<Record<string, unknown>>(),
+    after: jsonb("after").$type<Record<string, unknown>>(),
     details: jsonb("details").$type<Record<string, unknown>>().notNull(),
     occurredAt: timestamp("occurred_at", { withTimezone: true })
       .notNull()
       .defaultNow(),
   },
-  (t) => [primaryKey({ columns: [t.organizationId, t.id] })],
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("audit_log_occurred_idx").on(t.organizationId, t.occurredAt),
+  ],
 );
 
 export type Role = (typeof roleEnum.enumValues)[number];

@@ -22,12 +22,17 @@ export async function createGateway(args: {
         keyPrefix: gatewayKeyPrefix(key),
       })
       .returning({ id: gateways.id });
+    // The key itself is never recorded: only the prefix that tells keys apart.
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
       action: "gateway.created",
       subject: gateway.id,
-      details: { name: args.name },
+      after: {
+        name: args.name,
+        keyPrefix: gatewayKeyPrefix(key),
+        state: "active",
+      },
     });
     return gateway.id;
   });
@@ -50,13 +55,16 @@ export async function revokeGateway(args: {
           isNull(gateways.revokedAt),
         ),
       )
-      .returning({ id: gateways.id });
+      .returning({ name: gateways.name, keyPrefix: gateways.keyPrefix });
     if (revoked.length === 0) return false;
+    const [{ name, keyPrefix }] = revoked;
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
       action: "gateway.revoked",
       subject: args.gatewayId,
+      before: { name, keyPrefix, state: "active" },
+      after: { name, keyPrefix, state: "revoked" },
     });
     return true;
   });

@@ -30,6 +30,8 @@ export interface LedgerRow {
   status: "open" | "closed";
   adjustments_kwh: string;
   adjustment_count: number;
+  /** When a closed month was closed: its adjusting entries are those since. */
+  closed_at: string | null;
 }
 
 /** One carrier's sums over every row: unlike carriers are never added. */
@@ -96,6 +98,7 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
               sum(b.uncertainty_kwh) as uncertainty_kwh,
               coalesce(sum(abs(b.estimated_kwh)) / nullif(sum(abs(b.energy_kwh)), 0), 0) as estimated_share,
               bool_or(b.closed_at is not null) as closed,
+              min(b.closed_at) as closed_at,
               coalesce(sum(b.sign * a.delta), 0) as adjustments_kwh,
               coalesce(sum(a.n), 0) as adjustment_count
          from base b left join adj a on a.meter_id = b.meter_id and a.month = b.month
@@ -115,7 +118,8 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
            'uncertainty_kwh', case when carrier in ('heat', 'cooling') and uncertainty_kwh > 0
                                    then uncertainty_kwh::text end,
            'status', case when closed then 'closed' else 'open' end,
-           'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int)
+           'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int,
+           'closed_at', closed_at)
          order by site_name, month, carrier), '[]'::json),
        'totals', (select coalesce(json_agg(json_build_object(
            'carrier', carrier, 'imports_kwh', imports_kwh::text,

@@ -1,3 +1,4 @@
+import { recordAuditWith } from "~/audit/record-audit.server";
 import { pool } from "~/db/client.server";
 
 type Outcome = { ok: true } | { ok: false; reason: string };
@@ -73,15 +74,16 @@ export async function closeMonth(target: MonthTarget): Promise<Outcome> {
         target.actorUserId,
       ],
     );
-    await client.query(
-      `insert into audit_log (organization_id, actor_user_id, action, subject, details) values ($1, $2, 'month.closed', $3, $4)`,
-      [
-        target.organizationId,
-        target.actorUserId,
-        target.month,
-        JSON.stringify({ siteId: target.siteId }),
-      ],
-    );
+    await recordAuditWith(client, {
+      organizationId: target.organizationId,
+      actorUserId: target.actorUserId,
+      action: "month.closed",
+      subject: target.month,
+      siteId: target.siteId,
+      before: { state: "open" },
+      after: { state: "closed" },
+      details: { month: target.month },
+    });
     await client.query("commit");
     return { ok: true };
   } catch (error) {
@@ -105,7 +107,7 @@ export async function reopenMonth(
       `update month_closes set reopened_at = now(), reopened_by_user_id = $4, reopen_reason = $5
         where organization_id = $1 and month = $2 and reopened_at is null
           and site_id is not distinct from $3::uuid
-        returning id`,
+        returning id, closed_at`,
       [
         target.organizationId,
         monthDate(target.month),
@@ -121,15 +123,17 @@ export async function reopenMonth(
         reason: `${target.month} is not closed${target.siteId ? " for this site" : " for the whole organisation"}.`,
       };
     }
-    await client.query(
-      `insert into audit_log (organization_id, actor_user_id, action, subject, details) values ($1, $2, 'month.reopened', $3, $4)`,
-      [
-        target.organizationId,
-        target.actorUserId,
-        target.month,
-        JSON.stringify({ siteId: target.siteId, reason: target.reason }),
-      ],
-    );
+    await recordAuditWith(client, {
+      organizationId: target.organizationId,
+      actorUserId: target.actorUserId,
+      action: "month.reopened",
+      subject: target.month,
+      siteId: target.siteId,
+      reason: target.reason,
+      before: { state: "closed" },
+      after: { state: "open" },
+      details: { month: target.month, closedAt: rows[0].closed_at },
+    });
     await client.query("commit");
     return { ok: true };
   } catch (error) {

@@ -34,7 +34,8 @@ export interface RollupDelta {
  * recomputation would sum a snapshot that misses that writer's hours. Rows
  * are taken in key order so two transactions never wait on each other in a
  * cycle. When a month is closed, a change in its energy is written as an
- * adjusting entry in the same statement, so it can never be silent.
+ * adjusting entry in the same statement, so it can never be silent, and
+ * recorded in the audit trail with the meter's month before and after it.
  */
 export async function applyRollupDeltas(
   client: PoolClient,
@@ -63,7 +64,7 @@ export async function applyRollupDeltas(
          hours = r.hours + excluded.hours,
          estimated_hours = r.estimated_hours + excluded.estimated_hours,
          updated_at = now()
-       returning 1
+       returning meter_id, month, energy_kwh
      ), adj as (
        insert into ledger_adjustments (organization_id, meter_id, month, delta_kwh, source, reason, actor_user_id, gateway_id)
        select $1, d.meter_id, d.month, d.e, $9, $10, $11, $12
@@ -72,6 +73,18 @@ export async function applyRollupDeltas(
           and exists (select 1 from month_closes c
                        where c.organization_id = $1 and c.month = d.month and c.reopened_at is null
                          and (c.site_id is null or c.site_id = m.site_id))
+       returning id, meter_id, month, delta_kwh
+     ), audited as (
+       insert into audit_log (organization_id, actor_user_id, actor_gateway_id, action, subject,
+                              site_id, meter_id, reason, before, after, details)
+       select $1, $11, $12, 'ledger.adjusted', a.id::text, m.site_id, a.meter_id, $10,
+              jsonb_build_object('energyKwh', (u.energy_kwh - a.delta_kwh)::text),
+              jsonb_build_object('energyKwh', u.energy_kwh::text),
+              jsonb_build_object('month', to_char(a.month, 'YYYY-MM'), 'deltaKwh', a.delta_kwh::text,
+                                 'source', $9::text, 'adjustmentId', a.id)
+         from adj a
+         join up u on u.meter_id = a.meter_id and u.month = a.month
+         join meters m on m.organization_id = $1 and m.id = a.meter_id
        returning 1
      )
      select (select count(*) from adj)::int as adjustments, (select count(*) from up)::int as rollups`,

@@ -120,7 +120,8 @@ export async function changeMemberRole(args: {
       actorUserId: args.actorUserId,
       action: "member.role_changed",
       subject: args.userId,
-      details: { from: target.role, to: args.role },
+      before: { role: target.role },
+      after: { role: args.role },
     });
     return { from: target.role, to: args.role };
   });
@@ -152,7 +153,7 @@ export async function removeMember(args: {
       actorUserId: args.actorUserId,
       action: "member.removed",
       subject: args.userId,
-      details: { role: target.role },
+      before: { role: target.role },
     });
     return true;
   });
@@ -195,7 +196,7 @@ export async function inviteMember(args: {
       actorUserId: args.actor.id,
       action: "invitation.created",
       subject: invitation.id,
-      details: { email, role: args.role },
+      after: { email, role: args.role },
     });
     // Sent before commit: an invitation exists only if its e-mail went out.
     await sendEmail(
@@ -230,13 +231,16 @@ export async function revokeInvitation(args: {
           isNull(invitations.revokedAt),
         ),
       )
-      .returning({ id: invitations.id });
+      .returning({ email: invitations.email, role: invitations.role });
     if (revoked.length === 0) return false;
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
       action: "invitation.revoked",
       subject: args.invitationId,
+      before: { state: "open" },
+      after: { state: "withdrawn" },
+      details: revoked[0],
     });
     return true;
   });
@@ -328,7 +332,7 @@ export async function acceptInvitationIn(
       actorUserId: args.userId,
       action: "invitation.accepted",
       subject: spent.id,
-      details: { role: spent.role },
+      after: { role: spent.role },
     });
     return { ok: true, organizationId: spent.organizationId };
   }

@@ -98,7 +98,8 @@ export async function requestReport(input: {
       actorUserId: input.actorUserId,
       action: "report.requested",
       subject: row.id,
-      details: { title, siteId: input.siteId, period: input.period.label },
+      siteId: input.siteId,
+      after: { title, period: input.period.label },
     });
     return row.id;
   });

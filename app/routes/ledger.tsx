@@ -1,12 +1,11 @@
 import { monthCount, monthKey } from "~/lib/months";
 import { useHydrated } from "~/lib/use-hydrated";
-import { useEffect, useMemo, useRef, useState, type ReactNode } from "react";
+import { useUrlFilters } from "~/lib/use-url-filters";
+import { useEffect, useMemo, useRef, type ReactNode } from "react";
 import {
   data,
   Form,
-  useLocation,
   useNavigation,
-  useSearchParams,
   type ShouldRevalidateFunctionArgs,
 } from "react-router";
 import { z } from "zod";
@@ -18,7 +17,11 @@ import {
   LedgerGrid,
   ledgerUnits,
 } from "~/components/ledger/ledger-grid";
-import { ledgerQuery, useLedger } from "~/components/ledger/use-ledger";
+import {
+  ledgerQuery,
+  useLedger,
+  type LedgerRow,
+} from "~/components/ledger/use-ledger";
 import {
   Button,
   Card,
@@ -47,6 +50,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     organization,
     canClose: can(role, "months.close"),
     canReopen: can(role, "months.reopen"),
+    canOpenAudit: can(role, "audit.view"),
     sites: await listSites({ organizationId: organization.id }),
   };
 }
@@ -340,33 +344,18 @@ function MonthClose({
 }
 
 /**
- * The filters, kept in the URL. A change shows in its field at once: the URL
- * follows in a transition, and a controlled field waiting for a transition
- * would jump back meanwhile. The draft belongs to the location it was made
- * on, so any later navigation (the nav link, back) shows the URL again.
+ * The audit trail filtered to one row's adjusting entries: its site, month
+ * and carrier, made since the month was closed (as the ledger counts them).
  */
-function useUrlFilters() {
-  const [params, setParams] = useSearchParams();
-  const { key } = useLocation();
-  const [draft, setDraft] = useState<{
-    key: string;
-    values: Record<string, string>;
-  }>({ key: "", values: {} });
-  const pending = draft.key === key ? draft.values : {};
-  const get = (name: string): string =>
-    Object.hasOwn(pending, name) ? pending[name] : (params.get(name) ?? "");
-  /** Sets one filter; an empty value falls back to its default. */
-  const set = (name: string, value: string) => {
-    const values = { ...pending, [name]: value };
-    setDraft({ key, values });
-    const next = new URLSearchParams(params);
-    for (const [k, v] of Object.entries(values)) {
-      if (v) next.set(k, v);
-      else next.delete(k);
-    }
-    setParams(next, { replace: true, preventScrollReset: true });
-  };
-  return [get, set] as const;
+function adjustmentsHref(orgId: string, row: LedgerRow): string {
+  const query = new URLSearchParams({
+    kind: "adjustment",
+    site: row.site_id,
+    month: row.month,
+    carrier: row.carrier,
+  });
+  if (row.closed_at) query.set("since", row.closed_at);
+  return `/o/${orgId}/audit?${query}`;
 }
 
 function Legend({ children }: { children: ReactNode }) {
@@ -377,7 +366,7 @@ export default function LedgerPage({
   loaderData,
   actionData,
 }: Route.ComponentProps) {
-  const { organization, sites, canClose, canReopen } = loaderData;
+  const { organization, sites, canClose, canReopen, canOpenAudit } = loaderData;
   const result = actionData as Result | undefined;
   const [filter, setFilter] = useUrlFilters();
   const defaults = useMemo(() => defaultMonths(new Date()), []);
@@ -419,6 +408,15 @@ export default function LedgerPage({
 
   // The grid measures the page, so it renders in the browser only.
   const mounted = useHydrated();
+
+  // An adjusted row opens its adjusting entries in the audit trail.
+  const adjustmentsLink = useMemo(
+    () =>
+      canOpenAudit
+        ? (row: LedgerRow) => adjustmentsHref(organization.id, row)
+        : undefined,
+    [canOpenAudit, organization.id],
+  );
 
   const siteName = sites.find((s) => s.id === site)?.name;
   const rows = ledger?.rows ?? [];
@@ -540,13 +538,22 @@ export default function LedgerPage({
               Monthly entries
             </h2>
             <div className="mt-3">
-              <LedgerGrid ledger={ledger} unit={unit} perM2={perM2} />
+              <LedgerGrid
+                ledger={ledger}
+                unit={unit}
+                perM2={perM2}
+                adjustmentsLink={adjustmentsLink}
+              />
             </div>
             <Legend>
               Estimated share: the part of the net figure that comes from
               estimated intervals. ± Uncertainty: the heat meters' maximum
               permissible error (EN 1434), where it applies. Adjustments:
-              corrections entered after the month was closed, with their count.
+              corrections entered after the month was closed, with their count
+              {canOpenAudit
+                ? "; select one to see its entries in the audit trail"
+                : ""}
+              .
               {perM2
                 ? " Per m²: each site's figures divided by its floor area; a carrier's total by the floor area of the sites listed with it."
                 : ""}{" "}

@@ -93,7 +93,11 @@ export async function action({ request, params }: Route.ActionArgs) {
     if (intent === "retire") {
       const form = parseForm(formData, retireSchema);
       if (!form.ok) return fail(intent, form.errors);
-      await retireMeter({ ...scope, removedAt: form.data.removedAt! });
+      await retireMeter({
+        ...scope,
+        removedAt: form.data.removedAt!,
+        reason: form.data.reason,
+      });
       return data<Result>({
         intent,
         errors: {},
@@ -108,6 +112,7 @@ export async function action({ request, params }: Route.ActionArgs) {
         code: form.data.code,
         serial: form.data.serial,
         swappedAt: form.data.swappedAt!,
+        reason: form.data.reason,
       });
       throw redirect(`/o/${organization.id}/meters/${id}`);
     }
@@ -119,6 +124,18 @@ export async function action({ request, params }: Route.ActionArgs) {
       return fail(intent, { parentMeterId: error.message });
     throw error;
   }
+}
+
+function ReasonField({ error }: { error?: string }) {
+  return (
+    <Field
+      label="Reason (optional)"
+      name="reason"
+      maxLength={500}
+      hint="Kept in the audit trail with the change."
+      error={error}
+    />
+  );
 }
 
 export default function Meter({
@@ -235,6 +252,7 @@ export default function Meter({
                       required
                       error={errorsFor("replace").swappedAt}
                     />
+                    <ReasonField error={errorsFor("replace").reason} />
                     <div>
                       <Button type="submit" variant="secondary">
                         Replace meter
@@ -263,6 +281,7 @@ export default function Meter({
                       required
                       error={errorsFor("retire").removedAt}
                     />
+                    <ReasonField error={errorsFor("retire").reason} />
                     <div>
                       <Button type="submit" variant="danger">
                         Retire meter

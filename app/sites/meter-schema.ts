@@ -147,8 +147,16 @@ export const meterFormSchema = z
 
 export type MeterInput = Omit<z.infer<typeof meterFormSchema>, "intent">;
 
+/** Why a meter was retired or swapped: optional, kept in the audit trail. */
+const changeReason = z
+  .string()
+  .trim()
+  .max(500, "Use at most 500 characters.")
+  .default("");
+
 export const retireSchema = z.strictObject({
   intent: z.literal("retire"),
+  reason: changeReason,
   removedAt: dateField("Removed on").refine(
     (d) => d !== null,
     "Enter the removal date.",
@@ -157,6 +165,7 @@ export const retireSchema = z.strictObject({
 
 export const replaceSchema = z.strictObject({
   intent: z.literal("replace"),
+  reason: changeReason,
   code: meterCodeField,
   serial: z.string().trim().max(64),
   swappedAt: dateField("Swapped on").refine(

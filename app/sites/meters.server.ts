@@ -1,7 +1,7 @@
 import { and, asc, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { meters, sites } from "~/db/schema";
-import { recordAudit } from "~/audit/record-audit.server";
+import { changedFields, recordAudit } from "~/audit/record-audit.server";
 import { afterMeteredChange } from "~/billing/sync-quantity.server";
 import type { MeterInput } from "./meter-schema";
 import { DuplicateNameError, isUniqueViolation } from "./sites.server";
@@ -115,6 +115,15 @@ function columnsFrom(input: MeterInput) {
   };
 }
 
+/** What the audit trail keeps of a meter's settings (its ids aside). */
+function settingsOf(meter: MeterSettings): Record<string, unknown> {
+  const { id: _id, siteId: _site, replacedByMeterId: _r, ...settings } = meter;
+  return settings;
+}
+type MeterSettings = {
+  [K in keyof typeof meterColumns]: (typeof meters.$inferSelect)[K];
+};
+
 export class MeterRuleError extends Error {}
 
 async function assertParentOnSite(
@@ -164,13 +173,15 @@ export async function createMeter(args: {
           siteId: args.siteId,
           ...columnsFrom(args.input),
         })
-        .returning({ id: meters.id });
+        .returning(meterColumns);
       await recordAudit(tx, {
         organizationId: args.organizationId,
         actorUserId: args.actorUserId,
         action: "meter.created",
         subject: meter.id,
-        details: { ...args.input },
+        siteId: args.siteId,
+        meterId: meter.id,
+        after: settingsOf(meter),
       });
       return meter.id;
     })
@@ -195,24 +206,33 @@ export async function updateMeter(args: {
   );
   return db
     .transaction(async (tx) => {
-      const updated = await tx
+      const where = and(
+        eq(meters.organizationId, args.organizationId),
+        eq(meters.id, args.meterId),
+      );
+      const [before] = await tx
+        .select(meterColumns)
+        .from(meters)
+        .where(where)
+        .for("update");
+      if (!before) return false;
+      const [after] = await tx
         .update(meters)
         .set(columnsFrom(args.input))
-        .where(
-          and(
-            eq(meters.organizationId, args.organizationId),
-            eq(meters.id, args.meterId),
-          ),
-        )
-        .returning({ id: meters.id });
-      if (updated.length === 0) return false;
-      await recordAudit(tx, {
-        organizationId: args.organizationId,
-        actorUserId: args.actorUserId,
-        action: "meter.updated",
-        subject: args.meterId,
-        details: { ...args.input },
-      });
+        .where(where)
+        .returning(meterColumns);
+      // Saving the form unchanged is no change, and leaves no entry.
+      const changed = changedFields(settingsOf(before), settingsOf(after));
+      if (changed)
+        await recordAudit(tx, {
+          organizationId: args.organizationId,
+          actorUserId: args.actorUserId,
+          action: "meter.updated",
+          subject: args.meterId,
+          siteId: after.siteId,
+          meterId: args.meterId,
+          ...changed,
+        });
       return true;
     })
     .catch(rethrowDuplicate);
@@ -223,25 +243,30 @@ export async function retireMeter(args: {
   actorUserId: string;
   meterId: string;
   removedAt: Date;
+  reason?: string;
 }) {
   const retired = await db.transaction(async (tx) => {
-    const updated = await tx
-      .update(meters)
-      .set({ removedAt: args.removedAt })
-      .where(
-        and(
-          eq(meters.organizationId, args.organizationId),
-          eq(meters.id, args.meterId),
-        ),
-      )
-      .returning({ id: meters.id });
-    if (updated.length === 0) return false;
+    const where = and(
+      eq(meters.organizationId, args.organizationId),
+      eq(meters.id, args.meterId),
+    );
+    const [before] = await tx
+      .select({ siteId: meters.siteId, removedAt: meters.removedAt })
+      .from(meters)
+      .where(where)
+      .for("update");
+    if (!before) return false;
+    await tx.update(meters).set({ removedAt: args.removedAt }).where(where);
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
       action: "meter.retired",
       subject: args.meterId,
-      details: { removedAt: args.removedAt.toISOString() },
+      siteId: before.siteId,
+      meterId: args.meterId,
+      reason: args.reason,
+      before: { removedAt: before.removedAt },
+      after: { removedAt: args.removedAt },
     });
     return true;
   });
@@ -265,6 +290,7 @@ export async function replaceMeter(args: {
   code: string;
   serial: string;
   swappedAt: Date;
+  reason?: string;
 }) {
   const old = await getMeter({
     organizationId: args.organizationId,
@@ -310,10 +336,15 @@ export async function replaceMeter(args: {
         actorUserId: args.actorUserId,
         action: "meter.replaced",
         subject: args.meterId,
-        details: {
-          replacement: replacement.id,
+        siteId: old.siteId,
+        meterId: args.meterId,
+        reason: args.reason,
+        before: { code: old.code, serial: old.serial, removedAt: null },
+        after: {
           code: args.code,
-          swappedAt: args.swappedAt.toISOString(),
+          serial: args.serial,
+          removedAt: args.swappedAt,
+          replacementMeterId: replacement.id,
         },
       });
       return replacement.id;

@@ -1,7 +1,7 @@
 import { and, asc, count, eq, isNull } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { meters, sites } from "~/db/schema";
-import { recordAudit } from "~/audit/record-audit.server";
+import { changedFields, recordAudit } from "~/audit/record-audit.server";
 import type { SiteInput } from "./site-schema";
 
 const siteColumns = {
@@ -56,6 +56,21 @@ export async function getSite({
 
 export class DuplicateNameError extends Error {}
 
+/** A site's details as the audit trail keeps them, read back as stored. */
+const auditedColumns = {
+  id: sites.id,
+  name: sites.name,
+  timeZone: sites.timeZone,
+  floorAreaM2: sites.floorAreaM2,
+  degreeDayBaseC: sites.degreeDayBaseC,
+  address: sites.address,
+};
+
+function detailsOf(site: { id: string } & Record<string, unknown>) {
+  const { id: _id, ...details } = site;
+  return details;
+}
+
 function isUniqueViolation(error: unknown): boolean {
   const code =
     (error as { code?: string; cause?: { code?: string } }).code ??
@@ -80,13 +95,14 @@ export async function createSite(args: {
           degreeDayBaseC: args.input.degreeDayBaseC.toString(),
           address: args.input.address,
         })
-        .returning({ id: sites.id });
+        .returning(auditedColumns);
       await recordAudit(tx, {
         organizationId: args.organizationId,
         actorUserId: args.actorUserId,
         action: "site.created",
         subject: site.id,
-        details: { ...args.input },
+        siteId: site.id,
+        after: detailsOf(site),
       });
       return site.id;
     });
@@ -105,7 +121,17 @@ export async function updateSite(args: {
 }) {
   try {
     return await db.transaction(async (tx) => {
-      const updated = await tx
+      const where = and(
+        eq(sites.organizationId, args.organizationId),
+        eq(sites.id, args.siteId),
+      );
+      const [before] = await tx
+        .select(auditedColumns)
+        .from(sites)
+        .where(where)
+        .for("update");
+      if (!before) return false;
+      const [after] = await tx
         .update(sites)
         .set({
           name: args.input.name,
@@ -114,21 +140,18 @@ export async function updateSite(args: {
           degreeDayBaseC: args.input.degreeDayBaseC.toString(),
           address: args.input.address,
         })
-        .where(
-          and(
-            eq(sites.organizationId, args.organizationId),
-            eq(sites.id, args.siteId),
-          ),
-        )
-        .returning({ id: sites.id });
-      if (updated.length === 0) return false;
-      await recordAudit(tx, {
-        organizationId: args.organizationId,
-        actorUserId: args.actorUserId,
-        action: "site.updated",
-        subject: args.siteId,
-        details: { ...args.input },
-      });
+        .where(where)
+        .returning(auditedColumns);
+      const changed = changedFields(detailsOf(before), detailsOf(after));
+      if (changed)
+        await recordAudit(tx, {
+          organizationId: args.organizationId,
+          actorUserId: args.actorUserId,
+          action: "site.updated",
+          subject: args.siteId,
+          siteId: args.siteId,
+          ...changed,
+        });
       return true;
     });
   } catch (error) {

@@ -16,6 +16,14 @@ describe("role rules (design.md, Users and roles)", () => {
     }
   });
 
+  it("only owners and auditors read the audit trail", () => {
+    for (const role of roles) {
+      expect(can(role, "audit.view"), role).toBe(
+        role === "owner" || role === "auditor",
+      );
+    }
+  });
+
   it("only owners manage members and reopen months", () => {
     for (const role of roles) {
       expect(can(role, "members.manage")).toBe(role === "owner");

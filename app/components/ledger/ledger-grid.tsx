@@ -13,6 +13,7 @@ import {
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
 import { useMemo } from "react";
+import { Link } from "react-router";
 import { Badge } from "~/components/ui";
 import { convertEnergy, type EnergyUnit } from "~/physics/units";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
@@ -159,11 +160,38 @@ function totalRows(ledger: Ledger): GridRow[] {
           rows.reduce((s, r) => s + (Number(r.adjustments_kwh) || 0), 0),
         ),
         adjustment_count: rows.reduce((s, r) => s + r.adjustment_count, 0),
+        closed_at: null,
         firstOfSite: true,
         firstOfMonth: true,
         isTotal: true,
       };
     });
+}
+
+/**
+ * The adjustments of a closed month, as a link to their entries in the audit
+ * trail when the reader may open it (`linkTo` is given), else as text.
+ */
+function AdjustmentsCell({
+  valueFormatted,
+  data,
+  linkTo,
+}: ICellRendererParams<GridRow> & {
+  linkTo?: (row: LedgerRow) => string;
+}) {
+  if (!valueFormatted) return null;
+  if (!linkTo || !data || data.isTotal || !data.adjustment_count)
+    return <>{valueFormatted}</>;
+  const count = data.adjustment_count;
+  return (
+    <Link
+      to={linkTo(data as LedgerRow)}
+      className="font-semibold text-spruce-700 underline"
+      title={`Open the ${count} adjusting ${count === 1 ? "entry" : "entries"} in the audit trail`}
+    >
+      {valueFormatted}
+    </Link>
+  );
 }
 
 function StatusCell({ value }: ICellRendererParams<GridRow>) {
@@ -210,10 +238,13 @@ export function LedgerGrid({
   ledger,
   unit,
   perM2,
+  adjustmentsLink,
 }: {
   ledger: Ledger;
   unit: LedgerUnit;
   perM2: boolean;
+  /** Where a row's adjusting entries are listed; none for roles without the audit trail. */
+  adjustmentsLink?: (row: LedgerRow) => string;
 }) {
   const rows = useMemo(() => sortRows(ledger.rows), [ledger]);
   const totals = useMemo(() => totalRows(ledger), [ledger]);
@@ -313,6 +344,8 @@ export function LedgerGrid({
           const amount = p.value === null ? "—" : signed(p.value, format, true);
           return `${amount} (${count})`;
         },
+        cellRenderer: AdjustmentsCell,
+        cellRendererParams: { linkTo: adjustmentsLink },
       },
       {
         headerName: "Status",
@@ -322,7 +355,7 @@ export function LedgerGrid({
         flex: 1,
       },
     ];
-  }, [unit, perM2]);
+  }, [unit, perM2, adjustmentsLink]);
 
   // A short ledger takes only the room it needs; a long one scrolls under its
   // header, with the totals kept in view.

@@ -20,6 +20,8 @@ export interface LedgerRow {
   status: "open" | "closed";
   adjustments_kwh: string;
   adjustment_count: number;
+  /** When a closed month was closed (ISO 8601, to the microsecond). */
+  closed_at: string | null;
 }
 
 /** One carrier's totals: unlike carriers are never added together. */

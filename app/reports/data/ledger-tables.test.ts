@@ -23,6 +23,7 @@ function row(over: Partial<LedgerRow>): LedgerRow {
     status: "open",
     adjustments_kwh: "0",
     adjustment_count: 0,
+    closed_at: null,
     ...over,
   };
 }

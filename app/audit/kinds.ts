@@ -1,0 +1,96 @@
+/**
+ * Every kind of change the audit log records, grouped the way the Audit trail
+ * page filters them, with the words an energy manager would use. A plain
+ * module: the server writes and reads these names, the page shows the labels.
+ */
+
+export const auditKinds = [
+  "correction",
+  "adjustment",
+  "month",
+  "meter",
+  "site",
+  "gateway",
+  "member",
+  "billing",
+  "baseline",
+  "report",
+] as const;
+export type AuditKind = (typeof auditKinds)[number];
+
+export const auditKindLabels: Record<AuditKind, string> = {
+  correction: "Corrections to hours",
+  adjustment: "Adjusting entries",
+  month: "Month close and reopen",
+  meter: "Meters and swaps",
+  site: "Sites",
+  gateway: "Gateway keys",
+  member: "Members and roles",
+  billing: "Billing",
+  baseline: "Baselines and weather",
+  report: "Signed reports",
+};
+
+/** Each action written to audit_log.action: its kind and its label. */
+export const auditActions = {
+  "interval.edited": { kind: "correction", label: "Hour corrected" },
+  "ledger.adjusted": {
+    kind: "adjustment",
+    label: "Closed month adjusted",
+  },
+  "month.closed": { kind: "month", label: "Month closed" },
+  "month.reopened": { kind: "month", label: "Month reopened" },
+  "meter.created": { kind: "meter", label: "Meter added" },
+  "meter.updated": { kind: "meter", label: "Meter settings changed" },
+  "meter.retired": { kind: "meter", label: "Meter retired" },
+  "meter.replaced": { kind: "meter", label: "Meter swapped" },
+  "site.created": { kind: "site", label: "Site added" },
+  "site.updated": { kind: "site", label: "Site details changed" },
+  "gateway.created": { kind: "gateway", label: "Gateway key issued" },
+  "gateway.revoked": { kind: "gateway", label: "Gateway key revoked" },
+  "organization.created": { kind: "member", label: "Organisation created" },
+  "member.role_changed": { kind: "member", label: "Role changed" },
+  "member.removed": { kind: "member", label: "Member removed" },
+  "invitation.created": { kind: "member", label: "Invitation sent" },
+  "invitation.revoked": { kind: "member", label: "Invitation withdrawn" },
+  "invitation.accepted": { kind: "member", label: "Invitation accepted" },
+  "billing.opened": { kind: "billing", label: "Billing account opened" },
+  "billing.subscription_changed": {
+    kind: "billing",
+    label: "Subscription changed",
+  },
+  "billing.sites_changed": { kind: "billing", label: "Billed sites changed" },
+  "billing.invoice_changed": {
+    kind: "billing",
+    label: "Invoice status changed",
+  },
+  "baseline.saved": { kind: "baseline", label: "Baseline saved" },
+  "weather.uploaded": { kind: "baseline", label: "Weather uploaded" },
+  "report.requested": { kind: "report", label: "Signed report requested" },
+} as const satisfies Record<string, { kind: AuditKind; label: string }>;
+
+export type AuditAction = keyof typeof auditActions;
+
+export function isAuditKind(value: string): value is AuditKind {
+  return (auditKinds as readonly string[]).includes(value);
+}
+
+/** The actions of one kind, for filtering in SQL. */
+export function actionsOfKind(kind: AuditKind): AuditAction[] {
+  return (Object.keys(auditActions) as AuditAction[]).filter(
+    (action) => auditActions[action].kind === kind,
+  );
+}
+
+/** The label of an action; one this version does not know shows as written. */
+export function actionLabel(action: string): string {
+  return (
+    (auditActions as Record<string, { label: string }>)[action]?.label ?? action
+  );
+}
+
+export function kindOf(action: string): AuditKind | null {
+  return (
+    (auditActions as Record<string, { kind: AuditKind }>)[action]?.kind ?? null
+  );
+}
