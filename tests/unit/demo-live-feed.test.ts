@@ -65,7 +65,7 @@ describe("the live demo feed", () => {
     expect(count).toBe(expected.length);
     // Three days and nine hours of 18 installed meters.
     expect(count).toBe(81 * installed.length);
-    expect(batches.length).toBe(Math.ceil(count / 700));
+    expect(batches.length).toBe(Math.ceil(expected.length / 700));
     expect(batches.every((b) => b.length <= 700)).toBe(true);
   }, 30_000);
 
