@@ -40,7 +40,6 @@ export class LiveFeed {
   private run: ScenarioRun | null = null;
   /** The codes of the meters fed (those the server has). */
   private meters = new Set<string>();
-  private posted = 0;
 
   constructor(private readonly deps: FeedDeps) {}
 
@@ -82,11 +81,6 @@ export class LiveFeed {
     );
   }
 
-  /** Readings posted since the feed started. */
-  get total(): number {
-    return this.posted;
-  }
-
   private async postAll(
     readings: Iterable<ScenarioReading>,
     wanted: (r: ScenarioReading) => boolean,
@@ -106,7 +100,6 @@ export class LiveFeed {
       await this.deps.post(batch);
       count += batch.length;
     }
-    this.posted += count;
     return count;
   }
 }
