@@ -39,6 +39,11 @@ const envSchema = z
       .string()
       .min(24, "DEMO_GATEWAY_KEY must be at least 24 characters")
       .optional(),
+    // npm start's demo gateway (scripts/demo-feeder.ts) keeps the demo's
+    // readings coming unless this is 0.
+    DEMO_LIVE: z
+      .enum(["0", "1"], { error: "DEMO_LIVE must be 0 (off) or 1 (on)" })
+      .default("1"),
     TRUST_PROXY: z.enum(["0", "1"]).default("0"),
     ALERTS_INTERVAL_MINUTES: z.coerce
       .number({ error: "ALERTS_INTERVAL_MINUTES must be a number" })

@@ -45,6 +45,12 @@ else
   stripe_info="Billing:                              Stripe (${STRIPE_API_BASE:-api.stripe.com})"
 fi
 
+if [ "${DEMO_LIVE:-1}" = "0" ]; then
+  live_info="off (DEMO_LIVE=0)"
+else
+  live_info="on: the demo gateway posts each hour as it ends (DEMO_LIVE=0 turns it off)"
+fi
+
 demo_key="${DEMO_GATEWAY_KEY:-$(node --import tsx -e 'import("./seeds/demo-people.ts").then(m => console.log(m.DEFAULT_DEMO_GATEWAY_KEY))')}"
 cat <<INFO
 
@@ -58,9 +64,16 @@ cat <<INFO
     other org owner  owner@hollowmead.example
     two orgs         consultant@fernbank.example
   Demo gateway key (development only): $demo_key
+  Live demo readings:                   $live_info
   $mail_info
   $stripe_info
   Stop the database afterwards with:    npm run db:stop
 
 INFO
+# The demo gateway (scripts/demo-feeder.ts) waits for the server, fills the
+# demo's readings up to now and posts each hour as it ends; it stops with
+# this script, and by itself when DEMO_LIVE=0.
+node --import tsx scripts/demo-feeder.ts &
+demo_feeder_pid=$!
+trap 'kill "$demo_feeder_pid" 2>/dev/null || true; stop_local_fakes' EXIT
 node --import tsx server.ts

@@ -9,6 +9,8 @@ export type AlertKind = "silent_meter" | "residual" | "month_ready";
 export interface Condition {
   kind: AlertKind;
   subject: string;
+  /** The site it is about, by name; null for the whole organisation. */
+  site: string | null;
   title: string;
   detail: string;
 }
@@ -22,6 +24,7 @@ export async function silentMeterConditions(
   return silent.map((m) => ({
     kind: "silent_meter",
     subject: m.meter_id,
+    site: m.site_name,
     title: `Meter ${m.code} has been silent for over ${hours} hours`,
     detail: `${m.name} at ${m.site_name}: ${m.last_hour ? `last measured hour ${m.last_hour}` : "no measured hour yet"}.`,
   }));
@@ -58,6 +61,7 @@ export async function residualConditions(
     .map((r) => ({
       kind: "residual",
       subject: `${r.parent_id}@${month}`,
+      site: r.site_name,
       title: `Sub-metering residual out of tolerance: ${r.code}, ${month}`,
       detail: `${r.site_name}: the parent registered ${r.parent_kwh} kWh, its sub-meters ${r.children_kwh} kWh.`,
     }));
@@ -85,6 +89,7 @@ export async function monthReadyConditions(
     {
       kind: "month_ready",
       subject: month,
+      site: null,
       title: `${month} is ready to close`,
       detail:
         "The month has ended; closing it locks its figures, and later corrections become adjusting entries.",

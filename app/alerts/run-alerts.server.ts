@@ -1,6 +1,7 @@
 import { pool } from "~/db/client.server";
 import { appUrl } from "~/env.server";
 import { sendEmail } from "~/email/mailer.server";
+import { alertDigestEmail, type DigestSection } from "./digest-email.server";
 import {
   monthReadyConditions,
   residualConditions,
@@ -50,15 +51,23 @@ async function recipients(
   return { list, silentHours: hours.length ? Math.min(...hours) : 24 };
 }
 
+/** What one organisation's check opened and cleared, and who wants which kind. */
+interface OrganizationCheck {
+  organizationId: string;
+  organizationName: string;
+  opened: Condition[];
+  cleared: number;
+  recipients: Recipient[];
+}
+
 /**
- * Opens an alert for each new condition and e-mails it once; a condition
- * that still holds is not mailed again; one that no longer holds is cleared,
- * so that it can alert again if it comes back. Returns what was sent.
+ * Opens an alert for each new condition and clears those that no longer
+ * hold, so that a condition that comes back alerts again. Sends nothing.
  */
-export async function runAlerts(
+async function checkOrganization(
   organizationId: string,
-  now = new Date(),
-): Promise<{ opened: Condition[]; cleared: number; emails: number }> {
+  now: Date,
+): Promise<OrganizationCheck> {
   const { list, silentHours } = await recipients(organizationId);
   const conditions = [
     ...(await silentMeterConditions(organizationId, silentHours, now)),
@@ -83,45 +92,93 @@ export async function runAlerts(
       [organizationId, a.kind, a.subject, now],
     );
   }
-  const opened = conditions.filter((c) => !activeKeys.has(key(c)));
-  let emails = 0;
-  for (const c of opened) {
-    // The unique index on open alerts makes a concurrent second run a no-op.
+  const opened: Condition[] = [];
+  for (const c of conditions.filter((c) => !activeKeys.has(key(c)))) {
+    // The unique index on open alerts makes a concurrent second run a
+    // no-op: only the run whose insert took the condition mails it.
     const { rowCount } = await pool.query(
       `insert into alert_events (organization_id, kind, subject, title, opened_at) values ($1, $2, $3, $4, $5)
        on conflict do nothing`,
       [organizationId, c.kind, c.subject, c.title, now],
     );
-    if (!rowCount) continue;
-    for (const r of list.filter((p) => p.kinds.has(c.kind))) {
-      await sendEmail({
-        to: r.email,
-        subject: `Joulebook alert: ${c.title}`,
-        text: `${c.title}\n\n${c.detail}\n\nOverview: ${appUrl()}/o/${organizationId}/overview\nAlert settings: ${appUrl()}/account\n`,
-        html: `<p><strong>${escapeHtml(c.title)}</strong></p><p>${escapeHtml(c.detail)}</p><p><a href="${appUrl()}/o/${organizationId}/overview">Open the overview</a></p>`,
-      }).then(
-        () => (emails += 1),
-        (error: unknown) => console.error("[alerts]", error),
-      );
+    if (rowCount) opened.push(c);
+  }
+  const { rows: org } = await pool.query<{ name: string }>(
+    "select name from organizations where id = $1",
+    [organizationId],
+  );
+  return {
+    organizationId,
+    organizationName: org[0]?.name ?? "",
+    opened,
+    cleared: cleared.length,
+    recipients: list,
+  };
+}
+
+/**
+ * One e-mail per person with everything the checks opened for them (the
+ * kinds they chose), instead of one per alert: a demo left alone for days
+ * otherwise sends dozens at once. Returns the number sent.
+ */
+async function sendDigests(checks: OrganizationCheck[]): Promise<number> {
+  const byPerson = new Map<
+    string,
+    { email: string; sections: DigestSection[] }
+  >();
+  for (const check of checks) {
+    for (const person of check.recipients) {
+      const alerts = check.opened.filter((c) => person.kinds.has(c.kind));
+      if (alerts.length === 0) continue;
+      const digest = byPerson.get(person.userId) ?? {
+        email: person.email,
+        sections: [],
+      };
+      digest.sections.push({
+        organizationName: check.organizationName,
+        overviewUrl: `${appUrl()}/o/${check.organizationId}/overview`,
+        alerts,
+      });
+      byPerson.set(person.userId, digest);
     }
   }
-  return { opened, cleared: cleared.length, emails };
+  let emails = 0;
+  for (const { email, sections } of byPerson.values()) {
+    await sendEmail(alertDigestEmail({ to: email, sections })).then(
+      () => (emails += 1),
+      (error: unknown) => console.error("[alerts]", error),
+    );
+  }
+  return emails;
 }
 
-function escapeHtml(value: string): string {
-  return value
-    .replaceAll("&", "&amp;")
-    .replaceAll("<", "&lt;")
-    .replaceAll(">", "&gt;");
+/**
+ * Checks one organisation and mails each person who wants any of what it
+ * opened one digest of it. Returns what was opened and sent.
+ */
+export async function runAlerts(
+  organizationId: string,
+  now = new Date(),
+): Promise<{ opened: Condition[]; cleared: number; emails: number }> {
+  const check = await checkOrganization(organizationId, now);
+  const emails = await sendDigests([check]);
+  return { opened: check.opened, cleared: check.cleared, emails };
 }
 
-/** Every organisation, in turn: what the server's timer calls. */
-export async function runAllAlerts(now = new Date()): Promise<void> {
+/**
+ * Every organisation, in turn, then one digest per person over all of them
+ * (someone in two organisations gets one message): what the server's timer
+ * calls.
+ */
+export async function runAllAlerts(now = new Date()): Promise<number> {
   const { rows } = await pool.query<{ id: string }>(
     "select id from organizations",
   );
+  const checks: OrganizationCheck[] = [];
   for (const org of rows)
-    await runAlerts(org.id, now).catch((error: unknown) =>
-      console.error("[alerts]", org.id, error),
+    await checkOrganization(org.id, now).then(
+      (check) => checks.push(check),
+      (error: unknown) => console.error("[alerts]", org.id, error),
     );
+  return sendDigests(checks);
 }

@@ -6,6 +6,7 @@ import { z } from "zod";
 import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { CarpetPlot } from "~/components/readings/carpet-plot";
+import { newestReadingsStatus } from "~/components/readings/freshness";
 import { IntervalGrid } from "~/components/readings/interval-grid";
 import { LoadProfile } from "~/components/readings/load-profile";
 import {
@@ -336,7 +337,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
               {loading
                 ? "Loading…"
                 : updatedAt
-                  ? `${range ? "Range" : "Live"} · updated ${updatedAt.toLocaleTimeString("en-GB")}`
+                  ? `${range ? "Range" : newestReadingsStatus(page?.latest ?? null, updatedAt, meter.timeZone).text} · updated ${updatedAt.toLocaleTimeString("en-GB")}`
                   : ""}
             </p>
           </div>

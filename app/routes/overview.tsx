@@ -149,7 +149,8 @@ function AlertSettings({
         Your alert e-mails
       </h2>
       <p className="text-sm text-ink-muted">
-        One e-mail when a condition starts; none again until it has cleared.
+        One e-mail per check, listing the conditions that started; none again
+        until each has cleared.
       </p>
       <Form method="post" className="mt-3 flex flex-col gap-3" noValidate>
         {saved ? <Notice tone="success">Alert settings saved.</Notice> : null}

@@ -1,7 +1,8 @@
 // Days on which the estate's buildings are closed or run differently. Local
 // calendar dates (Europe/London), "YYYY-MM-DD".
 
-// Bank holidays in England for the scenario years (the published dates).
+// Bank holidays in England for the scenario years and the year after, which
+// the live demo runs into (the published dates).
 const PUBLIC_HOLIDAYS = new Set([
   "2024-12-25",
   "2024-12-26",
@@ -21,6 +22,14 @@ const PUBLIC_HOLIDAYS = new Set([
   "2026-08-31",
   "2026-12-25",
   "2026-12-28",
+  "2027-01-01",
+  "2027-03-26",
+  "2027-03-29",
+  "2027-05-03",
+  "2027-05-31",
+  "2027-08-30",
+  "2027-12-27",
+  "2027-12-28",
 ]);
 
 // Northgate Primary's holidays (invented, in the usual English pattern of
@@ -39,6 +48,12 @@ const SCHOOL_HOLIDAYS: readonly [string, string][] = [
   ["2026-07-22", "2026-09-01"],
   ["2026-10-24", "2026-11-01"],
   ["2026-12-19", "2027-01-03"],
+  ["2027-02-13", "2027-02-21"],
+  ["2027-03-27", "2027-04-11"],
+  ["2027-05-29", "2027-06-06"],
+  ["2027-07-21", "2027-09-01"],
+  ["2027-10-23", "2027-10-31"],
+  ["2027-12-18", "2028-01-03"],
 ];
 
 export function isPublicHoliday(localDate: string): boolean {

@@ -1,6 +1,6 @@
 // The scenario's hours with everything the load models ask about them: local
 // time (occupancy follows the clock on the wall, daylight saving included),
-// the day's weather, holidays. Built once per run and shared by all sites.
+// the day's weather, holidays. Computed for each hour as a run reaches it.
 
 import { HOUR_MS } from "../../app/ingest/hours";
 import { localParts } from "../../app/ingest/local-time";
@@ -47,7 +47,8 @@ function dayOfYearUtc(t: number): number {
   return (t - Date.UTC(d.getUTCFullYear(), 0, 1)) / 86_400_000 + 1;
 }
 
-function contextAt(t: number, epoch: number): HourContext {
+/** The context of the UTC hour starting at t, `epoch` being the scenario's start. */
+export function hourContext(t: number, epoch: number): HourContext {
   const p = localParts(new Date(t), TIME_ZONE);
   const localDate = `${p.year}-${pad(p.month)}-${pad(p.day)}`;
   const dailyMeanC = dailyMeanTempC(localDate);
@@ -67,13 +68,4 @@ function contextAt(t: number, epoch: number): HourContext {
     schoolHoliday: isSchoolHoliday(localDate),
     years: (t - epoch) / (365.25 * 24 * HOUR_MS),
   };
-}
-
-/** Contexts of the hours starting in [from, to), one per UTC hour. */
-export function buildClock(from: Date, to: Date): HourContext[] {
-  const out: HourContext[] = [];
-  for (let t = from.getTime(); t < to.getTime(); t += HOUR_MS) {
-    out.push(contextAt(t, from.getTime()));
-  }
-  return out;
 }

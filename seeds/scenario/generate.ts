@@ -3,7 +3,7 @@
 // water-heat and steam intervals, and hourly register reads at the hour.
 // The same range always gives the same readings, on any machine.
 
-import { HOUR_MS, buildClock, isoSeconds } from "./clock";
+import { HOUR_MS, hourContext, isoSeconds } from "./clock";
 import type { HourContext } from "./clock";
 import type { HourValue, SteamHour, WaterHour } from "./encode";
 import { METERS, SCENARIO_GAPS, SCENARIO_PERIOD } from "./larchmere-estate";
@@ -181,55 +181,90 @@ const INTERVAL_METERS = METERS.filter(
 );
 
 /**
- * The scenario's readings in [from, to), hour by hour: in each hour the
- * register reads at its start, then the intervals that begin in it; one last
- * round of register reads at `to`, so the register intervals cover the range.
- * The simulation always runs from the scenario's start, so a later `from`
- * gives the same readings as the full run, registers included.
+ * The scenario simulated hour by hour from its start, as far as it is asked
+ * to go: the seed runs one over the two years, the live demo keeps one and
+ * steps it as each hour ends, so both give the same readings for an hour.
+ * The load models and registers carry state from hour to hour, which is why
+ * a run can only go forwards.
  */
-export function* generateReadings(
-  range: GenerateRange,
-): Generator<ScenarioReading> {
-  requireRange(range);
-  const from = range.from.getTime();
-  const models = SITE_MODELS.map((s) => s.create());
-  const registers = new Map(
+export class ScenarioRun {
+  private readonly models = SITE_MODELS.map((s) => s.create());
+  private readonly registers = new Map(
     REGISTER_METERS.map((m) => [m.code, new Register(m)]),
   );
-  const gaps = gapHours();
-  const missing = (code: string, t: number) => gaps.get(code)?.has(t) ?? false;
-  const clock = buildClock(SCENARIO_PERIOD.from, range.to);
+  private readonly gaps = gapHours();
+  private readonly epoch = SCENARIO_PERIOD.from.getTime();
+  /** Start of the next hour to simulate. */
+  private nextHour = this.epoch;
+  /** The instant of the newest register reads yielded (−∞: none yet). */
+  private registersReadAt = -Infinity;
 
-  function* registerReads(t: number, iso: string) {
-    if (t < from) return;
+  /** Everything before this instant has been simulated. */
+  get position(): Date {
+    return new Date(this.nextHour);
+  }
+
+  /**
+   * Simulates the hours from the run's position up to `to` (a whole UTC
+   * hour) and yields the readings from `emitFrom` on: each hour's interval
+   * readings, and the register reads at each hour boundary in [emitFrom,
+   * to], each boundary once over the life of the run.
+   */
+  *advance(to: Date, emitFrom: Date): Generator<ScenarioReading> {
+    const end = to.getTime();
+    const from = emitFrom.getTime();
+    if (end % HOUR_MS !== 0 || from % HOUR_MS !== 0) {
+      throw new RangeError("to and emitFrom must be whole UTC hours");
+    }
+    if (end < this.nextHour) {
+      throw new RangeError(
+        `the run is already at ${this.position.toISOString()}`,
+      );
+    }
+    for (; this.nextHour < end; this.nextHour += HOUR_MS) {
+      const c = hourContext(this.nextHour, this.epoch);
+      if (c.t >= from) yield* this.registerReads(c.t);
+      const values: Record<string, HourValue> = {};
+      for (const model of this.models) Object.assign(values, model(c));
+      for (const m of REGISTER_METERS) {
+        const v = values[m.code];
+        if (v?.kind === "energy" && activeOver(m, c.t)) {
+          this.registers.get(m.code)!.add(v.kwh);
+        }
+      }
+      if (c.t >= from) yield* this.intervalReadings(c, values);
+    }
+    if (end >= from) yield* this.registerReads(end);
+  }
+
+  private missing(code: string, t: number): boolean {
+    return this.gaps.get(code)?.has(t) ?? false;
+  }
+
+  private *registerReads(t: number): Generator<ScenarioReading> {
+    if (t <= this.registersReadAt) return;
+    this.registersReadAt = t;
+    const iso = isoSeconds(t);
     for (const m of REGISTER_METERS) {
-      if (!activeAt(m, t) || missing(m.code, t)) continue;
+      if (!activeAt(m, t) || this.missing(m.code, t)) continue;
       const reading: RegisterReading = {
         meter: m.code,
         time: iso,
         quantity: "electric_register",
-        register_kwh: registers.get(m.code)!.read(),
+        register_kwh: this.registers.get(m.code)!.read(),
       };
       yield { meter: m.code, reading };
     }
   }
 
-  for (let i = 0; i < clock.length; i++) {
-    const c = clock[i];
-    yield* registerReads(c.t, c.iso);
-    const values: Record<string, HourValue> = {};
-    for (const model of models) Object.assign(values, model(c));
+  private *intervalReadings(
+    c: HourContext,
+    values: Record<string, HourValue>,
+  ): Generator<ScenarioReading> {
     const end = isoSeconds(c.t + HOUR_MS);
-    for (const m of REGISTER_METERS) {
-      const v = values[m.code];
-      if (v?.kind === "energy" && activeOver(m, c.t)) {
-        registers.get(m.code)!.add(v.kwh);
-      }
-    }
-    if (c.t < from) continue;
     for (const m of INTERVAL_METERS) {
       const v = values[m.code];
-      if (v === undefined || !activeOver(m, c.t) || missing(m.code, c.t)) {
+      if (v === undefined || !activeOver(m, c.t) || this.missing(m.code, c.t)) {
         continue;
       }
       const reading =
@@ -241,7 +276,20 @@ export function* generateReadings(
       if (reading !== undefined) yield { meter: m.code, reading };
     }
   }
-  yield* registerReads(range.to.getTime(), isoSeconds(range.to.getTime()));
+}
+
+/**
+ * The scenario's readings in [from, to), hour by hour: in each hour the
+ * register reads at its start, then the intervals that begin in it; one last
+ * round of register reads at `to`, so the register intervals cover the range.
+ * The simulation always runs from the scenario's start, so a later `from`
+ * gives the same readings as the full run, registers included.
+ */
+export function* generateReadings(
+  range: GenerateRange,
+): Generator<ScenarioReading> {
+  requireRange(range);
+  yield* new ScenarioRun().advance(range.to, range.from);
 }
 
 /** The same readings, grouped per meter, each list in time order. */

@@ -1,0 +1,34 @@
+import { formatDistanceStrict } from "date-fns";
+
+const HOUR_MS = 3_600_000;
+
+/**
+ * A meter counts as live while its newest reading ended at most this long
+ * ago: hourly readings arrive once their hour has ended, so a live meter's
+ * newest is under an hour old, and a second hour allows for a late gateway.
+ */
+export const LIVE_WITHIN_MS = 2 * HOUR_MS;
+
+/**
+ * What the newest-week view says about a meter's readings: "Live" only while
+ * they keep arriving; otherwise when the last one came, in plain words and
+ * in the site's time zone. `latestHourStart` is the start of the newest
+ * hourly interval (the API's `latest`); the reading ended an hour later.
+ */
+export function newestReadingsStatus(
+  latestHourStart: string | null,
+  now: Date,
+  timeZone: string,
+): { live: boolean; text: string } {
+  if (latestHourStart === null) return { live: false, text: "No readings yet" };
+  const lastReading = new Date(Date.parse(latestHourStart) + HOUR_MS);
+  if (now.getTime() - lastReading.getTime() <= LIVE_WITHIN_MS)
+    return { live: true, text: "Live" };
+  const when = new Intl.DateTimeFormat("en-GB", {
+    timeZone,
+    dateStyle: "medium",
+    timeStyle: "short",
+  }).format(lastReading);
+  const ago = formatDistanceStrict(lastReading, now, { addSuffix: true });
+  return { live: false, text: `Last reading ${ago} (${when})` };
+}
