@@ -1,3 +1,4 @@
+import type { Ledger } from "~/api/schemas";
 import { pool } from "~/db/client.server";
 import { deliveredSignSql } from "./delivered";
 
@@ -11,42 +12,12 @@ export interface LedgerQuery {
 }
 
 /**
- * One site × month × carrier. Energies are delivered and exported energy of
- * the carrier (delivered.ts): `imports_kwh` ≥ 0, `exports_kwh` ≤ 0, `net_kwh`
- * their sum; chilled water is cooling delivered, a positive figure.
+ * The ledger's rows and totals are the API's wire shape (`~/api/schemas`):
+ * energies are delivered and exported energy of the carrier (delivered.ts),
+ * `imports_kwh` ≥ 0, `exports_kwh` ≤ 0, `net_kwh` their sum; chilled water is
+ * cooling delivered, a positive figure.
  */
-export interface LedgerRow {
-  site_id: string;
-  site_name: string;
-  floor_area_m2: string | null;
-  month: string;
-  carrier: string;
-  imports_kwh: string;
-  exports_kwh: string;
-  net_kwh: string;
-  estimated_kwh: string;
-  estimated_share: number;
-  uncertainty_kwh: string | null;
-  status: "open" | "closed";
-  adjustments_kwh: string;
-  adjustment_count: number;
-}
-
-/** One carrier's sums over every row: unlike carriers are never added. */
-export interface CarrierTotal {
-  carrier: string;
-  imports_kwh: string;
-  exports_kwh: string;
-  net_kwh: string;
-}
-
-export interface Ledger {
-  from: string;
-  to: string;
-  rows: LedgerRow[];
-  /** One per carrier in the rows, in carrier order. */
-  totals: CarrierTotal[];
-}
+export type { CarrierTotal, Ledger, LedgerRow } from "~/api/schemas";
 
 /**
  * Sites × months × carriers from the monthly rollups (never from intervals).
