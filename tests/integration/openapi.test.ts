@@ -29,9 +29,12 @@ beforeEach(async () => {
 type Json = Record<string, unknown>;
 interface OpenApiDocument {
   openapi: string;
-  paths: Record<string, Record<string, Operation>>;
+  paths: Record<string, PathItem>;
   components: { schemas: Record<string, Json> };
 }
+type PathItem = Partial<Record<(typeof METHODS)[number], Operation>> & {
+  parameters?: Operation["parameters"];
+};
 interface Operation {
   parameters?: { name: string; in: string }[];
   requestBody?: {
@@ -170,7 +173,11 @@ describe("the document names every route of the router", () => {
       for (const method of METHODS) {
         const operation = item[method];
         if (!operation) continue;
-        const declared = (operation.parameters ?? [])
+        // Parameters may sit on the path item (shared) or on the operation.
+        const declared = [
+          ...(item.parameters ?? []),
+          ...(operation.parameters ?? []),
+        ]
           .filter((p) => p.in === "path")
           .map((p) => p.name);
         expect(declared.sort(), `${method} ${path}`).toEqual(
