@@ -17,7 +17,7 @@ import { sendError, sendValidationError } from "./respond.server";
 const optional = <T extends z.ZodType>(schema: T) =>
   z.union([z.literal(""), schema]).optional();
 
-const filtersSchema = z.strictObject({
+export const auditFiltersSchema = z.strictObject({
   site: optional(z.uuid("site: expected a site id")),
   meter: optional(z.uuid("meter: expected a meter id")),
   person: optional(z.string().max(128, "person: expected a person's id")),
@@ -46,7 +46,7 @@ const filtersSchema = z.strictObject({
   ),
 });
 
-const pageSchema = filtersSchema.extend({
+export const auditPageQuerySchema = auditFiltersSchema.extend({
   limit: optional(
     z.coerce
       .number({ error: "limit: expected a whole number" })
@@ -62,7 +62,7 @@ const pageSchema = filtersSchema.extend({
   ),
 });
 
-type FilterQuery = z.infer<typeof filtersSchema>;
+type FilterQuery = z.infer<typeof auditFiltersSchema>;
 
 /** The parsed query as filters; null (and a 400 sent) when it is not valid. */
 function filtersFrom(query: FilterQuery, res: Response): AuditFilters | null {
@@ -98,7 +98,7 @@ export async function getAuditEntries(
   next: NextFunction,
 ): Promise<void> {
   try {
-    const parsed = pageSchema.safeParse(req.query);
+    const parsed = auditPageQuerySchema.safeParse(req.query);
     if (!parsed.success) return sendValidationError(res, parsed.error);
     const filters = filtersFrom(parsed.data, res);
     if (!filters) return;
@@ -147,7 +147,7 @@ export async function getAuditCsv(
   next: NextFunction,
 ): Promise<void> {
   try {
-    const parsed = filtersSchema.safeParse(req.query);
+    const parsed = auditFiltersSchema.safeParse(req.query);
     if (!parsed.success) return sendValidationError(res, parsed.error);
     const filters = filtersFrom(parsed.data, res);
     if (!filters) return;

@@ -9,7 +9,9 @@ import {
   receiveStripeEvent,
   verifyStripeEvent,
 } from "~/billing/webhook.server";
+import type { z } from "zod";
 import { sendError } from "./respond.server";
+import type { webhookAnswerSchema } from "./schemas";
 
 /** Stripe's events are small; anything larger is not one of them. */
 export const WEBHOOK_BODY_LIMIT = "512kb";
@@ -32,7 +34,12 @@ export async function stripeWebhook(
   }
   try {
     const { outcome, afterAnswer } = await receiveStripeEvent(event);
-    res.json({ received: true, id: event.id, outcome });
+    const answer: z.output<typeof webhookAnswerSchema> = {
+      received: true,
+      id: event.id,
+      outcome,
+    };
+    res.json(answer);
     afterAnswer();
   } catch (error) {
     // Nothing was recorded: Stripe delivers the event again later.

@@ -1,12 +1,15 @@
 import type { Request, Response } from "express";
 import { databaseReachable } from "~/db/client.server";
+import type { z } from "zod";
+import type { healthSchema } from "./schemas";
 
 /** Liveness plus database reachability, for load balancers and people. */
 export async function health(_req: Request, res: Response): Promise<void> {
   const database = (await databaseReachable()) ? "reachable" : "unreachable";
-  res.status(database === "reachable" ? 200 : 503).json({
+  const body: z.output<typeof healthSchema> = {
     status: database === "reachable" ? "ok" : "degraded",
     database,
     time: new Date().toISOString(),
-  });
+  };
+  res.status(database === "reachable" ? 200 : 503).json(body);
 }

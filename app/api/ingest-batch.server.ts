@@ -6,9 +6,15 @@ import {
 } from "~/ingest/ingest-readings.server";
 import { MAX_READINGS_PER_BATCH } from "~/ingest/reading-schema";
 import { sendError, sendValidationError } from "./respond.server";
+import type { IngestAnswer } from "./schemas";
 
 export const READINGS_BODY_LIMIT = "5mb";
 
+/**
+ * The envelope alone: each reading is then checked on its own, so a bad one is
+ * rejected in its place. The API document shows the body with every reading
+ * well formed (wellFormedReadingBatchSchema).
+ */
 const batchSchema = z.strictObject({
   readings: z
     .array(z.unknown(), { error: "readings: expected an array of readings" })
@@ -40,13 +46,14 @@ export async function handleBatch(
       ...who,
       readings: parsed.data.readings,
     });
-    res.json({
+    const answer: IngestAnswer = {
       batch_id: result.batchId,
       accepted: result.accepted,
       repeats: result.repeats,
       rejected: result.rejected,
       conflicts: result.conflicts,
-    });
+    };
+    res.json(answer);
   } catch (error) {
     next(error);
   }

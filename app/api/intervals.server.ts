@@ -1,5 +1,4 @@
 import type { Request, Response, NextFunction } from "express";
-import { z } from "zod";
 import {
   latestIntervalHour,
   listIntervals,
@@ -7,23 +6,15 @@ import {
 import { isUuid } from "~/lib/ids";
 import { getMeter } from "~/sites/meters.server";
 import { sendError, sendValidationError } from "./respond.server";
+import { intervalsQuerySchema, type IntervalPage } from "./schemas";
 
 /** At most a quarter of hourly rows per request keeps pages and memory small. */
 const MAX_RANGE_MS = 93 * 86_400_000;
 
-const rangeSchema = z
-  .strictObject({
-    from: z.iso
-      .datetime({ offset: true, error: "from: expected an ISO 8601 date-time" })
-      .optional(),
-    to: z.iso
-      .datetime({ offset: true, error: "to: expected an ISO 8601 date-time" })
-      .optional(),
-  })
-  .transform((q) => ({
-    from: q.from ? new Date(q.from) : null,
-    to: q.to ? new Date(q.to) : null,
-  }));
+const rangeSchema = intervalsQuerySchema.transform((q) => ({
+  from: q.from ? new Date(q.from) : null,
+  to: q.to ? new Date(q.to) : null,
+}));
 
 /** GET /api/v1/orgs/:orgId/meters/:meterId/intervals?from&to */
 export async function getIntervals(
@@ -60,7 +51,7 @@ export async function getIntervals(
       from,
       to,
     });
-    res.json({
+    const page: IntervalPage = {
       meter: {
         id: meter.id,
         code: meter.code,
@@ -73,7 +64,8 @@ export async function getIntervals(
       to: to.toISOString(),
       latest: latest?.toISOString() ?? null,
       intervals,
-    });
+    };
+    res.json(page);
   } catch (error) {
     next(error);
   }

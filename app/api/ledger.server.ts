@@ -1,34 +1,16 @@
 import type { NextFunction, Request, Response } from "express";
-import { MONTH_PATTERN, monthCount } from "~/lib/months";
+import { monthCount } from "~/lib/months";
 import ExcelJS from "exceljs";
-import { z } from "zod";
 import { toCsv } from "~/lib/csv-export";
-import {
-  ledgerRows,
-  type Ledger,
-  type LedgerRow,
-} from "~/ledger/ledger-rows.server";
+import { ledgerRows } from "~/ledger/ledger-rows.server";
 import { sendError, sendValidationError } from "./respond.server";
-
-const monthField = (name: string) =>
-  z.string().regex(MONTH_PATTERN, `${name}: expected a month as YYYY-MM`);
-
-const querySchema = z.strictObject({
-  from: monthField("from"),
-  to: monthField("to"),
-  site: z.union([z.literal(""), z.uuid("site: expected a site id")]).optional(),
-  carrier: z
-    .enum(["", "heat", "cooling", "steam", "electricity"], {
-      error: "carrier: heat, cooling, steam or electricity",
-    })
-    .optional(),
-});
+import { ledgerQuerySchema, type Ledger, type LedgerRow } from "./schemas";
 
 /** Ten years of months at most per request. */
 const MAX_MONTHS = 120;
 
 async function loadLedger(req: Request, res: Response): Promise<Ledger | null> {
-  const parsed = querySchema.safeParse(req.query);
+  const parsed = ledgerQuerySchema.safeParse(req.query);
   if (!parsed.success) {
     sendValidationError(res, parsed.error);
     return null;

@@ -13,6 +13,8 @@ import {
 import { listReports, reportFile } from "~/reports/reports.server";
 import { verifyUploadedReport } from "~/reports/verify-upload.server";
 import { sendError, sendValidationError } from "./respond.server";
+import type { z } from "zod";
+import type { reportListSchema, reportQueuedSchema } from "./schemas";
 
 /** Reports are a few hundred KiB; no genuine one comes near this. */
 export const VERIFY_BODY_LIMIT = "25mb";
@@ -28,7 +30,10 @@ const member = (res: Response) => res.locals.member!;
 
 /** GET /orgs/:orgId/reports: newest first, without the PDF bytes. */
 export const getReports = handle(async (_req, res) => {
-  res.json({ reports: await listReports(member(res).organizationId) });
+  const list: z.output<typeof reportListSchema> = {
+    reports: await listReports(member(res).organizationId),
+  };
+  res.json(list);
 });
 
 /** POST /orgs/:orgId/reports {scope, period}: 202 with the queued report's id. */
@@ -46,7 +51,11 @@ export const postReport = handle(async (req, res) => {
     period: resolved.period,
   });
   if (!outcome.ok) return sendError(res, 400, "invalid_scope", outcome.reason);
-  res.status(202).json({ id: outcome.reportId, status: "queued" });
+  const queued: z.output<typeof reportQueuedSchema> = {
+    id: outcome.reportId,
+    status: "queued",
+  };
+  res.status(202).json(queued);
 });
 
 /** GET /orgs/:orgId/reports/:reportId/pdf: the stored signed bytes. */

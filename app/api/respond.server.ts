@@ -1,15 +1,9 @@
 import type { ErrorRequestHandler, Response } from "express";
 import type { z } from "zod";
 import { isOutage, sendUnavailable } from "~/db/unavailable.server";
+import type { ApiErrorBody } from "./schemas";
 
-/** Every API error has the same shape: a code, a sentence, and field issues. */
-export interface ApiErrorBody {
-  error: {
-    code: string;
-    message: string;
-    issues?: { path: string; message: string }[];
-  };
-}
+export type { ApiErrorBody };
 
 export function sendError(
   res: Response,

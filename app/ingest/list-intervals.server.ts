@@ -1,13 +1,5 @@
+import type { Interval } from "~/api/schemas";
 import { pool } from "~/db/client.server";
-
-export interface IntervalRow {
-  hour_start: string;
-  energy_kwh: string;
-  quality: "measured" | "estimated" | "edited" | "missing";
-  flags: string[];
-  estimate_method: string | null;
-  source_count: number;
-}
 
 /** One meter's hourly intervals in [from, to), oldest first. */
 export async function listIntervals(args: {
@@ -16,7 +8,7 @@ export async function listIntervals(args: {
   from: Date;
   to: Date;
 }) {
-  const { rows } = await pool.query<IntervalRow>(
+  const { rows } = await pool.query<Interval>(
     `select to_char(hour_start at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"') as hour_start,
             energy_kwh::text, quality, flags, estimate_method,
             cardinality(source_reading_times) as source_count

@@ -5,7 +5,13 @@
  */
 import { z } from "zod";
 import { isStorableText, storableText } from "../lib/storable-text";
-import { QUANTITIES } from "../physics/evaluate-schema";
+import {
+  QUANTITIES,
+  electricWorkItemSchema,
+  sensibleHeatItemSchema,
+  steamHeatItemSchema,
+  waterHeatItemSchema,
+} from "../physics/evaluate-schema";
 import { instantError, intervalError } from "./time-rules";
 
 export const MAX_READINGS_PER_BATCH = 5000;
@@ -62,6 +68,41 @@ const registerSchema = z.strictObject({
     .number({ error: "register_kwh: expected a finite number" })
     .min(0, "register_kwh: must not be negative"),
 });
+
+/** An interval reading: an evaluate item plus its meter and its hour span. */
+const intervalReadingFields = {
+  meter: meterCode,
+  start: instant("start"),
+  end: instant("end"),
+};
+
+/**
+ * A well-formed reading, as the API document shows it. A batch is not parsed
+ * with it: each reading is checked on its own (parseReading), so one bad
+ * reading is rejected in its place and the rest of the batch is stored.
+ * The `id` names its component in the API document; it is given here rather
+ * than in the document's list because the times turn into Dates, which only
+ * a request (never an answer) can describe.
+ */
+export const wellFormedReadingSchema = z
+  .discriminatedUnion("quantity", [
+    waterHeatItemSchema.extend(intervalReadingFields),
+    steamHeatItemSchema.extend(intervalReadingFields),
+    sensibleHeatItemSchema.extend(intervalReadingFields),
+    electricWorkItemSchema.extend(intervalReadingFields),
+    registerSchema,
+  ])
+  .meta({ id: "Reading" });
+
+/** A batch of well-formed readings: the body the API document shows. */
+export const wellFormedReadingBatchSchema = z
+  .strictObject({
+    readings: z
+      .array(wellFormedReadingSchema)
+      .min(1)
+      .max(MAX_READINGS_PER_BATCH),
+  })
+  .meta({ id: "ReadingBatch" });
 
 export type ParsedReading =
   | {

@@ -1,3 +1,4 @@
+import type { Ledger } from "~/api/schemas";
 import { pool } from "~/db/client.server";
 import { deliveredSignSql } from "./delivered";
 
@@ -11,44 +12,12 @@ export interface LedgerQuery {
 }
 
 /**
- * One site × month × carrier. Energies are delivered and exported energy of
- * the carrier (delivered.ts): `imports_kwh` ≥ 0, `exports_kwh` ≤ 0, `net_kwh`
- * their sum; chilled water is cooling delivered, a positive figure.
+ * The ledger's rows and totals are the API's wire shape (`~/api/schemas`):
+ * energies are delivered and exported energy of the carrier (delivered.ts),
+ * `imports_kwh` ≥ 0, `exports_kwh` ≤ 0, `net_kwh` their sum; chilled water is
+ * cooling delivered, a positive figure.
  */
-export interface LedgerRow {
-  site_id: string;
-  site_name: string;
-  floor_area_m2: string | null;
-  month: string;
-  carrier: string;
-  imports_kwh: string;
-  exports_kwh: string;
-  net_kwh: string;
-  estimated_kwh: string;
-  estimated_share: number;
-  uncertainty_kwh: string | null;
-  status: "open" | "closed";
-  adjustments_kwh: string;
-  adjustment_count: number;
-  /** When a closed month was closed: its adjusting entries are those since. */
-  closed_at: string | null;
-}
-
-/** One carrier's sums over every row: unlike carriers are never added. */
-export interface CarrierTotal {
-  carrier: string;
-  imports_kwh: string;
-  exports_kwh: string;
-  net_kwh: string;
-}
-
-export interface Ledger {
-  from: string;
-  to: string;
-  rows: LedgerRow[];
-  /** One per carrier in the rows, in carrier order. */
-  totals: CarrierTotal[];
-}
+export type { CarrierTotal, Ledger, LedgerRow } from "~/api/schemas";
 
 /**
  * Sites × months × carriers from the monthly rollups (never from intervals).
@@ -98,7 +67,6 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
               sum(b.uncertainty_kwh) as uncertainty_kwh,
               coalesce(sum(abs(b.estimated_kwh)) / nullif(sum(abs(b.energy_kwh)), 0), 0) as estimated_share,
               bool_or(b.closed_at is not null) as closed,
-              min(b.closed_at) as closed_at,
               coalesce(sum(b.sign * a.delta), 0) as adjustments_kwh,
               coalesce(sum(a.n), 0) as adjustment_count
          from base b left join adj a on a.meter_id = b.meter_id and a.month = b.month
@@ -118,8 +86,7 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
            'uncertainty_kwh', case when carrier in ('heat', 'cooling') and uncertainty_kwh > 0
                                    then uncertainty_kwh::text end,
            'status', case when closed then 'closed' else 'open' end,
-           'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int,
-           'closed_at', closed_at)
+           'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int)
          order by site_name, month, carrier), '[]'::json),
        'totals', (select coalesce(json_agg(json_build_object(
            'carrier', carrier, 'imports_kwh', imports_kwh::text,

@@ -1,6 +1,6 @@
 // Request and result schemas of POST /api/v1/energy/evaluate (design.md,
-// "Gateway API"), in zod 4, plus the OpenAPI 3.1 components generated from
-// them so the served document cannot drift from what is enforced.
+// "Gateway API"), in zod 4. The served OpenAPI document is generated from
+// them (app/api/openapi.server.ts), so it cannot drift from what is enforced.
 //
 // Items are shaped like readings without `meter`. Objects are strict
 // (unknown fields are rejected) and numbers must be JSON numbers: zod 4's
@@ -215,7 +215,20 @@ export const evaluateResponseSchema = z.strictObject({
   results: z.array(evaluateResultSchema),
 });
 
-const COMPONENTS = {
+/**
+ * A request whose every item is valid: what the API document shows as the
+ * body. The server parses only the envelope (evaluateRequestSchema) and then
+ * each item on its own, so a bad item is answered in its place.
+ */
+export const wellFormedEvaluateRequestSchema = evaluateRequestSchema.extend({
+  items: z.array(evaluateItemSchema).min(1).max(MAX_EVALUATE_ITEMS),
+});
+
+/**
+ * The schemas the API document names as components (`#/components/schemas/…`);
+ * OpenAPI's discriminator then picks the item schema by `quantity`.
+ */
+export const evaluateComponents = {
   DateTime: isoTime,
   WaterHeatItem: waterHeatItemSchema,
   SteamHeatItem: steamHeatItemSchema,
@@ -224,67 +237,9 @@ const COMPONENTS = {
   ElectricRegisterItem: electricRegisterItemSchema,
   HeatRegisterItem: heatRegisterItemSchema,
   EvaluateItem: evaluateItemSchema,
+  EvaluateRequest: wellFormedEvaluateRequestSchema,
   EvaluateSuccess: evaluateSuccessSchema,
   EvaluateFailure: evaluateFailureSchema,
   EvaluateResult: evaluateResultSchema,
   EvaluateResponse: evaluateResponseSchema,
-} as const;
-
-type JsonObject = { [key: string]: unknown };
-
-// OpenAPI's discriminator lets clients pick the item schema by `quantity`.
-const ITEM_COMPONENT: Record<(typeof QUANTITIES)[number], string> = {
-  water_heat: "WaterHeatItem",
-  steam_heat: "SteamHeatItem",
-  sensible_heat: "SensibleHeatItem",
-  electric_work: "ElectricWorkItem",
-  electric_register: "ElectricRegisterItem",
-  heat_register: "HeatRegisterItem",
-};
-
-function discriminator(): JsonObject {
-  const mapping: Record<string, string> = {};
-  for (const [quantity, id] of Object.entries(ITEM_COMPONENT)) {
-    mapping[quantity] = `#/components/schemas/${id}`;
-  }
-  return { propertyName: "quantity", mapping };
-}
-
-// OpenAPI 3.1 uses JSON Schema 2020-12; a component carries neither its own
-// $schema nor an $id. EvaluateRequest is written by hand so that its items
-// point at EvaluateItem while the parser itself accepts unknown items.
-function buildComponents(): Record<string, JsonObject> {
-  const registry = z.registry<{ id: string }>();
-  for (const [id, schema] of Object.entries(COMPONENTS)) {
-    registry.add(schema, { id });
-  }
-  const generated = z.toJSONSchema(registry, {
-    uri: (id) => `#/components/schemas/${id}`,
-    io: "input",
-  }).schemas;
-  const out: Record<string, JsonObject> = {};
-  for (const [id, schema] of Object.entries(generated)) {
-    const { $schema: _s, $id: _i, ...rest } = schema as JsonObject;
-    out[id] = rest;
-  }
-  out.EvaluateItem = { ...out.EvaluateItem, discriminator: discriminator() };
-  out.EvaluateRequest = {
-    type: "object",
-    properties: {
-      items: {
-        type: "array",
-        minItems: 1,
-        maxItems: MAX_EVALUATE_ITEMS,
-        items: { $ref: "#/components/schemas/EvaluateItem" },
-      },
-    },
-    required: ["items"],
-    additionalProperties: false,
-  };
-  return out;
-}
-
-/** OpenAPI 3.1 fragment: `components.schemas` for the evaluate endpoint. */
-export const evaluateOpenApi = {
-  components: { schemas: buildComponents() },
 } as const;

@@ -20,7 +20,6 @@ import { absolutePressureBar } from "./water-properties";
 
 export {
   evaluateItemSchema,
-  evaluateOpenApi,
   evaluateRequestSchema,
   evaluateResponseSchema,
   evaluateResultSchema,

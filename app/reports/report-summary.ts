@@ -1,25 +1,31 @@
-/** Shared by the Reports page (client) and its loader (server). */
+/** Shared by the Reports page (client), its loader and the JSON API (server). */
+import { z } from "zod";
 
-/** A report as the Reports page lists it (never the PDF bytes). */
-export interface ReportSummary {
-  id: string;
-  title: string;
-  siteId: string | null;
-  periodKind: string;
-  periodStart: string;
-  periodEnd: string;
-  status: "queued" | "running" | "done" | "failed";
-  progress: number;
-  progressNote: string;
-  error: string | null;
-  allMonthsClosed: boolean | null;
-  sha256: string | null;
-  byteSize: number | null;
-  pageCount: number | null;
-  authorName: string | null;
-  createdAt: string;
-  completedAt: string | null;
-}
+/** A report as the Reports page and `GET …/reports` list it (never the PDF bytes). */
+export const reportSummarySchema = z.strictObject({
+  id: z.uuid(),
+  title: z.string(),
+  siteId: z.uuid().nullable().describe("null for a report on all sites"),
+  periodKind: z.string().describe("month, quarter or year"),
+  periodStart: z.string().describe("First day, YYYY-MM-DD"),
+  periodEnd: z.string().describe("Last day, YYYY-MM-DD"),
+  status: z.enum(["queued", "running", "done", "failed"]),
+  progress: z.number().int().describe("Percent done"),
+  progressNote: z.string(),
+  error: z.string().nullable().describe("Why a failed report failed"),
+  allMonthsClosed: z.boolean().nullable(),
+  sha256: z
+    .string()
+    .nullable()
+    .describe("Hex SHA-256 of the signed PDF, once done"),
+  byteSize: z.number().int().nullable(),
+  pageCount: z.number().int().nullable(),
+  authorName: z.string().nullable(),
+  createdAt: z.iso.datetime(),
+  completedAt: z.iso.datetime().nullable(),
+});
+
+export type ReportSummary = z.output<typeof reportSummarySchema>;
 
 /** True while any of the organisation's reports is still being made. */
 export function anyInProgress(list: ReportSummary[]): boolean {

@@ -3,32 +3,13 @@
  * coverage first (is the file intact and signed by a certificate we trust?),
  * then whether this organisation issued exactly these bytes.
  */
+import type { VerifyOutcome } from "~/api/schemas";
 import { findIssuedReport } from "./reports.server";
 import { signingIdentityFromEnv } from "./signing/identity.server";
 import { verifySignedPdf } from "./signing/verify-pdf.server";
 
-export type VerifyOutcome =
-  | {
-      verdict: "genuine";
-      sha256: string;
-      signerName: string;
-      signedAt: string | null;
-      report: {
-        id: string;
-        title: string;
-        completedAt: string | null;
-        authorName: string | null;
-        authorEmail: string | null;
-      };
-    }
-  | {
-      verdict: "not_issued_here";
-      sha256: string;
-      signerName: string;
-      signedAt: string | null;
-      message: string;
-    }
-  | { verdict: "invalid"; reason: string; message: string };
+/** The answer's shape is the API's (`POST …/reports/verify`). */
+export type { VerifyOutcome } from "~/api/schemas";
 
 export async function verifyUploadedReport(
   organizationId: string,

@@ -1,43 +1,12 @@
 import { useCallback, useEffect, useRef, useState } from "react";
+import type { Ledger } from "~/api/schemas";
 
 /**
- * One monthly entry: a site, a month and a carrier; energies in kWh,
- * delivered (imports, ≥ 0) and exported (exports, ≤ 0) of that carrier.
- * Chilled water is cooling delivered, a positive figure.
+ * The types are the API's own (`GET …/ledger` answers `ledgerSchema`):
+ * one row per site, month and carrier, delivered (imports, ≥ 0) and exported
+ * (exports, ≤ 0) kWh; chilled water is cooling delivered, a positive figure.
  */
-export interface LedgerRow {
-  site_id: string;
-  site_name: string;
-  floor_area_m2: string | null;
-  month: string;
-  carrier: "heat" | "cooling" | "steam" | "electricity";
-  imports_kwh: string;
-  exports_kwh: string;
-  net_kwh: string;
-  estimated_kwh: string;
-  estimated_share: number;
-  uncertainty_kwh: string | null;
-  status: "open" | "closed";
-  adjustments_kwh: string;
-  adjustment_count: number;
-  /** When a closed month was closed (ISO 8601, to the microsecond). */
-  closed_at: string | null;
-}
-
-/** One carrier's totals: unlike carriers are never added together. */
-export interface CarrierTotal {
-  carrier: LedgerRow["carrier"];
-  imports_kwh: string;
-  exports_kwh: string;
-  net_kwh: string;
-}
-
-export interface Ledger {
-  from: string;
-  to: string;
-  rows: LedgerRow[];
-  totals: CarrierTotal[];
-}
+export type { CarrierTotal, Ledger, LedgerRow } from "~/api/schemas";
 
 export interface LedgerFilters {
   from: string;

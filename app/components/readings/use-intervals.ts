@@ -1,28 +1,8 @@
 import { useCallback, useEffect, useRef, useState } from "react";
+import type { IntervalPage } from "~/api/schemas";
 
-export interface Interval {
-  hour_start: string;
-  energy_kwh: string;
-  quality: "measured" | "estimated" | "edited" | "missing";
-  flags: string[];
-  estimate_method: string | null;
-  source_count: number;
-}
-
-export interface IntervalPage {
-  meter: {
-    id: string;
-    code: string;
-    name: string;
-    carrier: string;
-    orientation: string;
-    time_zone: string;
-  };
-  from: string;
-  to: string;
-  latest: string | null;
-  intervals: Interval[];
-}
+/** The API's own types (`GET …/intervals` answers `intervalPageSchema`). */
+export type { Interval, IntervalPage } from "~/api/schemas";
 
 /** While the newest range is open, new readings show up without a reload. */
 const POLL_MS = 15_000;
