@@ -257,6 +257,42 @@ describe("baselines", () => {
     for (const [i, p] of model.points.entries())
       expect(p.dd).toBeCloseTo(hdd[i], 9);
 
+    // The audit trail has the upload and the baseline, with what was fitted.
+    const trail = await auditor.get(
+      `/api/v1/orgs/${org.org.id}/audit?kind=baseline&site=${org.siteId}`,
+    );
+    expect(trail.status).toBe(200);
+    const { entries } = (await trail.json()) as {
+      entries: {
+        action: string;
+        actor: { id: string };
+        site: { id: string };
+        changes: { field: string; after: string }[];
+      }[];
+    };
+    expect(entries.map((e) => e.action)).toEqual([
+      "baseline.saved",
+      "weather.uploaded",
+    ]);
+    expect(entries[0]).toMatchObject({
+      actor: { id: org.org.members[0].id },
+      site: { id: org.siteId },
+    });
+    expect(entries[0].changes).toEqual(
+      expect.arrayContaining([
+        { field: "From", before: "—", after: "October 2025" },
+        { field: "To", before: "—", after: "March 2026" },
+        { field: "Slope (kWh per degree day)", before: "—", after: "30" },
+        { field: "Months fitted", before: "—", after: "6" },
+      ]),
+    );
+    expect(entries[1].changes).toEqual(
+      expect.arrayContaining([
+        { field: "Days added", before: "—", after: "182" },
+        { field: "From", before: "—", after: "1 Oct 2025" },
+      ]),
+    );
+
     // The page shows it to the auditor, without the save button.
     const view = await auditor.get(
       `${page(org)}?site=${org.siteId}&carrier=heat&baseline=${baseline.id}&reportFrom=2026-01&reportTo=2026-03`,
