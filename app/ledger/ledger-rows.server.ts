@@ -67,6 +67,7 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
               sum(b.uncertainty_kwh) as uncertainty_kwh,
               coalesce(sum(abs(b.estimated_kwh)) / nullif(sum(abs(b.energy_kwh)), 0), 0) as estimated_share,
               bool_or(b.closed_at is not null) as closed,
+              min(b.closed_at) as closed_at,
               coalesce(sum(b.sign * a.delta), 0) as adjustments_kwh,
               coalesce(sum(a.n), 0) as adjustment_count
          from base b left join adj a on a.meter_id = b.meter_id and a.month = b.month
@@ -86,7 +87,8 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
            'uncertainty_kwh', case when carrier in ('heat', 'cooling') and uncertainty_kwh > 0
                                    then uncertainty_kwh::text end,
            'status', case when closed then 'closed' else 'open' end,
-           'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int)
+           'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int,
+           'closed_at', closed_at)
          order by site_name, month, carrier), '[]'::json),
        'totals', (select coalesce(json_agg(json_build_object(
            'carrier', carrier, 'imports_kwh', imports_kwh::text,
