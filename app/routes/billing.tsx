@@ -1,4 +1,3 @@
-import { format } from "date-fns";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireMembership } from "~/auth/membership.server";
@@ -25,6 +24,7 @@ import {
   PageHeader,
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
+import { dateTimeUtc, dayUtc } from "~/lib/times";
 import type { Route } from "./+types/billing";
 
 export const meta: Route.MetaFunction = () => [
@@ -134,8 +134,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 type LoaderData = Route.ComponentProps["loaderData"];
 
-const day = (d: Date | string | null) =>
-  d ? format(new Date(d), "d MMM yyyy") : "—";
+const day = (d: Date | string | null) => (d ? dayUtc(d) : "—");
 
 const daysLeft = (n: number) => `${n} day${n === 1 ? "" : "s"} left`;
 
@@ -381,7 +380,7 @@ function CheckCard({
         Joulebook regularly checks that Stripe bills today&apos;s metered-site
         count, and corrects it if not.{" "}
         {d.account?.lastReconciledAt
-          ? `Last checked ${format(new Date(d.account.lastReconciledAt), "d MMM yyyy, HH:mm")}.`
+          ? `Last checked ${dateTimeUtc(d.account.lastReconciledAt)}.`
           : "Not checked yet."}
       </p>
       {mine?.message ? <Notice tone="success">{mine.message}</Notice> : null}

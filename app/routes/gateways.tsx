@@ -1,7 +1,7 @@
-import { formatDistanceToNowStrict } from "date-fns";
 import { data, Form } from "react-router";
 import { z } from "zod";
 import { notFound, requireMembership } from "~/auth/membership.server";
+import { RelativeTime } from "~/components/relative-time";
 import {
   Badge,
   Button,
@@ -42,7 +42,10 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     params.orgId,
     "gateways.manage",
   );
-  return { gateways: await listGateways({ organizationId: organization.id }) };
+  return {
+    gateways: await listGateways({ organizationId: organization.id }),
+    now: new Date().toISOString(),
+  };
 }
 
 type Result = {
@@ -157,9 +160,17 @@ export default function Gateways({
                   </div>
                   <div className="flex items-center gap-4">
                     <span className="text-sm text-ink-muted">
-                      {g.lastSeenAt
-                        ? `Last seen ${formatDistanceToNowStrict(new Date(g.lastSeenAt))} ago`
-                        : "Never seen"}
+                      {g.lastSeenAt ? (
+                        <>
+                          Last seen{" "}
+                          <RelativeTime
+                            at={g.lastSeenAt}
+                            now={loaderData.now}
+                          />
+                        </>
+                      ) : (
+                        "Never seen"
+                      )}
                     </span>
                     {g.revokedAt ? (
                       <Badge tone="danger">Revoked</Badge>

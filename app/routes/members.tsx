@@ -1,4 +1,3 @@
-import { format } from "date-fns";
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireMembership, notFound } from "~/auth/membership.server";
@@ -22,6 +21,7 @@ import {
 import { EmailDeliveryError } from "~/email/mailer.server";
 import { INVITATION_DAYS } from "~/auth/policy";
 import { emailField, parseForm, type FieldErrors } from "~/lib/forms";
+import { dateTimeUtc, dayUtc } from "~/lib/times";
 import {
   MembershipRuleError,
   changeMemberRole,
@@ -270,7 +270,7 @@ function MemberRow({
         </p>
         <p className="text-sm text-ink-muted">{member.email}</p>
         <p className="text-sm text-ink-faint">
-          Joined {format(new Date(member.joinedAt), "d MMM yyyy")}
+          Joined {dayUtc(member.joinedAt)}
         </p>
       </div>
       {manage ? (
@@ -386,7 +386,7 @@ export default function Members({
                       <p className="font-semibold">{inv.email}</p>
                       <p className="text-sm text-ink-muted">
                         {roleLabels[inv.role]} · expires{" "}
-                        {format(new Date(inv.expiresAt), "d MMM yyyy, HH:mm")}
+                        {dateTimeUtc(inv.expiresAt)}
                       </p>
                     </div>
                     <Form method="post">

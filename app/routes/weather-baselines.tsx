@@ -38,6 +38,7 @@ import {
 import type { Carrier } from "~/db/schema";
 import { parseForm } from "~/lib/forms";
 import { idField, isUuid } from "~/lib/ids";
+import { dayUtc } from "~/lib/times";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 import { getSite, listSites } from "~/sites/sites.server";
 import type { Route } from "./+types/weather-baselines";
@@ -537,7 +538,7 @@ function ModelCard({
       </h2>
       {view.saved ? (
         <p className="mt-1 text-ink-muted">
-          Saved {view.saved.createdAt.toLocaleDateString("en-GB")}
+          Saved {dayUtc(view.saved.createdAt)}
           {view.saved.createdBy ? ` by ${view.saved.createdBy}` : ""}, fitted on{" "}
           {monthLabel(view.saved.from)} to {monthLabel(view.saved.to)}. Its
           model and months stay as saved.{" "}
@@ -923,7 +924,7 @@ function SavedList({
                   {b.model.nmbe === null ? "—" : signed(b.model.nmbe, 2)} %
                 </td>
                 <td className="px-2 py-1">
-                  {b.createdAt.toLocaleDateString("en-GB")}
+                  {dayUtc(b.createdAt)}
                   {b.createdBy ? `, ${b.createdBy}` : ""}
                 </td>
                 <td className="px-2 py-1">
