@@ -7,7 +7,9 @@ import {
   GUIDELINE_14,
   goodnessOfFit,
   predict,
+  monthsFitted,
   ratioEnpis,
+  shortBaselineWarning,
   type BaselinePoint,
 } from "./regression";
 
@@ -299,5 +301,41 @@ describe("avoided energy use and EnPIs", () => {
       kwhPerDegreeDay: null,
       kwhPerM2: null,
     });
+  });
+});
+
+describe("baselines shorter than a year", () => {
+  const months = (n: number, from = 2025) =>
+    Array.from({ length: n }, (_, i) => ({
+      month: `${from + Math.floor(i / 12)}-${String((i % 12) + 1).padStart(2, "0")}`,
+    }));
+
+  it("warns below twelve months, even for a perfect fit", () => {
+    // Six months on an exact line: R² = 1, CV(RMSE) and NMBE 0, all pass.
+    const points = months(6).map((m, i) => ({
+      ...m,
+      dd: 50 * i,
+      kwh: 200 + 30 * 50 * i,
+    }));
+    const fit = fitBaseline(points);
+    expect(fit.ok && assessFit(fit.model, "monthly").cvrmse.pass).toBe(true);
+    expect(shortBaselineWarning(points)).toMatch(
+      /^Fitted on 6 months, fewer than the 12 of a full year/,
+    );
+    expect(shortBaselineWarning(months(11))).toMatch(/^Fitted on 11 months/);
+    expect(shortBaselineWarning(months(1))).toMatch(/^Fitted on 1 month,/);
+  });
+
+  it("does not warn from twelve months on", () => {
+    expect(shortBaselineWarning(months(12))).toBeNull();
+    expect(shortBaselineWarning(months(24))).toBeNull();
+  });
+
+  it("counts calendar months, not periods: a daily baseline's days group by month", () => {
+    const days = Array.from({ length: 90 }, (_, i) => ({
+      month: new Date(Date.UTC(2025, 0, 1 + i)).toISOString().slice(0, 10),
+    }));
+    expect(monthsFitted(days)).toBe(3);
+    expect(shortBaselineWarning(days)).toMatch(/^Fitted on 3 months/);
   });
 });

@@ -135,6 +135,37 @@ export function fitBaseline(points: readonly BaselinePoint[]): FitOutcome {
   return { ok: true, model: { ...line, ...goodnessOfFit(points, line) } };
 }
 
+/**
+ * A baseline should see a whole year. With fewer than twelve months it has
+ * missed part of the heating or cooling season, so its line rests on a
+ * narrow range of degree days and the months it never saw are extrapolated,
+ * however closely it fits the months it has: CV(RMSE) and NMBE measure only
+ * those. IPMVP asks for a baseline period that spans a full operating cycle,
+ * a year for weather-driven energy [memory: IPMVP Core Concepts 2016,
+ * baseline period]. So a short baseline carries a warning whatever its
+ * statistics.
+ */
+export const FULL_YEAR_MONTHS = 12;
+
+/** Distinct calendar months among the periods a baseline was fitted on. */
+export function monthsFitted(points: readonly { month: string }[]): number {
+  return new Set(points.map((p) => p.month.slice(0, 7))).size;
+}
+
+/** The warning a baseline of fewer than twelve months carries, else null. */
+export function shortBaselineWarning(
+  points: readonly { month: string }[],
+): string | null {
+  const months = monthsFitted(points);
+  if (months >= FULL_YEAR_MONTHS) return null;
+  return (
+    `Fitted on ${months} month${months === 1 ? "" : "s"}, fewer than the ` +
+    `${FULL_YEAR_MONTHS} of a full year: the seasons it has not seen are ` +
+    `extrapolated, so treat the savings it gives with caution, however well ` +
+    `it fits the months it has.`
+  );
+}
+
 export interface Assessment {
   value: number | null;
   limit: number;

@@ -1,4 +1,4 @@
-import { format } from "date-fns";
+import { dayUtc } from "~/lib/times";
 import { Link } from "react-router";
 
 export interface BillingBannerData {
@@ -31,9 +31,7 @@ export function BillingBanner({
   organizationId: string;
 }) {
   if (!billing || !headline[billing.kind]) return null;
-  const when = billing.graceEndsAt
-    ? format(new Date(billing.graceEndsAt), "d MMM yyyy")
-    : null;
+  const when = billing.graceEndsAt ? dayUtc(billing.graceEndsAt) : null;
   const consequence = billing.sitesBlocked
     ? "New sites cannot be added until it is settled."
     : when

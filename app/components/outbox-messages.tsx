@@ -1,6 +1,6 @@
-import { formatDistanceToNowStrict } from "date-fns";
 import type { ReactNode } from "react";
 import { Link } from "react-router";
+import { RelativeTime } from "./relative-time";
 import { Card, EmptyState, Notice, cx } from "./ui";
 
 export interface OutboxItem {
@@ -37,9 +37,11 @@ function LinkedText({ text }: { text: string }) {
 function MessageList({
   messages,
   selectedId,
+  now,
 }: {
   messages: OutboxItem[];
   selectedId: string | undefined;
+  now: string;
 }) {
   return (
     <Card className="p-2 sm:p-2">
@@ -57,7 +59,7 @@ function MessageList({
               <span className="block font-semibold">{m.subject}</span>
               <span className="block text-sm text-ink-muted">
                 to {m.to.join(", ")} ·{" "}
-                {formatDistanceToNowStrict(new Date(m.created_at))} ago
+                <RelativeTime at={m.created_at} now={now} />
               </span>
             </Link>
           </li>
@@ -73,11 +75,14 @@ export function OutboxMessages({
   selected,
   unavailable,
   empty,
+  now,
 }: {
   messages: OutboxItem[];
   selected: OutboxItem | null;
   unavailable: boolean;
   empty: ReactNode;
+  /** The loader's time, from which "… ago" is measured. */
+  now: string;
 }) {
   if (unavailable)
     return (
@@ -89,7 +94,7 @@ export function OutboxMessages({
     return <EmptyState title="No e-mail yet">{empty}</EmptyState>;
   return (
     <div className="grid gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
-      <MessageList messages={messages} selectedId={selected?.id} />
+      <MessageList messages={messages} selectedId={selected?.id} now={now} />
       {selected ? (
         <Card aria-labelledby="message-heading">
           <h2 id="message-heading" className="text-lg">

@@ -340,11 +340,14 @@ export function SiteBalanceView({
       {balance.parents.length > 0 ? (
         <div>
           <h3 className="font-semibold">Sub-metering</h3>
-          <div className="mt-2 overflow-x-auto">
+          {/* The parent meter stays in view while a phone scrolls its figures. */}
+          <div className="relative mt-2 overflow-x-auto">
             <table className="w-full min-w-[640px] text-left">
               <thead className="text-sm text-ink-muted">
                 <tr>
-                  <th className="py-2 pr-3 font-semibold">Parent meter</th>
+                  <th className="sticky left-0 z-10 max-w-40 bg-surface py-2 pr-3 font-semibold">
+                    Parent meter
+                  </th>
                   <th className="py-2 pr-3 text-right font-semibold">
                     Parent, kWh
                   </th>
@@ -363,7 +366,7 @@ export function SiteBalanceView({
               <tbody className="divide-y divide-line">
                 {balance.parents.map((p) => (
                   <tr key={p.meterId}>
-                    <td className="py-2 pr-3">
+                    <td className="sticky left-0 z-10 max-w-40 bg-surface py-2 pr-3">
                       <span className="font-mono text-sm">{p.code}</span>{" "}
                       {p.name}
                       <span className="text-sm text-ink-muted">

@@ -15,21 +15,24 @@ const buttonStyles = {
   quiet: "text-spruce-700 hover:bg-spruce-50",
 } as const;
 
+/** A button's look, for a link that acts as one (e.g. a step of a form). */
+export function buttonClass(
+  variant: keyof typeof buttonStyles = "primary",
+  className?: string,
+): string {
+  return cx(
+    "inline-flex min-h-10 items-center justify-center gap-2 rounded-lg px-4 text-[15px] font-semibold transition-colors disabled:cursor-not-allowed",
+    buttonStyles[variant],
+    className,
+  );
+}
+
 export function Button({
   variant = "primary",
   className,
   ...props
 }: ComponentProps<"button"> & { variant?: keyof typeof buttonStyles }) {
-  return (
-    <button
-      className={cx(
-        "inline-flex min-h-10 items-center justify-center gap-2 rounded-lg px-4 text-[15px] font-semibold transition-colors disabled:cursor-not-allowed",
-        buttonStyles[variant],
-        className,
-      )}
-      {...props}
-    />
-  );
+  return <button className={buttonClass(variant, className)} {...props} />;
 }
 
 export function Card({ className, ...props }: ComponentProps<"section">) {

@@ -16,10 +16,12 @@ export async function loadOutbox(
       { message: "The Outbox exists only in development." },
       { status: 404 },
     );
+  // "… ago" is measured from this, so server and browser say the same.
+  const now = new Date().toISOString();
   const all = await listOutbox().catch(() => null);
-  if (!all) return { messages: [], selected: null, unavailable: true };
+  if (!all) return { messages: [], selected: null, unavailable: true, now };
   const messages = visibleTo(all, viewer);
   const id = new URL(request.url).searchParams.get("id");
   const selected = messages.find((m) => m.id === id) ?? messages[0] ?? null;
-  return { messages, selected, unavailable: false };
+  return { messages, selected, unavailable: false, now };
 }

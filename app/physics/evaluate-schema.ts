@@ -113,8 +113,14 @@ export const steamHeatItemSchema = z
     ...timing,
     mass_kg: num("Condensate collected, kg").min(0),
     ...pressures,
-    saturation_temp_c: num("Saturation temperature, °C").optional(),
-    condensate_temp_c: num("Condensate temperature, °C").optional(),
+    saturation_temp_c: num(
+      "Saturation temperature, °C: 0 to 250.36 °C, the saturation " +
+        "temperatures of the 0.00611-40 bar a pressure range",
+    ).optional(),
+    condensate_temp_c: num(
+      "Condensate temperature, °C: 0 °C up to the saturation temperature " +
+        "(within 1 K above it is taken as saturated)",
+    ).optional(),
   })
   .describe(
     "Condensing saturated steam: at least one of pressure_bar_abs, " +

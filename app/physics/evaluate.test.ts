@@ -294,6 +294,135 @@ describe("steam_heat items and the phase rule", () => {
   });
 });
 
+describe("steam_heat edges: the range and saturation", () => {
+  const steam = (fields: Record<string, number>) =>
+    evaluateItem({ quantity: "steam_heat", mass_kg: 1, ...fields });
+
+  it("accepts the same range whichever field names the state", () => {
+    // 40 bar a is T_s = 250.36 °C (IAPWS-IF97 region 4, Eq. 31 [computed]);
+    // 250.3 °C is p_s = 39.96 bar a.
+    const byPressure = okResult(steam({ pressure_bar_abs: 40 }));
+    expect(byPressure.details.saturation_temp_c).toBeCloseTo(250.3575, 4);
+    const byTemperature = okResult(steam({ saturation_temp_c: 250.3 }));
+    expect(byTemperature.details.pressure_bar_abs).toBeCloseTo(39.9612, 4);
+    const byGauge = okResult(steam({ pressure_bar_g: 40 - 1.01325 }));
+    expect(byGauge.energy_kwh).toBeCloseTo(byPressure.energy_kwh, 9);
+    expect(errorOf(steam({ saturation_temp_c: 250.4 }))).toMatch(
+      /^saturation_temp_c: 250\.4 °C is outside the saturation range 0 °C to 250\.36 °C/,
+    );
+    expect(errorOf(steam({ pressure_bar_abs: 40.01 }))).toMatch(
+      /^pressure_bar_abs: 40\.01 bar a is outside/,
+    );
+  });
+
+  it("labels condensate exactly at saturation saturated liquid", () => {
+    const r = okResult(
+      steam({ saturation_temp_c: 180, condensate_temp_c: 180 }),
+    );
+    expect(r.details.condensate).toBe("saturated_liquid");
+    expect(r.details.condensate_enthalpy_kj_per_kg).toBe(
+      r.details.h_f_kj_per_kg,
+    );
+    const top = okResult(
+      steam({
+        pressure_bar_abs: 40,
+        condensate_temp_c: byTopSaturation(),
+      }),
+    );
+    expect(top.details.condensate).toBe("saturated_liquid");
+  });
+});
+
+// T_s(40 bar a) as the API reports it, fed back as a condensate temperature.
+function byTopSaturation(): number {
+  const r = okResult(
+    evaluateItem({ quantity: "steam_heat", mass_kg: 1, pressure_bar_abs: 40 }),
+  );
+  return r.details.saturation_temp_c as number;
+}
+
+describe("an energy too large to represent", () => {
+  const overflowing: [string, Record<string, unknown>, string][] = [
+    [
+      "water heat",
+      {
+        ...WATER_75_50,
+        volume_m3: 1e306,
+        meter_class: 2,
+        delta_theta_min_k: 3,
+        qp_m3_per_h: 1.5,
+        seconds: 3600,
+      },
+      "volume_m3",
+    ],
+    [
+      "steam",
+      { quantity: "steam_heat", mass_kg: 1e306, pressure_bar_g: 7 },
+      "mass_kg",
+    ],
+    [
+      "sensible heat",
+      {
+        quantity: "sensible_heat",
+        mass_kg: 1e308,
+        specific_heat_kj_per_kg_k: 10,
+        inlet_temp_c: 100,
+        outlet_temp_c: 0,
+      },
+      "mass_kg",
+    ],
+    [
+      "electrical work",
+      {
+        quantity: "electric_work",
+        circuit: "dc",
+        volts: 1e200,
+        amps: 1e150,
+        seconds: 1,
+      },
+      "volts",
+    ],
+    [
+      "a register (in MJ only)",
+      {
+        quantity: "electric_register",
+        register_start_kwh: 0,
+        register_end_kwh: 1e308,
+        multiplier: 1.5,
+      },
+      "register_end_kwh",
+    ],
+    [
+      "a register multiplier",
+      {
+        quantity: "heat_register",
+        register_start_kwh: 0,
+        register_end_kwh: 10,
+        multiplier: 1e308,
+      },
+      "multiplier",
+    ],
+  ];
+
+  for (const [name, item, field] of overflowing) {
+    it(`names the item's own field for ${name}, not \`value\``, () => {
+      const r = evaluateItem(item);
+      expect(errorOf(r)).toMatch(
+        new RegExp(`^${field}: .*too large to represent`),
+      );
+      expect(evaluateResultSchema.safeParse(r).success).toBe(true);
+    });
+  }
+
+  it("never answers ok with a figure JSON cannot carry", () => {
+    for (const [, item] of overflowing) {
+      const r = evaluateItem(item);
+      const json = JSON.parse(JSON.stringify(r)) as EvaluateResult;
+      expect(json).toEqual(r);
+    }
+  });
+});
+
 describe("electric_work items", () => {
   const threePhase = {
     quantity: "electric_work",

@@ -72,13 +72,50 @@ function physicsFailure(
   return fail(`${field}: ${e.reason}`);
 }
 
-function success(kwh: number, method: string, details: Details) {
+/**
+ * The item's fields that scale its energy. Finite inputs can still multiply
+ * past the largest double (1e308 kg × 2000 kJ/kg); the reason then names the
+ * item's own field (the largest of these), not a converter's argument.
+ */
+type ScaleFields = readonly string[];
+
+function overflow(item: EvaluateItem, scale: ScaleFields): EvaluateResult {
+  const values = item as unknown as Record<string, unknown>;
+  const given = scale.filter((f) => typeof values[f] === "number");
+  const field = given.reduce((a, b) =>
+    Math.abs(values[b] as number) > Math.abs(values[a] as number) ? b : a,
+  );
+  return fail(
+    `${field}: ${String(values[field])} makes the energy too large to ` +
+      `represent (it overflows); check the item's figures and units`,
+  );
+}
+
+const finite = (v: unknown) => typeof v !== "number" || Number.isFinite(v);
+
+function success(
+  item: EvaluateItem,
+  scale: ScaleFields,
+  kwh: number,
+  method: string,
+  details: Details,
+): EvaluateResult {
+  if (!Number.isFinite(kwh)) return overflow(item, scale);
   const mj = convertEnergy(kwh, "kWh", "MJ");
+  if (!Number.isFinite(mj) || !Object.values(details).every(finite))
+    return overflow(item, scale);
   return { ok: true as const, energy_kwh: kwh, energy_mj: mj, method, details };
 }
 
-function successKj(kj: number, method: string, details: Details) {
-  return success(convertEnergy(kj, "kJ", "kWh"), method, details);
+function successKj(
+  item: EvaluateItem,
+  scale: ScaleFields,
+  kj: number,
+  method: string,
+  details: Details,
+): EvaluateResult {
+  if (!Number.isFinite(kj)) return overflow(item, scale);
+  return success(item, scale, convertEnergy(kj, "kJ", "kWh"), method, details);
 }
 
 function issueText(issue: z.core.$ZodIssue): string {
@@ -245,7 +282,9 @@ function evaluateWaterHeat(item: ItemOf<"water_heat">): EvaluateResult {
       return physicsFailure(e, { pressureBarAbs: p.field });
     throw e;
   }
-  return successKj(r.energyKj, "iapws-if97/water-heat", {
+  // Before the MPE band, which would otherwise meet the overflow first.
+  if (!Number.isFinite(r.energyKj)) return overflow(item, ["volume_m3"]);
+  return successKj(item, ["volume_m3"], r.energyKj, "iapws-if97/water-heat", {
     pressure_bar_abs: p.pressureBarAbs,
     sensor_at: item.sensor_at,
     density_at_sensor_kg_per_m3: r.densityAtSensorKgPerM3,
@@ -266,15 +305,21 @@ function evaluateSteamHeat(item: ItemOf<"steam_heat">): EvaluateResult {
     saturationTempC: item.saturation_temp_c,
     condensateTempC: item.condensate_temp_c,
   });
-  return successKj(r.energyKj, "iapws-if97/steam-condensing", {
-    pressure_bar_abs: r.pressureBarAbs,
-    saturation_temp_c: r.saturationTempC,
-    h_g_kj_per_kg: r.vapourEnthalpyKjPerKg,
-    h_f_kj_per_kg: r.liquidEnthalpyKjPerKg,
-    h_fg_kj_per_kg: r.latentHeatKjPerKg,
-    condensate_enthalpy_kj_per_kg: r.condensateEnthalpyKjPerKg,
-    condensate: r.condensate,
-  });
+  return successKj(
+    item,
+    ["mass_kg"],
+    r.energyKj,
+    "iapws-if97/steam-condensing",
+    {
+      pressure_bar_abs: r.pressureBarAbs,
+      saturation_temp_c: r.saturationTempC,
+      h_g_kj_per_kg: r.vapourEnthalpyKjPerKg,
+      h_f_kj_per_kg: r.liquidEnthalpyKjPerKg,
+      h_fg_kj_per_kg: r.latentHeatKjPerKg,
+      condensate_enthalpy_kj_per_kg: r.condensateEnthalpyKjPerKg,
+      condensate: r.condensate,
+    },
+  );
 }
 
 function evaluateSensibleHeat(item: ItemOf<"sensible_heat">): EvaluateResult {
@@ -285,7 +330,13 @@ function evaluateSensibleHeat(item: ItemOf<"sensible_heat">): EvaluateResult {
     inletTempC: item.inlet_temp_c,
     outletTempC: item.outlet_temp_c,
   });
-  return successKj(kj, "declared-cp/sensible-heat", {
+  const scale = [
+    "mass_kg",
+    "specific_heat_kj_per_kg_k",
+    "inlet_temp_c",
+    "outlet_temp_c",
+  ];
+  return successKj(item, scale, kj, "declared-cp/sensible-heat", {
     mass_kg: item.mass_kg,
     specific_heat_kj_per_kg_k: item.specific_heat_kj_per_kg_k,
     delta_t_k: item.inlet_temp_c - item.outlet_temp_c,
@@ -309,9 +360,12 @@ function evaluateElectricWork(item: ItemOf<"electric_work">): EvaluateResult {
     item.circuit === "three_phase"
       ? (item.voltage_basis ?? "line_to_line")
       : null;
-  const j = r.energyJ;
+  if (!Number.isFinite(r.energyJ))
+    return overflow(item, ["volts", "amps", "seconds"]);
   return success(
-    convertEnergy(j, "J", "kWh"),
+    item,
+    ["volts", "amps", "seconds"],
+    convertEnergy(r.energyJ, "J", "kWh"),
     `electric/${item.circuit.replace("_", "-")}`,
     {
       active_power_w: r.activePowerW,
@@ -333,7 +387,8 @@ function evaluateRegister(
     capacityKwh: item.register_capacity_kwh,
   });
   if (!r.ok) return fail(`register_end_kwh: ${r.kind}: ${r.reason}`);
-  return success(r.energyKwh, "register/difference", {
+  const scale = ["multiplier", "register_end_kwh", "register_start_kwh"];
+  return success(item, scale, r.energyKwh, "register/difference", {
     register_kind: r.kind,
     register_delta_kwh: r.registerDeltaKwh,
     multiplier: r.multiplier,

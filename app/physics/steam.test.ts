@@ -3,12 +3,17 @@
 
 import { describe, expect, it } from "vitest";
 import { PhysicsInputError, PhysicsRangeError } from "./errors";
+import fc from "fast-check";
 import {
   PHASE_RULE_TOLERANCE_K,
   resolveSaturatedSteam,
   steamHeat,
 } from "./steam";
-import { METER_RANGE, saturationTemperatureC } from "./water-properties";
+import {
+  METER_RANGE,
+  SATURATION_RANGE,
+  saturationTemperatureC,
+} from "./water-properties";
 
 describe("steam heat Q = m·(h″ − h_condensate)", () => {
   it("1000 kg of 7 bar g steam condensed to saturated water: 2047 MJ = 568.6 kWh", () => {
@@ -129,5 +134,111 @@ describe("condensate checks", () => {
     expect(() => steamHeat({ massKg: 1, pressureBarAbs: 45 })).toThrow(
       /40 bar a/,
     );
+  });
+});
+
+describe("the steam range is the same whichever field names the state", () => {
+  it("derives the saturation-temperature range from the pressure range: T_s(40 bar a) = 250.36 °C", () => {
+    // IAPWS-IF97 region 4 (Eq. 31) at 4 MPa [computed]; steam tables print
+    // 250.35-250.36 °C at 40 bar [memory]. The code reproduces IF97's
+    // verification Table 35 (if97.test.ts), e.g. T_s(1 MPa) = 453.035632 K.
+    expect(SATURATION_RANGE.maxTemperatureC).toBeCloseTo(250.3575, 4);
+    expect(SATURATION_RANGE.maxPressureBarAbs).toBe(
+      METER_RANGE.maxPressureBarAbs,
+    );
+    expect(SATURATION_RANGE.minTemperatureC).toBe(0);
+  });
+
+  it("accepts 40 bar a and the 250.3 °C just below it; refuses both just beyond", () => {
+    const byPressure = steamHeat({ massKg: 1, pressureBarAbs: 40 });
+    expect(byPressure.saturationTempC).toBeCloseTo(250.3575, 4);
+    // 250.3 °C saturates at 39.96 bar a [computed, IF97 Eq. 30].
+    const byTemperature = steamHeat({ massKg: 1, saturationTempC: 250.3 });
+    expect(byTemperature.pressureBarAbs).toBeCloseTo(39.9612, 4);
+    // The top of the range, named either way, is the same state.
+    const top = steamHeat({
+      massKg: 1,
+      saturationTempC: SATURATION_RANGE.maxTemperatureC,
+    });
+    expect(top.pressureBarAbs).toBeCloseTo(40, 9);
+    expect(top.energyKj).toBeCloseTo(byPressure.energyKj, 6);
+
+    expect(() => steamHeat({ massKg: 1, pressureBarAbs: 40.01 })).toThrow(
+      /pressureBarAbs: .*40 bar a/,
+    );
+    expect(() => steamHeat({ massKg: 1, saturationTempC: 250.4 })).toThrow(
+      /saturationTempC: 250\.4 °C is outside the saturation range 0 °C to 250\.36 °C/,
+    );
+    expect(() => steamHeat({ massKg: 1, saturationTempC: -0.5 })).toThrow(
+      /saturationTempC: .*saturation range/,
+    );
+  });
+
+  it("any pressure in range, given as T_s(p) instead, is accepted and gives the same state", () => {
+    fc.assert(
+      fc.property(
+        fc.double({
+          min: SATURATION_RANGE.minPressureBarAbs,
+          max: SATURATION_RANGE.maxPressureBarAbs,
+          noNaN: true,
+        }),
+        (p) => {
+          const t = saturationTemperatureC(p);
+          const viaT = resolveSaturatedSteam({ saturationTempC: t });
+          expect(viaT.pressureBarAbs / p).toBeCloseTo(1, 8);
+        },
+      ),
+    );
+  });
+});
+
+describe("condensate at saturation", () => {
+  it("condensate exactly at T_s is saturated liquid, not subcooled", () => {
+    // T_s(8.01325 bar a) = 170.48 °C; the very number, as a gateway may echo it.
+    const ts = saturationTemperatureC(8.01325);
+    const q = steamHeat({ massKg: 1, pressureBarG: 7, condensateTempC: ts });
+    expect(q.condensate).toBe("saturated_liquid");
+    expect(q.energyKj).toBeCloseTo(2047.05, 2);
+    // Named by its saturation temperature, the state round-trips through
+    // p_s and T_s with a rounding error (180 °C → 180.0000000000005 °C).
+    for (const t of [100, 180, 212.5]) {
+      const r = steamHeat({
+        massKg: 1,
+        saturationTempC: t,
+        condensateTempC: t,
+      });
+      expect(r.condensate, `${t} °C`).toBe("saturated_liquid");
+    }
+  });
+
+  it("a hundredth of a kelvin below T_s is subcooled, above it within 1 K at saturation", () => {
+    const ts = saturationTemperatureC(8.01325);
+    expect(
+      steamHeat({ massKg: 1, pressureBarG: 7, condensateTempC: ts - 0.01 })
+        .condensate,
+    ).toBe("subcooled_liquid");
+    expect(
+      steamHeat({ massKg: 1, pressureBarG: 7, condensateTempC: ts + 0.01 })
+        .condensate,
+    ).toBe("at_saturation_within_tolerance");
+  });
+
+  it("follows the steam's range: condensate at 40 bar a may be above 250 °C, up to T_s", () => {
+    const atTop = steamHeat({
+      massKg: 1,
+      pressureBarAbs: 40,
+      condensateTempC: SATURATION_RANGE.maxTemperatureC,
+    });
+    expect(atTop.condensate).toBe("saturated_liquid");
+    const sub = steamHeat({
+      massKg: 1,
+      pressureBarAbs: 40,
+      condensateTempC: 250.2,
+    });
+    expect(sub.condensate).toBe("subcooled_liquid");
+    expect(sub.energyKj).toBeGreaterThan(atTop.energyKj);
+    expect(() =>
+      steamHeat({ massKg: 1, pressureBarAbs: 40, condensateTempC: -1 }),
+    ).toThrow(/condensateTempC: -1 °C is outside 0 °C to 250\.36 °C/);
   });
 });

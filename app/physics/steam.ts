@@ -6,12 +6,12 @@
 import {
   PhysicsInputError,
   PhysicsRangeError,
+  requireFinite,
   requireNonNegative,
 } from "./errors";
 import {
   absolutePressureBar,
-  liquidWater,
-  requireMeterTemperatureC,
+  liquidUpToSaturation,
   saturationAtPressure,
   saturationPressureBarAbs,
   saturationTemperatureC,
@@ -30,6 +30,15 @@ import {
  * 1.5 K anywhere up to 40 bar a [computed, IF97; see steam.test.ts].
  */
 export const PHASE_RULE_TOLERANCE_K = 1.0;
+
+/**
+ * A condensate temperature this close to T_s(p) is at saturation. T_s comes
+ * back from p through IF97 Eqs. 30-31 with a rounding error of order 1e-12 K
+ * (180 °C returns as 180.0000000000005 °C), so an exact comparison would call
+ * condensate reported at the saturation temperature subcooled, or above it.
+ * 1e-6 K is far below any thermometer's resolution.
+ */
+export const AT_SATURATION_K = 1e-6;
 
 export interface SteamStateInput {
   pressureBarAbs?: number;
@@ -148,19 +157,23 @@ interface Condensate {
 }
 
 // Condensate as liquid at its temperature and the steam pressure (IF97
-// region 1); saturated liquid when no temperature is given. Condensate cannot
-// be hotter than saturation: within the tolerance it is taken as saturated
-// liquid (sensor noise), beyond it the reading is rejected.
+// region 1); saturated liquid when no temperature is given or it is the
+// saturation temperature. Condensate cannot be hotter than saturation: within
+// the tolerance it is taken as saturated liquid (sensor noise), beyond it the
+// reading is rejected. Its range follows the steam's: 0 °C to T_s(p).
 function condensate(
   tC: number | undefined,
   pBarAbs: number,
   tsC: number,
   hfKjPerKg: number,
 ): Condensate {
-  if (tC === undefined) {
-    return { enthalpyKjPerKg: hfKjPerKg, state: "saturated_liquid" };
-  }
-  requireMeterTemperatureC("condensateTempC", tC);
+  const saturated: Condensate = {
+    enthalpyKjPerKg: hfKjPerKg,
+    state: "saturated_liquid",
+  };
+  if (tC === undefined) return saturated;
+  requireFinite("condensateTempC", tC);
+  if (Math.abs(tC - tsC) <= AT_SATURATION_K) return saturated;
   if (tC > tsC + PHASE_RULE_TOLERANCE_K) {
     throw new PhysicsRangeError(
       `${tC} °C is hotter than the saturation temperature ` +
@@ -175,7 +188,9 @@ function condensate(
       state: "at_saturation_within_tolerance",
     };
   }
-  const h = liquidWater(pBarAbs, tC, { temperature: "condensateTempC" });
+  const h = liquidUpToSaturation(pBarAbs, tC, {
+    temperature: "condensateTempC",
+  });
   return { enthalpyKjPerKg: h.enthalpyKjPerKg, state: "subcooled_liquid" };
 }
 

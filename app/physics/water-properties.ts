@@ -16,9 +16,10 @@ import type { WaterProperties } from "./if97";
 
 export type { WaterProperties } from "./if97";
 
-// Heating, chilled-water and process-steam meters: 0-250 °C covers pressurised
-// hot water and saturated steam up to 40 bar a (T_s(40 bar) = 250.4 °C).
+// Heating, chilled-water and process-steam meters: 0-250 °C for the
+// temperatures their sensors measure in water, 0.006-40 bar a for pressures.
 // 0.006 bar a reaches down to the triple point (611.657 Pa [memory]).
+// Saturated steam is bounded by the pressure range alone (SATURATION_RANGE).
 export const METER_RANGE = {
   minTemperatureC: 0,
   maxTemperatureC: 250,
@@ -39,6 +40,24 @@ const SATURATION_MIN_PRESSURE_BAR = IF97_SATURATION_MIN_PRESSURE_MPA * 10;
 
 // Same rounding allowance as if97.ts for states exactly on the saturation line.
 const SATURATION_RELATIVE_TOLERANCE = 1e-9;
+
+/**
+ * Saturated steam within the meter's pressure range. Pressure and saturation
+ * temperature are two names for one state, so the temperature range is the
+ * pressure range carried through the saturation curve (IF97 region 4,
+ * Eq. 31), not the 0-250 °C of water sensors: from 0 °C, where the line starts
+ * at 0.00611213 bar a, to T_s(40 bar a) = 250.3575 °C [computed, IF97
+ * Eq. 31; steam tables print 250.35-250.36 °C at 40 bar, memory]. Either name
+ * for the state is accepted over exactly the same states.
+ */
+export const SATURATION_RANGE = {
+  minPressureBarAbs: SATURATION_MIN_PRESSURE_BAR,
+  maxPressureBarAbs: METER_RANGE.maxPressureBarAbs,
+  minTemperatureC: 0,
+  maxTemperatureC:
+    saturationTemperatureK(METER_RANGE.maxPressureBarAbs / 10) -
+    CELSIUS_OFFSET_K,
+} as const;
 
 export interface FieldNames {
   pressure?: string;
@@ -161,21 +180,63 @@ export function saturationTemperatureC(
   return saturationTemperatureK(mpa(pressureBarAbs)) - CELSIUS_OFFSET_K;
 }
 
-/** Saturation pressure p_s(t) in bar a, IF97 Eq. 30, t within meter range. */
+/**
+ * Saturation pressure p_s(t) in bar a, IF97 Eq. 30, for t on the saturation
+ * line within the meter's pressure range (SATURATION_RANGE).
+ */
 export function saturationPressureBarAbs(
   temperatureC: number,
   field = "temperatureC",
 ): number {
-  requireMeterTemperatureC(field, temperatureC);
-  const pBar = saturationPressureMpa(temperatureC + CELSIUS_OFFSET_K) * 10;
-  if (pBar > METER_RANGE.maxPressureBarAbs) {
+  requireFinite(field, temperatureC);
+  const { minTemperatureC: min, maxTemperatureC: max } = SATURATION_RANGE;
+  const pBar =
+    temperatureC >= min
+      ? saturationPressureMpa(temperatureC + CELSIUS_OFFSET_K) * 10
+      : NaN;
+  // Compared as pressures, with the rounding allowance, so that T_s(40 bar a)
+  // computed to the last digit is accepted like 40 bar a itself.
+  const tooHigh =
+    pBar > METER_RANGE.maxPressureBarAbs * (1 + SATURATION_RELATIVE_TOLERANCE);
+  if (temperatureC < min || tooHigh) {
     throw new PhysicsRangeError(
-      `${temperatureC} °C saturates at ${round(pBar, 4)} bar a, above the ` +
-        `meter range's ${METER_RANGE.maxPressureBarAbs} bar a`,
+      `${temperatureC} °C is outside the saturation range ` +
+        `${min} °C to ${round(max, 2)} °C, the saturation temperatures of ` +
+        `${round(SATURATION_RANGE.minPressureBarAbs, 8)} bar a to ` +
+        `${SATURATION_RANGE.maxPressureBarAbs} bar a`,
       field,
     );
   }
-  return pBar;
+  return Math.min(pBar, METER_RANGE.maxPressureBarAbs);
+}
+
+/**
+ * Liquid at or below the saturation temperature at p, e.g. condensate: from
+ * 0 °C up to T_s(p), so its range follows the steam's (up to 250.36 °C at
+ * 40 bar a) rather than the 0-250 °C of water sensors. IF97 region 1 holds
+ * up to 350 °C.
+ */
+export function liquidUpToSaturation(
+  pressureBarAbs: number,
+  temperatureC: number,
+  fields: FieldNames = {},
+): WaterProperties {
+  const pField = fields.pressure ?? "pressureBarAbs";
+  const tField = fields.temperature ?? "temperatureC";
+  requireFinite(tField, temperatureC);
+  const tsC = saturationTemperatureC(pressureBarAbs, pField);
+  if (temperatureC < METER_RANGE.minTemperatureC || temperatureC > tsC) {
+    throw new PhysicsRangeError(
+      `${temperatureC} °C is outside ${METER_RANGE.minTemperatureC} °C to ` +
+        `${round(tsC, 2)} °C, liquid water at ${pressureBarAbs} bar a ` +
+        `(IF97 region 1)`,
+      tField,
+    );
+  }
+  return region1Properties(
+    mpa(pressureBarAbs),
+    temperatureC + CELSIUS_OFFSET_K,
+  );
 }
 
 export interface SaturationState {

@@ -1,4 +1,3 @@
-import { format } from "date-fns";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireMembership } from "~/auth/membership.server";
@@ -9,6 +8,7 @@ import {
   startCheckout,
 } from "~/billing/checkout.server";
 import { billingOverview } from "~/billing/overview.server";
+import { anyBeingPrepared, invoiceRow } from "~/billing/invoice-display";
 import { formatMoney, UNIT_PRICE_MINOR } from "~/billing/plan";
 import {
   lookUpAfterCheckout,
@@ -25,6 +25,7 @@ import {
   PageHeader,
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
+import { dateTimeUtc, dayUtc } from "~/lib/times";
 import type { Route } from "./+types/billing";
 
 export const meta: Route.MetaFunction = () => [
@@ -134,8 +135,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 type LoaderData = Route.ComponentProps["loaderData"];
 
-const day = (d: Date | string | null) =>
-  d ? format(new Date(d), "d MMM yyyy") : "—";
+const day = (d: Date | string | null) => (d ? dayUtc(d) : "—");
 
 const daysLeft = (n: number) => `${n} day${n === 1 ? "" : "s"} left`;
 
@@ -381,7 +381,7 @@ function CheckCard({
         Joulebook regularly checks that Stripe bills today&apos;s metered-site
         count, and corrects it if not.{" "}
         {d.account?.lastReconciledAt
-          ? `Last checked ${format(new Date(d.account.lastReconciledAt), "d MMM yyyy, HH:mm")}.`
+          ? `Last checked ${dateTimeUtc(d.account.lastReconciledAt)}.`
           : "Not checked yet."}
       </p>
       {mine?.message ? <Notice tone="success">{mine.message}</Notice> : null}
@@ -422,19 +422,14 @@ function TrialNote({ data: d }: { data: LoaderData }) {
   );
 }
 
-const invoiceTones = {
-  paid: "spruce",
-  open: "copper",
-  uncollectible: "danger",
-} as const;
-
 function InvoicesCard({ invoices }: { invoices: LoaderData["invoices"] }) {
+  const rows = invoices.map(invoiceRow);
   return (
     <Card aria-labelledby="invoices-heading">
       <h2 id="invoices-heading" className="text-lg">
         Invoices
       </h2>
-      {invoices.length === 0 ? (
+      {rows.length === 0 ? (
         <div className="mt-3">
           <EmptyState title="No invoices yet">
             The first invoice arrives when you subscribe.
@@ -456,32 +451,19 @@ function InvoicesCard({ invoices }: { invoices: LoaderData["invoices"] }) {
               </tr>
             </thead>
             <tbody className="divide-y divide-line">
-              {invoices.map((inv) => (
-                <tr key={inv.id} data-invoice={inv.id}>
-                  <td className="py-2 pr-4 font-semibold">
-                    {inv.number ?? inv.id}
-                  </td>
-                  <td className="py-2 pr-4">{day(inv.createdAt)}</td>
-                  <td className="py-2 pr-4 text-right">
-                    {formatMoney(inv.amountDue, inv.currency)}
-                  </td>
-                  <td className="py-2 pr-4 text-right">
-                    {formatMoney(inv.amountPaid, inv.currency)}
-                  </td>
-                  <td className="py-2 pr-4">
-                    <Badge
-                      tone={
-                        invoiceTones[inv.status as keyof typeof invoiceTones] ??
-                        "neutral"
-                      }
-                    >
-                      {inv.status}
-                    </Badge>
+              {rows.map((row) => (
+                <tr key={row.id} data-invoice={row.id}>
+                  <td className="py-2 pr-4 font-semibold">{row.reference}</td>
+                  <td className="py-2 pr-4">{row.issued}</td>
+                  <td className="py-2 pr-4 text-right">{row.amount}</td>
+                  <td className="py-2 pr-4 text-right">{row.paid}</td>
+                  <td className="whitespace-nowrap py-2 pr-4">
+                    <Badge tone={row.status.tone}>{row.status.label}</Badge>
                   </td>
                   <td className="py-2 text-right">
-                    {inv.hostedInvoiceUrl ? (
+                    {row.link ? (
                       <a
-                        href={inv.hostedInvoiceUrl}
+                        href={row.link}
                         className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
                         rel="noreferrer"
                         target="_blank"
@@ -494,6 +476,12 @@ function InvoicesCard({ invoices }: { invoices: LoaderData["invoices"] }) {
               ))}
             </tbody>
           </table>
+          {anyBeingPrepared(invoices) ? (
+            <p className="mt-2 text-sm text-ink-muted">
+              Stripe is preparing an invoice: its number, and the payment, show
+              here within a minute. Reload the page to see them.
+            </p>
+          ) : null}
         </div>
       )}
     </Card>

@@ -1,10 +1,12 @@
-import { formatDistanceToNowStrict } from "date-fns";
-import { data, Form } from "react-router";
+import { useEffect, useRef } from "react";
+import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import { notFound, requireMembership } from "~/auth/membership.server";
+import { RelativeTime } from "~/components/relative-time";
 import {
   Badge,
   Button,
+  buttonClass,
   Card,
   EmptyState,
   Field,
@@ -17,6 +19,8 @@ import {
   revokeGateway,
 } from "~/gateways/manage-gateways.server";
 import { parseForm } from "~/lib/forms";
+import { isUuid } from "~/lib/ids";
+import { dateTimeUtc } from "~/lib/times";
 import type { Route } from "./+types/gateways";
 
 export const meta: Route.MetaFunction = () => [
@@ -31,9 +35,16 @@ const createSchema = z.strictObject({
     .min(1, "Name the gateway, e.g. its location.")
     .max(80, "Use at most 80 characters."),
 });
+// Revoking cuts a gateway off at once, so it takes two steps: "Revoke…"
+// opens a confirmation naming the gateway and when it was last seen, and only
+// that form sends `confirm`. A stray POST without it (a replayed form, a
+// script) is refused and changes nothing.
 const revokeSchema = z.strictObject({
   intent: z.literal("revoke"),
   gatewayId: z.uuid("Unknown gateway."),
+  confirm: z.literal("yes", {
+    error: "Confirm the revocation first: choose Revoke… beside the gateway.",
+  }),
 });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -42,7 +53,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     params.orgId,
     "gateways.manage",
   );
-  return { gateways: await listGateways({ organizationId: organization.id }) };
+  const gateways = await listGateways({ organizationId: organization.id });
+  // `?revoke=<id>` is the confirmation step for that (active) gateway.
+  const revoke = new URL(request.url).searchParams.get("revoke");
+  const confirming = isUuid(revoke)
+    ? (gateways.find((g) => g.id === revoke && !g.revokedAt)?.id ?? null)
+    : null;
+  return { gateways, confirming, now: new Date().toISOString() };
 }
 
 type Result = {
@@ -81,6 +98,57 @@ export async function action({ request, params }: Route.ActionArgs) {
   });
 }
 
+type GatewayRow = Route.ComponentProps["loaderData"]["gateways"][number];
+
+/** The second step of revoking: what is cut off, and since when it was heard. */
+function ConfirmRevoke({ gateway, now }: { gateway: GatewayRow; now: string }) {
+  const heading = useRef<HTMLHeadingElement>(null);
+  // Arriving here by the Revoke… link, keyboard and screen-reader users land
+  // on the question rather than at the top of the page.
+  useEffect(() => heading.current?.focus(), []);
+  return (
+    <Form
+      method="post"
+      preventScrollReset
+      aria-labelledby={`revoke-${gateway.id}`}
+      className="mt-3 flex flex-col gap-3 rounded-lg border border-danger-600/30 bg-danger-50 p-4"
+    >
+      <input type="hidden" name="intent" value="revoke" />
+      <input type="hidden" name="gatewayId" value={gateway.id} />
+      <input type="hidden" name="confirm" value="yes" />
+      <h3
+        id={`revoke-${gateway.id}`}
+        ref={heading}
+        tabIndex={-1}
+        className="font-semibold outline-none"
+      >
+        Revoke {gateway.name}?
+      </h3>
+      <p>
+        {gateway.lastSeenAt ? (
+          <>
+            It was last seen <RelativeTime at={gateway.lastSeenAt} now={now} />{" "}
+            ({dateTimeUtc(gateway.lastSeenAt)}).
+          </>
+        ) : (
+          "It has never posted a reading."
+        )}{" "}
+        Its key ({gateway.keyPrefix}…) is refused from the moment you confirm:
+        the readings it sends are turned away until it is set up as a new
+        gateway with a new key. This cannot be undone.
+      </p>
+      <div className="flex flex-wrap gap-3">
+        <Button type="submit" variant="danger">
+          Revoke {gateway.name}
+        </Button>
+        <Link to="." preventScrollReset className={buttonClass("secondary")}>
+          Cancel
+        </Link>
+      </div>
+    </Form>
+  );
+}
+
 export default function Gateways({
   loaderData,
   actionData,
@@ -88,6 +156,10 @@ export default function Gateways({
   const result = actionData as Result | undefined;
   const errors: Record<string, string | undefined> =
     result?.intent === "create" ? result.errors : {};
+  const revokeError =
+    result?.intent === "revoke"
+      ? Object.values(result.errors).join(" ") || undefined
+      : undefined;
   return (
     <>
       <PageHeader
@@ -112,6 +184,7 @@ export default function Gateways({
         {result?.message ? (
           <Notice tone="success">{result.message}</Notice>
         ) : null}
+        {revokeError ? <Notice tone="error">{revokeError}</Notice> : null}
         <Card aria-labelledby="new-gateway-heading">
           <h2 id="new-gateway-heading" className="text-lg">
             Add a gateway
@@ -145,38 +218,45 @@ export default function Gateways({
           ) : (
             <ul className="mt-2 divide-y divide-line">
               {loaderData.gateways.map((g) => (
-                <li
-                  key={g.id}
-                  className="flex flex-wrap items-center justify-between gap-3 py-3"
-                >
-                  <div>
-                    <p className="font-semibold">{g.name}</p>
-                    <p className="font-mono text-sm text-ink-muted">
-                      {g.keyPrefix}…
-                    </p>
-                  </div>
-                  <div className="flex items-center gap-4">
-                    <span className="text-sm text-ink-muted">
-                      {g.lastSeenAt
-                        ? `Last seen ${formatDistanceToNowStrict(new Date(g.lastSeenAt))} ago`
-                        : "Never seen"}
-                    </span>
-                    {g.revokedAt ? (
-                      <Badge tone="danger">Revoked</Badge>
-                    ) : (
-                      <Form method="post">
-                        <input type="hidden" name="intent" value="revoke" />
-                        <input type="hidden" name="gatewayId" value={g.id} />
-                        <Button
-                          type="submit"
-                          variant="danger"
-                          aria-label={`Revoke ${g.name}`}
+                <li key={g.id} className="py-3">
+                  <div className="flex flex-wrap items-center justify-between gap-3">
+                    <div>
+                      <p className="font-semibold">{g.name}</p>
+                      <p className="font-mono text-sm text-ink-muted">
+                        {g.keyPrefix}…
+                      </p>
+                    </div>
+                    <div className="flex items-center gap-4">
+                      <span className="text-sm text-ink-muted">
+                        {g.lastSeenAt ? (
+                          <>
+                            Last seen{" "}
+                            <RelativeTime
+                              at={g.lastSeenAt}
+                              now={loaderData.now}
+                            />
+                          </>
+                        ) : (
+                          "Never seen"
+                        )}
+                      </span>
+                      {g.revokedAt ? (
+                        <Badge tone="danger">Revoked</Badge>
+                      ) : loaderData.confirming === g.id ? null : (
+                        <Link
+                          to={`?revoke=${g.id}`}
+                          preventScrollReset
+                          className={buttonClass("danger")}
+                          aria-label={`Revoke ${g.name}…`}
                         >
-                          Revoke
-                        </Button>
-                      </Form>
-                    )}
+                          Revoke…
+                        </Link>
+                      )}
+                    </div>
                   </div>
+                  {loaderData.confirming === g.id ? (
+                    <ConfirmRevoke gateway={g} now={loaderData.now} />
+                  ) : null}
                 </li>
               ))}
             </ul>

@@ -1,4 +1,4 @@
-import { format } from "date-fns";
+import { useEffect, useRef } from "react";
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { requireMembership, notFound } from "~/auth/membership.server";
@@ -22,6 +22,7 @@ import {
 import { EmailDeliveryError } from "~/email/mailer.server";
 import { INVITATION_DAYS } from "~/auth/policy";
 import { emailField, parseForm, type FieldErrors } from "~/lib/forms";
+import { dateTimeUtc, dayUtc } from "~/lib/times";
 import {
   MembershipRuleError,
   changeMemberRole,
@@ -248,6 +249,7 @@ function MemberRow({
   member,
   manage,
   isSelf,
+  refusal,
 }: {
   member: {
     userId: string;
@@ -258,7 +260,16 @@ function MemberRow({
   };
   manage: boolean;
   isSelf: boolean;
+  /** The action's answer when it refused a change to this member. */
+  refusal: ActionResult | undefined;
 }) {
+  const roleForm = useRef<HTMLFormElement>(null);
+  // A refused change (the last owner's demotion) stored nothing, so the menu
+  // goes back to the stored role instead of showing the refused one. Each
+  // answer is a new object, so a second refusal resets the menu again.
+  useEffect(() => {
+    if (refusal) roleForm.current?.reset();
+  }, [refusal]);
   return (
     <li className="grid gap-3 py-4 md:grid-cols-[minmax(0,2fr)_minmax(0,2fr)_auto] md:items-center">
       <div>
@@ -270,11 +281,11 @@ function MemberRow({
         </p>
         <p className="text-sm text-ink-muted">{member.email}</p>
         <p className="text-sm text-ink-faint">
-          Joined {format(new Date(member.joinedAt), "d MMM yyyy")}
+          Joined {dayUtc(member.joinedAt)}
         </p>
       </div>
       {manage ? (
-        <Form method="post" className="flex items-end gap-2">
+        <Form ref={roleForm} method="post" className="flex items-end gap-2">
           <input type="hidden" name="intent" value="change-role" />
           <input type="hidden" name="userId" value={member.userId} />
           <SelectField
@@ -356,10 +367,18 @@ export default function Members({
           <ul className="divide-y divide-line">
             {members.map((m) => (
               <MemberRow
-                key={m.userId}
+                // Keyed by the stored role too: after a saved change the row
+                // starts afresh, so its menu's default is the new role.
+                key={`${m.userId}:${m.role}`}
                 member={m}
                 manage={manage}
                 isSelf={m.userId === currentUserId}
+                refusal={
+                  result?.intent === "change-role" &&
+                  result.subject === m.userId
+                    ? result
+                    : undefined
+                }
               />
             ))}
           </ul>
@@ -386,7 +405,7 @@ export default function Members({
                       <p className="font-semibold">{inv.email}</p>
                       <p className="text-sm text-ink-muted">
                         {roleLabels[inv.role]} · expires{" "}
-                        {format(new Date(inv.expiresAt), "d MMM yyyy, HH:mm")}
+                        {dateTimeUtc(inv.expiresAt)}
                       </p>
                     </div>
                     <Form method="post">

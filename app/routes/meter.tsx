@@ -1,4 +1,3 @@
-import { format } from "date-fns";
 import { data, Form, Link, redirect } from "react-router";
 import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
@@ -12,6 +11,7 @@ import {
   PageHeader,
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
+import { dayUtc } from "~/lib/times";
 import {
   carrierLabels,
   meterFormSchema,
@@ -178,7 +178,7 @@ export default function Meter({
         ) : null}
         {meter.removedAt ? (
           <Notice tone="caution" title="Retired">
-            Removed on {format(new Date(meter.removedAt), "d MMM yyyy")}.
+            Removed on {dayUtc(meter.removedAt)}.
             {replacement ? (
               <>
                 {" "}
@@ -303,10 +303,7 @@ export default function Meter({
                   meter.rolloverKwh ? `${meter.rolloverKwh} kWh` : "—",
                 ],
                 ["Sensor", meter.sensorAt ?? "—"],
-                [
-                  "Installed",
-                  format(new Date(meter.installedAt), "d MMM yyyy"),
-                ],
+                ["Installed", dayUtc(meter.installedAt)],
                 ["Spike factor", meter.spikeFactor],
               ].map(([k, v]) => (
                 <div key={k}>

@@ -1,7 +1,7 @@
-import { formatDistanceToNowStrict } from "date-fns";
 import { can, roleDescriptions, roleLabels, roles } from "~/auth/permissions";
 import { requireMembership } from "~/auth/membership.server";
 import { Cautions } from "~/components/cautions";
+import { RelativeTime } from "~/components/relative-time";
 import { Badge, Card, EmptyState, PageHeader } from "~/components/ui";
 import { listGateways } from "~/gateways/list-gateways.server";
 import { listMembers } from "~/organizations/members.server";
@@ -20,11 +20,17 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const membersByRole = Object.fromEntries(
     roles.map((r) => [r, members.filter((m) => m.role === r).length]),
   );
-  return { organization, role, membersByRole, gateways };
+  return {
+    organization,
+    role,
+    membersByRole,
+    gateways,
+    now: new Date().toISOString(),
+  };
 }
 
 export default function OrganizationHome({ loaderData }: Route.ComponentProps) {
-  const { organization, role, membersByRole, gateways } = loaderData;
+  const { organization, role, membersByRole, gateways, now } = loaderData;
   return (
     <>
       <PageHeader
@@ -84,9 +90,13 @@ export default function OrganizationHome({ loaderData }: Route.ComponentProps) {
                       <Badge tone="spruce">Active</Badge>
                     )}
                     <p className="mt-1 text-ink-muted">
-                      {g.lastSeenAt
-                        ? `Seen ${formatDistanceToNowStrict(new Date(g.lastSeenAt))} ago`
-                        : "Not seen yet"}
+                      {g.lastSeenAt ? (
+                        <>
+                          Seen <RelativeTime at={g.lastSeenAt} now={now} />
+                        </>
+                      ) : (
+                        "Not seen yet"
+                      )}
                     </p>
                   </div>
                 </li>

@@ -1,7 +1,7 @@
-import { format } from "date-fns";
 import { data, Form, Link, useNavigation } from "react-router";
 import { requireMembership } from "~/auth/membership.server";
 import { Button, Card, Notice, PageHeader } from "~/components/ui";
+import { dateTimeUtc } from "~/lib/times";
 import {
   verifyUploadedReport,
   type VerifyOutcome,
@@ -147,9 +147,7 @@ function WhatIsChecked() {
 }
 
 function when(iso: string | null): string {
-  return iso
-    ? format(new Date(iso), "d MMM yyyy, HH:mm:ss")
-    : "an unknown time";
+  return iso ? dateTimeUtc(iso, { seconds: true }) : "an unknown time";
 }
 
 function VerifyResult({ result }: { result: ActionResult }) {

@@ -1,4 +1,3 @@
-import { format } from "date-fns";
 import { useEffect } from "react";
 import { data, Form, Link, useNavigation, useRevalidator } from "react-router";
 import { requireMembership } from "~/auth/membership.server";
@@ -14,6 +13,7 @@ import {
   SelectField,
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
+import { dateTimeUtc } from "~/lib/times";
 import { periodChoices } from "~/reports/period-options.server";
 import {
   reportRequestSchema,
@@ -277,7 +277,7 @@ function ReportItem({
         <p className="font-semibold">{r.title}</p>
         <p className="text-sm text-ink-muted">
           Requested by {r.authorName ?? "a former member"} on{" "}
-          {format(new Date(r.createdAt), "d MMM yyyy, HH:mm")}
+          {dateTimeUtc(r.createdAt)}
           {r.pageCount ? ` · ${r.pageCount} pages` : ""}
           {r.byteSize ? ` · ${(r.byteSize / 1024).toFixed(0)} KiB` : ""}
         </p>

@@ -172,51 +172,40 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
             <h2 id="meters-heading" className="text-lg">
               Meters
             </h2>
-            <div className="mt-3 overflow-x-auto">
-              <table className="w-full min-w-[640px] text-left">
+            {/* On a phone the table keeps two columns, the meter and its
+                figure; code, carrier, orientation and links fold into the
+                meter's cell instead of pushing the figure off screen. */}
+            <div className="relative mt-3 overflow-x-auto">
+              <table className="w-full text-left sm:min-w-[640px]">
                 <thead className="text-sm text-ink-muted">
                   <tr>
-                    <th className="py-2 pr-3 font-semibold">Code</th>
-                    <th className="py-2 pr-3 font-semibold">Name</th>
-                    <th className="py-2 pr-3 font-semibold">Carrier</th>
-                    <th className="py-2 pr-3 font-semibold">Orientation</th>
+                    <th className="hidden py-2 pr-3 font-semibold sm:table-cell">
+                      Code
+                    </th>
+                    <th className="py-2 pr-3 font-semibold">
+                      <span className="sm:hidden">Meter</span>
+                      <span className="hidden sm:inline">Name</span>
+                    </th>
+                    <th className="hidden py-2 pr-3 font-semibold sm:table-cell">
+                      Carrier
+                    </th>
+                    <th className="hidden py-2 pr-3 font-semibold sm:table-cell">
+                      Orientation
+                    </th>
                     <th className="py-2 pr-3 text-right font-semibold">
                       Last 30 days, into the site +
                     </th>
-                    <th className="py-2 font-semibold">
+                    <th className="hidden py-2 font-semibold sm:table-cell">
                       <span className="sr-only">Links</span>
                     </th>
                   </tr>
                 </thead>
                 <tbody className="divide-y divide-line">
-                  {meters.map((m) => (
-                    <tr key={m.id}>
-                      <td className="py-2 pr-3 font-mono text-sm">{m.code}</td>
-                      <td className="py-2 pr-3">
-                        {m.name}
-                        {m.parentMeterId ? (
-                          <span className="text-sm text-ink-muted">
-                            {" "}
-                            (sub-meter)
-                          </span>
-                        ) : null}
-                        {m.removedAt ? (
-                          <>
-                            {" "}
-                            <Badge tone="neutral">retired</Badge>
-                          </>
-                        ) : null}
-                      </td>
-                      <td className="py-2 pr-3">{carrierLabels[m.carrier]}</td>
-                      <td className="py-2 pr-3">
-                        {m.orientation === "import"
-                          ? "Import (+)"
-                          : "Export (−)"}
-                      </td>
-                      <td className="py-2 pr-3 text-right tabular-nums">
-                        {formatKwh(m.energyKwh30d)}
-                      </td>
-                      <td className="py-2 text-right">
+                  {meters.map((m) => {
+                    const orientation =
+                      m.orientation === "import" ? "Import (+)" : "Export (−)";
+                    const links = (
+                      <>
                         <Link
                           className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
                           to={`${base}/meters/${m.id}/readings`}
@@ -230,9 +219,52 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                         >
                           {canManage ? "Edit" : "Details"}
                         </Link>
-                      </td>
-                    </tr>
-                  ))}
+                      </>
+                    );
+                    return (
+                      <tr key={m.id} data-meter={m.code}>
+                        <td className="hidden py-2 pr-3 font-mono text-sm sm:table-cell">
+                          {m.code}
+                        </td>
+                        <td className="py-2 pr-3">
+                          <span className="block font-mono text-sm sm:hidden">
+                            {m.code}
+                          </span>
+                          {m.name}
+                          {m.parentMeterId ? (
+                            <span className="text-sm text-ink-muted">
+                              {" "}
+                              (sub-meter)
+                            </span>
+                          ) : null}
+                          {m.removedAt ? (
+                            <>
+                              {" "}
+                              <Badge tone="neutral">retired</Badge>
+                            </>
+                          ) : null}
+                          <span className="block text-sm text-ink-muted sm:hidden">
+                            {carrierLabels[m.carrier]} · {orientation}
+                          </span>
+                          <span className="block text-sm sm:hidden">
+                            {links}
+                          </span>
+                        </td>
+                        <td className="hidden py-2 pr-3 sm:table-cell">
+                          {carrierLabels[m.carrier]}
+                        </td>
+                        <td className="hidden py-2 pr-3 sm:table-cell">
+                          {orientation}
+                        </td>
+                        <td className="py-2 pr-3 text-right align-top tabular-nums whitespace-nowrap sm:align-middle">
+                          {formatKwh(m.energyKwh30d)}
+                        </td>
+                        <td className="hidden py-2 text-right sm:table-cell">
+                          {links}
+                        </td>
+                      </tr>
+                    );
+                  })}
                 </tbody>
               </table>
             </div>

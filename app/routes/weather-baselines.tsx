@@ -9,7 +9,11 @@ import {
   saveBaseline,
 } from "~/baselines/baselines.server";
 import { driverLabels, type DegreeDayDriver } from "~/baselines/degree-days";
-import { GUIDELINE_14, MODEL_PARAMETERS } from "~/baselines/regression";
+import {
+  GUIDELINE_14,
+  MODEL_PARAMETERS,
+  shortBaselineWarning,
+} from "~/baselines/regression";
 import { MAX_WEATHER_BYTES, parseWeatherCsv } from "~/baselines/weather-csv";
 import { storeWeather, weatherCoverage } from "~/baselines/weather.server";
 import { notFound, requireMembership } from "~/auth/membership.server";
@@ -38,6 +42,7 @@ import {
 import type { Carrier } from "~/db/schema";
 import { parseForm } from "~/lib/forms";
 import { idField, isUuid } from "~/lib/ids";
+import { dayUtc } from "~/lib/times";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 import { getSite, listSites } from "~/sites/sites.server";
 import type { Route } from "./+types/weather-baselines";
@@ -529,6 +534,7 @@ function ModelCard({
   const busy = useNavigation().state === "submitting";
   const { model, assessment } = analysis;
   const symbol = analysis.driver === "hdd" ? "HDD" : "CDD";
+  const tooShort = model ? shortBaselineWarning(analysis.basePoints) : null;
   const limits = GUIDELINE_14[view.saved?.granularity ?? "monthly"];
   return (
     <Card aria-labelledby="model-heading">
@@ -537,7 +543,7 @@ function ModelCard({
       </h2>
       {view.saved ? (
         <p className="mt-1 text-ink-muted">
-          Saved {view.saved.createdAt.toLocaleDateString("en-GB")}
+          Saved {dayUtc(view.saved.createdAt)}
           {view.saved.createdBy ? ` by ${view.saved.createdBy}` : ""}, fitted on{" "}
           {monthLabel(view.saved.from)} to {monthLabel(view.saved.to)}. Its
           model and months stay as saved.{" "}
@@ -583,6 +589,13 @@ function ModelCard({
               {model.nmbe === null ? "—" : signed(model.nmbe, 2)} %
             </Stat>
           </dl>
+          {tooShort ? (
+            <div className="mt-3">
+              <Notice tone="caution" title="Shorter than a year">
+                {tooShort}
+              </Notice>
+            </div>
+          ) : null}
           {model.r2 !== null && model.r2 < 0.5 ? (
             <div className="mt-3">
               <Notice tone="caution">
@@ -910,6 +923,11 @@ function SavedList({
               >
                 <td className="px-2 py-1">
                   {monthLabel(b.from)}–{monthLabel(b.to)}
+                  {shortBaselineWarning(b.model.points) ? (
+                    <span className="mt-1 block whitespace-nowrap">
+                      <Badge tone="copper">Under a year</Badge>
+                    </span>
+                  ) : null}
                 </td>
                 <td className="px-2 py-1">
                   {fmt(b.model.intercept)} + {fmt(b.model.slope, 2)} ×{" "}
@@ -923,7 +941,7 @@ function SavedList({
                   {b.model.nmbe === null ? "—" : signed(b.model.nmbe, 2)} %
                 </td>
                 <td className="px-2 py-1">
-                  {b.createdAt.toLocaleDateString("en-GB")}
+                  {dayUtc(b.createdAt)}
                   {b.createdBy ? `, ${b.createdBy}` : ""}
                 </td>
                 <td className="px-2 py-1">

@@ -46,7 +46,10 @@ describe("paying for Joulebook", () => {
     expect(await plan.getByText("Active", { exact: true }).count()).toBe(1);
     expect(await page.getByText("the paid plan has started").count()).toBe(1);
     const invoices = page.getByRole("region", { name: "Invoices" });
-    expect(await invoices.getByText("paid", { exact: true }).count()).toBe(1);
+    const invoiceRows = invoices.locator("tbody");
+    expect(await invoiceRows.getByText("Paid", { exact: true }).count()).toBe(
+      1,
+    );
 
     const [account] = await db
       .select()

@@ -60,6 +60,7 @@ describe("sites, meters, readings and gateways stay inside their organisation", 
     const revoke = await owner.post(`/o/${larchmere}/gateways`, {
       intent: "revoke",
       gatewayId: theirs.gatewayId,
+      confirm: "yes",
     });
     expect(revoke.status).toBe(404);
     const edit = await owner.post(

@@ -302,6 +302,20 @@ describe("baselines", () => {
     expect(html).toContain("In use");
     expect(html).not.toContain("Save baseline</button>");
     expect(html).not.toContain("Upload weather</button>");
+
+    // Six months fit perfectly (both criteria pass) but miss half the year:
+    // the model, fitted now or saved, and the saved list carry a warning.
+    const shortWarning =
+      /Shorter than a year.*Fitted on 6 months, fewer than the 12 of a full year/s;
+    expect(html.replace(/<!-- -->/g, "")).toMatch(shortWarning);
+    expect(html).toContain("Under a year");
+    expect(html).not.toContain(">Fail<");
+    const fitted = await manager.get(
+      `${page(org)}?site=${org.siteId}&carrier=heat&driver=hdd&baseFrom=2025-10&baseTo=2026-03&reportFrom=2026-01&reportTo=2026-03`,
+    );
+    expect((await fitted.text()).replace(/<!-- -->/g, "")).toMatch(
+      shortWarning,
+    );
   });
 });
 

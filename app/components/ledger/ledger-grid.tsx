@@ -3,6 +3,7 @@ import {
   ClientSideRowModelModule,
   ModuleRegistry,
   PinnedRowModule,
+  RowAutoHeightModule,
   RowStyleModule,
   themeQuartz,
   type ColDef,
@@ -15,6 +16,7 @@ import { AgGridReact } from "ag-grid-react";
 import { useMemo } from "react";
 import { Link } from "react-router";
 import { Badge } from "~/components/ui";
+import { useWidth } from "~/lib/use-width";
 import { convertEnergy, type EnergyUnit } from "~/physics/units";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 import type { Ledger, LedgerRow } from "./use-ledger";
@@ -27,7 +29,14 @@ ModuleRegistry.registerModules([
   CellStyleModule,
   RowStyleModule,
   PinnedRowModule,
+  RowAutoHeightModule,
 ]);
+
+/**
+ * Below this width (a phone) the site, month and carrier share one column
+ * pinned at the left, so the figures start beside it instead of off screen.
+ */
+const NARROW_GRID_PX = 600;
 
 const theme = themeQuartz.withParams({
   fontFamily: "inherit",
@@ -220,6 +229,33 @@ function GroupCell({
   );
 }
 
+/** Phone layout: site (where it starts), then month and carrier, in one cell. */
+function EntryCell({ data }: ICellRendererParams<GridRow>) {
+  if (!data) return null;
+  const carrier = data.carrier ? carrierLabels[data.carrier] : "";
+  // One total a carrier: unlike carriers are never added.
+  if (data.isTotal) return <strong>Total · {carrier}</strong>;
+  return (
+    <span className="block py-1.5 leading-snug">
+      <span className={data.firstOfSite ? "block font-semibold" : "sr-only"}>
+        {data.site_name}
+      </span>
+      {monthLabel(data.month)} · {carrier}
+    </span>
+  );
+}
+
+const entryColumn: ColDef<GridRow> = {
+  headerName: "Site · month · carrier",
+  colId: "entry",
+  valueGetter: (p) => p.data?.site_name ?? "",
+  cellRenderer: EntryCell,
+  pinned: "left",
+  width: 124,
+  wrapText: true,
+  autoHeight: true,
+};
+
 const defaultColumn: ColDef<GridRow> = {
   sortable: false,
   resizable: false,
@@ -248,6 +284,8 @@ export function LedgerGrid({
 }) {
   const rows = useMemo(() => sortRows(ledger.rows), [ledger]);
   const totals = useMemo(() => totalRows(ledger), [ledger]);
+  const { ref, width } = useWidth();
+  const narrow = width > 0 && width < NARROW_GRID_PX;
 
   const columns = useMemo<ColDef<GridRow>[]>(() => {
     const places = perM2 ? decimals[unit].perM2 : decimals[unit].total;
@@ -289,30 +327,35 @@ export function LedgerGrid({
       flex: 1,
     });
 
+    const labelColumns: ColDef<GridRow>[] = narrow
+      ? [entryColumn]
+      : [
+          {
+            headerName: "Site",
+            field: "site_name",
+            cellRenderer: GroupCell,
+            minWidth: 140,
+            flex: 1.5,
+          },
+          {
+            headerName: "Month",
+            field: "month",
+            valueFormatter: (p) => (p.value ? monthLabel(p.value) : ""),
+            cellRenderer: GroupCell,
+            minWidth: 88,
+            flex: 1,
+          },
+          {
+            headerName: "Carrier",
+            field: "carrier",
+            valueFormatter: (p) =>
+              p.value ? carrierLabels[p.value as LedgerRow["carrier"]] : "",
+            minWidth: 84,
+            flex: 1,
+          },
+        ];
     return [
-      {
-        headerName: "Site",
-        field: "site_name",
-        cellRenderer: GroupCell,
-        minWidth: 140,
-        flex: 1.5,
-      },
-      {
-        headerName: "Month",
-        field: "month",
-        valueFormatter: (p) => (p.value ? monthLabel(p.value) : ""),
-        cellRenderer: GroupCell,
-        minWidth: 88,
-        flex: 1,
-      },
-      {
-        headerName: "Carrier",
-        field: "carrier",
-        valueFormatter: (p) =>
-          p.value ? carrierLabels[p.value as LedgerRow["carrier"]] : "",
-        minWidth: 84,
-        flex: 1,
-      },
+      ...labelColumns,
       energyColumn("Delivered", (r) => r.imports_kwh),
       energyColumn("Exported", (r) => r.exports_kwh),
       {
@@ -355,14 +398,17 @@ export function LedgerGrid({
         flex: 1,
       },
     ];
-  }, [unit, perM2, adjustmentsLink]);
+  }, [unit, perM2, adjustmentsLink, narrow]);
 
   // A short ledger takes only the room it needs; a long one scrolls under its
   // header, with the totals kept in view.
   const short = rows.length <= 12;
   return (
-    <div style={short ? undefined : { height: 560 }}>
+    <div ref={ref} style={short ? undefined : { height: 560 }}>
       <AgGridReact<GridRow>
+        // A new grid when the layout changes: a grid keeps its columns'
+        // widths and pinning across column updates.
+        key={narrow ? "narrow" : "wide"}
         domLayout={short ? "autoHeight" : "normal"}
         theme={theme}
         rowData={rows}

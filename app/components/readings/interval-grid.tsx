@@ -11,6 +11,7 @@ import {
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
 import { useMemo } from "react";
+import { useWidth } from "~/lib/use-width";
 import type { Interval } from "./use-intervals";
 
 // Only the modules this grid uses: the full set adds ~440 kB to the page.
@@ -39,6 +40,16 @@ const qualityLabel: Record<Interval["quality"], string> = {
   missing: "missing",
 };
 
+/**
+ * Below this width (a phone) the hour is pinned at the left in a shorter
+ * form and every column keeps a readable width, scrolling sideways, instead
+ * of all six squeezing into the screen as "5 D…", "m…".
+ */
+const NARROW_GRID_PX = 600;
+
+/** Readable widths on a phone, px; the first is the pinned hour. */
+const NARROW_WIDTHS = [112, 104, 100, 120, 96, 96];
+
 const qualityColour: Record<Interval["quality"], string> = {
   measured: "#0b4238",
   estimated: "#7a4b00",
@@ -55,17 +66,27 @@ export function IntervalGrid({
   timeZone: string;
   onSelect: (interval: Interval | null) => void;
 }) {
+  const { ref, width } = useWidth();
+  const narrow = width > 0 && width < NARROW_GRID_PX;
   const format = useMemo(
     () =>
-      new Intl.DateTimeFormat("en-GB", {
-        timeZone,
-        dateStyle: "medium",
-        timeStyle: "short",
-      }),
-    [timeZone],
+      new Intl.DateTimeFormat(
+        "en-GB",
+        narrow
+          ? {
+              timeZone,
+              day: "numeric",
+              month: "short",
+              hour: "2-digit",
+              minute: "2-digit",
+              hourCycle: "h23",
+            }
+          : { timeZone, dateStyle: "medium", timeStyle: "short" },
+      ),
+    [timeZone, narrow],
   );
-  const columns = useMemo<ColDef<Interval>[]>(
-    () => [
+  const columns = useMemo<ColDef<Interval>[]>(() => {
+    const all: ColDef<Interval>[] = [
       {
         headerName: `Hour (${timeZone})`,
         field: "hour_start",
@@ -115,12 +136,25 @@ export function IntervalGrid({
         type: "numericColumn",
         flex: 1,
       },
-    ],
-    [format, timeZone],
-  );
+    ];
+    if (!narrow) return all;
+    return all.map((column, i) => ({
+      ...column,
+      minWidth: NARROW_WIDTHS[i],
+      // The pinned hour takes its width; the others share what is left.
+      ...(i === 0
+        ? { pinned: "left", flex: undefined, width: NARROW_WIDTHS[0] }
+        : {}),
+      wrapHeaderText: true,
+      autoHeaderHeight: true,
+    }));
+  }, [format, timeZone, narrow]);
   return (
-    <div style={{ height: 420 }}>
+    <div ref={ref} style={{ height: 420 }}>
       <AgGridReact<Interval>
+        // A new grid when the layout changes: a grid keeps its columns'
+        // widths and pinning across column updates.
+        key={narrow ? "narrow" : "wide"}
         theme={theme}
         rowData={intervals}
         columnDefs={columns}
