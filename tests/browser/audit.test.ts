@@ -5,24 +5,14 @@
  */
 import { readFileSync } from "node:fs";
 import Papa from "papaparse";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, mainNav, signInPage } from "../support/browser";
+import type { Page } from "playwright-core";
+import { describe, expect, inject, it } from "vitest";
+import { chromiumForFile, mainNav, signInPage } from "../support/browser";
 import { Client } from "../support/http";
-import { db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
 const baseUrl = inject("baseUrl");
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 const read = (org: MeteredOrg, hour: number, kwh: number) => ({
   meter: org.meters.register.code,
@@ -71,7 +61,7 @@ describe("the Audit trail page", () => {
     expect(closed.status).toBe(200);
     await postReadings(org, [read(org, 4, 2025)]);
 
-    const page = await signInPage(browser, baseUrl, owner, {
+    const page = await signInPage(chromium.browser, baseUrl, owner, {
       viewport: { width: 1366, height: 900 },
     });
     await mainNav(page).getByRole("link", { name: "Audit trail" }).click();
@@ -129,7 +119,11 @@ describe("the Audit trail page", () => {
 
   it("an energy manager has no Audit trail in the navigation and is refused the page", async () => {
     const org = await createMeteredOrg({ roles: ["energy_manager"] });
-    const page = await signInPage(browser, baseUrl, org.org.members[0]);
+    const page = await signInPage(
+      chromium.browser,
+      baseUrl,
+      org.org.members[0],
+    );
     await mainNav(page).getByRole("link", { name: "Ledger" }).waitFor();
     expect(
       await mainNav(page).getByRole("link", { name: "Audit trail" }).count(),

@@ -1,28 +1,18 @@
-import type { Browser } from "playwright-core";
 import { eq } from "drizzle-orm";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, mainNav, signInPage } from "../support/browser";
-import { db, pool, schema } from "../support/db";
+import { describe, expect, inject, it } from "vitest";
+import { chromiumForFile, mainNav, signInPage } from "../support/browser";
+import { db, schema } from "../support/db";
 import { createMeteredOrg } from "../support/metered-org";
 
 const baseUrl = inject("baseUrl");
 const stripeUrl = inject("stripeUrl");
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 describe("paying for Joulebook", () => {
   it("a finance member subscribes through Checkout and sees the active plan", async () => {
     const org = await createMeteredOrg({ roles: ["owner", "finance"] });
     const finance = org.org.members.find((m) => m.role === "finance")!;
-    const page = await signInPage(browser, baseUrl, finance);
+    const page = await signInPage(chromium.browser, baseUrl, finance);
 
     await mainNav(page).getByRole("link", { name: "Billing" }).click();
     await page.getByRole("heading", { level: 1, name: "Billing" }).waitFor();

@@ -1,20 +1,10 @@
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, signInPage } from "../support/browser";
-import { db, pool, schema } from "../support/db";
+import type { Page } from "playwright-core";
+import { describe, expect, inject, it } from "vitest";
+import { chromiumForFile, signInPage } from "../support/browser";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
 const baseUrl = inject("baseUrl");
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 /** Six hours of heating water on 10 March 2026, 00:00 to 05:00 UTC. */
 async function postHeat(org: MeteredOrg) {
@@ -45,7 +35,11 @@ describe("correcting an hour on the meter's readings page", () => {
   it("shows the new value after saving, and asks before storing a jump far outside the meter's history", async () => {
     const org = await createMeteredOrg({ roles: ["energy_manager"] });
     await postHeat(org);
-    const page = await signInPage(browser, baseUrl, org.org.members[0]);
+    const page = await signInPage(
+      chromium.browser,
+      baseUrl,
+      org.org.members[0],
+    );
     await page.goto(
       `${baseUrl}/o/${org.org.id}/meters/${org.meters.water.id}/readings`,
     );

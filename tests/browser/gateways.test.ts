@@ -1,21 +1,11 @@
 import { eq } from "drizzle-orm";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, signInPage } from "../support/browser";
-import { db, pool, schema } from "../support/db";
+import { describe, expect, inject, it } from "vitest";
+import { chromiumForFile, signInPage } from "../support/browser";
+import { db, schema } from "../support/db";
 import { createMeteredOrg } from "../support/metered-org";
 
 const baseUrl = inject("baseUrl");
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 describe("revoking a gateway", () => {
   it("one click on Revoke… only asks; Cancel keeps the gateway, the confirmation revokes it", async () => {
@@ -25,7 +15,11 @@ describe("revoking a gateway", () => {
       .set({ lastSeenAt: new Date(Date.now() - 2 * 3600_000) })
       .where(eq(schema.gateways.id, org.gatewayId));
     const name = `Test gateway ${org.tag}`;
-    const page = await signInPage(browser, baseUrl, org.org.members[0]);
+    const page = await signInPage(
+      chromium.browser,
+      baseUrl,
+      org.org.members[0],
+    );
     await page.goto(`${baseUrl}/o/${org.org.id}/gateways`);
 
     await page.getByRole("link", { name: `Revoke ${name}…` }).click();

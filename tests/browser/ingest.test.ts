@@ -1,23 +1,12 @@
 import { randomUUID } from "node:crypto";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, mainNav, signInPage } from "../support/browser";
-import { db, pool, schema } from "../support/db";
+import { describe, expect, inject, it } from "vitest";
+import { chromiumForFile, mainNav, signInPage } from "../support/browser";
 
 const baseUrl = inject("baseUrl");
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 const signInAsManager = () =>
-  signInPage(browser, baseUrl, { email: "manager@larchmere.example" });
+  signInPage(chromium.browser, baseUrl, { email: "manager@larchmere.example" });
 const nav = mainNav;
 
 describe("from an empty site to readings on screen", () => {

@@ -1,22 +1,12 @@
 import { readFileSync } from "node:fs";
 import { eq } from "drizzle-orm";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, signInPage } from "../support/browser";
+import { describe, expect, inject, it } from "vitest";
+import { chromiumForFile, signInPage } from "../support/browser";
 import { db, pool, schema } from "../support/db";
 import { addCoolingMeter, createMeteredOrg } from "../support/metered-org";
 
 const baseUrl = inject("baseUrl");
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 describe("the Ledger page", () => {
   it("shows the database's totals per carrier, cooling delivered positive, exports CSV and closes a month", async () => {
@@ -65,9 +55,14 @@ describe("the Ledger page", () => {
         maximumFractionDigits: 1,
       });
 
-    const page = await signInPage(browser, baseUrl, org.org.members[0], {
-      viewport: { width: 1366, height: 900 },
-    });
+    const page = await signInPage(
+      chromium.browser,
+      baseUrl,
+      org.org.members[0],
+      {
+        viewport: { width: 1366, height: 900 },
+      },
+    );
     await page.goto(
       `${baseUrl}/o/${org.org.id}/ledger?from=2026-09&to=2026-09`,
     );

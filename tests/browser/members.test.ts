@@ -1,19 +1,9 @@
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, signInPage } from "../support/browser";
-import { createOrganization, db, pool, roleOf, schema } from "../support/db";
+import { describe, expect, inject, it } from "vitest";
+import { chromiumForFile, signInPage } from "../support/browser";
+import { createOrganization, roleOf } from "../support/db";
 
 const baseUrl = inject("baseUrl");
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 describe("changing roles on the Members page", () => {
   it("after a refused last-owner demotion the menu shows the stored role; a later change still saves", async () => {
@@ -23,7 +13,7 @@ describe("changing roles on the Members page", () => {
       ...m,
       name: m.email.split("@")[0].replaceAll("-", " "),
     }));
-    const page = await signInPage(browser, baseUrl, owner);
+    const page = await signInPage(chromium.browser, baseUrl, owner);
     await page.goto(`${baseUrl}/o/${org.id}/members`);
     const ownRole = page.getByLabel(`Role of ${owner.name}`);
     const ownRow = page.getByRole("listitem").filter({ has: ownRole });

@@ -5,27 +5,17 @@
 import { mkdtemp, readFile, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, mainNav, signInPage } from "../support/browser";
+import type { Page } from "playwright-core";
+import { describe, expect, inject, it } from "vitest";
+import { chromiumForFile, mainNav, signInPage } from "../support/browser";
 import { Client } from "../support/http";
-import { db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
 const baseUrl = inject("baseUrl");
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 const signIn = (member: { email: string; password: string }) =>
-  signInPage(browser, baseUrl, member);
+  signInPage(chromium.browser, baseUrl, member);
 
 async function openReports(page: Page) {
   await mainNav(page).getByRole("link", { name: "Reports" }).click();
@@ -49,7 +39,7 @@ async function postMayReadings(org: MeteredOrg) {
   expect(response.status).toBe(200);
 }
 
-describe("signed reports in the browser", () => {
+describe("signed reports in the chromium.browser", () => {
   it("a manager makes one, an auditor downloads and verifies it", async () => {
     const org = await createMeteredOrg({
       roles: ["owner", "energy_manager", "auditor"],
@@ -78,7 +68,7 @@ describe("signed reports in the browser", () => {
       a.waitForEvent("download"),
       a.getByRole("link", { name: "Download PDF" }).first().click(),
     ]);
-    const dir = await mkdtemp(join(tmpdir(), "jb-browser-report-"));
+    const dir = await mkdtemp(join(tmpdir(), "jb-chromium.browser-report-"));
     const file = join(dir, "report.pdf");
     await download.saveAs(file);
     expect((await readFile(file)).subarray(0, 5).toString()).toBe("%PDF-");

@@ -1,28 +1,19 @@
 import { randomUUID } from "node:crypto";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
 import { inject } from "vitest";
-import { launchBrowser } from "../support/browser";
-import { db, pool, schema } from "../support/db";
+import { chromiumForFile } from "../support/browser";
+import { db, schema } from "../support/db";
 
 const baseUrl = inject("baseUrl");
 const PASSWORD = "larchmere-demo-2026";
-let browser: Browser;
-
-beforeAll(async () => {
-  await db.delete(schema.signInAttempts);
-  browser = await launchBrowser();
-});
-afterAll(async () => {
-  await browser?.close();
-  await pool.end();
-});
+const chromium = chromiumForFile();
 
 async function signInAs(
   email: string,
   viewport = { width: 1280, height: 900 },
 ): Promise<Page> {
-  const page = await browser.newPage({ viewport });
+  const page = await chromium.browser.newPage({ viewport });
   await page.goto(`${baseUrl}/sign-in`);
   await page.getByLabel("E-mail address").fill(email);
   await page.getByLabel("Password").fill(PASSWORD);
@@ -154,7 +145,7 @@ describe("an invitation from the owner to a new person, end to end", () => {
   it("invite, read it in the Outbox, follow the link, join", async () => {
     const owner = await signInAs("owner@larchmere.example");
     await nav(owner).getByRole("link", { name: "Members" }).click();
-    const email = `browser-${randomUUID().slice(0, 8)}@test.example`;
+    const email = `chromium.browser-${randomUUID().slice(0, 8)}@test.example`;
     await owner.getByLabel("E-mail address").fill(email);
     await owner.getByLabel("Role", { exact: true }).selectOption("finance");
     await owner.getByRole("button", { name: "Send invitation" }).click();
@@ -175,11 +166,15 @@ describe("an invitation from the owner to a new person, end to end", () => {
     expect(link).toBeTruthy();
     await owner.close();
 
-    const invitee = await browser.newPage();
+    const invitee = await chromium.browser.newPage();
     await invitee.goto(link!);
     await invitee.getByLabel("Your name").fill("Bea Browser");
-    await invitee.getByLabel("Choose a password").fill("bea-browser-pass");
-    await invitee.getByLabel("Repeat the password").fill("bea-browser-pass");
+    await invitee
+      .getByLabel("Choose a password")
+      .fill("bea-chromium.browser-pass");
+    await invitee
+      .getByLabel("Repeat the password")
+      .fill("bea-chromium.browser-pass");
     await invitee
       .getByRole("button", { name: "Create the account and join" })
       .click();

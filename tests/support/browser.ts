@@ -1,5 +1,7 @@
 import { execSync } from "node:child_process";
 import { chromium, type Browser, type Page } from "playwright-core";
+import { afterAll, beforeAll } from "vitest";
+import { db, pool, schema } from "./db";
 
 /** Debian's chromium, found on PATH; nothing downloads a browser. */
 export function chromiumPath(): string {
@@ -23,6 +25,29 @@ export function launchBrowser(): Promise<Browser> {
       "--disable-sync",
     ],
   });
+}
+
+/**
+ * One Chromium for a test file: launched before its tests with a clean slate
+ * of sign-in attempts (so one file's throttles do not reach the next), closed
+ * after them with the file's database pool. Read `.browser` inside tests.
+ */
+export function chromiumForFile(): { readonly browser: Browser } {
+  const handle: { browser: Browser | null } = { browser: null };
+  beforeAll(async () => {
+    await db.delete(schema.signInAttempts);
+    handle.browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await handle.browser?.close();
+    await pool.end();
+  });
+  return {
+    get browser() {
+      if (!handle.browser) throw new Error("the browser is not launched yet");
+      return handle.browser;
+    },
+  };
 }
 
 /**
