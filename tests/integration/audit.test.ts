@@ -236,6 +236,7 @@ describe("what the audit trail records", () => {
         await manager.post(`${orgPage}/gateways`, {
           intent: "revoke",
           gatewayId: gateway.id,
+          confirm: "yes",
         })
       ).status,
     ).toBe(200);
