@@ -92,13 +92,13 @@ describe("on a phone", () => {
     await open(`/o/${org.org.id}/ledger`);
     const grid = page.locator(".ag-root-wrapper").first();
     await grid.waitFor();
-    const imports = grid
+    const delivered = grid
       .locator(".ag-header-cell")
-      .filter({ hasText: "Imports" });
-    await imports.waitFor();
-    expect(await onScreen(imports)).toBe(true);
+      .filter({ hasText: "Delivered" });
+    await delivered.waitFor();
+    expect(await onScreen(delivered)).toBe(true);
     // The figure under it in the first entry's row.
-    const column = await imports.getAttribute("col-id");
+    const column = await delivered.getAttribute("col-id");
     const figure = grid.locator(`.ag-row .ag-cell[col-id="${column}"]`).first();
     expect(await figure.textContent()).toMatch(/\d/);
     expect(await onScreen(figure)).toBe(true);
