@@ -224,7 +224,8 @@ export function Boundary({
           );
         })}
       </svg>
-      <figcaption className="mt-2 text-sm text-ink-muted">
+      {/* A method note: the diagram is the thermodynamic view, named here. */}
+      <figcaption className="mt-2 text-sm text-ink-muted" data-method-note>
         Thermodynamic view: arrows in are import meters, arrows out export
         meters; figures are heat and work into the site (+) or out of it (−), so
         a chilled-water import reads − (cooling delivered is heat leaving the

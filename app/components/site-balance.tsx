@@ -317,14 +317,15 @@ export function SiteBalanceView({
           ) : (
             <div style={{ height: HEIGHT }} aria-hidden="true" />
           )}
-          <figcaption className="mt-2 text-sm text-ink-muted">
+          {/* A method note: the balance is the thermodynamic view, named here. */}
+          <figcaption className="mt-2 text-sm text-ink-muted" data-method-note>
             <span className="font-semibold text-ink">Thermodynamic view.</span>{" "}
             {monthLabel(balance.month)}, from the monthly ledger: heat and work
-            signed, into the site +, out of it −, and the site&apos;s net Q + W.
-            Widths are magnitudes; labels keep the sign. What enters comes in
-            through its meter; exports and chilled water leave through theirs
-            (cooling delivered is heat leaving the site). A parent meter splits
-            into its sub-meters and the distribution loss.
+            into the site +, out of it −, and the site&apos;s net Q + W. Widths
+            are magnitudes; labels keep the sign. What enters comes in through
+            its meter; exports and chilled water leave through theirs (cooling
+            delivered is heat leaving the site). A parent meter splits into its
+            sub-meters and the distribution loss.
           </figcaption>
         </figure>
       )}

@@ -441,9 +441,9 @@ export default function LedgerPage({
         <p>
           Delivered energy is positive and exported energy negative, for each
           carrier; chilled water shows as cooling delivered. Carriers are never
-          added together, so each has its own total. The signed thermodynamic
-          view (heat and work into the site positive) is on each site&apos;s
-          energy balance.
+          added together, so each has its own total. Each site&apos;s page shows
+          its energy balance, where what enters the site counts positive and
+          what leaves it negative.
         </p>
         <Card aria-labelledby="filters-heading">
           <h2 id="filters-heading" className="sr-only">

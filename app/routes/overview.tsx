@@ -135,7 +135,7 @@ function AlertSettings({
   saved: boolean;
 }) {
   const options = [
-    ["silentMeter", "A meter goes silent", alerts.silentMeter],
+    ["silentMeter", "A meter sends no data", alerts.silentMeter],
     [
       "residual",
       "Sub-meters miss their parent by more than the tolerance",
@@ -166,7 +166,7 @@ function AlertSettings({
           </label>
         ))}
         <Field
-          label="Silent after (hours)"
+          label="No data for (hours)"
           name="silentHours"
           inputMode="numeric"
           defaultValue={String(alerts.silentHours)}
@@ -316,15 +316,12 @@ export default function Overview({
   const base = `/o/${organization.id}`;
   const stats = [
     ["Sites", String(siteCount)],
-    [
-      "Measured, last 30 days",
-      `${(complete.measuredShare * 100).toFixed(1)} %`,
-    ],
+    ["Actual, last 30 days", `${(complete.measuredShare * 100).toFixed(1)} %`],
     [
       "Estimated, last 30 days",
       `${(complete.estimatedShare * 100).toFixed(1)} %`,
     ],
-    [`Silent over ${silent} h`, String(silentList.length)],
+    [`No data over ${silent} h`, String(silentList.length)],
   ];
   return (
     <>
@@ -424,10 +421,10 @@ export default function Overview({
           </Card>
           <Card aria-labelledby="silent-heading">
             <h2 id="silent-heading" className="text-lg">
-              Silent meters
+              Meters with no data
             </h2>
             <p className="text-sm text-ink-muted">
-              No measured hour for more than {silent} hours.{" "}
+              No actual reading for more than {silent} hours.{" "}
               <Link
                 className="underline"
                 to={`?silent=${silent === 24 ? 72 : 24}`}

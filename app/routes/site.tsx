@@ -18,6 +18,7 @@ import {
   MONTH_PATTERN,
   siteBalance,
 } from "~/ledger/site-balance.server";
+import { deliveredSign } from "~/ledger/delivered";
 import { parseForm } from "~/lib/forms";
 import { carrierLabels } from "~/sites/meter-schema";
 import { siteEnergySince } from "~/sites/meter-energy.server";
@@ -117,7 +118,7 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
           site.floorAreaM2
             ? `${Number(site.floorAreaM2).toLocaleString("en-GB")} m²`
             : null,
-          `degree days to ${site.degreeDayBaseC} °C`,
+          `degree day base ${site.degreeDayBaseC} °C`,
           site.timeZone,
         ]
           .filter(Boolean)
@@ -181,7 +182,7 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                     <th className="py-2 pr-3 font-semibold">Carrier</th>
                     <th className="py-2 pr-3 font-semibold">Orientation</th>
                     <th className="py-2 pr-3 text-right font-semibold">
-                      Last 30 days, into the site +
+                      Last 30 days (imports +, exports −)
                     </th>
                     <th className="py-2 font-semibold">
                       <span className="sr-only">Links</span>
@@ -214,7 +215,11 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                           : "Export (−)"}
                       </td>
                       <td className="py-2 pr-3 text-right tabular-nums">
-                        {formatKwh(m.energyKwh30d)}
+                        {formatKwh(
+                          m.energyKwh30d === null
+                            ? null
+                            : deliveredSign(m.carrier) * m.energyKwh30d,
+                        )}
                       </td>
                       <td className="py-2 text-right">
                         <Link

@@ -54,14 +54,14 @@ describe("Overview", () => {
     const page = await (
       await auditor.get(`/o/${org.org.id}/overview?silent=24`)
     ).text();
-    const silentSection = page.slice(page.indexOf("Silent meters"));
+    const silentSection = page.slice(page.indexOf("Meters with no data"));
     expect(silentSection).toContain(org.meters.register.code);
     expect(silentSection).toContain(org.meters.water.code); // never reported
     expect(silentSection).not.toContain(org.meters.export.code);
     const longer = await (
       await auditor.get(`/o/${org.org.id}/overview?silent=48`)
     ).text();
-    expect(longer.slice(longer.indexOf("Silent meters"))).not.toContain(
+    expect(longer.slice(longer.indexOf("Meters with no data"))).not.toContain(
       org.meters.register.code,
     );
 

@@ -1,6 +1,6 @@
 import { Scatter, ScatterChart, Tooltip, XAxis, YAxis } from "recharts";
 import { useWidth } from "~/lib/use-width";
-import type { Interval } from "./use-intervals";
+import { qualityLabels, type Interval } from "./use-intervals";
 
 interface Cell {
   hour: number;
@@ -126,7 +126,7 @@ export function CarpetPlot({
                   {c.value.toLocaleString("en-GB", {
                     maximumFractionDigits: 2,
                   })}{" "}
-                  kWh · {c.quality}
+                  kWh · {qualityLabels[c.quality].toLowerCase()}
                 </div>
               ) : null;
             }}

@@ -11,7 +11,7 @@ import {
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
 import { useMemo } from "react";
-import type { Interval } from "./use-intervals";
+import { qualityLabels, type Interval } from "./use-intervals";
 
 // Only the modules this grid uses: the full set adds ~440 kB to the page.
 ModuleRegistry.registerModules([
@@ -66,7 +66,7 @@ export function IntervalGrid({
         sort: "desc",
       },
       {
-        headerName: "Energy (kWh, signed)",
+        headerName: "Energy (kWh)",
         field: "energy_kwh",
         type: "numericColumn",
         valueGetter: (p) => Number(p.data?.energy_kwh),
@@ -78,6 +78,8 @@ export function IntervalGrid({
       {
         headerName: "Quality",
         field: "quality",
+        valueFormatter: (p) => qualityLabels[p.value as Interval["quality"]],
+        filterValueGetter: (p) => p.data && qualityLabels[p.data.quality],
         filter: "agTextColumnFilter",
         cellStyle: (p) => ({
           color: qualityColour[p.value as Interval["quality"]],

@@ -77,7 +77,7 @@ export function LoadProfile({
           <Area
             type="stepAfter"
             dataKey="measured"
-            name="Measured"
+            name="Actual"
             stroke="#0f5546"
             fill="#cfe5dc"
             isAnimationActive={false}

@@ -9,6 +9,17 @@ export interface Interval {
   source_count: number;
 }
 
+/**
+ * Each quality in the trade's words: an hour read from a meter is "actual"
+ * (the API's `measured` stays the field value).
+ */
+export const qualityLabels: Record<Interval["quality"], string> = {
+  measured: "Actual",
+  estimated: "Estimated",
+  edited: "Edited",
+  missing: "Missing",
+};
+
 export interface IntervalPage {
   meter: {
     id: string;

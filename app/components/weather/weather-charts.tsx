@@ -33,8 +33,8 @@ export function monthLabel(month: string): string {
 
 const kwh = (v: unknown) =>
   `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 0 })} kWh`;
-const kd = (v: unknown) =>
-  `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 1 })} K·d`;
+const degreeDays = (v: unknown) =>
+  `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 1 })} degree days`;
 
 /** A round step of about a fifth of `max`: 1, 2, 2.5 or 5 times a power of ten. */
 function niceStep(max: number): number {
@@ -111,7 +111,7 @@ export function DegreeDayChart({
             ticks={ddTicks}
             domain={[0, ddTicks.at(-1)!]}
             label={{
-              value: "K·d",
+              value: "Degree days",
               angle: 90,
               position: "insideRight",
               fill: COPPER,
@@ -143,7 +143,7 @@ export function DegreeDayChart({
           ) : null}
           <Tooltip
             formatter={(value, name) =>
-              name === ddLabel ? [kd(value), name] : [kwh(value), name]
+              name === ddLabel ? [degreeDays(value), name] : [kwh(value), name]
             }
           />
           <Legend />
@@ -201,7 +201,7 @@ export function BaselineScatter({
     ),
   );
   const tooltip = (p: ScatterPoint) =>
-    `${monthLabel(p.month)}: ${kd(p.dd)}, ${kwh(p.kwh)}`;
+    `${monthLabel(p.month)}: ${degreeDays(p.dd)}, ${kwh(p.kwh)}`;
   return (
     <div
       style={{ width: "100%", height: 340 }}
@@ -219,7 +219,7 @@ export function BaselineScatter({
             ticks={ticks}
             stroke={INK}
             label={{
-              value: `${ddLabel} (K·d per month)`,
+              value: `${ddLabel} per month`,
               position: "insideBottom",
               offset: -12,
               fill: INK,
