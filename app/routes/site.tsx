@@ -2,6 +2,7 @@ import { data, Form, Link } from "react-router";
 import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { Boundary, formatKwh } from "~/components/boundary";
+import { CarrierBadge } from "~/components/carrier-badge";
 import { Cautions } from "~/components/cautions";
 import { SiteBalanceView } from "~/components/site-balance";
 import { SiteFields } from "~/components/site-fields";
@@ -20,7 +21,6 @@ import {
 } from "~/ledger/site-balance.server";
 import { deliveredSign } from "~/ledger/delivered";
 import { parseForm } from "~/lib/forms";
-import { carrierLabels } from "~/sites/meter-schema";
 import { siteEnergySince } from "~/sites/meter-energy.server";
 import { listSiteMeters } from "~/sites/meters.server";
 import { siteFormSchema } from "~/sites/site-schema";
@@ -208,7 +208,9 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                           </>
                         ) : null}
                       </td>
-                      <td className="py-2 pr-3">{carrierLabels[m.carrier]}</td>
+                      <td className="py-2 pr-3">
+                        <CarrierBadge carrier={m.carrier} />
+                      </td>
                       <td className="py-2 pr-3">
                         {m.orientation === "import"
                           ? "Import (+)"

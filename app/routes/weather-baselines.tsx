@@ -1007,6 +1007,7 @@ export default function WeatherBaselines({
                   </h2>
                   {mounted ? (
                     <DegreeDayChart
+                      carrier={view.carrier}
                       months={chartMonths}
                       ddLabel={ddLabel}
                       energyLabel={energyLabel}
@@ -1038,6 +1039,7 @@ export default function WeatherBaselines({
                     </h2>
                     {mounted ? (
                       <BaselineScatter
+                        carrier={view.carrier}
                         baseline={analysis.basePoints}
                         reporting={analysis.reportPoints}
                         line={analysis.model}

@@ -13,6 +13,7 @@ import {
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
 import { useMemo } from "react";
+import { CarrierBadge } from "~/components/carrier-badge";
 import { Badge } from "~/components/ui";
 import { carrierTotals } from "~/ledger/carrier-totals";
 import { convertKwh } from "~/ledger/convert-energy-decimal";
@@ -112,6 +113,10 @@ function totalRows(ledger: Ledger): GridRow[] {
   }));
 }
 
+function CarrierCell({ data }: ICellRendererParams<GridRow>) {
+  return data?.carrier ? <CarrierBadge carrier={data.carrier} /> : null;
+}
+
 function StatusCell({ value }: ICellRendererParams<GridRow>) {
   if (value === "closed") return <Badge tone="spruce">Closed</Badge>;
   if (value === "open") return <Badge>Open</Badge>;
@@ -205,7 +210,7 @@ export function LedgerGrid({
       valueGetter: energy(pick),
       valueFormatter: (p) => show(p.value),
       cellClass: ["ag-right-aligned-cell", "tabular-nums"],
-      minWidth: 104,
+      minWidth: 96,
       flex: 1,
     });
 
@@ -230,7 +235,8 @@ export function LedgerGrid({
         field: "carrier",
         valueFormatter: (p) =>
           p.value ? carrierLabels[p.value as LedgerRow["carrier"]] : "",
-        minWidth: 84,
+        cellRenderer: CarrierCell,
+        minWidth: 116,
         flex: 1,
       },
       energyColumn("Delivered", (r) => r.imports_kwh),
@@ -269,7 +275,9 @@ export function LedgerGrid({
         headerName: "Status",
         field: "status",
         cellRenderer: StatusCell,
-        minWidth: 96,
+        // Kept in view when a narrow screen scrolls the figures sideways.
+        pinned: "right",
+        minWidth: 88,
         flex: 1,
       },
     ];

@@ -7,16 +7,24 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
+import { carrierColours, type Carrier } from "~/sites/carrier-colours";
 import type { Interval } from "./use-intervals";
 
-/** Hourly energy over the range; estimated and edited hours in their own series. */
+/**
+ * Hourly energy over the range: actual hours in the carrier's colours (as on
+ * every chart), estimated and edited hours in the caution colour the interval
+ * grid gives them.
+ */
 export function LoadProfile({
   intervals,
   timeZone,
+  carrier,
 }: {
   intervals: Interval[];
   timeZone: string;
+  carrier: Carrier;
 }) {
+  const colour = carrierColours[carrier];
   const tick = new Intl.DateTimeFormat("en-GB", {
     timeZone,
     day: "numeric",
@@ -78,8 +86,8 @@ export function LoadProfile({
             type="stepAfter"
             dataKey="measured"
             name="Actual"
-            stroke="#0f5546"
-            fill="#cfe5dc"
+            stroke={colour.chart}
+            fill={colour.tint}
             isAnimationActive={false}
             connectNulls={false}
           />
@@ -87,8 +95,8 @@ export function LoadProfile({
             type="stepAfter"
             dataKey="other"
             name="Estimated or edited"
-            stroke="#a9501f"
-            fill="#fbf0e8"
+            stroke="#7a4b00"
+            fill="#fdf4e3"
             isAnimationActive={false}
             connectNulls={false}
           />
