@@ -111,7 +111,7 @@ describe("the words on the main pages", () => {
       `/weather?${data.weatherQuery}`,
       ".recharts-surface",
     );
-    expect(weather).toMatch(/HDD \(\d+\.\d °C\)/);
+    expect(weather).toMatch(/HDD \(\d+\.\d[ \u00a0]°C\)/);
     await page.goto(`${baseUrl}${org}/ledger`);
     const units = await page
       .getByLabel("Unit")
