@@ -91,12 +91,13 @@ describe("carrier colours", () => {
     expect(oneEach(await badgeColours())).toEqual(series);
 
     await page.goto(`${baseUrl}${org}/weather?${data.weatherQuery}`);
-    await page.locator(".recharts-bar-rectangle path").first().waitFor();
-    const bar = await page
-      .locator(".recharts-bar-rectangle path")
-      .first()
-      .evaluate((path) => getComputedStyle(path).fill);
-    expect(bar).toBe(series.heat);
+    // Read in one go: the chart redraws once it has measured its box.
+    const barColour = () =>
+      page.evaluate(() => {
+        const bar = document.querySelector(".recharts-bar-rectangle path");
+        return bar ? getComputedStyle(bar).fill : "";
+      });
+    await expect.poll(barColour).toBe(series.heat);
   });
 
   it("change pills: up red-ish, down green-ish, each with its arrow", async () => {
