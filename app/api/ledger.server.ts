@@ -1,21 +1,45 @@
 import type { NextFunction, Request, Response } from "express";
+import type { z } from "zod";
 import { monthCount } from "~/lib/months";
-import ExcelJS from "exceljs";
 import { toCsv } from "~/lib/csv-export";
+import {
+  exportFilename,
+  ledgerExport,
+  type ExportOptions,
+} from "~/ledger/ledger-export";
 import { ledgerRows } from "~/ledger/ledger-rows.server";
+import { ledgerXlsx } from "~/ledger/ledger-xlsx.server";
+import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { getSite } from "~/sites/sites.server";
 import { sendError, sendValidationError } from "./respond.server";
-import { ledgerQuerySchema, type Ledger, type LedgerRow } from "./schemas";
+import {
+  ledgerExportQuerySchema as exportQuerySchema,
+  ledgerQuerySchema as querySchema,
+  type Ledger,
+} from "./schemas";
 
 /** Ten years of months at most per request. */
 const MAX_MONTHS = 120;
 
-async function loadLedger(req: Request, res: Response): Promise<Ledger | null> {
-  const parsed = ledgerQuerySchema.safeParse(req.query);
-  if (!parsed.success) {
-    sendValidationError(res, parsed.error);
-    return null;
-  }
-  const { from, to, site, carrier } = parsed.data;
+type LedgerQuery = z.infer<typeof querySchema>;
+
+/** The query parsed by `schema`, or null once a 400 has been sent. */
+function parseQuery<T extends LedgerQuery>(
+  schema: z.ZodType<T>,
+  req: Request,
+  res: Response,
+): T | null {
+  const parsed = schema.safeParse(req.query);
+  if (parsed.success) return parsed.data;
+  sendValidationError(res, parsed.error);
+  return null;
+}
+
+async function loadLedger(
+  query: LedgerQuery,
+  res: Response,
+): Promise<Ledger | null> {
+  const { from, to, site, carrier } = query;
   const span = monthCount(from, to);
   if (span < 1 || span > MAX_MONTHS) {
     sendError(
@@ -42,114 +66,90 @@ export async function getLedger(
   next: NextFunction,
 ): Promise<void> {
   try {
-    const ledger = await loadLedger(req, res);
+    const query = parseQuery(querySchema, req, res);
+    const ledger = query && (await loadLedger(query, res));
     if (ledger) res.json(ledger);
   } catch (error) {
     next(error);
   }
 }
 
-/**
- * The export columns. `text` cells carry words, some typed by people (site
- * names), and stay text in XLSX; `decimal` cells are exact PostgreSQL numerics
- * sent as text, written as numbers; `number` cells are numbers already.
- */
-const COLUMNS = [
-  { header: "site", key: "site_name", kind: "text" },
-  { header: "month", key: "month", kind: "text" },
-  { header: "carrier", key: "carrier", kind: "text" },
-  { header: "imports_kwh", key: "imports_kwh", kind: "decimal" },
-  { header: "exports_kwh", key: "exports_kwh", kind: "decimal" },
-  { header: "net_kwh", key: "net_kwh", kind: "decimal" },
-  { header: "estimated_kwh", key: "estimated_kwh", kind: "decimal" },
-  { header: "estimated_share", key: "estimated_share", kind: "number" },
-  { header: "status", key: "status", kind: "text" },
-  { header: "adjustments_kwh", key: "adjustments_kwh", kind: "decimal" },
-  { header: "adjustment_count", key: "adjustment_count", kind: "number" },
-] as const satisfies readonly {
-  header: string;
-  key: keyof LedgerRow;
-  kind: "text" | "decimal" | "number";
-}[];
-
-type Column = (typeof COLUMNS)[number];
-
-function filename(ledger: Ledger, ext: string): string {
-  return `joulebook-ledger-${ledger.from}-to-${ledger.to}.${ext}`;
+interface LoadedExport {
+  ledger: Ledger;
+  options: ExportOptions;
+  query: z.infer<typeof exportQuerySchema>;
 }
 
-/** GET …/ledger.csv: exact decimal kWh, delivered ≥ 0 and exported ≤ 0 per carrier. */
+async function loadExport(
+  req: Request,
+  res: Response,
+): Promise<LoadedExport | null> {
+  const query = parseQuery(exportQuerySchema, req, res);
+  const ledger = query && (await loadLedger(query, res));
+  if (!query || !ledger) return null;
+  return {
+    ledger,
+    query,
+    options: { unit: query.unit ?? "kWh", perM2: query.per === "m2" },
+  };
+}
+
+/**
+ * GET …/ledger.csv: the grid as on screen, in the chosen unit, with a total
+ * row per carrier. Figures are exact decimals; names are neutralised against
+ * formulas by toCsv.
+ */
 export async function getLedgerCsv(
   req: Request,
   res: Response,
   next: NextFunction,
 ): Promise<void> {
   try {
-    const ledger = await loadLedger(req, res);
-    if (!ledger) return;
+    const loaded = await loadExport(req, res);
+    if (!loaded) return;
+    const table = ledgerExport(loaded.ledger, loaded.options);
     const csv = toCsv(
-      COLUMNS.map((c) => c.header),
-      ledger.rows.map((row) => COLUMNS.map((c) => row[c.key])),
+      table.columns.map((c) => c.header),
+      table.lines.map((line) => line.cells),
     );
     res
       .type("text/csv; charset=utf-8")
-      .attachment(filename(ledger, "csv"))
+      .attachment(exportFilename(loaded.ledger, loaded.options, "csv"))
       .send(csv);
   } catch (error) {
     next(error);
   }
 }
 
-/**
- * A plain JS string becomes a string cell, never a formula: exceljs writes a
- * formula only for `{ formula }` objects, which no column produces.
- */
-function xlsxValue(column: Column, row: LedgerRow): string | number {
-  const value = row[column.key];
-  return column.kind === "text" ? String(value) : Number(value);
-}
-
-/** GET …/ledger.xlsx: the same rows as numbers, with a totals line per carrier. */
+/** GET …/ledger.xlsx: the same table, with number formats and bold totals. */
 export async function getLedgerXlsx(
   req: Request,
   res: Response,
   next: NextFunction,
 ): Promise<void> {
   try {
-    const ledger = await loadLedger(req, res);
-    if (!ledger) return;
-    const book = new ExcelJS.Workbook();
-    book.creator = "Joulebook";
-    const sheet = book.addWorksheet("Ledger");
-    sheet.columns = COLUMNS.map((c) => ({
-      header: c.header,
-      key: c.key,
-      width: c.key === "site_name" ? 32 : 16,
-      // Text format, so a spreadsheet keeps a name such as "=HYPERLINK(…)"
-      // as text even when someone edits the cell.
-      style: c.kind === "text" ? { numFmt: "@" } : {},
-    }));
-    for (const row of ledger.rows) {
-      sheet.addRow(
-        Object.fromEntries(COLUMNS.map((c) => [c.key, xlsxValue(c, row)])),
-      );
-    }
-    // Unlike carriers are never added: one totals line per carrier.
-    for (const total of ledger.totals) {
-      sheet.addRow({
-        site_name: "Total",
-        carrier: total.carrier,
-        imports_kwh: Number(total.imports_kwh),
-        exports_kwh: Number(total.exports_kwh),
-        net_kwh: Number(total.net_kwh),
-      }).font = { bold: true };
-    }
-    sheet.getRow(1).font = { bold: true };
-    const buffer = await book.xlsx.writeBuffer();
+    const loaded = await loadExport(req, res);
+    if (!loaded) return;
+    const { ledger, options, query } = loaded;
+    const site = query.site
+      ? await getSite({
+          organizationId: res.locals.member!.organizationId,
+          siteId: query.site,
+        })
+      : null;
+    const buffer = await ledgerXlsx(ledgerExport(ledger, options), {
+      ...options,
+      from: ledger.from,
+      to: ledger.to,
+      sites: site?.name ?? (query.site ? "No such site" : "All sites"),
+      carriers: query.carrier
+        ? carrierLabels[query.carrier as (typeof carriers)[number]]
+        : "All carriers",
+    });
     res
       .type("application/vnd.openxmlformats-officedocument.spreadsheetml.sheet")
-      .attachment(filename(ledger, "xlsx"))
-      .send(Buffer.from(buffer));
+      .attachment(exportFilename(ledger, options, "xlsx"))
+      .send(buffer);
   } catch (error) {
     next(error);
   }

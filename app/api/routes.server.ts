@@ -54,6 +54,7 @@ import {
   ingestAnswerSchema,
   intervalPageSchema,
   intervalsQuerySchema,
+  ledgerExportQuerySchema,
   ledgerQuerySchema,
   ledgerSchema,
   meterPathSchema,
@@ -94,14 +95,14 @@ const ledgerExport = (ext: "csv" | "xlsx", mediaType: string) => ({
   summary: `The ledger as ${ext.toUpperCase()}, for spreadsheets`,
   description:
     ext === "csv"
-      ? "The same rows and filters as the JSON ledger; kWh as exact decimals, delivered ≥ 0 and exported ≤ 0 per carrier. Sent as an attachment."
-      : "The same rows as numbers, with one bold totals line per carrier (unlike carriers are never added). Names stay text. Sent as an attachment.",
+      ? "The grid as on screen: the JSON ledger's filters plus `unit` and `per`; readable headings with the unit, exact decimals, the ± column and a total row per carrier (unlike carriers are never added). Names are neutralised against spreadsheet formulas. Sent as an attachment."
+      : "The same table as numbers in the unit's number format, months as dates, one bold total row per carrier and a Notes sheet. Names stay text. Sent as an attachment.",
   access: member("ledger.view"),
   params: orgPathSchema,
-  query: ledgerQuerySchema,
+  query: ledgerExportQuerySchema,
   responses: {
     200: fileReply(`The ledger file`, mediaType, {
-      "Content-Disposition": `attachment; filename="joulebook-ledger-<from>-to-<to>.${ext}"`,
+      "Content-Disposition": `attachment; filename="joulebook-ledger-<from>-to-<to>-<unit>[-per-m2].${ext}"`,
     }),
     400: errorReply("A bad month, site or carrier, or more than 120 months"),
   },

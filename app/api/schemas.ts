@@ -11,6 +11,7 @@
  */
 import { z } from "zod";
 import { MONTH_PATTERN } from "~/lib/months";
+import { ledgerUnits } from "~/ledger/ledger-units";
 import { reportSummarySchema } from "~/reports/report-summary";
 
 // ---------------------------------------------------------------- shared --
@@ -143,6 +144,21 @@ export const ledgerQuerySchema = z.strictObject({
     })
     .optional()
     .describe("One carrier; empty or absent: every carrier"),
+});
+
+/**
+ * The exports follow the screen: the ledger's filters plus the unit and the
+ * per-m² choice. The JSON ledger stays in kWh, its field names a contract.
+ */
+export const ledgerExportQuerySchema = ledgerQuerySchema.extend({
+  unit: z
+    .enum(ledgerUnits, { error: `unit: ${ledgerUnits.join(", ")}` })
+    .optional()
+    .describe("The unit of the figures; kWh when absent"),
+  per: z
+    .enum(["", "m2"], { error: "per: m2, or leave it out" })
+    .optional()
+    .describe("m2: figures per square metre of the site's floor area"),
 });
 
 /**

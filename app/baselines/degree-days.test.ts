@@ -3,6 +3,7 @@ import { describe, expect, it } from "vitest";
 import {
   coolingDegreeDays,
   daysInMonth,
+  degreeDayLabel,
   heatingDegreeDays,
   meanFromExtremes,
   monthlyDegreeDays,
@@ -149,5 +150,12 @@ describe("monthly degree days", () => {
     ]);
     expect(monthsBetween("2025-02", "2025-01")).toEqual([]);
     expect(() => daysInMonth("2025-13")).toThrow(RangeError);
+  });
+});
+
+describe("degree days as the trade writes them", () => {
+  it("names the kind and its base, the temperature kept with its unit", () => {
+    expect(degreeDayLabel("hdd", 15.5)).toBe("HDD (15.5\u00a0°C)");
+    expect(degreeDayLabel("cdd", 18)).toBe("CDD (18.0\u00a0°C)");
   });
 });

@@ -43,6 +43,16 @@ export const driverLabels: Record<DegreeDayDriver, string> = {
   cdd: "Cooling degree days",
 };
 
+/**
+ * Degree days as the trade writes them: the kind and its base temperature,
+ * "HDD (15.5 °C)". The unit (K·day) belongs to the method notes. A
+ * no-break space keeps the temperature with its unit when a narrow column
+ * heading wraps.
+ */
+export function degreeDayLabel(driver: DegreeDayDriver, baseC: number): string {
+  return `${driver === "hdd" ? "HDD" : "CDD"} (${baseC.toFixed(1)}\u00a0°C)`;
+}
+
 const MONTH = /^(\d{4})-(0[1-9]|1[0-2])$/;
 
 /** Days in a YYYY-MM month of the Gregorian calendar. */

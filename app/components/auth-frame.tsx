@@ -17,7 +17,7 @@ export function AuthFrame({
         <Wordmark inverted />
         <div className="max-w-md">
           <p className="text-3xl font-semibold leading-tight text-white">
-            Every joule that crosses a site's boundary, signed and accounted
+            Every joule that crosses a site's boundary, metered and accounted
             for.
           </p>
           <p className="mt-4 text-spruce-100">

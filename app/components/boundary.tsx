@@ -6,6 +6,7 @@
  * positive), so chilled water on an import meter reads negative.
  */
 import { Link } from "react-router";
+import { carrierColour } from "~/sites/carrier-colours";
 
 export interface BoundaryMeter {
   id: string;
@@ -17,13 +18,6 @@ export interface BoundaryMeter {
   retired: boolean;
   energyKwh30d: number | null;
 }
-
-const carrierColour: Record<BoundaryMeter["carrier"], string> = {
-  heat: "#a9501f",
-  cooling: "#255f9e",
-  steam: "#6a4a9c",
-  electricity: "#7a5d00",
-};
 
 const ROW = 58;
 const WIDTH = 760;
@@ -49,7 +43,7 @@ function Arrow({
   orgId: string;
   direction: "in" | "out";
 }) {
-  const colour = carrierColour[meter.carrier];
+  const colour = carrierColour(meter.carrier);
   const [x1, x2] =
     direction === "in" ? [16, BOX.x + 28] : [BOX.x + BOX.w - 28, WIDTH - 16];
   const head =
@@ -108,7 +102,7 @@ function SubMeter({
   orgId: string;
   depth: number;
 }) {
-  const colour = carrierColour[meter.carrier];
+  const colour = carrierColour(meter.carrier);
   const x = BOX.x + 40 + depth * 18;
   return (
     <Link
@@ -224,7 +218,8 @@ export function Boundary({
           );
         })}
       </svg>
-      <figcaption className="mt-2 text-sm text-ink-muted">
+      {/* A method note: the diagram is the thermodynamic view, named here. */}
+      <figcaption className="mt-2 text-sm text-ink-muted" data-method-note>
         Thermodynamic view: arrows in are import meters, arrows out export
         meters; figures are heat and work into the site (+) or out of it (−), so
         a chilled-water import reads − (cooling delivered is heat leaving the

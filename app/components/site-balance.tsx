@@ -24,28 +24,21 @@ import {
   formatDecimal,
   RESIDUAL_TOLERANCE,
   type BalanceNode,
-  type Carrier,
   type ParentBalance,
   type SiteBalance,
 } from "~/ledger/balance";
-import { carrierLabels } from "~/sites/meter-schema";
+import { carrierColour } from "~/sites/carrier-colours";
+import { CarrierBadge } from "~/components/carrier-badge";
 
 const HEIGHT = 440;
 const MIN_WIDTH = 760;
 const NODE_WIDTH = 12;
 const MARGIN = { top: 44, right: 12, bottom: 12, left: 12 };
 
-const carrierColour: Record<Carrier, string> = {
-  heat: "#a9501f",
-  cooling: "#255f9e",
-  steam: "#6a4a9c",
-  electricity: "#7a5d00",
-};
-
 function nodeColour(node: BalanceNode): string {
   if (node.kind === "site") return "#0f5546";
   if (node.kind === "loss") return "#6b7480";
-  return node.carrier ? carrierColour[node.carrier] : "#4f5966";
+  return node.carrier ? carrierColour(node.carrier) : "#4f5966";
 }
 
 const monthFormat = new Intl.DateTimeFormat("en-GB", {
@@ -140,7 +133,7 @@ function BalanceChart({
       nodes,
       links: links.map((l) => ({
         ...l,
-        stroke: carrierColour[l.carrier],
+        stroke: carrierColour(l.carrier),
         strokeOpacity: 0.3,
       })),
     }),
@@ -296,8 +289,8 @@ export function SiteBalanceView({
         <ul className="flex flex-wrap gap-x-6 gap-y-1 text-sm">
           {balance.boundary.map((b) => (
             <li key={b.carrier}>
-              <span className="font-semibold">{carrierLabels[b.carrier]}</span>:
-              delivered {formatDecimal(b.importsKwh, 0)} kWh · exported{" "}
+              <CarrierBadge carrier={b.carrier} /> delivered{" "}
+              {formatDecimal(b.importsKwh, 0)} kWh · exported{" "}
               {formatDecimal(b.exportsKwh, 0)} kWh · net{" "}
               <span className="font-semibold tabular-nums">
                 {formatDecimal(b.netKwh, 0)} kWh
@@ -317,14 +310,15 @@ export function SiteBalanceView({
           ) : (
             <div style={{ height: HEIGHT }} aria-hidden="true" />
           )}
-          <figcaption className="mt-2 text-sm text-ink-muted">
+          {/* A method note: the balance is the thermodynamic view, named here. */}
+          <figcaption className="mt-2 text-sm text-ink-muted" data-method-note>
             <span className="font-semibold text-ink">Thermodynamic view.</span>{" "}
             {monthLabel(balance.month)}, from the monthly ledger: heat and work
-            signed, into the site +, out of it −, and the site&apos;s net Q + W.
-            Widths are magnitudes; labels keep the sign. What enters comes in
-            through its meter; exports and chilled water leave through theirs
-            (cooling delivered is heat leaving the site). A parent meter splits
-            into its sub-meters and the distribution loss.
+            into the site +, out of it −, and the site&apos;s net Q + W. Widths
+            are magnitudes; labels keep the sign. What enters comes in through
+            its meter; exports and chilled water leave through theirs (cooling
+            delivered is heat leaving the site). A parent meter splits into its
+            sub-meters and the distribution loss.
           </figcaption>
         </figure>
       )}

@@ -40,7 +40,7 @@ export function SiteFields({
         error={errors.floorAreaM2}
       />
       <Field
-        label="Degree-day base temperature (°C)"
+        label="Degree day base temperature (°C)"
         name="degreeDayBaseC"
         inputMode="decimal"
         defaultValue={defaults?.degreeDayBaseC ?? "15.5"}

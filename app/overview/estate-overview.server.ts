@@ -90,6 +90,31 @@ export async function activeSiteCount(organizationId: string): Promise<number> {
   return rows[0].n;
 }
 
+/** How far an organisation has got with its first steps: a site, a meter, a gateway. */
+export interface SetupProgress {
+  sites: number;
+  meters: number;
+  gateways: number;
+  /** The oldest active site, where a first meter goes; null without one. */
+  firstSiteId: string | null;
+}
+
+export async function setupProgress(
+  organizationId: string,
+): Promise<SetupProgress> {
+  const { rows } = await pool.query<SetupProgress>(
+    `select
+       (select count(*)::int from sites where organization_id = $1 and archived_at is null) as sites,
+       (select count(*)::int from meters m join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+         where m.organization_id = $1 and m.removed_at is null and s.archived_at is null) as meters,
+       (select count(*)::int from gateways where organization_id = $1 and revoked_at is null) as gateways,
+       (select id from sites where organization_id = $1 and archived_at is null
+         order by created_at, id limit 1) as "firstSiteId"`,
+    [organizationId],
+  );
+  return rows[0];
+}
+
 /** Meters (still installed) whose newest measured hour is older than `hours`. */
 export async function silentMeters(
   organizationId: string,

@@ -12,12 +12,9 @@ import { z } from "zod";
 import { requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
+import { LedgerGrid } from "~/components/ledger/ledger-grid";
 import {
-  isLedgerUnit,
-  LedgerGrid,
-  ledgerUnits,
-} from "~/components/ledger/ledger-grid";
-import {
+  exportQuery,
   ledgerQuery,
   useLedger,
   type LedgerRow,
@@ -32,6 +29,7 @@ import {
   PageHeader,
   SelectField,
 } from "~/components/ui";
+import { isLedgerUnit, ledgerUnits } from "~/ledger/ledger-units";
 import { closeMonth, reopenMonth } from "~/ledger/month-close.server";
 import { parseForm } from "~/lib/forms";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
@@ -180,6 +178,7 @@ function ExportLinks({
   query,
 }: {
   orgId: string;
+  /** The export query string, or null while the filters cannot be asked for. */
   query: string | null;
 }) {
   const links = [
@@ -426,15 +425,20 @@ export default function LedgerPage({
       <PageHeader
         title="Ledger"
         description="Monthly energy per site and carrier, rolled up from the intervals of the meters on each site's boundary."
-        actions={<ExportLinks orgId={organization.id} query={query} />}
+        actions={
+          <ExportLinks
+            orgId={organization.id}
+            query={query === null ? null : exportQuery(query, { unit, perM2 })}
+          />
+        }
       />
       <div className="flex flex-col gap-6">
         <p>
           Delivered energy is positive and exported energy negative, for each
           carrier; chilled water shows as cooling delivered. Carriers are never
-          added together, so each has its own total. The signed thermodynamic
-          view (heat and work into the site positive) is on each site&apos;s
-          energy balance.
+          added together, so each has its own total. Each site&apos;s page shows
+          its energy balance, where what enters the site counts positive and
+          what leaves it negative.
         </p>
         <Card aria-labelledby="filters-heading">
           <h2 id="filters-heading" className="sr-only">
@@ -547,7 +551,7 @@ export default function LedgerPage({
             </div>
             <Legend>
               Estimated share: the part of the net figure that comes from
-              estimated intervals. ± Uncertainty: the heat meters' maximum
+              estimated intervals. ± uncertainty: the heat meters' maximum
               permissible error (EN 1434), where it applies. Adjustments:
               corrections entered after the month was closed, with their count
               {canOpenAudit

@@ -364,7 +364,11 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
               <h2 id="profile-heading" className="text-lg">
                 Load profile
               </h2>
-              <LoadProfile intervals={intervals} timeZone={meter.timeZone} />
+              <LoadProfile
+                intervals={intervals}
+                timeZone={meter.timeZone}
+                carrier={meter.carrier}
+              />
             </Card>
             <Card aria-labelledby="carpet-heading">
               <h2 id="carpet-heading" className="text-lg">
@@ -374,7 +378,11 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
                 Each row a day, each column an hour; darker is more energy.
                 Outlined cells are estimated or corrected.
               </p>
-              <CarpetPlot intervals={intervals} timeZone={meter.timeZone} />
+              <CarpetPlot
+                intervals={intervals}
+                timeZone={meter.timeZone}
+                carrier={meter.carrier}
+              />
             </Card>
             <Card aria-labelledby="grid-heading">
               <h2 id="grid-heading" className="text-lg">

@@ -1,9 +1,9 @@
 import { Link } from "react-router";
 import { requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
+import { CarrierBadge } from "~/components/carrier-badge";
 import { CsvUpload } from "~/components/csv-upload";
 import { Badge, Card, EmptyState, PageHeader } from "~/components/ui";
-import { carrierLabels } from "~/sites/meter-schema";
 import { listAllMeters } from "~/sites/meters.server";
 import type { Route } from "./+types/readings";
 
@@ -33,7 +33,7 @@ export default function Readings({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader
         title="Readings"
-        description="Hourly intervals per meter: measured, estimated or edited, with the readings they come from."
+        description="Hourly intervals per meter: actual, estimated or edited, with the readings they come from."
       />
       <div className="flex flex-col gap-6">
         {meters.length === 0 ? (
@@ -58,17 +58,7 @@ export default function Readings({ loaderData }: Route.ComponentProps) {
                         <span className="font-mono">{m.code}</span> {m.name}
                       </Link>
                       <span className="flex gap-1">
-                        <Badge
-                          tone={
-                            m.carrier === "cooling"
-                              ? "frost"
-                              : m.carrier === "electricity"
-                                ? "neutral"
-                                : "copper"
-                          }
-                        >
-                          {carrierLabels[m.carrier]}
-                        </Badge>
+                        <CarrierBadge carrier={m.carrier} />
                         {m.removedAt ? <Badge>retired</Badge> : null}
                       </span>
                     </li>

@@ -2,6 +2,7 @@ import { data, Form, Link } from "react-router";
 import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { Boundary, formatKwh } from "~/components/boundary";
+import { CarrierBadge } from "~/components/carrier-badge";
 import { Cautions } from "~/components/cautions";
 import { SiteBalanceView } from "~/components/site-balance";
 import { SiteFields } from "~/components/site-fields";
@@ -18,10 +19,11 @@ import {
   MONTH_PATTERN,
   siteBalance,
 } from "~/ledger/site-balance.server";
+import { deliveredSign } from "~/ledger/delivered";
 import { parseForm } from "~/lib/forms";
-import { carrierLabels } from "~/sites/meter-schema";
 import { siteEnergySince } from "~/sites/meter-energy.server";
 import { listSiteMeters } from "~/sites/meters.server";
+import { carrierLabels } from "~/sites/meter-schema";
 import { siteFormSchema } from "~/sites/site-schema";
 import { DuplicateNameError, getSite, updateSite } from "~/sites/sites.server";
 import type { Route } from "./+types/site";
@@ -117,7 +119,7 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
           site.floorAreaM2
             ? `${Number(site.floorAreaM2).toLocaleString("en-GB")} m²`
             : null,
-          `degree days to ${site.degreeDayBaseC} °C`,
+          `degree day base ${site.degreeDayBaseC} °C`,
           site.timeZone,
         ]
           .filter(Boolean)
@@ -193,7 +195,7 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                       Orientation
                     </th>
                     <th className="py-2 pr-3 text-right font-semibold">
-                      Last 30 days, into the site +
+                      Last 30 days (imports +, exports −)
                     </th>
                     <th className="hidden py-2 font-semibold sm:table-cell">
                       <span className="sr-only">Links</span>
@@ -251,13 +253,17 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                           </span>
                         </td>
                         <td className="hidden py-2 pr-3 sm:table-cell">
-                          {carrierLabels[m.carrier]}
+                          <CarrierBadge carrier={m.carrier} />
                         </td>
                         <td className="hidden py-2 pr-3 sm:table-cell">
                           {orientation}
                         </td>
                         <td className="py-2 pr-3 text-right align-top tabular-nums whitespace-nowrap sm:align-middle">
-                          {formatKwh(m.energyKwh30d)}
+                          {formatKwh(
+                            m.energyKwh30d === null
+                              ? null
+                              : deliveredSign(m.carrier) * m.energyKwh30d,
+                          )}
                         </td>
                         <td className="hidden py-2 text-right sm:table-cell">
                           {links}

@@ -8,7 +8,11 @@ import {
   listBaselines,
   saveBaseline,
 } from "~/baselines/baselines.server";
-import { driverLabels, type DegreeDayDriver } from "~/baselines/degree-days";
+import {
+  degreeDayLabel,
+  driverLabels,
+  type DegreeDayDriver,
+} from "~/baselines/degree-days";
 import {
   GUIDELINE_14,
   MODEL_PARAMETERS,
@@ -507,14 +511,12 @@ function Controls({ view, sites }: { view: View; sites: LoaderData["sites"] }) {
         </noscript>
       </Form>
       <p className="mt-3 text-sm text-ink-muted">
-        Degree days to base{" "}
-        {fmt(view.analysis?.baseC ?? view.site.degreeDayBaseC, 1)} °C,{" "}
-        {view.saved
-          ? "the saved baseline's base"
-          : "the site's degree-day base"}
-        , summed over the days of each month in the site's calendar (
-        {view.site.timeZone}). Energy: what the import meters on the site's
-        boundary measured, from the ledger.
+        Degree days to a base of{" "}
+        {fmt(view.analysis?.baseC ?? view.site.degreeDayBaseC, 1)} °C (
+        {view.saved ? "the saved baseline's base" : "the site's base"}), summed
+        over the days of each month in the site's calendar ({view.site.timeZone}
+        ). Energy: what the import meters on the site's boundary metered, from
+        the ledger.
       </p>
     </Card>
   );
@@ -533,7 +535,7 @@ function ModelCard({
 }) {
   const busy = useNavigation().state === "submitting";
   const { model, assessment } = analysis;
-  const symbol = analysis.driver === "hdd" ? "HDD" : "CDD";
+  const degreeDays = degreeDayLabel(analysis.driver, analysis.baseC);
   const tooShort = model ? shortBaselineWarning(analysis.basePoints) : null;
   const limits = GUIDELINE_14[view.saved?.granularity ?? "monthly"];
   return (
@@ -570,7 +572,7 @@ function ModelCard({
             <span className="tabular-nums">
               {fmt(Math.abs(model.slope), 2)}
             </span>{" "}
-            kWh/K·d × {symbol}{" "}
+            kWh per degree day × {degreeDays}{" "}
             <span className="text-base text-ink-muted">per month</span>
           </p>
           <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-4 xl:grid-cols-2 2xl:grid-cols-4">
@@ -613,8 +615,8 @@ function ModelCard({
               CV(RMSE) ≤ {limits.cvrmse} % and NMBE within ±{limits.nmbe} %.
             </p>
             <p className="mt-1">
-              CV(RMSE) = 100 · √(Σ(measured − model)² ÷ (n − p)) ÷ mean, and
-              NMBE = 100 · Σ(measured − model) ÷ ((n − p) · mean), both with the
+              CV(RMSE) = 100 · √(Σ(actual − model)² ÷ (n − p)) ÷ mean, and NMBE
+              = 100 · Σ(actual − model) ÷ ((n − p) · mean), both with the
               divisor n − p = {model.n} − {MODEL_PARAMETERS} ={" "}
               {model.n - MODEL_PARAMETERS} (p = {MODEL_PARAMETERS}: intercept
               and slope). NMBE is positive when the metered energy lies above
@@ -665,7 +667,7 @@ function ModelCard({
 }
 
 function EnpiCard({ analysis, view }: { analysis: AnalysisView; view: View }) {
-  const symbol = analysis.driver === "hdd" ? "HDD" : "CDD";
+  const degreeDays = degreeDayLabel(analysis.driver, analysis.baseC);
   const rows = [
     ["Baseline period", analysis.baseline, analysis.enpis.baseline],
     ["Reporting period", analysis.reporting, analysis.enpis.reporting],
@@ -687,8 +689,8 @@ function EnpiCard({ analysis, view }: { analysis: AnalysisView; view: View }) {
               <th className="px-2 py-1 text-left">Period</th>
               <th className="px-2 py-1 text-right">Months</th>
               <th className="px-2 py-1 text-right">Energy (kWh)</th>
-              <th className="px-2 py-1 text-right">{symbol} (K·d)</th>
-              <th className="px-2 py-1 text-right">kWh per K·d</th>
+              <th className="px-2 py-1 text-right">{degreeDays}</th>
+              <th className="px-2 py-1 text-right">kWh per degree day</th>
               <th className="px-2 py-1 text-right">kWh per m²</th>
             </tr>
           </thead>
@@ -728,7 +730,7 @@ function EnpiCard({ analysis, view }: { analysis: AnalysisView; view: View }) {
 
 function SavingsCard({ analysis }: { analysis: AnalysisView }) {
   const { savings } = analysis;
-  const symbol = analysis.driver === "hdd" ? "HDD" : "CDD";
+  const degreeDays = degreeDayLabel(analysis.driver, analysis.baseC);
   const skipped = analysis.months.filter(
     (m) =>
       !m.usable &&
@@ -777,7 +779,7 @@ function SavingsCard({ analysis }: { analysis: AnalysisView }) {
               <thead className="sticky top-0 bg-sunken">
                 <tr>
                   <th className="px-2 py-1 text-left">Month</th>
-                  <th className="px-2 py-1 text-right">{symbol} (K·d)</th>
+                  <th className="px-2 py-1 text-right">{degreeDays}</th>
                   <th className="px-2 py-1 text-right">
                     Adjusted baseline (kWh)
                   </th>
@@ -844,8 +846,12 @@ function MonthTable({ analysis }: { analysis: AnalysisView }) {
             <th className="px-2 py-1 text-left">Month</th>
             <th className="px-2 py-1 text-left">Period</th>
             <th className="px-2 py-1 text-right">Weather days</th>
-            <th className="px-2 py-1 text-right">HDD (K·d)</th>
-            <th className="px-2 py-1 text-right">CDD (K·d)</th>
+            <th className="px-2 py-1 text-right">
+              {degreeDayLabel("hdd", analysis.baseC)}
+            </th>
+            <th className="px-2 py-1 text-right">
+              {degreeDayLabel("cdd", analysis.baseC)}
+            </th>
             <th className="px-2 py-1 text-right">Energy (kWh)</th>
             <th className="px-2 py-1 text-right">Estimated</th>
             <th className="px-2 py-1 text-left">Note</th>
@@ -1019,6 +1025,7 @@ export default function WeatherBaselines({
                   </h2>
                   {mounted ? (
                     <DegreeDayChart
+                      carrier={view.carrier}
                       months={chartMonths}
                       ddLabel={ddLabel}
                       energyLabel={energyLabel}
@@ -1050,6 +1057,7 @@ export default function WeatherBaselines({
                     </h2>
                     {mounted ? (
                       <BaselineScatter
+                        carrier={view.carrier}
                         baseline={analysis.basePoints}
                         reporting={analysis.reportPoints}
                         line={analysis.model}

@@ -50,7 +50,7 @@ export const siteFormSchema = z.strictObject({
     ),
   floorAreaM2: optionalNumber("Floor area", 0.01, 10_000_000),
   degreeDayBaseC: optionalNumber(
-    "Degree-day base temperature",
+    "Degree day base temperature",
     -10,
     30,
   ).transform((v) => v ?? 15.5),

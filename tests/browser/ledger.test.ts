@@ -1,4 +1,5 @@
 import { readFileSync } from "node:fs";
+import Papa from "papaparse";
 import { eq } from "drizzle-orm";
 import { describe, expect, inject, it } from "vitest";
 import { chromiumForFile, signInPage } from "../support/browser";
@@ -79,18 +80,52 @@ describe("the Ledger page", () => {
     expect(await page.locator('[row-id="total"]').count()).toBe(0);
     await page.getByText("Delivered (kWh)").first().waitFor();
 
+    // The exports follow the screen: the unit chosen and the filters.
+    await page.getByLabel("Unit").selectOption("MWh");
+    await page.getByText("Delivered (MWh)").first().waitFor();
+    const exportLink = page.getByRole("link", { name: "Export CSV" });
+    await expect
+      .poll(async () => await exportLink.getAttribute("href"))
+      .toContain("unit=MWh");
+    const href = new URL((await exportLink.getAttribute("href"))!, baseUrl);
+    expect(Object.fromEntries(href.searchParams)).toEqual({
+      from: "2026-09",
+      to: "2026-09",
+      unit: "MWh",
+    });
+    expect(
+      await page
+        .getByRole("link", { name: "Export XLSX" })
+        .getAttribute("href"),
+    ).toContain("unit=MWh");
+
     const [download] = await Promise.all([
       page.waitForEvent("download"),
-      page.getByRole("link", { name: "Export CSV" }).click(),
+      exportLink.click(),
     ]);
-    const csv = readFileSync((await download.path())!, "utf8")
-      .trim()
-      .split("\n");
-    expect(csv).toHaveLength(3);
+    const csv = Papa.parse<Record<string, string>>(
+      readFileSync((await download.path())!, "utf8"),
+      { header: true, skipEmptyLines: true },
+    );
+    // Two entries, then one total row per carrier.
+    expect(csv.data).toHaveLength(4);
     const line = (carrier: string) =>
-      csv.find((l) => l.split(",")[2] === carrier)!.split(",");
-    expect(Number(line("electricity")[5])).toBe(net);
-    expect(Number(line("cooling")[3])).toBe(-heatFlow);
+      csv.data.find((l) => l.Carrier === carrier && l.Site !== "Total")!;
+    expect(Number(line("Electricity")["Net (MWh)"])).toBeCloseTo(net / 1000, 9);
+    expect(Number(line("Cooling")["Delivered (MWh)"])).toBeCloseTo(
+      -heatFlow / 1000,
+      9,
+    );
+    expect(
+      csv.data.filter((l) => l.Site === "Total").map((l) => l.Carrier),
+    ).toEqual(["Cooling", "Electricity"]);
+
+    // A carrier filter goes into the links too.
+    await page.getByLabel("Carrier", { exact: true }).selectOption("cooling");
+    await expect
+      .poll(async () => await exportLink.getAttribute("href"))
+      .toContain("carrier=cooling");
+    expect(await exportLink.getAttribute("href")).toContain("unit=MWh");
 
     await page.getByLabel("Month to close").fill("2026-09");
     await page.getByRole("button", { name: "Close month" }).click();

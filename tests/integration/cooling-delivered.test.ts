@@ -148,6 +148,13 @@ beforeAll(async () => {
 });
 
 /** The exact decimal negation of a decimal string, as PostgreSQL prints it. */
+/** A decimal text without trailing zeros, as the exports write it. */
+function plain(value: string): string {
+  return value.includes(".")
+    ? value.replace(/0+$/, "").replace(/\.$/, "")
+    : value;
+}
+
 async function negated(value: string): Promise<string> {
   const { rows } = await pool.query<{ v: string }>(
     "select (-($1::numeric))::text as v",
@@ -217,17 +224,31 @@ describe("cooling delivered", () => {
       skipEmptyLines: true,
     });
     expect(csv.errors).toEqual([]);
-    expect(csv.data).toHaveLength(3);
+    // The CSV has readable headings and carrier names, and a total row per carrier.
+    const carrierOf = (label: string) => label.toLowerCase();
+    const entries = csv.data.filter((l) => l.Site !== "Total");
+    expect(entries).toHaveLength(3);
     for (const line of csv.data) {
-      expect(Number(line.imports_kwh), line.carrier).toBeGreaterThanOrEqual(0);
-      expect(Number(line.exports_kwh), line.carrier).toBeLessThanOrEqual(0);
-      const row = json.rows.find((r) => r.carrier === line.carrier)!;
-      expect(line.imports_kwh).toBe(row.imports_kwh);
-      expect(line.exports_kwh).toBe(row.exports_kwh);
+      const carrier = carrierOf(line.Carrier);
+      expect(Number(line["Delivered (kWh)"]), carrier).toBeGreaterThanOrEqual(
+        0,
+      );
+      expect(Number(line["Exported (kWh)"]), carrier).toBeLessThanOrEqual(0);
     }
-    expect(csv.data.find((l) => l.carrier === "cooling")!.imports_kwh).toBe(
-      await negated(coolingHeatFlow),
-    );
+    for (const line of entries) {
+      const row = json.rows.find((r) => r.carrier === carrierOf(line.Carrier))!;
+      expect(line["Delivered (kWh)"]).toBe(plain(row.imports_kwh));
+      expect(line["Exported (kWh)"]).toBe(plain(row.exports_kwh));
+    }
+    expect(
+      entries.find((l) => l.Carrier === "Cooling")!["Delivered (kWh)"],
+    ).toBe(plain(await negated(coolingHeatFlow)));
+    expect(
+      csv.data
+        .filter((l) => l.Site === "Total")
+        .map((l) => l.Carrier)
+        .sort(),
+    ).toEqual(["Cooling", "Electricity", "Heat"]);
 
     const xlsxResponse = await manager.get(
       `/api/v1/orgs/${org.org.id}/ledger.xlsx?${query}`,
@@ -247,20 +268,23 @@ describe("cooling delivered", () => {
         ),
       );
     });
-    expect(column("imports_kwh")).toBeGreaterThan(0);
+    expect(column("Delivered (kWh)")).toBeGreaterThan(0);
     for (const line of lines) {
-      expect(line.imports_kwh as number).toBeGreaterThanOrEqual(0);
-      expect(line.exports_kwh as number).toBeLessThanOrEqual(0);
+      expect(line["Delivered (kWh)"] as number).toBeGreaterThanOrEqual(0);
+      expect(line["Exported (kWh)"] as number).toBeLessThanOrEqual(0);
     }
     // Every total line names its carrier: no total over unlike carriers.
-    const totals = lines.filter((l) => String(l.site).startsWith("Total"));
-    expect(totals.map((t) => t.carrier).sort()).toEqual([
-      "cooling",
-      "electricity",
-      "heat",
+    const totals = lines.filter((l) => String(l.Site).startsWith("Total"));
+    expect(totals.map((t) => t.Carrier).sort()).toEqual([
+      "Cooling",
+      "Electricity",
+      "Heat",
     ]);
-    const coolingTotal = totals.find((t) => t.carrier === "cooling")!;
-    expect(coolingTotal.imports_kwh).toBeCloseTo(-Number(coolingHeatFlow), 6);
+    const coolingTotal = totals.find((t) => t.Carrier === "Cooling")!;
+    expect(coolingTotal["Delivered (kWh)"]).toBeCloseTo(
+      -Number(coolingHeatFlow),
+      6,
+    );
   });
 
   it("the Overview loader gives delivered and exported energy per carrier, never a sum over carriers", async () => {

@@ -93,14 +93,17 @@ describe("ledger exports and formula injection", () => {
       skipEmptyLines: true,
     });
     expect(csv.errors).toEqual([]);
-    expect(csv.data.map((r) => r.site).sort()).toEqual(
+    const entries = csv.data.filter((r) => r.Site !== "Total");
+    expect(entries.map((r) => r.Site).sort()).toEqual(
       HOSTILE_NAMES.map((n) => `'${n}`).sort(),
     );
-    const exporterCsv = csv.data.find(
-      (r) => r.site === `'${HOSTILE_NAMES[2]}`,
-    )!;
-    expect(exporterCsv.exports_kwh).toBe(exporter.exports_kwh);
-    expect(exporterCsv.net_kwh).toBe(exporter.net_kwh);
+    const exporterCsv = entries.find((r) => r.Site === `'${HOSTILE_NAMES[2]}`)!;
+    // Negative figures stay plain numbers, not neutralised text.
+    expect(exporterCsv["Exported (kWh)"]).toMatch(/^-\d+(\.\d+)?$/);
+    expect(Number(exporterCsv["Exported (kWh)"])).toBe(
+      Number(exporter.exports_kwh),
+    );
+    expect(Number(exporterCsv["Net (kWh)"])).toBe(Number(exporter.net_kwh));
 
     // XLSX: each name is a plain string cell in a text-formatted column, not a formula.
     const xlsxResponse = await manager.get(
@@ -111,8 +114,8 @@ describe("ledger exports and formula injection", () => {
     await book.xlsx.load(await xlsxResponse.arrayBuffer());
     const sheet = book.getWorksheet("Ledger")!;
     const headers = sheet.getRow(1).values as unknown[];
-    const siteColumn = headers.indexOf("site");
-    const exportsColumn = headers.indexOf("exports_kwh");
+    const siteColumn = headers.indexOf("Site");
+    const exportsColumn = headers.indexOf("Exported (kWh)");
     const siteCells = HOSTILE_NAMES.map((name) => {
       const rows: ExcelJS.Row[] = [];
       sheet.eachRow((row) => {

@@ -351,12 +351,19 @@ describe("monthly ledger", () => {
     expect(csv.headers.get("content-type")).toMatch(/text\/csv/);
     const lines = (await csv.text()).trim().split("\n");
     expect(lines[0]).toBe(
-      "site,month,carrier,imports_kwh,exports_kwh,net_kwh,estimated_kwh,estimated_share,status,adjustments_kwh,adjustment_count",
+      "Site,Month,Carrier,Delivered (kWh),Exported (kWh),Net (kWh),Estimated (kWh),Estimated share (%),± uncertainty (kWh),Adjustments (kWh),Adjustment count,Status",
     );
     const json = await ledger(finance, org, "2026-05", "2026-05");
-    expect(lines.slice(1).map((l) => l.split(",")[5])).toEqual(
-      json.rows.map((r) => r.net_kwh),
+    // The entries, then one total row for the one carrier.
+    expect(lines).toHaveLength(json.rows.length + 2);
+    expect(lines.slice(1, -1).map((l) => Number(l.split(",")[5]))).toEqual(
+      json.rows.map((r) => Number(r.net_kwh)),
     );
+    expect(lines.at(-1)!.split(",").slice(0, 3)).toEqual([
+      "Total",
+      "",
+      "Electricity",
+    ]);
     const xlsx = await finance.get(
       `/api/v1/orgs/${org.org.id}/ledger.xlsx?from=2026-05&to=2026-05`,
     );

@@ -54,14 +54,14 @@ describe("Overview", () => {
     const page = await (
       await auditor.get(`/o/${org.org.id}/overview?silent=24`)
     ).text();
-    const silentSection = page.slice(page.indexOf("Silent meters"));
+    const silentSection = page.slice(page.indexOf("Meters with no data"));
     expect(silentSection).toContain(org.meters.register.code);
     expect(silentSection).toContain(org.meters.water.code); // never reported
     expect(silentSection).not.toContain(org.meters.export.code);
     const longer = await (
       await auditor.get(`/o/${org.org.id}/overview?silent=48`)
     ).text();
-    expect(longer.slice(longer.indexOf("Silent meters"))).not.toContain(
+    expect(longer.slice(longer.indexOf("Meters with no data"))).not.toContain(
       org.meters.register.code,
     );
 
@@ -203,11 +203,14 @@ describe("Overview", () => {
     // whole kWh and show as that.
     expect(row![1]).toContain(shown(Math.round(actual)));
     expect(row![1]).toContain(shown(Math.round(expected)));
-    // (actual − expected) / expected ≈ +20 %, in a danger badge.
+    // (actual − expected) / expected ≈ +20 %: more than expected, so an
+    // up pill, solid beyond the ±10 % tolerance, its arrow saying so too.
     const difference = (100 * (actual - expected)) / expected;
     expect(difference).toBeCloseTo(20, 2);
     expect(row![1]).toContain(`+${difference.toFixed(1)} %`);
-    expect(row![1]).toMatch(/bg-danger-50[^>]*>\+20\.0 %/);
+    expect(row![1]).toMatch(
+      /data-direction="up"[^>]*bg-danger-700[^>]*>.*▲.*\+20\.0 %/,
+    );
 
     // A newer baseline of the same site and carrier takes over: still one row.
     expect(

@@ -111,7 +111,7 @@ describe("site energy balance", () => {
     );
     // Boundary totals: the sub-meter sits inside the boundary and is not added.
     expect(text).toContain(
-      "Electricity : delivered +100 kWh · exported 0 kWh · net +100 kWh",
+      "Electricity delivered +100 kWh · exported 0 kWh · net +100 kWh",
     );
     // Without ?month the page shows the newest month with data, the same one.
     const newest = await pageText(client, sitePath(org));

@@ -15,9 +15,16 @@ import {
 import { AgGridReact } from "ag-grid-react";
 import { useMemo } from "react";
 import { Link } from "react-router";
+import { CarrierBadge } from "~/components/carrier-badge";
 import { Badge } from "~/components/ui";
+import { carrierTotals } from "~/ledger/carrier-totals";
+import { convertKwh } from "~/ledger/convert-energy-decimal";
+import {
+  LEDGER_UNITS,
+  unitLabel as labelOf,
+  type LedgerUnit,
+} from "~/ledger/ledger-units";
 import { useWidth } from "~/lib/use-width";
-import { convertEnergy, type EnergyUnit } from "~/physics/units";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 import type { Ledger, LedgerRow } from "./use-ledger";
 
@@ -46,28 +53,6 @@ const theme = themeQuartz.withParams({
   fontSize: 14,
   cellHorizontalPaddingScale: 0.7,
 });
-
-/** The units the ledger is shown in; figures arrive in kWh. */
-export const ledgerUnits = [
-  "kWh",
-  "MWh",
-  "GJ",
-  "MMBtu",
-] as const satisfies readonly EnergyUnit[];
-export type LedgerUnit = (typeof ledgerUnits)[number];
-
-export function isLedgerUnit(value: string): value is LedgerUnit {
-  return (ledgerUnits as readonly string[]).includes(value);
-}
-
-// Decimals that keep a monthly site figure readable in each unit: about the
-// same resolution (0.1 kWh ≈ 0.0004 GJ) without a tail of noise digits.
-const decimals: Record<LedgerUnit, { total: number; perM2: number }> = {
-  kWh: { total: 1, perM2: 2 },
-  MWh: { total: 3, perM2: 5 },
-  GJ: { total: 2, perM2: 4 },
-  MMBtu: { total: 2, perM2: 4 },
-};
 
 interface GridRow extends Omit<LedgerRow, "carrier" | "status"> {
   id: string;
@@ -123,58 +108,24 @@ function sortRows(rows: LedgerRow[]): GridRow[] {
   });
 }
 
-const abs = (value: string | null) => Math.abs(Number(value ?? 0)) || 0;
-
-/**
- * The totals rows, one per carrier: unlike carriers are never added.
- * Delivered, exported and net come from the server; the rest is summed here
- * over the carrier's rows. The estimated share is, as in each entry,
- * estimated energy over the energy metered in and out; uncertainty bands are
- * added, a bound that holds even when the meters' errors are correlated; per
- * m², the carrier's total is divided by the floor area of every site listed
- * with it, or not at all when one of them has none.
- */
+/** The totals rows, one per carrier (carrier-totals.ts): unlike carriers are never added. */
 function totalRows(ledger: Ledger): GridRow[] {
-  return [...ledger.totals]
-    .sort((a, b) => carrierOrder(a.carrier) - carrierOrder(b.carrier))
-    .map((total) => {
-      const rows = ledger.rows.filter((r) => r.carrier === total.carrier);
-      const metered = rows.reduce(
-        (s, r) => s + abs(r.imports_kwh) + abs(r.exports_kwh),
-        0,
-      );
-      const estimated = rows.reduce((s, r) => s + abs(r.estimated_kwh), 0);
-      const bands = rows.filter((r) => r.uncertainty_kwh !== null);
-      const areas = new Map(rows.map((r) => [r.site_id, r.floor_area_m2]));
-      const floorArea = [...areas.values()].every((a) => a !== null && +a > 0)
-        ? [...areas.values()].reduce((s, a) => s + Number(a), 0)
-        : null;
-      return {
-        id: `total|${total.carrier}`,
-        site_id: "",
-        site_name: "Total",
-        floor_area_m2: floorArea === null ? null : String(floorArea),
-        month: "",
-        carrier: total.carrier,
-        imports_kwh: total.imports_kwh,
-        exports_kwh: total.exports_kwh,
-        net_kwh: total.net_kwh,
-        estimated_kwh: String(estimated),
-        estimated_share: metered > 0 ? estimated / metered : 0,
-        uncertainty_kwh: bands.length
-          ? String(bands.reduce((s, r) => s + abs(r.uncertainty_kwh), 0))
-          : null,
-        status: null,
-        adjustments_kwh: String(
-          rows.reduce((s, r) => s + (Number(r.adjustments_kwh) || 0), 0),
-        ),
-        adjustment_count: rows.reduce((s, r) => s + r.adjustment_count, 0),
-        closed_at: null,
-        firstOfSite: true,
-        firstOfMonth: true,
-        isTotal: true,
-      };
-    });
+  return carrierTotals(ledger.rows, ledger.totals, carriers).map((total) => ({
+    ...total,
+    id: `total|${total.carrier}`,
+    site_id: "",
+    site_name: "Total",
+    month: "",
+    status: null,
+    closed_at: null,
+    firstOfSite: true,
+    firstOfMonth: true,
+    isTotal: true,
+  }));
+}
+
+function CarrierCell({ data }: ICellRendererParams<GridRow>) {
+  return data?.carrier ? <CarrierBadge carrier={data.carrier} /> : null;
 }
 
 /**
@@ -288,7 +239,8 @@ export function LedgerGrid({
   const narrow = width > 0 && width < NARROW_GRID_PX;
 
   const columns = useMemo<ColDef<GridRow>[]>(() => {
-    const places = perM2 ? decimals[unit].perM2 : decimals[unit].total;
+    const { decimals } = LEDGER_UNITS[unit];
+    const places = perM2 ? decimals.perM2 : decimals.total;
     const format = new Intl.NumberFormat("en-GB", {
       minimumFractionDigits: places,
       maximumFractionDigits: places,
@@ -297,20 +249,24 @@ export function LedgerGrid({
       minimumFractionDigits: 1,
       maximumFractionDigits: 1,
     });
-    const unitLabel = perM2 ? `${unit}/m²` : unit;
+    const unitLabel = labelOf(unit, perM2);
 
-    /** A kWh string in the chosen unit, per m² if asked; null if none. */
+    /**
+     * A kWh string in the chosen unit, per m² if asked; null if none. The
+     * conversion is the exports' own (convert-energy-decimal.ts), so screen
+     * and files agree.
+     */
     const energy =
       (pick: (row: GridRow) => string | null) =>
       (p: ValueGetterParams<GridRow>): number | null => {
         if (!p.data) return null;
-        const raw = pick(p.data);
-        const kwh = raw === null ? NaN : Number(raw);
-        if (!Number.isFinite(kwh)) return null;
-        const value = convertEnergy(kwh, "kWh", unit);
-        if (!perM2) return value;
-        const area = Number(p.data.floor_area_m2);
-        return p.data.floor_area_m2 !== null && area > 0 ? value / area : null;
+        const kwh = pick(p.data);
+        if (kwh === null) return null;
+        if (!perM2) return Number(convertKwh(kwh, unit));
+        const area = p.data.floor_area_m2;
+        return area !== null && Number(area) > 0
+          ? Number(convertKwh(kwh, unit, area))
+          : null;
       };
     const show = (value: number | null) =>
       value === null ? "—" : signed(value, format);
@@ -323,7 +279,7 @@ export function LedgerGrid({
       valueGetter: energy(pick),
       valueFormatter: (p) => show(p.value),
       cellClass: ["ag-right-aligned-cell", "tabular-nums"],
-      minWidth: 104,
+      minWidth: 96,
       flex: 1,
     });
 
@@ -350,7 +306,8 @@ export function LedgerGrid({
             field: "carrier",
             valueFormatter: (p) =>
               p.value ? carrierLabels[p.value as LedgerRow["carrier"]] : "",
-            minWidth: 84,
+            cellRenderer: CarrierCell,
+            minWidth: 116,
             flex: 1,
           },
         ];
@@ -375,7 +332,7 @@ export function LedgerGrid({
         flex: 1,
       },
       {
-        ...energyColumn("± Uncertainty", (r) => r.uncertainty_kwh),
+        ...energyColumn("± uncertainty", (r) => r.uncertainty_kwh),
         valueFormatter: (p) =>
           p.value === null ? "—" : `±${format.format(Math.abs(p.value))}`,
       },
@@ -394,7 +351,9 @@ export function LedgerGrid({
         headerName: "Status",
         field: "status",
         cellRenderer: StatusCell,
-        minWidth: 76,
+        // Kept in view when a narrow screen scrolls the figures sideways.
+        pinned: "right",
+        minWidth: 88,
         flex: 1,
       },
     ];

@@ -1,5 +1,6 @@
 import { useCallback, useEffect, useRef, useState } from "react";
 import type { Ledger } from "~/api/schemas";
+import type { LedgerUnit } from "~/ledger/ledger-units";
 
 /**
  * The types are the API's own (`GET …/ledger` answers `ledgerSchema`):
@@ -24,6 +25,21 @@ export function ledgerQuery(filters: LedgerFilters): string {
   if (filters.site) query.set("site", filters.site);
   if (filters.carrier) query.set("carrier", filters.carrier);
   return query.toString();
+}
+
+/**
+ * The CSV and XLSX exports' query string: they follow the screen, so they
+ * take the filters of `ledgerQuery` plus the unit and per m² as chosen (the
+ * defaults, kWh and whole figures, are left out).
+ */
+export function exportQuery(
+  query: string,
+  view: { unit: LedgerUnit; perM2: boolean },
+): string {
+  const params = new URLSearchParams(query);
+  if (view.unit !== "kWh") params.set("unit", view.unit);
+  if (view.perM2) params.set("per", "m2");
+  return params.toString();
 }
 
 /**

@@ -9,6 +9,7 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
+import { carrierColour } from "~/sites/carrier-colours";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 
 type Carrier = (typeof carriers)[number];
@@ -21,13 +22,6 @@ export interface CarrierMonth {
   /** kWh exported (≤ 0). */
   exported_kwh: number;
 }
-
-const colours: Record<Carrier, string> = {
-  heat: "#a9501f",
-  cooling: "#255f9e",
-  steam: "#6a4a9c",
-  electricity: "#7a5d00",
-};
 
 /**
  * Delivered and exported energy per month in MWh: one column per carrier,
@@ -110,7 +104,7 @@ export function CarrierChart({ data }: { data: CarrierMonth[] }) {
               name={s.name}
               // Delivered and exported of one carrier share a column.
               stackId={s.carrier}
-              fill={colours[s.carrier]}
+              fill={carrierColour(s.carrier)}
               fillOpacity={s.opacity}
               isAnimationActive={false}
             />

@@ -1,6 +1,7 @@
 import { Scatter, ScatterChart, Tooltip, XAxis, YAxis } from "recharts";
 import { useWidth } from "~/lib/use-width";
-import type { Interval } from "./use-intervals";
+import { carrierColour, type Carrier } from "~/sites/carrier-colours";
+import { qualityLabels, type Interval } from "./use-intervals";
 
 interface Cell {
   hour: number;
@@ -42,11 +43,16 @@ function cellsOf(
   return { cells, days: [...dayIndex.keys()] };
 }
 
-/** A sequential scale on |value|, light to dark, so both signs read the same way. */
-function colour(value: number, max: number): string {
+const rgbOf = (hex: string) =>
+  [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16));
+
+/**
+ * A sequential scale on |value|, from the paper to the meter's carrier
+ * colour (as on every chart), so both signs read the same way.
+ */
+function colour(value: number, max: number, to: number[]): string {
   const k = max > 0 ? Math.min(1, Math.abs(value) / max) : 0;
   const from = [245, 243, 238];
-  const to = value < 0 ? [28, 76, 128] : [138, 63, 22];
   const mix = from.map((f, i) => Math.round(f + (to[i] - f) * k));
   return `rgb(${mix.join(",")})`;
 }
@@ -58,11 +64,14 @@ const Y_AXIS_WIDTH = 56;
 export function CarpetPlot({
   intervals,
   timeZone,
+  carrier,
 }: {
   intervals: Interval[];
   timeZone: string;
+  carrier: Carrier;
 }) {
   const { ref, width } = useWidth();
+  const dark = rgbOf(carrierColour(carrier));
   const { cells, days } = cellsOf(intervals, timeZone);
   const max = Math.max(0, ...cells.map((c) => Math.abs(c.value)));
   const rowHeight = Math.max(6, Math.min(18, 480 / Math.max(1, days.length)));
@@ -77,7 +86,7 @@ export function CarpetPlot({
         y={cy - rowHeight / 2}
         width={w}
         height={rowHeight}
-        fill={payload ? colour(payload.value, max) : "none"}
+        fill={payload ? colour(payload.value, max, dark) : "none"}
         stroke={payload && payload.quality !== "measured" ? "#7a4b00" : "none"}
         strokeDasharray="2 1"
       />
@@ -126,7 +135,7 @@ export function CarpetPlot({
                   {c.value.toLocaleString("en-GB", {
                     maximumFractionDigits: 2,
                   })}{" "}
-                  kWh · {c.quality}
+                  kWh · {qualityLabels[c.quality].toLowerCase()}
                 </div>
               ) : null;
             }}

@@ -12,7 +12,7 @@ import {
 import { AgGridReact } from "ag-grid-react";
 import { useMemo } from "react";
 import { useWidth } from "~/lib/use-width";
-import type { Interval } from "./use-intervals";
+import { qualityLabels, type Interval } from "./use-intervals";
 
 // Only the modules this grid uses: the full set adds ~440 kB to the page.
 ModuleRegistry.registerModules([
@@ -33,13 +33,6 @@ const theme = themeQuartz.withParams({
 });
 
 /** Quality in the energy manager's words; the API keeps the stored names. */
-const qualityLabel: Record<Interval["quality"], string> = {
-  measured: "actual",
-  estimated: "estimated",
-  edited: "corrected",
-  missing: "missing",
-};
-
 /**
  * Below this width (a phone) the hour is pinned at the left in a shorter
  * form and every column keeps a readable width, scrolling sideways, instead
@@ -95,7 +88,7 @@ export function IntervalGrid({
         sort: "desc",
       },
       {
-        headerName: "Energy (kWh, signed)",
+        headerName: "Energy (kWh)",
         field: "energy_kwh",
         type: "numericColumn",
         valueGetter: (p) => Number(p.data?.energy_kwh),
@@ -107,10 +100,9 @@ export function IntervalGrid({
       {
         headerName: "Quality",
         field: "quality",
-        valueFormatter: (p) => qualityLabel[p.value as Interval["quality"]],
+        valueFormatter: (p) => qualityLabels[p.value as Interval["quality"]],
+        filterValueGetter: (p) => p.data && qualityLabels[p.data.quality],
         filter: "agTextColumnFilter",
-        filterValueGetter: (p) =>
-          p.data ? qualityLabel[p.data.quality] : undefined,
         cellStyle: (p) => ({
           color: qualityColour[p.value as Interval["quality"]],
           fontWeight: 600,

@@ -7,16 +7,24 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
+import { carrierColours, type Carrier } from "~/sites/carrier-colours";
 import type { Interval } from "./use-intervals";
 
-/** Hourly energy over the range; estimated and corrected hours in their own series. */
+/**
+ * Hourly energy over the range: actual hours in the carrier's colours (as on
+ * every chart), estimated and corrected hours in the caution colour the interval
+ * grid gives them.
+ */
 export function LoadProfile({
   intervals,
   timeZone,
+  carrier,
 }: {
   intervals: Interval[];
   timeZone: string;
+  carrier: Carrier;
 }) {
+  const colour = carrierColours[carrier];
   const tick = new Intl.DateTimeFormat("en-GB", {
     timeZone,
     day: "numeric",
@@ -77,9 +85,9 @@ export function LoadProfile({
           <Area
             type="stepAfter"
             dataKey="measured"
-            name="Measured"
-            stroke="#0f5546"
-            fill="#cfe5dc"
+            name="Actual"
+            stroke={colour.chart}
+            fill={colour.tint}
             isAnimationActive={false}
             connectNulls={false}
           />
@@ -87,8 +95,8 @@ export function LoadProfile({
             type="stepAfter"
             dataKey="other"
             name="Estimated or corrected"
-            stroke="#a9501f"
-            fill="#fbf0e8"
+            stroke="#7a4b00"
+            fill="#fdf4e3"
             isAnimationActive={false}
             connectNulls={false}
           />

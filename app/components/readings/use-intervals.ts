@@ -1,8 +1,19 @@
 import { useCallback, useEffect, useRef, useState } from "react";
-import type { IntervalPage } from "~/api/schemas";
+import type { Interval, IntervalPage } from "~/api/schemas";
 
 /** The API's own types (`GET …/intervals` answers `intervalPageSchema`). */
 export type { Interval, IntervalPage } from "~/api/schemas";
+
+/**
+ * Each quality in the trade's words: an hour read from a meter is "actual"
+ * (the API's `measured` stays the field value).
+ */
+export const qualityLabels: Record<Interval["quality"], string> = {
+  measured: "Actual",
+  estimated: "Estimated",
+  edited: "Corrected",
+  missing: "Missing",
+};
 
 /** While the newest range is open, new readings show up without a reload. */
 const POLL_MS = 15_000;

@@ -13,12 +13,20 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
+import { carrierColour, type Carrier } from "~/sites/carrier-colours";
 
 const INK = "#4f5966";
+const INK_STRONG = "#1a222d";
 const GRID = "#dcd6ca";
 const SPRUCE = "#0f5546";
-const COPPER = "#a9501f";
-const FROST = "#255f9e";
+
+/**
+ * Energy is drawn in its carrier's colour (app/sites/carrier-colours.ts), as
+ * on every chart; degree days, periods and reporting months in ink, so no
+ * other carrier's colour appears beside it.
+ */
+const energyColour = (carrier: Carrier | null) =>
+  carrier ? carrierColour(carrier) : SPRUCE;
 
 const monthFormat = new Intl.DateTimeFormat("en-GB", {
   month: "short",
@@ -33,8 +41,8 @@ export function monthLabel(month: string): string {
 
 const kwh = (v: unknown) =>
   `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 0 })} kWh`;
-const kd = (v: unknown) =>
-  `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 1 })} K·d`;
+const degreeDays = (v: unknown) =>
+  `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 1 })} degree days`;
 
 /** A round step of about a fifth of `max`: 1, 2, 2.5 or 5 times a power of ten. */
 function niceStep(max: number): number {
@@ -60,12 +68,14 @@ export interface ChartMonth {
 
 /** Monthly energy as bars, degree days as a line, the periods shaded. */
 export function DegreeDayChart({
+  carrier,
   months,
   ddLabel,
   energyLabel,
   baseline,
   reporting,
 }: {
+  carrier: Carrier | null;
   months: ChartMonth[];
   ddLabel: string;
   energyLabel: string;
@@ -106,15 +116,15 @@ export function DegreeDayChart({
           <YAxis
             yAxisId="dd"
             orientation="right"
-            stroke={COPPER}
+            stroke={INK_STRONG}
             width={64}
             ticks={ddTicks}
             domain={[0, ddTicks.at(-1)!]}
             label={{
-              value: "K·d",
+              value: "Degree days",
               angle: 90,
               position: "insideRight",
-              fill: COPPER,
+              fill: INK_STRONG,
             }}
           />
           {has(baseline.from) && has(baseline.to) ? (
@@ -132,18 +142,18 @@ export function DegreeDayChart({
               yAxisId="kwh"
               x1={monthLabel(reporting.from)}
               x2={monthLabel(reporting.to)}
-              fill="#eaf2fb"
+              fill="#ece8df"
               fillOpacity={0.6}
               label={{
                 value: "Reporting",
                 position: "insideTop",
-                fill: FROST,
+                fill: INK_STRONG,
               }}
             />
           ) : null}
           <Tooltip
             formatter={(value, name) =>
-              name === ddLabel ? [kd(value), name] : [kwh(value), name]
+              name === ddLabel ? [degreeDays(value), name] : [kwh(value), name]
             }
           />
           <Legend />
@@ -151,14 +161,14 @@ export function DegreeDayChart({
             yAxisId="kwh"
             dataKey="kwh"
             name={energyLabel}
-            fill={SPRUCE}
+            fill={energyColour(carrier)}
             isAnimationActive={false}
           />
           <Line
             yAxisId="dd"
             dataKey="dd"
             name={ddLabel}
-            stroke={COPPER}
+            stroke={INK_STRONG}
             strokeWidth={2}
             dot={{ r: 3 }}
             connectNulls={false}
@@ -178,11 +188,13 @@ export interface ScatterPoint {
 
 /** Energy against degree days: baseline and reporting months, and the model. */
 export function BaselineScatter({
+  carrier,
   baseline,
   reporting,
   line,
   ddLabel,
 }: {
+  carrier: Carrier | null;
   baseline: ScatterPoint[];
   reporting: ScatterPoint[];
   line: { intercept: number; slope: number } | null;
@@ -201,7 +213,7 @@ export function BaselineScatter({
     ),
   );
   const tooltip = (p: ScatterPoint) =>
-    `${monthLabel(p.month)}: ${kd(p.dd)}, ${kwh(p.kwh)}`;
+    `${monthLabel(p.month)}: ${degreeDays(p.dd)}, ${kwh(p.kwh)}`;
   return (
     <div
       style={{ width: "100%", height: 340 }}
@@ -219,7 +231,7 @@ export function BaselineScatter({
             ticks={ticks}
             stroke={INK}
             label={{
-              value: `${ddLabel} (K·d per month)`,
+              value: `${ddLabel} per month`,
               position: "insideBottom",
               offset: -12,
               fill: INK,
@@ -259,21 +271,22 @@ export function BaselineScatter({
                 { x: x0, y: line.intercept + line.slope * x0 },
                 { x: x1, y: line.intercept + line.slope * x1 },
               ]}
-              stroke={COPPER}
+              stroke={INK}
               strokeWidth={2}
+              strokeDasharray="6 4"
               ifOverflow="extendDomain"
             />
           ) : null}
           <Scatter
             name="Baseline months"
             data={baseline}
-            fill={SPRUCE}
+            fill={energyColour(carrier)}
             isAnimationActive={false}
           />
           <Scatter
             name="Reporting months"
             data={reporting}
-            fill={FROST}
+            fill={INK_STRONG}
             shape="diamond"
             isAnimationActive={false}
           />

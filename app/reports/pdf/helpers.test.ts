@@ -1,10 +1,17 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { axisFor, energyScale, niceStep, tickLabel } from "./charts/scale";
-import { fontFile, runs, subsetOf, woffToSfnt } from "./fonts.server";
+import {
+  fontFile,
+  registerFonts,
+  runs,
+  subsetOf,
+  woffToSfnt,
+} from "./fonts.server";
 import { band, factor, kwh, share, signedPercent } from "./format";
 import { tokens } from "./formula";
 import { flows } from "./sections/site-balance";
+import { textWidth, wrapLines } from "./text";
 import type { SiteReport } from "../data/types";
 
 describe("fonts", () => {
@@ -131,5 +138,23 @@ describe("the balance diagram's flows", () => {
     ]);
     const sum = (fs: typeof inflows) => fs.reduce((s, f) => s + f.kwh, 0);
     expect(sum(inflows)).toBe(sum(outflows));
+  });
+});
+
+describe("wrapping", () => {
+  it("breaks lines at spaces but never at a no-break space", async () => {
+    const { default: PDFDocument } = await import("pdfkit");
+    const doc = new PDFDocument({ size: "A4" });
+    registerFonts(doc);
+    const style = { size: 8 };
+    const width = textWidth(doc, "HDD (15.5", style) + 1;
+    expect(wrapLines(doc, "HDD (15.5 °C)", width, style)).toEqual([
+      "HDD (15.5",
+      "°C)",
+    ]);
+    expect(wrapLines(doc, "HDD (15.5\u00a0°C)", width, style)).toEqual([
+      "HDD",
+      "(15.5\u00a0°C)",
+    ]);
   });
 });

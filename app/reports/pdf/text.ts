@@ -152,9 +152,13 @@ export function paragraphHeight(
   return doc.heightOfString(text, { width, lineGap });
 }
 
+/** Where a line may break: any white space but the no-break space. */
+const BREAK = /[^\S\u00a0]+/;
+
 /**
  * Greedy word wrap into lines no wider than `width`; a word longer than the
- * line is cut with an ellipsis rather than overflow.
+ * line is cut with an ellipsis rather than overflow. A no-break space holds
+ * its neighbours together ("15.5 °C").
  */
 export function wrapLines(
   doc: PDFKit.PDFDocument,
@@ -165,7 +169,7 @@ export function wrapLines(
   const lines: string[] = [];
   for (const paragraphText of text.split("\n")) {
     let line = "";
-    for (const word of paragraphText.split(/\s+/).filter(Boolean)) {
+    for (const word of paragraphText.split(BREAK).filter(Boolean)) {
       const candidate = line ? `${line} ${word}` : word;
       if (!line || textWidth(doc, candidate, style) <= width) line = candidate;
       else {

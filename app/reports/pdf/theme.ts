@@ -3,6 +3,7 @@
  * dark ink, deep spruce for the product, copper for heat, a clear blue for
  * cooling. Sizes are PDF points (1/72 in).
  */
+import { carrierColour } from "~/sites/carrier-colours";
 import type { Carrier } from "../data/types";
 
 export const colours = {
@@ -27,12 +28,12 @@ export const colours = {
   caution700: "#7a4b00",
 } as const;
 
-/** The carriers' colours on the Overview and balance charts. */
+/** The carriers' colours, the app's own (app/sites/carrier-colours.ts). */
 export const carrierColours: Record<Carrier, string> = {
-  heat: "#a9501f",
-  cooling: "#255f9e",
-  steam: "#6a4a9c",
-  electricity: "#7a5d00",
+  heat: carrierColour("heat"),
+  cooling: carrierColour("cooling"),
+  steam: carrierColour("steam"),
+  electricity: carrierColour("electricity"),
 };
 
 export const carrierNames: Record<Carrier, string> = {

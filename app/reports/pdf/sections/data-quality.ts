@@ -1,4 +1,4 @@
-/** The data behind the figures: hours measured, estimated, edited, missing. */
+/** The data behind the figures: hours actual, estimated, edited, missing. */
 import type { DataQuality, MeterQuality, ReportData } from "../../data/types";
 import { compactDateTime, integer, share } from "../format";
 import { body, heading, space } from "../layout";
@@ -9,8 +9,8 @@ function summary(q: DataQuality): string {
   const of = (n: number) =>
     q.expectedHours > 0 ? ` (${share(n / q.expectedHours, 2)})` : "";
   return [
-    `Of ${integer(q.expectedHours)} meter-hours expected in the period, ${integer(q.measuredHours)} were measured${of(q.measuredHours)}, ${integer(q.estimatedHours)} estimated${of(q.estimatedHours)}, ${integer(q.editedHours)} edited and ${integer(q.missingHours)} missing${of(q.missingHours)}.`,
-    `${q.silentMeters} meter${q.silentMeters === 1 ? " was" : "s were"} silent for ${q.silentAfterHours} hours or more at a stretch.`,
+    `Of ${integer(q.expectedHours)} meter-hours expected in the period, ${integer(q.measuredHours)} were actual readings${of(q.measuredHours)}, ${integer(q.estimatedHours)} estimated${of(q.estimatedHours)}, ${integer(q.editedHours)} edited and ${integer(q.missingHours)} missing${of(q.missingHours)}.`,
+    `${q.silentMeters} meter${q.silentMeters === 1 ? " had" : "s had"} no data for ${q.silentAfterHours} hours or more at a stretch.`,
     `${integer(q.conflicts)} reading${q.conflicts === 1 ? "" : "s"} disagreed with one already stored and ${q.conflicts === 1 ? "was" : "were"} kept for review (${integer(q.openConflicts)} still open).`,
   ].join(" ");
 }
@@ -62,7 +62,7 @@ export function drawDataQuality(
   body(doc, summary(q));
   body(
     doc,
-    `Expected hours are those in the period while each meter was installed, in its site's time zone, up to the time of generation (${compactDateTime(data.generatedAt, data.timeZone)}). Estimated hours fill gaps and are marked so in every total; edited hours were corrected by hand with a reason. The longest silence is the longest run of hours without a measured value.`,
+    `Expected hours are those in the period while each meter was installed, in its site's time zone, up to the time of generation (${compactDateTime(data.generatedAt, data.timeZone)}). Estimated hours fill gaps and are marked so in every total; edited hours were corrected by hand with a reason. The longest gap is the longest run of hours without an actual reading.`,
     { color: colours.inkMuted, size: 8.5 },
   );
   space(doc, 4);
@@ -81,11 +81,11 @@ export function drawDataQuality(
     columns: [
       { header: "Meter", width: w[0] },
       { header: "Expected (h)", width: w[1], align: "right" },
-      { header: "Measured (h)", width: w[2], align: "right" },
+      { header: "Actual (h)", width: w[2], align: "right" },
       { header: "Estimated (h)", width: w[3], align: "right" },
       { header: "Edited (h)", width: w[4], align: "right" },
       { header: "Missing (h)", width: w[5], align: "right" },
-      { header: "Longest silence (h)", width: w[6], align: "right" },
+      { header: "Longest gap (h)", width: w[6], align: "right" },
       { header: "Conflicts", width: w[7], align: "right" },
     ],
     rows: [

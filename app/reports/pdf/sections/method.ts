@@ -142,12 +142,12 @@ function degreeDays(doc: PDFKit.PDFDocument, data: ReportData) {
   drawTable(doc, {
     columns: [
       { header: "Site", width: 220 },
-      { header: "Degree-day base (°C)", width: 110, align: "right" },
+      { header: "Degree day base (°C)", width: 110, align: "right" },
     ],
     rows: data.method.degreeDayBases.map((b) => ({
       cells: [b.siteName, b.baseC.toFixed(1)],
     })),
-    caption: "Degree-day bases",
+    caption: "Degree day bases",
   });
 }
 

@@ -134,7 +134,7 @@ export function drawSiteBalance(
   drawBalanceChart(doc, chart);
   body(
     doc,
-    "The site as a thermodynamic system: heat Q and work W signed, into the site positive. Boundary meters only, with the ledger's figures for the period: what entered the site on the left, what left it on the right, and the net Q + W, which was used or lost within the boundary. Cooling delivered is heat leaving the site, so it stands on the right. Both sides add up to the same energy. This is the only place the report adds carriers together.",
+    "The site as a thermodynamic system: heat Q and work W into the site positive, out of it negative. Boundary meters only, with the ledger's figures for the period: what entered the site on the left, what left it on the right, and the net Q + W, which was used or lost within the boundary. Cooling delivered is heat leaving the site, so it stands on the right. Both sides add up to the same energy. This is the only place the report adds carriers together.",
     { color: colours.inkMuted, size: 8.5 },
   );
   if (site.balance.residuals.length === 0) return;

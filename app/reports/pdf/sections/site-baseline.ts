@@ -4,6 +4,7 @@
  * degree days (line), the model and its Guideline 14 statistics, the
  * months in a table and the avoided energy use over the period.
  */
+import { degreeDayLabel } from "~/baselines/degree-days";
 import type {
   Assessment,
   BaselineComparison,
@@ -16,8 +17,6 @@ import { body, heading, space } from "../layout";
 import { drawTable, widths, type Row } from "../table";
 import { carrierColours, carrierNames, colours } from "../theme";
 import { monthlyByCarrierOfSite } from "./site-charts";
-
-const driverName = { hdd: "HDD", cdd: "CDD" } as const;
 
 function verdict(
   a: Assessment,
@@ -41,12 +40,12 @@ function drawModel(doc: PDFKit.PDFDocument, b: BaselineComparison) {
   body(doc, [
     { text: "Model: ", weight: "semibold" },
     {
-      text: `E = ${magnitude(b.intercept)} kWh + ${b.slope.toFixed(2)} kWh per K·day × ${driverName[b.driver]}, ordinary least squares on ${b.n} ${b.granularity} periods (${months}), degree days to base ${b.baseC.toFixed(1)} °C.`,
+      text: `E = ${magnitude(b.intercept)} kWh + ${b.slope.toFixed(2)} kWh per degree day × ${degreeDayLabel(b.driver, b.baseC)}, ordinary least squares on ${b.n} ${b.granularity} periods (${months}), degree days to a base of ${b.baseC.toFixed(1)} °C.`,
     },
     ...(b.baseC !== b.siteBaseC
       ? [
           {
-            text: ` The site's degree-day base is now ${b.siteBaseC.toFixed(1)} °C; the model keeps the base it was fitted with.`,
+            text: ` The site's degree day base is now ${b.siteBaseC.toFixed(1)} °C; the model keeps the base it was fitted with.`,
             color: colours.caution700,
           },
         ]
@@ -114,8 +113,8 @@ function drawMonths(doc: PDFKit.PDFDocument, b: BaselineComparison) {
   drawTable(doc, {
     columns: [
       { header: "Month", width: w[0] },
-      { header: "HDD (K·d)", width: w[1], align: "right" },
-      { header: "CDD (K·d)", width: w[2], align: "right" },
+      { header: degreeDayLabel("hdd", b.baseC), width: w[1], align: "right" },
+      { header: degreeDayLabel("cdd", b.baseC), width: w[2], align: "right" },
       { header: "Expected (kWh)", width: w[3], align: "right" },
       { header: "Metered (kWh)", width: w[4], align: "right" },
       { header: "Difference", width: w[5], align: "right" },

@@ -18,7 +18,7 @@ function facts(site: SiteReport): string {
   const closed = [...months.values()].filter(Boolean).length;
   return [
     `Time zone ${site.timeZone}`,
-    `degree-day base ${site.degreeDayBaseC.toFixed(1)} °C`,
+    `degree day base ${site.degreeDayBaseC.toFixed(1)} °C`,
     site.floorAreaM2 === null
       ? "floor area not recorded"
       : `floor area ${integer(site.floorAreaM2)} m²`,

@@ -157,7 +157,7 @@ export function drawSummary(doc: PDFKit.PDFDocument, data: ReportData): void {
       weight: "semibold",
     },
     {
-      text: " (delivered and exported energy, as EN ISO 52000-1 names them). Chilled water is cooling delivered, a positive quantity of its own carrier. Unlike carriers are never added into one kWh figure. The signed thermodynamic view (heat and work into the site positive) appears only in each site's energy balance. The estimated column is the share of the energy that comes from estimated hours; the band is the EN 1434 maximum permissible error of rated heat meters, added up.",
+      text: " (delivered and exported energy, as EN ISO 52000-1 names them). Chilled water is cooling delivered, a positive quantity of its own carrier. Unlike carriers are never added into one kWh figure. The thermodynamic view (heat and work into the site positive) appears only in each site's energy balance. The estimated column is the share of the energy that comes from estimated hours; the band is the EN 1434 maximum permissible error of rated heat meters, added up.",
     },
   ]);
   space(doc, 4);
