@@ -25,8 +25,8 @@ export async function silentMeterConditions(
     kind: "silent_meter",
     subject: m.meter_id,
     site: m.site_name,
-    title: `Meter ${m.code} has been silent for over ${hours} hours`,
-    detail: `${m.name} at ${m.site_name}: ${m.last_hour ? `last measured hour ${m.last_hour}` : "no measured hour yet"}.`,
+    title: `No data from meter ${m.code} for over ${hours} hours`,
+    detail: `${m.name} at ${m.site_name}: ${m.last_hour ? `last actual hour ${m.last_hour}` : "no actual hour yet"}.`,
   }));
 }
 

@@ -46,7 +46,7 @@ const mailsAbout = async (email: string, text: string) =>
   );
 
 describe("alert e-mails", () => {
-  it("mails a silent meter once, not again while it stays silent, and again after it clears and recurs", async () => {
+  it("mails a meter that sends no data once, not again while it stays quiet, and again after it clears and recurs", async () => {
     const org = await createMeteredOrg({
       roles: ["energy_manager", "auditor"],
     });
@@ -69,14 +69,16 @@ describe("alert e-mails", () => {
     const first = await runAlerts(org.org.id);
     expect(first.opened.map((c) => c.kind)).toContain("silent_meter");
     expect(
-      await mailsAbout(manager.email, `Meter ${code} has been silent`),
+      await mailsAbout(manager.email, `No data from meter ${code}`),
     ).toHaveLength(1);
     // Auditors are not mailed unless they ask.
-    expect(await mailsAbout(auditor.email, "silent")).toHaveLength(0);
+    expect(await mailsAbout(auditor.email, "No data from meter")).toHaveLength(
+      0,
+    );
 
     await runAlerts(org.org.id);
     expect(
-      await mailsAbout(manager.email, `Meter ${code} has been silent`),
+      await mailsAbout(manager.email, `No data from meter ${code}`),
     ).toHaveLength(1);
 
     // It reports again: the alert clears; silence later alerts again.
@@ -99,7 +101,7 @@ describe("alert e-mails", () => {
     const later = new Date(Date.now() + 40 * 3_600_000);
     await runAlerts(org.org.id, later);
     expect(
-      await mailsAbout(manager.email, `Meter ${code} has been silent`),
+      await mailsAbout(manager.email, `No data from meter ${code}`),
     ).toHaveLength(2);
   });
 
@@ -135,9 +137,9 @@ describe("alert e-mails", () => {
       ).status,
     ).toBe(200);
     await runAlerts(org.org.id);
-    expect(await mailsAbout(owner.email, "has been silent")).toHaveLength(0);
+    expect(await mailsAbout(owner.email, "No data from meter")).toHaveLength(0);
     expect(
-      (await mailsAbout(auditor.email, "has been silent")).length,
+      (await mailsAbout(auditor.email, "No data from meter")).length,
     ).toBeGreaterThan(0);
   });
 });
@@ -221,14 +223,12 @@ describe("alert digests", () => {
       expect(siteAt).toBeGreaterThan(annexeAt);
       expect(wholeAt).toBeGreaterThan(siteAt);
       for (const code of annexe) {
-        expect(at(`Meter ${code} has been silent`)).toBeGreaterThan(annexeAt);
-        expect(at(`Meter ${code} has been silent`)).toBeLessThan(siteAt);
+        expect(at(`No data from meter ${code}`)).toBeGreaterThan(annexeAt);
+        expect(at(`No data from meter ${code}`)).toBeLessThan(siteAt);
       }
       for (const meter of Object.values(org.meters)) {
-        expect(at(`Meter ${meter.code} has been silent`)).toBeGreaterThan(
-          siteAt,
-        );
-        expect(at(`Meter ${meter.code} has been silent`)).toBeLessThan(wholeAt);
+        expect(at(`No data from meter ${meter.code}`)).toBeGreaterThan(siteAt);
+        expect(at(`No data from meter ${meter.code}`)).toBeLessThan(wholeAt);
       }
       expect(at("is ready to close")).toBeGreaterThan(wholeAt);
     }
@@ -257,7 +257,9 @@ describe("alert digests", () => {
     expect(mails[0].subject).toMatch(/new alerts in 2 organisations$/);
     for (const org of [first, second]) {
       expect(mails[0].text).toContain(`== ${org.org.name} ==`);
-      expect(mails[0].text).toContain(`Meter ${org.meters.water.code}`);
+      expect(mails[0].text).toContain(
+        `No data from meter ${org.meters.water.code}`,
+      );
     }
     // The other owner gets only their own organisation's.
     const [otherOwner] = second.org.members;

@@ -255,6 +255,8 @@ describe("report content", () => {
     expect(text).toContain("Provisional: 2 of 3 months open");
     expect(text).toContain("Adjusting entries");
     expect(text).toContain(owner.name);
+    // The saved model's periods span two months: the page's caution, printed.
+    expect(flat).toContain("Caution: Fitted on 2 months, fewer than the 12");
     expect(flat).toContain("Figures are for energy management, not for trade.");
     expect(flat).toContain(
       "Billing third parties from sub-meters needs meters approved under your local legal-metrology rules.",

@@ -14,6 +14,7 @@ import {
   assessFit,
   avoidedEnergy,
   predict,
+  shortBaselineWarning,
   type StoredModel,
 } from "~/baselines/regression";
 import type { BaselineComparison, BaselineMonth, Carrier } from "./types";
@@ -101,6 +102,8 @@ export function compareWithBaseline(args: {
     cvrmse: model.cvrmse,
     nmbe: model.nmbe,
     assessment: assessFit(model, baseline.granularity),
+    // The same rule as the Weather & baselines page, from the saved periods.
+    shortFitWarning: shortBaselineWarning(model.points),
     createdAt: baseline.createdAt,
     createdBy: baseline.createdBy,
     months: rows,

@@ -132,6 +132,28 @@ describe("a saved baseline against the report's months", () => {
     // 28 × 20.5 = 574 K·d, above the 400 the model saw.
     expect(c.months[0]).toMatchObject({ dd: 574, extrapolated: true });
   });
+
+  it("carries the page's caution when the model saw under a year of months", () => {
+    const args = {
+      siteBaseC: 15.5,
+      months: ["2025-02"],
+      temperatures,
+      actualKwh: new Map([["2025-02", 600]]),
+    };
+    // The fixture's model was fitted on two calendar months.
+    expect(compareWithBaseline({ ...args, baseline }).shortFitWarning).toMatch(
+      /^Fitted on 2 months, fewer than the 12 of a full year/,
+    );
+    const year = Array.from({ length: 12 }, (_, m) => ({
+      month: `2024-${String(m + 1).padStart(2, "0")}`,
+      dd: 100 + 25 * m,
+      kwh: 300 + 50 * m,
+    }));
+    const full = { ...baseline, model: { ...baseline.model, points: year } };
+    expect(
+      compareWithBaseline({ ...args, baseline: full }).shortFitWarning,
+    ).toBeNull();
+  });
 });
 
 describe("the site balance of a period", () => {

@@ -107,6 +107,8 @@ export interface BaselineComparison {
   cvrmse: number | null;
   nmbe: number | null;
   assessment: { cvrmse: Assessment; nmbe: Assessment };
+  /** Fitted on under a year of months: the caution to print, else null. */
+  shortFitWarning: string | null;
   createdAt: string;
   createdBy: string | null;
   months: BaselineMonth[];

@@ -84,6 +84,8 @@ function site(name: string, withData: boolean): SiteReport {
               cvrmse: { value: 22, limit: 15, pass: false },
               nmbe: { value: -6, limit: 5, pass: false },
             },
+            shortFitWarning:
+              "Fitted on 9 months, fewer than the 12 of a full year: treat with caution.",
             createdAt: "2025-01-01T00:00:00.000Z",
             createdBy: null,
             months: months.map((month, i) => ({

@@ -54,6 +54,12 @@ function drawModel(doc: PDFKit.PDFDocument, b: BaselineComparison) {
       text: ` Saved ${b.createdAt.slice(0, 10)}${b.createdBy ? ` by ${b.createdBy}` : ""}.`,
     },
   ]);
+  if (b.shortFitWarning) {
+    body(doc, [
+      { text: "Caution: ", weight: "semibold", color: colours.caution700 },
+      { text: b.shortFitWarning, color: colours.caution700 },
+    ]);
+  }
   const limits = b.assessment;
   drawTable(doc, {
     columns: [
