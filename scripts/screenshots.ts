@@ -39,7 +39,18 @@ for (const [label, viewport] of [
   await page.goto(`${base}${orgPath}/ledger`);
   await page.locator('[row-id^="total"]').first().waitFor();
   await page.screenshot({ path: `${out}/${label}-ledger.png`, fullPage: true });
-  for (const path of ["members", "audit", "../../outbox", "../../account"]) {
+  for (const path of [
+    "sites",
+    "readings",
+    "weather",
+    "reports",
+    "billing",
+    "gateways",
+    "members",
+    "audit",
+    "../../outbox",
+    "../../account",
+  ]) {
     // Pages that fetch their rows after loading (the audit trail) are
     // pictured once the network is quiet.
     await page.goto(new URL(path, `${base}${orgPath}/`).href, {

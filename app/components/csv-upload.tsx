@@ -169,8 +169,8 @@ export function CsvUpload({ orgId }: { orgId: string }) {
         </label>
         <p id="csv-hint" className="text-sm text-ink-muted">
           Header row with the API's field names, e.g.{" "}
-          <code>meter,quantity,time,register_kwh</code> or{" "}
-          <code>
+          <code className="break-all">meter,quantity,time,register_kwh</code> or{" "}
+          <code className="break-all">
             meter,quantity,start,end,volume_m3,flow_temp_c,return_temp_c,pressure_bar_abs
           </code>
           .

@@ -128,3 +128,22 @@ describe("on a phone", () => {
     expect(await onScreen(hour)).toBe(true);
   });
 });
+
+describe("no page of an organisation scrolls sideways on a phone", () => {
+  const pages = [
+    "overview",
+    "sites",
+    "readings",
+    "weather",
+    "gateways",
+    "reports",
+    "members",
+    "audit",
+  ];
+  it.each(pages)("%s", async (path) => {
+    await open(`/o/${org.org.id}/${path}`);
+    expect(
+      await page.evaluate(() => document.documentElement.scrollWidth),
+    ).toBeLessThanOrEqual(PHONE.width);
+  });
+});
