@@ -30,3 +30,21 @@ export const carrierColours: Record<Carrier, CarrierColour> = {
 export function carrierColour(carrier: Carrier): string {
   return carrierColours[carrier].chart;
 }
+
+/** How much white an exported bar takes: light, yet visible on the page. */
+const EXPORT_MIX = 0.55;
+
+/**
+ * Exported energy of a carrier in charts: its colour mixed with white, so a
+ * legend swatch (which ignores a bar's opacity) tells it from delivered.
+ */
+export function carrierExportColour(carrier: Carrier): string {
+  const hex = carrierColours[carrier].chart;
+  const mixed = [1, 3, 5].map((i) => {
+    const channel = parseInt(hex.slice(i, i + 2), 16);
+    return Math.round(channel + (255 - channel) * EXPORT_MIX)
+      .toString(16)
+      .padStart(2, "0");
+  });
+  return `#${mixed.join("")}`;
+}

@@ -9,7 +9,7 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
-import { carrierColour } from "~/sites/carrier-colours";
+import { carrierColour, carrierExportColour } from "~/sites/carrier-colours";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 
 type Carrier = (typeof carriers)[number];
@@ -51,7 +51,7 @@ export function CarrierChart({ data }: { data: CarrierMonth[] }) {
       key: `${c}:delivered`,
       carrier: c,
       name: `${carrierLabels[c]} delivered`,
-      opacity: 1,
+      fill: carrierColour(c),
     },
     ...(exporting.has(c)
       ? [
@@ -59,7 +59,7 @@ export function CarrierChart({ data }: { data: CarrierMonth[] }) {
             key: `${c}:exported`,
             carrier: c,
             name: `${carrierLabels[c]} exported`,
-            opacity: 0.45,
+            fill: carrierExportColour(c),
           },
         ]
       : []),
@@ -104,8 +104,7 @@ export function CarrierChart({ data }: { data: CarrierMonth[] }) {
               name={s.name}
               // Delivered and exported of one carrier share a column.
               stackId={s.carrier}
-              fill={carrierColour(s.carrier)}
-              fillOpacity={s.opacity}
+              fill={s.fill}
               isAnimationActive={false}
             />
           ))}
