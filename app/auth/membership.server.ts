@@ -4,6 +4,7 @@ import { db } from "~/db/client.server";
 import { memberships, organizations } from "~/db/schema";
 import { isUuid } from "~/lib/ids";
 import { can, type Permission, type Role } from "./permissions";
+import { countWork } from "./request-counters.server";
 import { requireUser, type SignedInUser } from "./session.server";
 
 export interface OrganizationContext {
@@ -32,6 +33,7 @@ export function forbidden(message = "Your role does not allow this."): never {
 
 export async function findMembership(userId: string, organizationId: string) {
   if (!isUuid(organizationId)) return null;
+  countWork("membershipReads");
   const [row] = await db
     .select({
       id: organizations.id,
@@ -73,6 +75,7 @@ export async function requireMembership(
 }
 
 export async function listMemberships(userId: string) {
+  countWork("membershipReads");
   return db
     .select({
       id: organizations.id,

@@ -1,5 +1,6 @@
 import { redirect } from "react-router";
 import { lucia, type AuthSession, type AuthUser } from "./lucia.server";
+import { countWork } from "./request-counters.server";
 
 export type SignedInUser = AuthUser;
 
@@ -32,6 +33,7 @@ export async function getCurrentSession(
 ): Promise<CurrentSession | null> {
   const sessionId = sessionIdFrom(request);
   if (!sessionId) return null;
+  countWork("sessionValidations");
   const { session, user } = await lucia.validateSession(sessionId);
   if (!session || !user) return null;
   const refreshCookie = session.fresh
