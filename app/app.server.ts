@@ -12,6 +12,7 @@ import { pool } from "./db/client.server";
 import { databaseGate } from "./db/unavailable.server";
 import { estimationIdle } from "./ingest/after-ingest.server";
 import { requestInfoContext } from "./request-context";
+import { countingUnder, takeCounts } from "./auth/request-counters.server";
 import { runAllAlerts } from "./alerts/run-alerts.server";
 import { env } from "./env.server";
 import { pruneAuthRecords } from "./auth/housekeeping.server";
@@ -19,6 +20,20 @@ import { reconcileBilling } from "./billing/reconcile.server";
 import { reportJobsIdle, resumeReportJobs } from "./reports/report-jobs.server";
 
 export const app = express();
+
+// Tests count the work one request does (the test server only): a request
+// carrying `x-joulebook-count: <key>` is tallied, and the tally is read back
+// from /__counters/<key>.
+if (env().JOULEBOOK_TEST_COUNTERS === "1") {
+  app.get("/__counters/:key", (req, res) => {
+    res.json(takeCounts(req.params.key));
+  });
+  app.use((req, _res, next) => {
+    const key = req.get("x-joulebook-count");
+    if (key) countingUnder(key, next);
+    else next();
+  });
+}
 
 app.use(databaseGate);
 app.use("/api/v1", apiRouter());

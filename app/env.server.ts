@@ -45,6 +45,9 @@ const envSchema = z
       .enum(["0", "1"], { error: "DEMO_LIVE must be 0 (off) or 1 (on)" })
       .default("1"),
     TRUST_PROXY: z.enum(["0", "1"]).default("0"),
+    // The test server counts session validations and membership reads per
+    // request (app/auth/request-counters.server.ts); never set in production.
+    JOULEBOOK_TEST_COUNTERS: z.enum(["0", "1"]).default("0"),
     ALERTS_INTERVAL_MINUTES: z.coerce
       .number({ error: "ALERTS_INTERVAL_MINUTES must be a number" })
       .int()

@@ -1,10 +1,17 @@
+/**
+ * The API's access checks. Each request's signed-in person is resolved at
+ * most once (`RequestPrincipal`, the pages' resolver too) and kept in
+ * `res.locals`; every check asks `can(role, permission)` of the one
+ * permission table, as pages do.
+ */
 import type { NextFunction, Request, Response } from "express";
 import {
   authenticateGateway,
   type GatewayPrincipal,
 } from "~/auth/gateway.server";
 import { bearerToken } from "~/auth/gateway-keys.server";
-import { getCurrentSession } from "~/auth/session.server";
+import { can, type Permission, type Role } from "~/auth/permissions";
+import { RequestPrincipal } from "~/auth/request-principal.server";
 import { sendError } from "./respond.server";
 
 export interface UserPrincipal {
@@ -16,16 +23,29 @@ export type ApiPrincipal = GatewayPrincipal | UserPrincipal;
 
 declare module "express-serve-static-core" {
   interface Locals {
+    /** The signed-in person, once resolved (null: nobody is signed in). */
+    person?: RequestPrincipal | null;
+    /** Who called a gateway route: a gateway's key or a signed-in person. */
     principal?: ApiPrincipal;
+    /** Who called a member route, and for which organisation. */
+    member?: { userId: string; organizationId: string; role: Role };
   }
 }
 
-/** A Fetch API request carrying only the cookie, for the session check. */
-function cookieRequest(req: Request): globalThis.Request {
-  const url = `${req.protocol}://${req.get("host") ?? "localhost"}${req.originalUrl}`;
-  return new globalThis.Request(url, {
-    headers: { cookie: req.get("cookie") ?? "" },
-  });
+/** The request's signed-in person: its session validated once per request. */
+async function signedInPerson(
+  req: Request,
+  res: Response,
+): Promise<RequestPrincipal | null> {
+  if (res.locals.person === undefined) {
+    const url = `${req.protocol}://${req.get("host") ?? "localhost"}${req.originalUrl}`;
+    res.locals.person = await RequestPrincipal.resolve(
+      new globalThis.Request(url, {
+        headers: { cookie: req.get("cookie") ?? "" },
+      }),
+    );
+  }
+  return res.locals.person;
 }
 
 /**
@@ -49,12 +69,12 @@ export function requirePrincipal(options: { allowSession: boolean }) {
         res.locals.principal = gateway;
         return next();
       }
-      if (options.allowSession) {
-        const current = await getCurrentSession(cookieRequest(req));
-        if (current) {
-          res.locals.principal = { kind: "user", userId: current.user.id };
-          return next();
-        }
+      const person = options.allowSession
+        ? await signedInPerson(req, res)
+        : null;
+      if (person) {
+        res.locals.principal = { kind: "user", userId: person.user.id };
+        return next();
       }
       sendError(
         res,
@@ -62,6 +82,39 @@ export function requirePrincipal(options: { allowSession: boolean }) {
         "unauthenticated",
         "Send a gateway key as `Authorization: Bearer <key>`.",
       );
+    } catch (error) {
+      next(error);
+    }
+  };
+}
+
+/**
+ * Session-authenticated routes under /orgs/:orgId: the signed-in person must
+ * be a member (else 404, as for pages) whose role has the permission (else
+ * 403).
+ */
+export function requireOrgMember(permission: Permission) {
+  return async (req: Request, res: Response, next: NextFunction) => {
+    try {
+      const person = await signedInPerson(req, res);
+      if (!person)
+        return sendError(res, 401, "unauthenticated", "Sign in first.");
+      const membership = await person.membershipOf(String(req.params.orgId));
+      if (!membership)
+        return sendError(res, 404, "not_found", "No such organisation.");
+      if (!can(membership.role, permission))
+        return sendError(
+          res,
+          403,
+          "forbidden",
+          "Your role does not allow this.",
+        );
+      res.locals.member = {
+        userId: person.user.id,
+        organizationId: membership.organization.id,
+        role: membership.role,
+      };
+      next();
     } catch (error) {
       next(error);
     }

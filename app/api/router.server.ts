@@ -1,7 +1,6 @@
 import express, { Router, type RequestHandler } from "express";
 import type { Access, RequestBody } from "./api-route.server";
-import { requireOrgMember } from "./org-member.server";
-import { requirePrincipal } from "./principal.server";
+import { requireOrgMember, requirePrincipal } from "./principal.server";
 import { apiRoutes } from "./routes.server";
 import { apiErrorHandler, sendError } from "./respond.server";
 

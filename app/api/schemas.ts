@@ -5,29 +5,37 @@
  * `/api/v1/openapi.json`, and the pages' data hooks take their types from
  * them (`z.output<…>`), so the three cannot drift apart.
  *
- * Request bodies with rules of their own live beside their domain:
- * `~/physics/evaluate-schema`, `~/ingest/reading-schema`,
- * `~/reports/report-request`.
+ * Request bodies with rules of their own, and the answers the domain's own
+ * reads return, live beside their domain: `~/physics/evaluate-schema`,
+ * `~/ingest/reading-schema`, `~/reports/report-request`,
+ * `~/ledger/ledger-schema`, `~/ingest/interval-schema`,
+ * `~/reports/verify-outcome`; they are re-exported here.
  */
 import { z } from "zod";
 import { MONTH_PATTERN } from "~/lib/months";
 import { ledgerUnits } from "~/ledger/ledger-units";
 import { reportSummarySchema } from "~/reports/report-summary";
+import { intervalSchema } from "~/ingest/interval-schema";
+import { carrier, CARRIERS, id } from "~/lib/wire-schemas";
+
+// Shapes that live beside their domain, so the domain need not reach up
+// into the API for them; the API's contract is still read from here.
+export {
+  carrierTotalSchema,
+  ledgerRowSchema,
+  ledgerSchema,
+  type CarrierTotal,
+  type Ledger,
+  type LedgerRow,
+} from "~/ledger/ledger-schema";
+export { intervalSchema, type Interval } from "~/ingest/interval-schema";
+export {
+  verifyOutcomeSchema,
+  type VerifyOutcome,
+} from "~/reports/verify-outcome";
+export { CARRIERS } from "~/lib/wire-schemas";
 
 // ---------------------------------------------------------------- shared --
-
-/** Any 8-4-4-4-12 hex id, the form PostgreSQL's uuid type takes (`isUuid`). */
-const id = () => z.guid();
-
-/** Exact PostgreSQL numerics travel as decimal text, never as doubles. */
-const decimalKwh = (description: string) =>
-  z
-    .string()
-    .regex(/^-?\d+(\.\d+)?$/)
-    .describe(`${description}, kWh as exact decimal text`);
-
-export const CARRIERS = ["heat", "cooling", "steam", "electricity"] as const;
-const carrier = z.enum(CARRIERS);
 
 /** Every API error: a code, a sentence, and (for `invalid_body`) field issues. */
 export const errorBodySchema = z.strictObject({
@@ -99,16 +107,6 @@ export const intervalsQuerySchema = z.strictObject({
     .describe("At most 93 days after from; default: the newest week"),
 });
 
-export const intervalSchema = z.strictObject({
-  hour_start: z.iso.datetime(),
-  energy_kwh: decimalKwh("Signed energy of the hour (into the site +)"),
-  quality: z.enum(["measured", "estimated", "edited", "missing"]),
-  flags: z.array(z.string()),
-  estimate_method: z.string().nullable(),
-  source_count: z.number().int().describe("Readings behind the hour"),
-});
-export type Interval = z.output<typeof intervalSchema>;
-
 export const intervalPageSchema = z.strictObject({
   meter: z.strictObject({
     id: id(),
@@ -161,54 +159,6 @@ export const ledgerExportQuerySchema = ledgerQuerySchema.extend({
     .describe("m2: figures per square metre of the site's floor area"),
 });
 
-/**
- * One site × month × carrier: delivered (imports, ≥ 0) and exported
- * (exports, ≤ 0) energy of that carrier. Chilled water is cooling delivered,
- * a positive figure.
- */
-export const ledgerRowSchema = z.strictObject({
-  site_id: id(),
-  site_name: z.string(),
-  floor_area_m2: z.string().nullable().describe("Decimal text, m²"),
-  month: z.string().regex(MONTH_PATTERN),
-  carrier,
-  imports_kwh: decimalKwh("Delivered, ≥ 0"),
-  exports_kwh: decimalKwh("Exported, ≤ 0"),
-  net_kwh: decimalKwh("imports + exports"),
-  estimated_kwh: decimalKwh("The estimated part"),
-  estimated_share: z.number().describe("Estimated share of the energy, 0–1"),
-  uncertainty_kwh: decimalKwh("EN 1434 band (heat and cooling)").nullable(),
-  status: z.enum(["open", "closed"]),
-  adjustments_kwh: decimalKwh("Changes since the month was closed"),
-  adjustment_count: z.number().int(),
-  closed_at: z
-    .string()
-    .nullable()
-    .describe(
-      "When a closed month was closed (ISO 8601); its adjusting entries are those since",
-    ),
-});
-export type LedgerRow = z.output<typeof ledgerRowSchema>;
-
-/** One carrier's sums over every row: unlike carriers are never added. */
-export const carrierTotalSchema = z.strictObject({
-  carrier,
-  imports_kwh: decimalKwh("Delivered"),
-  exports_kwh: decimalKwh("Exported"),
-  net_kwh: decimalKwh("Net"),
-});
-export type CarrierTotal = z.output<typeof carrierTotalSchema>;
-
-export const ledgerSchema = z.strictObject({
-  from: z.string().regex(MONTH_PATTERN),
-  to: z.string().regex(MONTH_PATTERN),
-  rows: z.array(ledgerRowSchema).describe("By site name, month, carrier"),
-  totals: z
-    .array(carrierTotalSchema)
-    .describe("One per carrier in the rows, in carrier order"),
-});
-export type Ledger = z.output<typeof ledgerSchema>;
-
 // --------------------------------------------------------------- reports --
 
 export const reportListSchema = z.strictObject({
@@ -219,46 +169,6 @@ export const reportQueuedSchema = z.strictObject({
   id: id(),
   status: z.literal("queued"),
 });
-
-const signature = {
-  sha256: z.string().describe("Hex SHA-256 of the whole file"),
-  signerName: z.string(),
-  signedAt: z.iso.datetime().nullable(),
-};
-
-export const verifyOutcomeSchema = z.discriminatedUnion("verdict", [
-  z.strictObject({
-    verdict: z.literal("genuine"),
-    ...signature,
-    report: z.strictObject({
-      id: id(),
-      title: z.string(),
-      completedAt: z.iso.datetime().nullable(),
-      authorName: z.string().nullable(),
-      authorEmail: z.string().nullable(),
-    }),
-  }),
-  z.strictObject({
-    verdict: z.literal("not_issued_here"),
-    ...signature,
-    message: z.string(),
-  }),
-  z.strictObject({
-    verdict: z.literal("invalid"),
-    reason: z.enum([
-      "not_a_pdf",
-      "no_signature",
-      "malformed_signature",
-      "truncated",
-      "not_whole_document",
-      "digest_mismatch",
-      "bad_signature",
-      "untrusted_certificate",
-    ]),
-    message: z.string(),
-  }),
-]);
-export type VerifyOutcome = z.output<typeof verifyOutcomeSchema>;
 
 // --------------------------------------------------------------- billing --
 

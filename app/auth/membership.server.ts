@@ -1,16 +1,9 @@
-import { and, asc, eq } from "drizzle-orm";
+import { asc, eq } from "drizzle-orm";
 import { data } from "react-router";
 import { db } from "~/db/client.server";
 import { memberships, organizations } from "~/db/schema";
 import { isUuid } from "~/lib/ids";
-import { can, type Permission, type Role } from "./permissions";
-import { requireUser, type SignedInUser } from "./session.server";
-
-export interface OrganizationContext {
-  user: SignedInUser;
-  organization: { id: string; name: string };
-  role: Role;
-}
+import { countWork } from "./request-counters.server";
 
 export function notFound(message = "Not found"): never {
   throw data({ message }, { status: 404 });
@@ -30,49 +23,13 @@ export function forbidden(message = "Your role does not allow this."): never {
   throw data({ message }, { status: 403 });
 }
 
-export async function findMembership(userId: string, organizationId: string) {
-  if (!isUuid(organizationId)) return null;
-  const [row] = await db
-    .select({
-      id: organizations.id,
-      name: organizations.name,
-      role: memberships.role,
-    })
-    .from(memberships)
-    .innerJoin(organizations, eq(organizations.id, memberships.organizationId))
-    .where(
-      and(
-        eq(memberships.organizationId, organizationId),
-        eq(memberships.userId, userId),
-      ),
-    );
-  return row ?? null;
-}
-
 /**
- * The signed-in user's membership of the organisation in the URL, checked for
- * a permission. An organisation the user is not a member of answers 404, the
- * same as one that does not exist, so ids reveal nothing.
+ * Every organisation a person belongs to, with their role, by name. The
+ * request resolver (request-principal.server.ts) reads it once per request;
+ * it is also the organisation switcher's list.
  */
-export async function requireMembership(
-  request: Request,
-  organizationId: string | undefined,
-  permission: Permission = "organization.view",
-): Promise<OrganizationContext> {
-  const user = await requireUser(request);
-  const row = organizationId
-    ? await findMembership(user.id, organizationId)
-    : null;
-  if (!row) notFound("No such organisation.");
-  if (!can(row.role, permission)) forbidden();
-  return {
-    user,
-    organization: { id: row.id, name: row.name },
-    role: row.role,
-  };
-}
-
 export async function listMemberships(userId: string) {
+  countWork("membershipReads");
   return db
     .select({
       id: organizations.id,

@@ -1,5 +1,5 @@
-import { redirect } from "react-router";
 import { lucia, type AuthSession, type AuthUser } from "./lucia.server";
+import { countWork } from "./request-counters.server";
 
 export type SignedInUser = AuthUser;
 
@@ -32,6 +32,7 @@ export async function getCurrentSession(
 ): Promise<CurrentSession | null> {
   const sessionId = sessionIdFrom(request);
   if (!sessionId) return null;
+  countWork("sessionValidations");
   const { session, user } = await lucia.validateSession(sessionId);
   if (!session || !user) return null;
   const refreshCookie = session.fresh
@@ -42,15 +43,6 @@ export async function getCurrentSession(
 
 export async function getUser(request: Request): Promise<AuthUser | null> {
   return (await getCurrentSession(request))?.user ?? null;
-}
-
-/** The signed-in user, or a redirect to sign-in that comes back here after. */
-export async function requireUser(request: Request): Promise<AuthUser> {
-  const user = await getUser(request);
-  if (user) return user;
-  const url = new URL(request.url);
-  const redirectTo = `${url.pathname}${url.search}`;
-  throw redirect(`/sign-in?redirectTo=${encodeURIComponent(redirectTo)}`);
 }
 
 /** Starts a session and returns the Set-Cookie header value. */

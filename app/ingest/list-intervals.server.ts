@@ -1,4 +1,4 @@
-import type { Interval } from "~/api/schemas";
+import type { Interval } from "./interval-schema";
 import { pool } from "~/db/client.server";
 
 /** One meter's hourly intervals in [from, to), oldest first. */

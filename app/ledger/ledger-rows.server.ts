@@ -1,4 +1,4 @@
-import type { Ledger } from "~/api/schemas";
+import type { Ledger } from "./ledger-schema";
 import { pool } from "~/db/client.server";
 import { deliveredSignSql } from "./delivered";
 
@@ -12,12 +12,12 @@ export interface LedgerQuery {
 }
 
 /**
- * The ledger's rows and totals are the API's wire shape (`~/api/schemas`):
+ * The ledger's rows and totals are the API's wire shape (`ledger-schema.ts`):
  * energies are delivered and exported energy of the carrier (delivered.ts),
  * `imports_kwh` ≥ 0, `exports_kwh` ≤ 0, `net_kwh` their sum; chilled water is
  * cooling delivered, a positive figure.
  */
-export type { CarrierTotal, Ledger, LedgerRow } from "~/api/schemas";
+export type { CarrierTotal, Ledger, LedgerRow } from "./ledger-schema";
 
 /**
  * Sites × months × carriers from the monthly rollups (never from intervals).

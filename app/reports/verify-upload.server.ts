@@ -3,13 +3,13 @@
  * coverage first (is the file intact and signed by a certificate we trust?),
  * then whether this organisation issued exactly these bytes.
  */
-import type { VerifyOutcome } from "~/api/schemas";
+import type { VerifyOutcome } from "./verify-outcome";
 import { findIssuedReport } from "./reports.server";
 import { signingIdentityFromEnv } from "./signing/identity.server";
 import { verifySignedPdf } from "./signing/verify-pdf.server";
 
 /** The answer's shape is the API's (`POST …/reports/verify`). */
-export type { VerifyOutcome } from "~/api/schemas";
+export type { VerifyOutcome } from "./verify-outcome";
 
 export async function verifyUploadedReport(
   organizationId: string,

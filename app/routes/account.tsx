@@ -1,9 +1,8 @@
 import { data, Form, Link, redirect } from "react-router";
 import { z } from "zod";
 import { changePassword } from "~/auth/change-password.server";
-import { listMemberships } from "~/auth/membership.server";
 import { roleLabels } from "~/auth/permissions";
-import { requireUser } from "~/auth/session.server";
+import { signedInPrincipal, signedInUser } from "~/auth/page-access.server";
 import {
   Badge,
   Button,
@@ -32,17 +31,18 @@ const schema = z
     message: "The two passwords differ.",
   });
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const principal = signedInPrincipal(context);
+  const { user } = principal;
   return {
     changed: new URL(request.url).searchParams.get("changed") === "1",
     user: { name: user.name, email: user.email },
-    organizations: await listMemberships(user.id),
+    organizations: await principal.memberships(),
   };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const user = await requireUser(request);
+export async function action({ request, context }: Route.ActionArgs) {
+  const user = signedInUser(context);
   const form = parseForm(await request.formData(), schema);
   if (!form.ok)
     return data({ errors: form.errors, changed: false }, { status: 400 });

@@ -6,7 +6,7 @@ import {
 } from "react-router";
 import { auditFilterOptions } from "~/audit/audit-trail.server";
 import { auditKindLabels, auditKinds, isAuditKind } from "~/audit/kinds";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { AuditGrid } from "~/components/audit/audit-grid";
 import {
   auditQuery,
@@ -32,12 +32,8 @@ export const meta: Route.MetaFunction = () => [
   { title: "Audit trail · Joulebook" },
 ];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization } = await requireMembership(
-    request,
-    params.orgId,
-    "audit.view",
-  );
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization } = requirePermission(context, "audit.view");
   return {
     organization,
     ...(await auditFilterOptions(organization.id)),

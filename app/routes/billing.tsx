@@ -1,6 +1,6 @@
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import {
   BillingRuleError,
@@ -40,12 +40,8 @@ const goToStripeSchema = z.strictObject({
 });
 const reconcileSchema = z.strictObject({ intent: z.literal("reconcile") });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(
-    request,
-    params.orgId,
-    "billing.view",
-  );
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context, "billing.view");
   const checkout = new URL(request.url).searchParams.get("checkout");
   // Back from a paid Checkout: find the subscription in Stripe now if its
   // webhook has not arrived (or was lost).
@@ -108,12 +104,8 @@ async function runIntent(
   return fail(intent, "Unknown action.", 400);
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization } = await requireMembership(
-    request,
-    params.orgId,
-    "billing.manage",
-  );
+export async function action({ request, context }: Route.ActionArgs) {
+  const { organization } = requirePermission(context, "billing.manage");
   const formData = await request.formData();
   const intent = String(formData.get("intent") ?? "");
   try {

@@ -1,7 +1,8 @@
 import { useEffect, useRef } from "react";
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
-import { notFound, requireMembership } from "~/auth/membership.server";
+import { notFound } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { RelativeTime } from "~/components/relative-time";
 import {
   Badge,
@@ -47,12 +48,8 @@ const revokeSchema = z.strictObject({
   }),
 });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization } = await requireMembership(
-    request,
-    params.orgId,
-    "gateways.manage",
-  );
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { organization } = requirePermission(context, "gateways.manage");
   const gateways = await listGateways({ organizationId: organization.id });
   // `?revoke=<id>` is the confirmation step for that (active) gateway.
   const revoke = new URL(request.url).searchParams.get("revoke");
@@ -70,12 +67,8 @@ type Result = {
   message?: string;
 };
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "gateways.manage",
-  );
+export async function action({ request, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "gateways.manage");
   const formData = await request.formData();
   const intent = String(formData.get("intent") ?? "");
   const scope = { organizationId: organization.id, actorUserId: user.id };

@@ -9,7 +9,7 @@ import {
   type ShouldRevalidateFunctionArgs,
 } from "react-router";
 import { z } from "zod";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
 import { LedgerGrid } from "~/components/ledger/ledger-grid";
@@ -38,12 +38,8 @@ import type { Route } from "./+types/ledger";
 
 export const meta: Route.MetaFunction = () => [{ title: "Ledger · Joulebook" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(
-    request,
-    params.orgId,
-    "ledger.view",
-  );
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context, "ledger.view");
   return {
     organization,
     canClose: can(role, "months.close"),
@@ -106,13 +102,12 @@ function monthName(month: string): string {
   }).format(new Date(Date.UTC(y, m - 1, 1)));
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const formData = await request.formData();
   const intent = String(formData.get("intent") ?? "");
   const reopening = intent === "reopen";
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
+  const { organization, user } = requirePermission(
+    context,
     reopening ? "months.reopen" : "months.close",
   );
   const form = reopening

@@ -1,7 +1,8 @@
 import { useEffect, useRef } from "react";
 import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
-import { requireMembership, notFound } from "~/auth/membership.server";
+import { notFound } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import {
   can,
   roleDescriptions,
@@ -60,10 +61,9 @@ const revokeSchema = z.strictObject({
   invitationId: z.uuid("Unknown invitation."),
 });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role, user } = await requireMembership(
-    request,
-    params.orgId,
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization, role, user } = requirePermission(
+    context,
     "members.view",
   );
   const manage = can(role, "members.manage");
@@ -92,12 +92,8 @@ function failure(
   return data<ActionResult>({ intent, errors, subject }, { status });
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "members.manage",
-  );
+export async function action({ request, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "members.manage");
   const formData = await request.formData();
   const intent = String(formData.get("intent") ?? "");
   const scope = { organizationId: organization.id, actorUserId: user.id };

@@ -1,5 +1,6 @@
 import { data, Form, redirect } from "react-router";
-import { idParam, notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { MeterFields } from "~/components/meter-fields";
 import { Button, Card, Notice, PageHeader } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
@@ -16,12 +17,8 @@ export const meta: Route.MetaFunction = () => [
   { title: "Add a meter · Joulebook" },
 ];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization } = await requireMembership(
-    request,
-    params.orgId,
-    "sites.manage",
-  );
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const { organization } = requirePermission(context, "sites.manage");
   const site = await getSite({
     organizationId: organization.id,
     siteId: idParam(params.siteId, "No such site."),
@@ -33,12 +30,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { site, parents };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "sites.manage",
-  );
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "sites.manage");
   const site = await getSite({
     organizationId: organization.id,
     siteId: idParam(params.siteId, "No such site."),

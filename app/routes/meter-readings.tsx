@@ -3,7 +3,8 @@ import { useHydrated } from "~/lib/use-hydrated";
 
 import { data, Form, Link, useActionData, useNavigation } from "react-router";
 import { z } from "zod";
-import { idParam, notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { CarpetPlot } from "~/components/readings/carpet-plot";
 import { newestReadingsStatus } from "~/components/readings/freshness";
@@ -36,12 +37,8 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [
   { title: `Readings ${loaderData?.meter.code ?? ""} · Joulebook` },
 ];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(
-    request,
-    params.orgId,
-    "readings.view",
-  );
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context, "readings.view");
   const meter = await getMeter({
     organizationId: organization.id,
     meterId: idParam(params.meterId, "No such meter."),
@@ -111,12 +108,8 @@ const refusal = (answer: Partial<EditAnswer>) =>
     { status: 400 },
   );
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "readings.edit",
-  );
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "readings.edit");
   const meter = await getMeter({
     organizationId: organization.id,
     meterId: idParam(params.meterId, "No such meter."),

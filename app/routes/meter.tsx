@@ -1,5 +1,6 @@
 import { data, Form, Link, redirect } from "react-router";
-import { idParam, notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { MeterFields } from "~/components/meter-fields";
 import {
@@ -34,8 +35,8 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [
   { title: `${loaderData?.meter.code ?? "Meter"} · Joulebook` },
 ];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(request, params.orgId);
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context);
   const meter = await getMeter({
     organizationId: organization.id,
     meterId: idParam(params.meterId, "No such meter."),
@@ -64,12 +65,8 @@ type Result = {
 const fail = (intent: string, errors: Record<string, string>, status = 400) =>
   data<Result>({ intent, errors }, { status });
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "sites.manage",
-  );
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "sites.manage");
   const meter = await getMeter({
     organizationId: organization.id,
     meterId: idParam(params.meterId, "No such meter."),

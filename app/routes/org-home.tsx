@@ -1,5 +1,5 @@
 import { can, roleDescriptions, roleLabels, roles } from "~/auth/permissions";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { Cautions } from "~/components/cautions";
 import { RelativeTime } from "~/components/relative-time";
 import { Badge, Card, EmptyState, PageHeader } from "~/components/ui";
@@ -11,8 +11,8 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [
   { title: `${loaderData?.organization.name ?? "Organisation"} · Joulebook` },
 ];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(request, params.orgId);
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context);
   const members = await listMembers({ organizationId: organization.id });
   const gateways = can(role, "gateways.manage")
     ? await listGateways({ organizationId: organization.id })

@@ -1,13 +1,15 @@
 import { Outlet } from "react-router";
-import { requireMembership } from "~/auth/membership.server";
+import { memberMiddleware, requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { standingOf } from "~/billing/account.server";
 import { BillingBanner } from "~/components/billing-banner";
 import type { Route } from "./+types/org-layout";
 
 /** Guards everything under /o/:orgId: members only, others get 404. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(request, params.orgId);
+export const middleware: Route.MiddlewareFunction[] = [memberMiddleware];
+
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context);
   // Billing trouble is news for the people who pay; from the database only.
   const standing = can(role, "billing.view")
     ? await standingOf(organization.id)

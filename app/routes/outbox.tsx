@@ -1,5 +1,4 @@
-import { listMemberships } from "~/auth/membership.server";
-import { requireUser } from "~/auth/session.server";
+import { signedInPrincipal } from "~/auth/page-access.server";
 import { OutboxMessages } from "~/components/outbox-messages";
 import { PageHeader } from "~/components/ui";
 import { loadOutbox } from "~/email/outbox.server";
@@ -13,9 +12,10 @@ export const meta: Route.MetaFunction = () => [{ title: "Outbox · Joulebook" }]
  * (app/email/outbox-visibility.ts). Mail for people who cannot sign in yet
  * is for the machine's operator (routes/operator-outbox.tsx).
  */
-export async function loader({ request }: Route.LoaderArgs) {
-  const user = await requireUser(request);
-  const memberships = await listMemberships(user.id);
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const principal = signedInPrincipal(context);
+  const { user } = principal;
+  const memberships = await principal.memberships();
   const ownerOf = new Set(
     memberships.filter((m) => m.role === "owner").map((m) => m.id),
   );

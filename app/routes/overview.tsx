@@ -3,7 +3,7 @@ import { monthKey } from "~/lib/months";
 import { useHydrated } from "~/lib/use-hydrated";
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { CarrierBadge } from "~/components/carrier-badge";
 import { ChangePill } from "~/components/change-pill";
@@ -46,10 +46,9 @@ const querySchema = z.object({
     .catch(24),
 });
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, user, role } = await requireMembership(
-    request,
-    params.orgId,
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { organization, user, role } = requirePermission(
+    context,
     "ledger.view",
   );
   const { silent } = querySchema.parse(
@@ -110,12 +109,8 @@ const alertSchema = z.strictObject({
 });
 
 /** Each member chooses their own alert e-mails for this organisation. */
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "ledger.view",
-  );
+export async function action({ request, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "ledger.view");
   const form = parseForm(await request.formData(), alertSchema);
   if (!form.ok)
     return data({ errors: form.errors, saved: false }, { status: 400 });

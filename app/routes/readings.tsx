@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { CarrierBadge } from "~/components/carrier-badge";
 import { CsvUpload } from "~/components/csv-upload";
@@ -11,12 +11,8 @@ export const meta: Route.MetaFunction = () => [
   { title: "Readings · Joulebook" },
 ];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(
-    request,
-    params.orgId,
-    "readings.view",
-  );
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context, "readings.view");
   return {
     organization,
     meters: await listAllMeters({ organizationId: organization.id }),

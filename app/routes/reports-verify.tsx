@@ -1,5 +1,5 @@
 import { data, Form, Link, useNavigation } from "react-router";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { Button, Card, Notice, PageHeader } from "~/components/ui";
 import { dateTimeUtc } from "~/lib/times";
 import {
@@ -15,12 +15,8 @@ export const meta: Route.MetaFunction = () => [
 /** Reports are a few hundred KiB; anything far larger is not one of ours. */
 const MAX_UPLOAD_BYTES = 25 * 1024 * 1024;
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization } = await requireMembership(
-    request,
-    params.orgId,
-    "reports.verify",
-  );
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization } = requirePermission(context, "reports.verify");
   return { organizationName: organization.name };
 }
 
@@ -28,12 +24,8 @@ type ActionResult =
   | { error: string }
   | { fileName: string; byteSize: number; outcome: VerifyOutcome };
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization } = await requireMembership(
-    request,
-    params.orgId,
-    "reports.verify",
-  );
+export async function action({ request, context }: Route.ActionArgs) {
+  const { organization } = requirePermission(context, "reports.verify");
   const declared = Number(request.headers.get("content-length") ?? 0);
   if (declared > MAX_UPLOAD_BYTES)
     return data<ActionResult>(

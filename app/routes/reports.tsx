@@ -1,6 +1,6 @@
 import { useEffect } from "react";
 import { data, Form, Link, useNavigation, useRevalidator } from "react-router";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
 import {
@@ -29,12 +29,8 @@ export const meta: Route.MetaFunction = () => [
   { title: "Reports · Joulebook" },
 ];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(
-    request,
-    params.orgId,
-    "reports.download",
-  );
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context, "reports.download");
   const [reports, sites, periods] = await Promise.all([
     listReports(organization.id),
     listSites({ organizationId: organization.id }),
@@ -52,12 +48,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 type ActionResult = { errors: Record<string, string>; queued?: string };
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "reports.create",
-  );
+export async function action({ request, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "reports.create");
   const form = parseForm(await request.formData(), reportRequestSchema);
   if (!form.ok)
     return data<ActionResult>({ errors: form.errors }, { status: 400 });

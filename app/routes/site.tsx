@@ -1,5 +1,6 @@
 import { data, Form, Link } from "react-router";
-import { idParam, notFound, requireMembership } from "~/auth/membership.server";
+import { idParam, notFound } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { Boundary, formatKwh } from "~/components/boundary";
 import { CarrierBadge } from "~/components/carrier-badge";
@@ -34,8 +35,8 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [
 
 const THIRTY_DAYS_MS = 30 * 86_400_000;
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(request, params.orgId);
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context);
   const site = await getSite({
     organizationId: organization.id,
     siteId: idParam(params.siteId, "No such site."),
@@ -73,12 +74,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "sites.manage",
-  );
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "sites.manage");
   const siteId = idParam(params.siteId, "No such site.");
   const form = parseForm(await request.formData(), siteFormSchema);
   if (!form.ok)

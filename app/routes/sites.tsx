@@ -1,5 +1,5 @@
 import { data, Form, Link, redirect } from "react-router";
-import { requireMembership } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { SiteFields } from "~/components/site-fields";
 import { Button, Card, EmptyState, Notice, PageHeader } from "~/components/ui";
@@ -15,8 +15,8 @@ import type { Route } from "./+types/sites";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sites · Joulebook" }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(request, params.orgId);
+export async function loader({ context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context);
   const canManage = can(role, "sites.manage");
   return {
     organization,
@@ -28,12 +28,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "sites.manage",
-  );
+export async function action({ request, context }: Route.ActionArgs) {
+  const { organization, user } = requirePermission(context, "sites.manage");
   // Unpaid past the grace period: the estate may not grow (ingest goes on).
   const refusal = await siteCreationRefusal(organization.id);
   if (refusal)

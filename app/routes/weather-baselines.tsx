@@ -20,7 +20,8 @@ import {
 } from "~/baselines/regression";
 import { MAX_WEATHER_BYTES, parseWeatherCsv } from "~/baselines/weather-csv";
 import { storeWeather, weatherCoverage } from "~/baselines/weather.server";
-import { notFound, requireMembership } from "~/auth/membership.server";
+import { notFound } from "~/auth/membership.server";
+import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
 import {
@@ -97,12 +98,8 @@ async function siteOr404(organizationId: string, siteId: string) {
   return site;
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { organization, role } = await requireMembership(
-    request,
-    params.orgId,
-    "ledger.view",
-  );
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { organization, role } = requirePermission(context, "ledger.view");
   const sites = await listSites({ organizationId: organization.id });
   const canManage = can(role, "sites.manage");
   const base = {
@@ -308,14 +305,10 @@ async function uploadWeather(
   });
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   // Both actions change the organisation's data: managers and owners only,
   // checked before the body is read.
-  const { organization, user } = await requireMembership(
-    request,
-    params.orgId,
-    "sites.manage",
-  );
+  const { organization, user } = requirePermission(context, "sites.manage");
   let formData: FormData;
   try {
     formData = await readForm(request);

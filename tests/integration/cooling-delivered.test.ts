@@ -18,6 +18,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import ExcelJS from "exceljs";
 import Papa from "papaparse";
+import { RouterContextProvider } from "react-router";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { applyAppTestEnv } from "../support/app-env";
 import { db, pool, schema } from "../support/db";
@@ -34,6 +35,7 @@ applyAppTestEnv();
 
 const app = {
   overview: () => import("../../app/routes/overview"),
+  pageAccess: () => import("../../app/auth/page-access.server"),
   periods: () => import("../../app/reports/periods"),
   data: () => import("../../app/reports/report-data.server"),
   pdf: () => import("../../app/reports/pdf/render-report.server"),
@@ -292,11 +294,19 @@ describe("cooling delivered", () => {
     const request = new Request(`http://localhost/o/${org.org.id}/overview`, {
       headers: { cookie: manager.cookieHeader() },
     });
-    const data = await loader({
+    // The layouts' middleware resolves the person and membership first.
+    const { signedInMiddleware, memberMiddleware } = await app.pageAccess();
+    const args = {
       request,
+      url: new URL(request.url),
       params: { orgId: org.org.id },
-      context: {},
-    } as Parameters<typeof loader>[0]);
+      context: new RouterContextProvider(),
+      pattern: "/o/:orgId/overview",
+    };
+    const next = async () => new Response();
+    await signedInMiddleware(args, next);
+    await memberMiddleware(args, next);
+    const data = await loader(args as unknown as Parameters<typeof loader>[0]);
 
     // The chart: one entry per month and carrier, delivered ≥ 0, exported ≤ 0.
     const month = data.byCarrier.filter((d) => d.month === MONTH);

@@ -96,6 +96,8 @@ export default async function setup(project: TestProject) {
     GATEWAY_RATE_LIMIT_PER_MINUTE: "120",
     // Tests run the alert check themselves, so its e-mails are predictable.
     ALERTS_INTERVAL_MINUTES: "0",
+    // Per-request counts of session validations and membership reads.
+    JOULEBOOK_TEST_COUNTERS: "1",
   };
   // A server spawned from vitest must not think it runs under vitest.
   delete childEnv.VITEST;

@@ -1,0 +1,55 @@
+/**
+ * The ledger's wire shape (`GET …/ledger`): what the domain's read returns
+ * (ledger-rows.server.ts), the API answers and the grid shows.
+ */
+import { z } from "zod";
+import { MONTH_PATTERN } from "~/lib/months";
+import { carrier, decimalKwh, id } from "~/lib/wire-schemas";
+
+/**
+ * One site × month × carrier: delivered (imports, ≥ 0) and exported
+ * (exports, ≤ 0) energy of that carrier. Chilled water is cooling delivered,
+ * a positive figure.
+ */
+export const ledgerRowSchema = z.strictObject({
+  site_id: id(),
+  site_name: z.string(),
+  floor_area_m2: z.string().nullable().describe("Decimal text, m²"),
+  month: z.string().regex(MONTH_PATTERN),
+  carrier,
+  imports_kwh: decimalKwh("Delivered, ≥ 0"),
+  exports_kwh: decimalKwh("Exported, ≤ 0"),
+  net_kwh: decimalKwh("imports + exports"),
+  estimated_kwh: decimalKwh("The estimated part"),
+  estimated_share: z.number().describe("Estimated share of the energy, 0–1"),
+  uncertainty_kwh: decimalKwh("EN 1434 band (heat and cooling)").nullable(),
+  status: z.enum(["open", "closed"]),
+  adjustments_kwh: decimalKwh("Changes since the month was closed"),
+  adjustment_count: z.number().int(),
+  closed_at: z
+    .string()
+    .nullable()
+    .describe(
+      "When a closed month was closed (ISO 8601); its adjusting entries are those since",
+    ),
+});
+export type LedgerRow = z.output<typeof ledgerRowSchema>;
+
+/** One carrier's sums over every row: unlike carriers are never added. */
+export const carrierTotalSchema = z.strictObject({
+  carrier,
+  imports_kwh: decimalKwh("Delivered"),
+  exports_kwh: decimalKwh("Exported"),
+  net_kwh: decimalKwh("Net"),
+});
+export type CarrierTotal = z.output<typeof carrierTotalSchema>;
+
+export const ledgerSchema = z.strictObject({
+  from: z.string().regex(MONTH_PATTERN),
+  to: z.string().regex(MONTH_PATTERN),
+  rows: z.array(ledgerRowSchema).describe("By site name, month, carrier"),
+  totals: z
+    .array(carrierTotalSchema)
+    .describe("One per carrier in the rows, in carrier order"),
+});
+export type Ledger = z.output<typeof ledgerSchema>;
