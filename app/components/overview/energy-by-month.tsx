@@ -1,0 +1,33 @@
+import {
+  CarrierChart,
+  type CarrierMonth,
+} from "~/components/overview/carrier-chart";
+import { SectionCard } from "~/components/section-card";
+import { EmptyState } from "~/components/ui";
+import { useHydrated } from "~/lib/use-hydrated";
+
+/** The estate's delivered and exported energy per month, by carrier. */
+export function EnergyByMonth({ months }: { months: CarrierMonth[] }) {
+  // The chart measures its box, so it is drawn in the browser only; the
+  // server keeps its place.
+  const mounted = useHydrated();
+  return (
+    <SectionCard id="carrier" title="Energy delivered and exported per month">
+      <p className="text-sm text-ink-muted">
+        Boundary meters, by carrier: delivered above zero, exported below it.
+        Carriers are shown side by side, never added together.
+      </p>
+      {months.length === 0 ? (
+        <div className="mt-3">
+          <EmptyState title="No monthly figures yet">
+            They appear as readings arrive.
+          </EmptyState>
+        </div>
+      ) : mounted ? (
+        <CarrierChart data={months} />
+      ) : (
+        <div style={{ height: 300 }} />
+      )}
+    </SectionCard>
+  );
+}
