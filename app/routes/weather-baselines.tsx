@@ -205,7 +205,7 @@ export default function WeatherBaselines({
             ) : null}
             {analysis ? (
               <>
-                <DegreeDaysByMonth view={view} analysis={analysis} />
+                <DegreeDaysByMonth carrier={view.carrier} analysis={analysis} />
                 <div className="grid gap-6 xl:grid-cols-2">
                   <BaselineModelCard
                     view={view}
@@ -215,7 +215,10 @@ export default function WeatherBaselines({
                       result?.intent === "save-baseline" ? result : undefined
                     }
                   />
-                  <EnergyAgainstDegreeDays view={view} analysis={analysis} />
+                  <EnergyAgainstDegreeDays
+                    carrier={view.carrier}
+                    analysis={analysis}
+                  />
                 </div>
                 <SavingsCard analysis={analysis} />
                 <EnpiCard analysis={analysis} view={view} />

@@ -4,6 +4,7 @@ import { SectionCard } from "~/components/section-card";
 import {
   SiteChangeRow,
   SiteChangeTable,
+  type MonthOfSitesProps,
 } from "~/components/overview/site-change-table";
 import { EmptyState } from "~/components/ui";
 
@@ -15,12 +16,7 @@ export function AgainstBaseline({
   rows,
   month,
   base,
-}: {
-  rows: BaselineComparison[];
-  month: string;
-  /** The organisation's pages, `/o/<id>`. */
-  base: string;
-}) {
+}: MonthOfSitesProps<BaselineComparison>) {
   return (
     <SectionCard id="baseline" title="Against baseline">
       <p className="text-sm text-ink-muted">

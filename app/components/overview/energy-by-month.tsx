@@ -2,15 +2,12 @@ import {
   CarrierChart,
   type CarrierMonth,
 } from "~/components/overview/carrier-chart";
+import { BrowserOnly } from "~/components/browser-only";
 import { SectionCard } from "~/components/section-card";
 import { EmptyState } from "~/components/ui";
-import { useHydrated } from "~/lib/use-hydrated";
 
 /** The estate's delivered and exported energy per month, by carrier. */
 export function EnergyByMonth({ months }: { months: CarrierMonth[] }) {
-  // The chart measures its box, so it is drawn in the browser only; the
-  // server keeps its place.
-  const mounted = useHydrated();
   return (
     <SectionCard id="carrier" title="Energy delivered and exported per month">
       <p className="text-sm text-ink-muted">
@@ -23,10 +20,11 @@ export function EnergyByMonth({ months }: { months: CarrierMonth[] }) {
             They appear as readings arrive.
           </EmptyState>
         </div>
-      ) : mounted ? (
-        <CarrierChart data={months} />
       ) : (
-        <div style={{ height: 300 }} />
+        // The server keeps the chart's place.
+        <BrowserOnly fallback={<div style={{ height: 300 }} />}>
+          <CarrierChart data={months} />
+        </BrowserOnly>
       )}
     </SectionCard>
   );

@@ -5,6 +5,15 @@ import { ChangePill } from "~/components/change-pill";
 import type { Carrier } from "~/db/schema";
 import { formatKwh } from "~/lib/number-format";
 
+/** A card of the sites' figures for one month. */
+export interface MonthOfSitesProps<Row> {
+  rows: Row[];
+  /** YYYY-MM */
+  month: string;
+  /** The organisation's pages, `/o/<id>`. */
+  base: string;
+}
+
 /**
  * A table of sites and carriers, each row an amount of energy set against
  * another with a change pill: Site, Carrier, the figures, the change.

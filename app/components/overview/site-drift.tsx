@@ -3,6 +3,7 @@ import { SectionCard } from "~/components/section-card";
 import {
   SiteChangeRow,
   SiteChangeTable,
+  type MonthOfSitesProps,
 } from "~/components/overview/site-change-table";
 
 /** Beyond this change on a year before, a site's pill is marked. */
@@ -13,12 +14,7 @@ export function SitesThatChanged({
   rows,
   month,
   base,
-}: {
-  rows: SiteDrift[];
-  month: string;
-  /** The organisation's pages, `/o/<id>`. */
-  base: string;
-}) {
+}: MonthOfSitesProps<SiteDrift>) {
   return (
     <SectionCard id="drift" title="Sites that changed most">
       <p className="text-sm text-ink-muted">

@@ -1,5 +1,6 @@
 import { degreeDayLabel, driverLabels } from "~/baselines/degree-days";
-import type { AnalysisView, SiteView } from "~/baselines/weather-page.server";
+import type { AnalysisView } from "~/baselines/weather-page.server";
+import { BrowserOnly } from "~/components/browser-only";
 import { FigureTable } from "~/components/figure-table";
 import { SectionCard } from "~/components/section-card";
 import {
@@ -7,33 +8,29 @@ import {
   monthLabel,
 } from "~/components/weather/weather-charts";
 import { formatNumber, NO_FIGURE } from "~/lib/number-format";
-import { useHydrated } from "~/lib/use-hydrated";
 import { carrierLabels } from "~/sites/meter-schema";
+import type { Carrier } from "~/db/schema";
+
+/** A card of one analysis of a site and carrier. */
+export interface AnalysisCardProps {
+  carrier: Carrier | null;
+  analysis: AnalysisView;
+}
 
 /** The months of both periods: a chart, and the figures in a table below it. */
-export function DegreeDaysByMonth({
-  view,
-  analysis,
-}: {
-  view: SiteView;
-  analysis: AnalysisView;
-}) {
-  // Charts measure the page, so they render in the browser only.
-  const mounted = useHydrated();
+export function DegreeDaysByMonth({ carrier, analysis }: AnalysisCardProps) {
   return (
     <SectionCard id="months" title="Degree days and energy by month">
-      {mounted ? (
+      <BrowserOnly>
         <DegreeDayChart
-          carrier={view.carrier}
+          carrier={carrier}
           months={analysis.months}
           ddLabel={driverLabels[analysis.driver]}
-          energyLabel={
-            view.carrier ? `${carrierLabels[view.carrier]} energy` : "Energy"
-          }
+          energyLabel={carrier ? `${carrierLabels[carrier]} energy` : "Energy"}
           baseline={analysis.baseline}
           reporting={analysis.reporting}
         />
-      ) : null}
+      </BrowserOnly>
       <details className="mt-3">
         <summary className="cursor-pointer font-semibold text-spruce-700">
           Figures by month

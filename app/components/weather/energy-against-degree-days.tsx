@@ -1,30 +1,25 @@
 import { driverLabels } from "~/baselines/degree-days";
-import type { AnalysisView, SiteView } from "~/baselines/weather-page.server";
+import { BrowserOnly } from "~/components/browser-only";
 import { SectionCard } from "~/components/section-card";
+import type { AnalysisCardProps } from "~/components/weather/degree-days-by-month";
 import { BaselineScatter } from "~/components/weather/weather-charts";
-import { useHydrated } from "~/lib/use-hydrated";
 
 /** Each month's energy against its degree days, with the baseline model's line. */
 export function EnergyAgainstDegreeDays({
-  view,
+  carrier,
   analysis,
-}: {
-  view: SiteView;
-  analysis: AnalysisView;
-}) {
-  // Charts measure the page, so they render in the browser only.
-  const mounted = useHydrated();
+}: AnalysisCardProps) {
   return (
     <SectionCard id="scatter" title="Energy against degree days">
-      {mounted ? (
+      <BrowserOnly>
         <BaselineScatter
-          carrier={view.carrier}
+          carrier={carrier}
           baseline={analysis.basePoints}
           reporting={analysis.reportPoints}
           line={analysis.model}
           ddLabel={driverLabels[analysis.driver]}
         />
-      ) : null}
+      </BrowserOnly>
     </SectionCard>
   );
 }

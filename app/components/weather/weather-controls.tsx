@@ -1,5 +1,6 @@
 import { Form, useSubmit } from "react-router";
 import type { SiteView } from "~/baselines/weather-page.server";
+import { LabelledOptions, SiteOptions } from "~/components/options";
 import { Button, Card, Field, SelectField } from "~/components/ui";
 import { formatNumber } from "~/lib/number-format";
 import { carrierLabels } from "~/sites/meter-schema";
@@ -40,11 +41,7 @@ export function WeatherControls({
         className="grid gap-4 sm:grid-cols-3 lg:grid-cols-4 lg:items-end"
       >
         <SelectField label="Site" name="site" defaultValue={view.site.id}>
-          {sites.map((s) => (
-            <option key={s.id} value={s.id}>
-              {s.name}
-            </option>
-          ))}
+          <SiteOptions sites={sites} />
         </SelectField>
         <SelectField
           label="Carrier"
@@ -55,11 +52,7 @@ export function WeatherControls({
           {view.carriers.length === 0 ? (
             <option value="">No import meters</option>
           ) : null}
-          {view.carriers.map((c) => (
-            <option key={c} value={c}>
-              {carrierLabels[c]}
-            </option>
-          ))}
+          <LabelledOptions values={view.carriers} labels={carrierLabels} />
         </SelectField>
         <SelectField
           label="Degree days"

@@ -10,6 +10,7 @@ import {
   type WeatherUploadResult as UploadResult,
 } from "~/baselines/weather-csv";
 import { FigureTable } from "~/components/figure-table";
+import { SiteOptions } from "~/components/options";
 import { SectionCard } from "~/components/section-card";
 import { Button, Notice, SelectField } from "~/components/ui";
 
@@ -135,11 +136,7 @@ export function WeatherUpload({
           defaultValue={siteId}
           error={errors.siteId}
         >
-          {sites.map((s) => (
-            <option key={s.id} value={s.id}>
-              {s.name}
-            </option>
-          ))}
+          <SiteOptions sites={sites} />
         </SelectField>
         <div className="flex flex-col gap-1">
           <label htmlFor="weather-file" className="font-semibold">
