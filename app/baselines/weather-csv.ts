@@ -33,6 +33,15 @@ export type WeatherParse =
       problemCount: number;
     };
 
+/** What the page's upload form is answered: stored (`message`) or why not. */
+export interface WeatherUploadResult {
+  intent: "upload-weather";
+  errors: Record<string, string>;
+  problems?: RowProblem[];
+  problemCount?: number;
+  message?: string;
+}
+
 const DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
 
 function isCalendarDay(value: string): boolean {

@@ -1,6 +1,7 @@
 import Papa from "papaparse";
 import { useState } from "react";
 import { csvRowNumber, missingColumns, rowToReading } from "~/ingest/csv";
+import { FigureTable } from "./figure-table";
 import { Button, Notice } from "./ui";
 
 const CHUNK = 2500;
@@ -38,33 +39,25 @@ function Preview({
   rows: Record<string, unknown>[];
 }) {
   return (
-    <div className="overflow-x-auto rounded-lg border border-line">
-      <table className="min-w-full text-sm">
-        <caption className="sr-only">First rows of the file</caption>
-        <thead className="bg-sunken">
-          <tr>
-            <th className="px-2 py-1 text-left">Row</th>
-            {headers.map((h) => (
-              <th key={h} className="px-2 py-1 text-left font-mono">
-                {h}
-              </th>
-            ))}
-          </tr>
-        </thead>
-        <tbody>
-          {rows.slice(0, 8).map((r, i) => (
-            <tr key={i} className="border-t border-line">
-              <td className="px-2 py-1 text-ink-muted">{csvRowNumber(i)}</td>
-              {headers.map((h) => (
-                <td key={h} className="px-2 py-1 font-mono">
-                  {r[h] === undefined ? "" : String(r[h])}
-                </td>
-              ))}
-            </tr>
+    <FigureTable
+      bordered
+      caption="First rows of the file"
+      columns={[
+        { label: "Row" },
+        ...headers.map((h) => ({ label: h, className: "font-mono" })),
+      ]}
+    >
+      {rows.slice(0, 8).map((r, i) => (
+        <tr key={i} className="border-t border-line">
+          <td className="px-2 py-1 text-ink-muted">{csvRowNumber(i)}</td>
+          {headers.map((h) => (
+            <td key={h} className="px-2 py-1 font-mono">
+              {r[h] === undefined ? "" : String(r[h])}
+            </td>
           ))}
-        </tbody>
-      </table>
-    </div>
+        </tr>
+      ))}
+    </FigureTable>
   );
 }
 
@@ -219,30 +212,27 @@ export function CsvUpload({ orgId }: { orgId: string }) {
           </p>
           {state.failed ? <Notice tone="error">{state.failed}</Notice> : null}
           {state.problems.length > 0 ? (
-            <div className="max-h-80 overflow-auto rounded-lg border border-line">
-              <table className="min-w-full text-sm">
-                <caption className="sr-only">Rows that were not stored</caption>
-                <thead className="sticky top-0 bg-sunken">
-                  <tr>
-                    <th className="px-2 py-1 text-left">Row</th>
-                    <th className="px-2 py-1 text-left">Meter</th>
-                    <th className="px-2 py-1 text-left">Problem</th>
-                  </tr>
-                </thead>
-                <tbody>
-                  {state.problems.slice(0, 500).map((p) => (
-                    <tr
-                      key={`${p.row}-${p.reason}`}
-                      className="border-t border-line"
-                    >
-                      <td className="px-2 py-1">{p.row}</td>
-                      <td className="px-2 py-1 font-mono">{p.meter ?? ""}</td>
-                      <td className="px-2 py-1">{p.reason}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+            <FigureTable
+              bordered
+              maxHeight="max-h-80"
+              caption="Rows that were not stored"
+              columns={[
+                { label: "Row" },
+                { label: "Meter" },
+                { label: "Problem" },
+              ]}
+            >
+              {state.problems.slice(0, 500).map((p) => (
+                <tr
+                  key={`${p.row}-${p.reason}`}
+                  className="border-t border-line"
+                >
+                  <td className="px-2 py-1">{p.row}</td>
+                  <td className="px-2 py-1 font-mono">{p.meter ?? ""}</td>
+                  <td className="px-2 py-1">{p.reason}</td>
+                </tr>
+              ))}
+            </FigureTable>
           ) : null}
         </div>
       ) : null}

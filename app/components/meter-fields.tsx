@@ -5,6 +5,7 @@ import {
   quantityLabels,
 } from "~/sites/meter-schema";
 import { Field, SelectField } from "./ui";
+import { LabelledOptions } from "~/components/options";
 
 export interface MeterDefaults {
   code?: string;
@@ -64,11 +65,7 @@ export function MeterFields({
         defaultValue={defaults.quantity ?? "water_heat"}
         error={errors.quantity}
       >
-        {quantities.map((q) => (
-          <option key={q} value={q}>
-            {quantityLabels[q]}
-          </option>
-        ))}
+        <LabelledOptions values={quantities} labels={quantityLabels} />
       </SelectField>
       <SelectField
         label="Energy carrier"
@@ -76,11 +73,7 @@ export function MeterFields({
         defaultValue={defaults.carrier ?? "heat"}
         error={errors.carrier}
       >
-        {carriers.map((c) => (
-          <option key={c} value={c}>
-            {carrierLabels[c]}
-          </option>
-        ))}
+        <LabelledOptions values={carriers} labels={carrierLabels} />
       </SelectField>
       <SelectField
         label="Orientation on the boundary"

@@ -13,6 +13,7 @@ import {
   useAuditEntries,
   type AuditFilterName,
 } from "~/components/audit/use-audit";
+import { SiteOptions } from "~/components/options";
 import {
   Button,
   Card,
@@ -179,11 +180,7 @@ function Filters({
         onChange={(e) => set("site", e.target.value)}
       >
         <option value="">All sites</option>
-        {options.sites.map((s) => (
-          <option key={s.id} value={s.id}>
-            {s.name}
-          </option>
-        ))}
+        <SiteOptions sites={options.sites} />
       </SelectField>
       <SelectField
         label="Meter"

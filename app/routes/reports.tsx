@@ -3,6 +3,7 @@ import { data, Form, Link, useNavigation, useRevalidator } from "react-router";
 import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
+import { SiteOptions } from "~/components/options";
 import {
   Badge,
   Button,
@@ -182,11 +183,7 @@ function NewReportCard({
           error={errors.scope}
         >
           <option value="all">All sites</option>
-          {sites.map((s) => (
-            <option key={s.id} value={s.id}>
-              {s.name}
-            </option>
-          ))}
+          <SiteOptions sites={sites} />
         </SelectField>
         <SelectField
           label="Period"

@@ -7,16 +7,12 @@ import {
   type RowProblem,
   type WeatherParse,
   type WeatherRow,
+  type WeatherUploadResult as UploadResult,
 } from "~/baselines/weather-csv";
+import { FigureTable } from "~/components/figure-table";
+import { SiteOptions } from "~/components/options";
+import { SectionCard } from "~/components/section-card";
 import { Button, Notice, SelectField } from "~/components/ui";
-
-export interface UploadResult {
-  intent: "upload-weather";
-  errors: Record<string, string>;
-  problems?: RowProblem[];
-  problemCount?: number;
-  message?: string;
-}
 
 function Problems({
   problems,
@@ -26,59 +22,52 @@ function Problems({
   count: number;
 }) {
   return (
-    <div className="max-h-72 overflow-auto rounded-lg border border-line">
-      <table className="min-w-full text-sm">
-        <caption className="px-2 py-1 text-left font-semibold">
+    <FigureTable
+      bordered
+      maxHeight="max-h-72"
+      captionVisible
+      caption={
+        <>
           {count.toLocaleString("en-GB")} rows with problems
           {count > problems.length
             ? ` (the first ${problems.length} listed)`
             : ""}
           ; nothing was stored
-        </caption>
-        <thead className="sticky top-0 bg-sunken">
-          <tr>
-            <th className="px-2 py-1 text-left">Row</th>
-            <th className="px-2 py-1 text-left">Problem</th>
-          </tr>
-        </thead>
-        <tbody>
-          {problems.map((p) => (
-            <tr key={`${p.row}-${p.message}`} className="border-t border-line">
-              <td className="px-2 py-1 tabular-nums">{p.row}</td>
-              <td className="px-2 py-1">{p.message}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+        </>
+      }
+      columns={[{ label: "Row" }, { label: "Problem" }]}
+    >
+      {problems.map((p) => (
+        <tr key={`${p.row}-${p.message}`} className="border-t border-line">
+          <td className="px-2 py-1 tabular-nums">{p.row}</td>
+          <td className="px-2 py-1">{p.message}</td>
+        </tr>
+      ))}
+    </FigureTable>
   );
 }
 
 function Preview({ rows }: { rows: WeatherRow[] }) {
   return (
-    <div className="overflow-x-auto rounded-lg border border-line">
-      <table className="min-w-full text-sm">
-        <caption className="sr-only">First rows of the file</caption>
-        <thead className="bg-sunken">
-          <tr>
-            <th className="px-2 py-1 text-left">Row</th>
-            <th className="px-2 py-1 text-left font-mono">date</th>
-            <th className="px-2 py-1 text-right font-mono">mean_temp_c</th>
-          </tr>
-        </thead>
-        <tbody>
-          {rows.slice(0, 6).map((r, i) => (
-            <tr key={r.day} className="border-t border-line">
-              <td className="px-2 py-1 text-ink-muted">{i + 2}</td>
-              <td className="px-2 py-1 font-mono">{r.day}</td>
-              <td className="px-2 py-1 text-right font-mono tabular-nums">
-                {r.meanTempC.toFixed(2)}
-              </td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+    <FigureTable
+      bordered
+      caption="First rows of the file"
+      columns={[
+        { label: "Row" },
+        { label: "date", className: "font-mono" },
+        { label: "mean_temp_c", align: "right", className: "font-mono" },
+      ]}
+    >
+      {rows.slice(0, 6).map((r, i) => (
+        <tr key={r.day} className="border-t border-line">
+          <td className="px-2 py-1 text-ink-muted">{i + 2}</td>
+          <td className="px-2 py-1 font-mono">{r.day}</td>
+          <td className="px-2 py-1 text-right font-mono tabular-nums">
+            {r.meanTempC.toFixed(2)}
+          </td>
+        </tr>
+      ))}
+    </FigureTable>
   );
 }
 
@@ -147,11 +136,7 @@ export function WeatherUpload({
           defaultValue={siteId}
           error={errors.siteId}
         >
-          {sites.map((s) => (
-            <option key={s.id} value={s.id}>
-              {s.name}
-            </option>
-          ))}
+          <SiteOptions sites={sites} />
         </SelectField>
         <div className="flex flex-col gap-1">
           <label htmlFor="weather-file" className="font-semibold">
@@ -209,5 +194,21 @@ export function WeatherUpload({
         </Button>
       </div>
     </Form>
+  );
+}
+
+/** The upload section of the page, for those who may upload. */
+export function WeatherUploadCard(props: Parameters<typeof WeatherUpload>[0]) {
+  return (
+    <SectionCard id="upload" title="Upload weather">
+      <p className="mt-1 text-ink-muted">
+        Daily mean outdoor temperature, °C, for the days of the site's own
+        calendar. The whole file is checked first: if any row is wrong, nothing
+        is stored.
+      </p>
+      <div className="mt-4">
+        <WeatherUpload key={props.siteId} {...props} />
+      </div>
+    </SectionCard>
   );
 }
