@@ -3,6 +3,7 @@ import { data, Form, Link, useNavigation, useRevalidator } from "react-router";
 import { requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
+import { ListCard } from "~/components/list-card";
 import {
   Badge,
   Button,
@@ -240,24 +241,23 @@ function ReportList({
   orgId: string;
 }) {
   return (
-    <Card aria-labelledby="report-list-heading">
-      <h2 id="report-list-heading" className="text-lg">
-        Issued reports
-      </h2>
-      {reports.length === 0 ? (
-        <div className="mt-3">
-          <EmptyState title="No reports yet">
-            An energy manager or owner can make one above.
-          </EmptyState>
-        </div>
-      ) : (
-        <ul className="mt-2 divide-y divide-line" aria-live="polite">
-          {reports.map((r) => (
-            <ReportItem key={r.id} report={r} orgId={orgId} />
-          ))}
-        </ul>
-      )}
-    </Card>
+    <ListCard
+      headingId="report-list-heading"
+      title="Issued reports"
+      empty={
+        reports.length === 0
+          ? {
+              title: "No reports yet",
+              text: "An energy manager or owner can make one above.",
+            }
+          : null
+      }
+      list={{ className: "mt-2", "aria-live": "polite" }}
+    >
+      {reports.map((r) => (
+        <ReportItem key={r.id} report={r} orgId={orgId} />
+      ))}
+    </ListCard>
   );
 }
 

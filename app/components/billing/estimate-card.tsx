@@ -1,0 +1,35 @@
+import { day, siteCount } from "~/billing/billing-words";
+import type { BillingOverview } from "~/billing/overview.server";
+import { formatMoney, UNIT_PRICE_MINOR } from "~/billing/plan";
+import { Card } from "~/components/ui";
+
+/** What the next invoice comes to: Stripe's preview, or sites × price. */
+export function EstimateCard({
+  estimate,
+  account,
+}: {
+  estimate: BillingOverview["estimate"];
+  account: BillingOverview["account"];
+}) {
+  return (
+    <Card aria-labelledby="estimate-heading" className="flex flex-col gap-3">
+      <h2 id="estimate-heading" className="text-lg">
+        Next invoice
+      </h2>
+      <p className="text-4xl font-semibold" data-testid="estimate">
+        {formatMoney(estimate.amountMinor, estimate.currency)}
+      </p>
+      <p className="text-sm text-ink-muted">
+        {estimate.basis === "stripe"
+          ? `Stripe's preview for ${day(estimate.dueOn)}, including any adjustment for sites added or removed during the month.`
+          : `${siteCount(estimate.quantity)} × ${formatMoney(UNIT_PRICE_MINOR)}: what a month costs at today's count.`}
+      </p>
+      {account?.subscribed ? (
+        <p className="mt-auto text-sm text-ink-muted">
+          Stripe bills {siteCount(account.quantity)}; adding or retiring meters
+          updates it, with the difference prorated.
+        </p>
+      ) : null}
+    </Card>
+  );
+}
