@@ -1,5 +1,6 @@
 import type { ComponentProps, ReactNode } from "react";
-import { Card, cx, EmptyState } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
+import { cx, EmptyState } from "~/components/ui";
 
 /**
  * A card with a heading over a list, or over an empty state that says what
@@ -22,10 +23,7 @@ export function ListCard({
   children: ReactNode;
 }) {
   return (
-    <Card aria-labelledby={headingId}>
-      <h2 id={headingId} className="text-lg">
-        {title}
-      </h2>
+    <SectionCard headingId={headingId} title={title}>
       {empty ? (
         <div className="mt-3">
           <EmptyState title={empty.title}>{empty.text}</EmptyState>
@@ -35,6 +33,6 @@ export function ListCard({
           {children}
         </ul>
       )}
-    </Card>
+    </SectionCard>
   );
 }

@@ -16,7 +16,8 @@ import { LedgerScope } from "~/components/audit/ledger-scope";
 import { auditQuery, useAuditEntries } from "~/components/audit/use-audit";
 import { ExportLink } from "~/components/export-link";
 import { FiltersCard } from "~/components/filters";
-import { Button, Card, EmptyState, PageHeader } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
+import { Button, EmptyState, PageHeader } from "~/components/ui";
 import { useHydrated } from "~/lib/use-hydrated";
 import type { Route } from "./+types/audit";
 
@@ -115,10 +116,7 @@ export default function AuditTrailPage({ loaderData }: Route.ComponentProps) {
           </EmptyState>
         ) : null}
         {mounted && entries.length > 0 ? (
-          <Card aria-labelledby="entries-heading">
-            <h2 id="entries-heading" className="text-lg">
-              Changes
-            </h2>
+          <SectionCard headingId="entries-heading" title="Changes">
             <div className="mt-3">
               <AuditGrid entries={entries} />
             </div>
@@ -137,7 +135,7 @@ export default function AuditTrailPage({ loaderData }: Route.ComponentProps) {
               Times are in your browser's time zone ({timeZone}); the CSV gives
               them in UTC. Meters, sites and people are named as they are now.
             </p>
-          </Card>
+          </SectionCard>
         ) : null}
         <p className="text-sm text-ink-muted">
           Adjusting entries also appear in the{" "}

@@ -9,6 +9,7 @@ import { IntervalGrid } from "~/components/readings/interval-grid";
 import { IntervalSummary } from "~/components/readings/interval-summary";
 import { LoadProfile } from "~/components/readings/load-profile";
 import { useIntervals } from "~/components/readings/use-intervals";
+import { SectionCard } from "~/components/section-card";
 import { Card, EmptyState, Field, Notice, PageHeader } from "~/components/ui";
 import { correctionHint } from "~/ingest/correction-rules";
 import { editInterval } from "~/ingest/edit-interval.server";
@@ -168,20 +169,14 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
         ) : null}
         {mounted && intervals.length > 0 ? (
           <>
-            <Card aria-labelledby="profile-heading">
-              <h2 id="profile-heading" className="text-lg">
-                Load profile
-              </h2>
+            <SectionCard headingId="profile-heading" title="Load profile">
               <LoadProfile
                 intervals={intervals}
                 timeZone={meter.timeZone}
                 carrier={meter.carrier}
               />
-            </Card>
-            <Card aria-labelledby="carpet-heading">
-              <h2 id="carpet-heading" className="text-lg">
-                Carpet plot
-              </h2>
+            </SectionCard>
+            <SectionCard headingId="carpet-heading" title="Carpet plot">
               <p className="text-sm text-ink-muted">
                 Each row a day, each column an hour; darker is more energy.
                 Outlined cells are estimated or corrected.
@@ -191,22 +186,16 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
                 timeZone={meter.timeZone}
                 carrier={meter.carrier}
               />
-            </Card>
-            <Card aria-labelledby="grid-heading">
-              <h2 id="grid-heading" className="text-lg">
-                Intervals
-              </h2>
+            </SectionCard>
+            <SectionCard headingId="grid-heading" title="Intervals">
               <IntervalGrid
                 intervals={intervals}
                 timeZone={meter.timeZone}
                 onSelect={(row) => setSelectedHour(row?.hour_start ?? null)}
               />
-            </Card>
+            </SectionCard>
             {canEdit ? (
-              <Card aria-labelledby="edit-heading">
-                <h2 id="edit-heading" className="text-lg">
-                  Correct an hour
-                </h2>
+              <SectionCard headingId="edit-heading" title="Correct an hour">
                 <div className="mt-3">
                   <EditPanel
                     selected={selected}
@@ -214,7 +203,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
                     hint={correctionHint(meter)}
                   />
                 </div>
-              </Card>
+              </SectionCard>
             ) : null}
           </>
         ) : null}

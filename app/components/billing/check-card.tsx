@@ -1,6 +1,7 @@
 import { Form } from "react-router";
 import type { BillingActionResult } from "~/billing/billing-words";
-import { Button, Card, Notice } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
+import { Button, Notice } from "~/components/ui";
 import { dateTimeUtc } from "~/lib/times";
 import { BusyLabel } from "./busy-label";
 
@@ -14,10 +15,11 @@ export function CheckCard({
 }) {
   const mine = result?.intent === "reconcile" ? result : undefined;
   return (
-    <Card aria-labelledby="check-heading" className="flex flex-col gap-3">
-      <h2 id="check-heading" className="text-lg">
-        Billed sites
-      </h2>
+    <SectionCard
+      headingId="check-heading"
+      title="Billed sites"
+      className="flex flex-col gap-3"
+    >
       <p className="text-ink-muted">
         Joulebook regularly checks that Stripe bills today&apos;s metered-site
         count, and corrects it if not.{" "}
@@ -33,6 +35,6 @@ export function CheckCard({
           <BusyLabel intent="reconcile" idle="Check now" busy="Checking…" />
         </Button>
       </Form>
-    </Card>
+    </SectionCard>
   );
 }

@@ -1,7 +1,7 @@
 import { day, siteCount } from "~/billing/billing-words";
 import type { BillingOverview } from "~/billing/overview.server";
 import { formatMoney, UNIT_PRICE_MINOR } from "~/billing/plan";
-import { Card } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
 
 /** What the next invoice comes to: Stripe's preview, or sites × price. */
 export function EstimateCard({
@@ -12,10 +12,11 @@ export function EstimateCard({
   account: BillingOverview["account"];
 }) {
   return (
-    <Card aria-labelledby="estimate-heading" className="flex flex-col gap-3">
-      <h2 id="estimate-heading" className="text-lg">
-        Next invoice
-      </h2>
+    <SectionCard
+      headingId="estimate-heading"
+      title="Next invoice"
+      className="flex flex-col gap-3"
+    >
       <p className="text-4xl font-semibold" data-testid="estimate">
         {formatMoney(estimate.amountMinor, estimate.currency)}
       </p>
@@ -30,6 +31,6 @@ export function EstimateCard({
           updates it, with the difference prorated.
         </p>
       ) : null}
-    </Card>
+    </SectionCard>
   );
 }

@@ -1,6 +1,7 @@
 import type { BillingOverview } from "~/billing/overview.server";
 import { anyBeingPrepared, invoiceRow } from "~/billing/invoice-display";
-import { Badge, Card, cx, EmptyState } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
+import { Badge, cx, EmptyState } from "~/components/ui";
 
 const columns = [
   ["Invoice", ""],
@@ -18,10 +19,7 @@ export function InvoicesCard({
 }) {
   const rows = invoices.map(invoiceRow);
   return (
-    <Card aria-labelledby="invoices-heading">
-      <h2 id="invoices-heading" className="text-lg">
-        Invoices
-      </h2>
+    <SectionCard headingId="invoices-heading" title="Invoices">
       {rows.length === 0 ? (
         <div className="mt-3">
           <EmptyState title="No invoices yet">
@@ -80,6 +78,6 @@ export function InvoicesCard({
           ) : null}
         </div>
       )}
-    </Card>
+    </SectionCard>
   );
 }

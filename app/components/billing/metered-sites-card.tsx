@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import type { BillingOverview } from "~/billing/overview.server";
-import { Card } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
 
 /** How many sites the plan bills, and which. */
 export function MeteredSitesCard({
@@ -11,10 +11,11 @@ export function MeteredSitesCard({
   sites: BillingOverview["meteredSites"];
 }) {
   return (
-    <Card aria-labelledby="metered-heading" className="flex flex-col gap-3">
-      <h2 id="metered-heading" className="text-lg">
-        Metered sites
-      </h2>
+    <SectionCard
+      headingId="metered-heading"
+      title="Metered sites"
+      className="flex flex-col gap-3"
+    >
       <p className="text-4xl font-semibold" data-testid="metered-count">
         {sites.length}
       </p>
@@ -43,6 +44,6 @@ export function MeteredSitesCard({
         A site counts once it has at least one active meter; archived sites and
         removed meters do not.
       </p>
-    </Card>
+    </SectionCard>
   );
 }

@@ -1,13 +1,14 @@
 import { formatMoney, UNIT_PRICE_MINOR } from "~/billing/plan";
-import { Card } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
 
 /** Beside the payment card before a subscription: what subscribing means. */
 export function TrialNote({ graceDays }: { graceDays: number }) {
   return (
-    <Card aria-labelledby="how-heading" className="flex flex-col gap-2">
-      <h2 id="how-heading" className="text-lg">
-        How billing works
-      </h2>
+    <SectionCard
+      headingId="how-heading"
+      title="How billing works"
+      className="flex flex-col gap-2"
+    >
       <ul className="list-disc space-y-1 pl-5 text-ink-muted">
         <li>
           Each month bills the sites with at least one active meter, at{" "}
@@ -23,6 +24,6 @@ export function TrialNote({ graceDays }: { graceDays: number }) {
           never blocked.
         </li>
       </ul>
-    </Card>
+    </SectionCard>
   );
 }

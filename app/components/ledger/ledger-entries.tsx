@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { Card } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
 import type { LedgerUnit } from "~/ledger/ledger-units";
 import { LedgerGrid } from "./ledger-grid";
 import type { Ledger, LedgerRow } from "./use-ledger";
@@ -37,10 +37,7 @@ export function LedgerEntries({
   adjustmentsLink: ((row: LedgerRow) => string) | undefined;
 }) {
   return (
-    <Card aria-labelledby="ledger-heading">
-      <h2 id="ledger-heading" className="text-lg">
-        Monthly entries
-      </h2>
+    <SectionCard headingId="ledger-heading" title="Monthly entries">
       <div className="mt-3">
         <LedgerGrid
           ledger={ledger}
@@ -65,6 +62,6 @@ export function LedgerEntries({
         its uncertainty bands, a bound that holds even when meter errors are
         correlated.
       </Legend>
-    </Card>
+    </SectionCard>
   );
 }

@@ -1,6 +1,7 @@
 import { useEffect, useRef, type ReactNode, type RefObject } from "react";
 import { Form, useNavigation } from "react-router";
-import { Button, Card, Field, Notice, SelectField } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
+import { Button, Field, Notice, SelectField } from "~/components/ui";
 import type { MonthCloseResult } from "~/ledger/month-close-form";
 import { SiteOptions, type SiteChoice } from "./site-options";
 
@@ -80,10 +81,7 @@ export function MonthClose({
   const errors: Errors = result?.errors ?? {};
   const reopening = result?.intent === "reopen";
   return (
-    <Card aria-labelledby="close-heading">
-      <h2 id="close-heading" className="text-lg">
-        Month close
-      </h2>
+    <SectionCard headingId="close-heading" title="Month close">
       <p className="mt-1 text-ink-muted">
         A closed month is locked: corrections made later are kept as adjusting
         entries, with author, reason and time.
@@ -130,6 +128,6 @@ export function MonthClose({
           </MonthForm>
         ) : null}
       </div>
-    </Card>
+    </SectionCard>
   );
 }

@@ -1,6 +1,7 @@
 import { Form, useNavigation } from "react-router";
 import { INVITATION_DAYS } from "~/auth/policy";
-import { Button, Card, Field, Notice, SelectField } from "~/components/ui";
+import { SectionCard } from "~/components/section-card";
+import { Button, Field, Notice, SelectField } from "~/components/ui";
 import type { MembersActionResult } from "~/organizations/member-forms";
 import { RoleOptions } from "./role-options";
 
@@ -12,10 +13,7 @@ export function InviteForm({ result }: { result?: MembersActionResult }) {
     navigation.formData?.get("intent") === "invite";
   const errors = result?.intent === "invite" ? result.errors : {};
   return (
-    <Card aria-labelledby="invite-heading">
-      <h2 id="invite-heading" className="text-lg">
-        Invite someone
-      </h2>
+    <SectionCard headingId="invite-heading" title="Invite someone">
       <p className="mt-1 text-ink-muted">
         They get an e-mail with a link that works for {INVITATION_DAYS} days.
       </p>
@@ -49,6 +47,6 @@ export function InviteForm({ result }: { result?: MembersActionResult }) {
           <Notice tone="error">{errors.form}</Notice>
         </div>
       ) : null}
-    </Card>
+    </SectionCard>
   );
 }
