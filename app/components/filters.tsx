@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { Card, Notice, SelectField } from "~/components/ui";
+import { Card, Field, Notice, SelectField } from "~/components/ui";
 import { carrierLabels, carriers } from "~/sites/meter-schema";
 
 /** One choice of a filter menu: its value in the URL and its words. */
@@ -63,6 +63,15 @@ export function FilterSelect({
   );
 }
 
+/** Why a grid's data could not be fetched, under the filters that asked for it. */
+export function FetchError({ error }: { error: string | null | undefined }) {
+  return error ? (
+    <div className="mt-3">
+      <Notice tone="error">{error}</Notice>
+    </div>
+  ) : null;
+}
+
 /**
  * The filters of a page whose grid is fetched in the browser: the fields,
  * then a live line saying what the grid holds, then the fetch's error.
@@ -85,11 +94,51 @@ export function FiltersCard({
       <p className="mt-3 text-sm text-ink-muted" role="status">
         {status}
       </p>
-      {error ? (
-        <div className="mt-3">
-          <Notice tone="error">{error}</Notice>
-        </div>
-      ) : null}
+      <FetchError error={error} />
     </Card>
+  );
+}
+
+/**
+ * "From" and "To" fields of a period kept in the URL: months or days. Each
+ * bounds the other's picker once it holds a whole value (`pattern`).
+ */
+export function PeriodFields({
+  unit,
+  pattern,
+  from,
+  to,
+  errors,
+  set,
+}: {
+  unit: "month" | "day";
+  pattern: RegExp;
+  from: string;
+  to: string;
+  errors: { fromError?: string; toError?: string };
+  set: (name: "from" | "to", value: string) => void;
+}) {
+  const type = unit === "month" ? "month" : "date";
+  return (
+    <>
+      <Field
+        label={`From ${unit}`}
+        name="from"
+        type={type}
+        value={from}
+        max={pattern.test(to) ? to : undefined}
+        onChange={(e) => set("from", e.target.value)}
+        error={errors.fromError}
+      />
+      <Field
+        label={`To ${unit}`}
+        name="to"
+        type={type}
+        value={to}
+        min={pattern.test(from) ? from : undefined}
+        onChange={(e) => set("to", e.target.value)}
+        error={errors.toError}
+      />
+    </>
   );
 }

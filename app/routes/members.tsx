@@ -55,6 +55,10 @@ function failure(
   return data<ActionResult>({ intent, errors, subject }, { status });
 }
 
+function success(intent: string, message: string) {
+  return data<ActionResult>({ intent, errors: {}, message });
+}
+
 export async function action({ request, params }: Route.ActionArgs) {
   const { organization, user } = await requireMembership(
     request,
@@ -83,11 +87,7 @@ export async function action({ request, params }: Route.ActionArgs) {
             409,
           );
         }
-        return data<ActionResult>({
-          intent,
-          errors: {},
-          message: `Invitation sent to ${form.data.email}.`,
-        });
+        return success(intent, `Invitation sent to ${form.data.email}.`);
       }
       case "change-role": {
         const form = parseForm(formData, changeRoleSchema);
@@ -98,11 +98,10 @@ export async function action({ request, params }: Route.ActionArgs) {
           role: form.data.role,
         });
         if (!changed) notFound("No such member.");
-        return data<ActionResult>({
+        return success(
           intent,
-          errors: {},
-          message: `Role changed to ${roleLabels[form.data.role]}.`,
-        });
+          `Role changed to ${roleLabels[form.data.role]}.`,
+        );
       }
       case "remove": {
         const form = parseForm(formData, removeSchema);
@@ -113,11 +112,7 @@ export async function action({ request, params }: Route.ActionArgs) {
         });
         if (!removed) notFound("No such member.");
         if (form.data.userId === user.id) throw redirect("/");
-        return data<ActionResult>({
-          intent,
-          errors: {},
-          message: "Member removed.",
-        });
+        return success(intent, "Member removed.");
       }
       case "revoke": {
         const form = parseForm(formData, revokeSchema);
@@ -127,11 +122,7 @@ export async function action({ request, params }: Route.ActionArgs) {
           invitationId: form.data.invitationId,
         });
         if (!revoked) notFound("No such invitation.");
-        return data<ActionResult>({
-          intent,
-          errors: {},
-          message: "Invitation withdrawn.",
-        });
+        return success(intent, "Invitation withdrawn.");
       }
       default:
         return failure(intent, { form: "Unknown action." });

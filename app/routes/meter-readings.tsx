@@ -3,6 +3,7 @@ import { data, Link, useNavigation } from "react-router";
 import { idParam, notFound, requireMembership } from "~/auth/membership.server";
 import { can } from "~/auth/permissions";
 import { CarpetPlot } from "~/components/readings/carpet-plot";
+import { FetchError } from "~/components/filters";
 import { EditPanel } from "~/components/readings/edit-panel";
 import { newestReadingsStatus } from "~/components/readings/freshness";
 import { IntervalGrid } from "~/components/readings/interval-grid";
@@ -10,7 +11,7 @@ import { IntervalSummary } from "~/components/readings/interval-summary";
 import { LoadProfile } from "~/components/readings/load-profile";
 import { useIntervals } from "~/components/readings/use-intervals";
 import { SectionCard } from "~/components/section-card";
-import { Card, EmptyState, Field, Notice, PageHeader } from "~/components/ui";
+import { Card, EmptyState, Field, PageHeader } from "~/components/ui";
 import { correctionHint } from "~/ingest/correction-rules";
 import { editInterval } from "~/ingest/edit-interval.server";
 import { editSchema, type EditAnswer } from "~/ingest/interval-edit-form";
@@ -150,11 +151,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
                   : ""}
             </p>
           </div>
-          {error ? (
-            <div className="mt-3">
-              <Notice tone="error">{error}</Notice>
-            </div>
-          ) : null}
+          <FetchError error={error} />
           {page && intervals.length > 0 ? (
             <div className="mt-4">
               <IntervalSummary intervals={intervals} />

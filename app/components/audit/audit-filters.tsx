@@ -3,8 +3,9 @@ import {
   carrierFilter,
   FilterSelect,
   namedChoices,
+  PeriodFields,
+  type FilterChoice,
 } from "~/components/filters";
-import { Field } from "~/components/ui";
 import { MONTH_PATTERN } from "~/lib/months";
 import { useUrlFilters } from "~/lib/use-url-filters";
 import type { AuditFilterName } from "./use-audit";
@@ -90,58 +91,37 @@ export function AuditFilterFields({
   values: AuditFilterValues;
   set: (name: string, value: string) => void;
 }) {
-  const { fromError, toError } = periodErrors(values.from, values.to);
-  const menu = (name: AuditFilterName) => ({
-    name,
-    value: values[name],
-    onChange: (value: string) => set(name, value),
-  });
+  const menus: [AuditFilterName, string, string, FilterChoice[]][] = [
+    ["site", "Site", "All sites", namedChoices(options.sites)],
+    [
+      "meter",
+      "Meter",
+      "All meters",
+      meters.map((m) => ({ value: m.id, label: `${m.code} · ${m.name}` })),
+    ],
+    ["person", "Person", "Everyone", namedChoices(options.people)],
+    ["kind", "Kind of change", "Every kind", kindChoices],
+  ];
   return (
     <div className="grid gap-4 sm:grid-cols-3 lg:grid-cols-6 lg:items-start">
-      <FilterSelect
-        label="Site"
-        all="All sites"
-        choices={namedChoices(options.sites)}
-        {...menu("site")}
-      />
-      <FilterSelect
-        label="Meter"
-        all="All meters"
-        choices={meters.map((m) => ({
-          value: m.id,
-          label: `${m.code} · ${m.name}`,
-        }))}
-        {...menu("meter")}
-      />
-      <FilterSelect
-        label="Person"
-        all="Everyone"
-        choices={namedChoices(options.people)}
-        {...menu("person")}
-      />
-      <FilterSelect
-        label="Kind of change"
-        all="Every kind"
-        choices={kindChoices}
-        {...menu("kind")}
-      />
-      <Field
-        label="From day"
-        name="from"
-        type="date"
-        value={values.from}
-        max={DAY.test(values.to) ? values.to : undefined}
-        onChange={(e) => set("from", e.target.value)}
-        error={fromError}
-      />
-      <Field
-        label="To day"
-        name="to"
-        type="date"
-        value={values.to}
-        min={DAY.test(values.from) ? values.from : undefined}
-        onChange={(e) => set("to", e.target.value)}
-        error={toError}
+      {menus.map(([name, label, all, choices]) => (
+        <FilterSelect
+          key={name}
+          label={label}
+          name={name}
+          value={values[name]}
+          all={all}
+          choices={choices}
+          onChange={(value) => set(name, value)}
+        />
+      ))}
+      <PeriodFields
+        unit="day"
+        pattern={DAY}
+        from={values.from}
+        to={values.to}
+        errors={periodErrors(values.from, values.to)}
+        set={set}
       />
     </div>
   );

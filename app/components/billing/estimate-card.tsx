@@ -2,6 +2,7 @@ import { day, siteCount } from "~/billing/billing-words";
 import type { BillingOverview } from "~/billing/overview.server";
 import { formatMoney, UNIT_PRICE_MINOR } from "~/billing/plan";
 import { SectionCard } from "~/components/section-card";
+import { BigFigure } from "./big-figure";
 
 /** What the next invoice comes to: Stripe's preview, or sites × price. */
 export function EstimateCard({
@@ -17,9 +18,9 @@ export function EstimateCard({
       title="Next invoice"
       className="flex flex-col gap-3"
     >
-      <p className="text-4xl font-semibold" data-testid="estimate">
+      <BigFigure testId="estimate">
         {formatMoney(estimate.amountMinor, estimate.currency)}
-      </p>
+      </BigFigure>
       <p className="text-sm text-ink-muted">
         {estimate.basis === "stripe"
           ? `Stripe's preview for ${day(estimate.dueOn)}, including any adjustment for sites added or removed during the month.`

@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import type { BillingOverview } from "~/billing/overview.server";
 import { SectionCard } from "~/components/section-card";
+import { BigFigure } from "./big-figure";
 
 /** How many sites the plan bills, and which. */
 export function MeteredSitesCard({
@@ -16,9 +17,7 @@ export function MeteredSitesCard({
       title="Metered sites"
       className="flex flex-col gap-3"
     >
-      <p className="text-4xl font-semibold" data-testid="metered-count">
-        {sites.length}
-      </p>
+      <BigFigure testId="metered-count">{sites.length}</BigFigure>
       {sites.length === 0 ? (
         <p className="text-sm text-ink-muted">
           No site has an active meter yet. The plan bills at least one site.

@@ -1,8 +1,7 @@
-import type { ReactNode } from "react";
+import type { ComponentProps, ReactNode } from "react";
 import { SectionCard } from "~/components/section-card";
-import type { LedgerUnit } from "~/ledger/ledger-units";
 import { LedgerGrid } from "./ledger-grid";
-import type { Ledger, LedgerRow } from "./use-ledger";
+import type { LedgerRow } from "./use-ledger";
 
 /**
  * The audit trail filtered to one row's adjusting entries: its site, month
@@ -24,38 +23,22 @@ function Legend({ children }: { children: ReactNode }) {
 }
 
 /** The monthly entries' grid, with what its columns mean. */
-export function LedgerEntries({
-  ledger,
-  unit,
-  perM2,
-  adjustmentsLink,
-}: {
-  ledger: Ledger;
-  unit: LedgerUnit;
-  perM2: boolean;
-  /** Where an adjusted row leads, for those who may open the audit trail. */
-  adjustmentsLink: ((row: LedgerRow) => string) | undefined;
-}) {
+export function LedgerEntries(grid: ComponentProps<typeof LedgerGrid>) {
   return (
     <SectionCard headingId="ledger-heading" title="Monthly entries">
       <div className="mt-3">
-        <LedgerGrid
-          ledger={ledger}
-          unit={unit}
-          perM2={perM2}
-          adjustmentsLink={adjustmentsLink}
-        />
+        <LedgerGrid {...grid} />
       </div>
       <Legend>
         Estimated share: the part of the net figure that comes from estimated
         intervals. ± uncertainty: the heat meters' maximum permissible error (EN
         1434), where it applies. Adjustments: corrections entered after the
         month was closed, with their count
-        {adjustmentsLink
+        {grid.adjustmentsLink
           ? "; select one to see its entries in the audit trail"
           : ""}
         .
-        {perM2
+        {grid.perM2
           ? " Per m²: each site's figures divided by its floor area; a carrier's total by the floor area of the sites listed with it."
           : ""}{" "}
         One total row per carrier (carriers are never added together); each adds

@@ -4,8 +4,8 @@ import {
   carrierFilter,
   FilterSelect,
   namedChoices,
+  PeriodFields,
 } from "~/components/filters";
-import { Field } from "~/components/ui";
 import { defaultMonths, periodErrors } from "~/ledger/ledger-period";
 import { isLedgerUnit, ledgerUnits } from "~/ledger/ledger-units";
 import { MONTH_PATTERN } from "~/lib/months";
@@ -49,23 +49,13 @@ export function LedgerFilterFields({
 }) {
   return (
     <div className="grid gap-4 sm:grid-cols-3 lg:grid-cols-6 lg:items-end">
-      <Field
-        label="From month"
-        name="from"
-        type="month"
-        value={values.from}
-        max={MONTH_PATTERN.test(values.to) ? values.to : undefined}
-        onChange={(e) => set("from", e.target.value)}
-        error={errors.fromError}
-      />
-      <Field
-        label="To month"
-        name="to"
-        type="month"
-        value={values.to}
-        min={MONTH_PATTERN.test(values.from) ? values.from : undefined}
-        onChange={(e) => set("to", e.target.value)}
-        error={errors.toError}
+      <PeriodFields
+        unit="month"
+        pattern={MONTH_PATTERN}
+        from={values.from}
+        to={values.to}
+        errors={errors}
+        set={set}
       />
       <FilterSelect
         label="Site"
