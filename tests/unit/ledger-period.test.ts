@@ -3,7 +3,7 @@ import {
   defaultMonths,
   MAX_LEDGER_MONTHS,
   periodErrors,
-} from "./ledger-period";
+} from "~/ledger/ledger-period";
 
 describe("the Ledger page's months", () => {
   it("defaults to the twelve full months before today, across a year end", () => {
