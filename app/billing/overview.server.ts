@@ -130,3 +130,6 @@ export async function billingOverview(organizationId: string) {
     attempt: randomUUID(),
   };
 }
+
+/** What the Billing page shows (its cards take their parts of it). */
+export type BillingOverview = Awaited<ReturnType<typeof billingOverview>>;

@@ -1,23 +1,20 @@
 import type { ReactNode } from "react";
 import { Card } from "~/components/ui";
 
-/**
- * A card that is a section of its page: a heading that names it (and labels
- * it for assistive technology), then what it shows.
- */
+/** A card under its own heading, which names the card for screen readers. */
 export function SectionCard({
-  id,
+  headingId,
   title,
+  className,
   children,
 }: {
-  /** Unique on the page: the heading's id is `<id>-heading`. */
-  id: string;
+  headingId: string;
   title: ReactNode;
+  className?: string;
   children: ReactNode;
 }) {
-  const headingId = `${id}-heading`;
   return (
-    <Card aria-labelledby={headingId}>
+    <Card aria-labelledby={headingId} className={className}>
       <h2 id={headingId} className="text-lg">
         {title}
       </h2>

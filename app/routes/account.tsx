@@ -7,13 +7,13 @@ import {
   Badge,
   Button,
   Card,
-  EmptyState,
   Field,
   Notice,
   PageHeader,
 } from "~/components/ui";
 import { newPasswordField, parseForm } from "~/lib/forms";
 import type { Route } from "./+types/account";
+import { ListCard } from "~/components/list-card";
 import { NewPasswordFields } from "~/components/new-password-fields";
 
 export const meta: Route.MetaFunction = () => [
@@ -84,35 +84,31 @@ export default function Account({
         description={`${user.name} · ${user.email}`}
       />
       <div className="grid gap-6 lg:grid-cols-2">
-        <Card aria-labelledby="orgs-heading">
-          <h2 id="orgs-heading" className="text-lg">
-            Your organisations
-          </h2>
-          {organizations.length === 0 ? (
-            <div className="mt-3">
-              <EmptyState title="No organisation yet">
-                Ask an owner to invite you by e-mail.
-              </EmptyState>
-            </div>
-          ) : (
-            <ul className="mt-3 divide-y divide-line">
-              {organizations.map((org) => (
-                <li
-                  key={org.id}
-                  className="flex items-center justify-between py-3"
-                >
-                  <Link
-                    to={`/o/${org.id}`}
-                    className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
-                  >
-                    {org.name}
-                  </Link>
-                  <Badge tone="spruce">{roleLabels[org.role]}</Badge>
-                </li>
-              ))}
-            </ul>
-          )}
-        </Card>
+        <ListCard
+          headingId="orgs-heading"
+          title="Your organisations"
+          empty={
+            organizations.length === 0
+              ? {
+                  title: "No organisation yet",
+                  text: "Ask an owner to invite you by e-mail.",
+                }
+              : null
+          }
+          list={{ className: "mt-3" }}
+        >
+          {organizations.map((org) => (
+            <li key={org.id} className="flex items-center justify-between py-3">
+              <Link
+                to={`/o/${org.id}`}
+                className="font-semibold text-spruce-700 underline-offset-4 hover:underline"
+              >
+                {org.name}
+              </Link>
+              <Badge tone="spruce">{roleLabels[org.role]}</Badge>
+            </li>
+          ))}
+        </ListCard>
         <Card aria-labelledby="password-heading">
           <h2 id="password-heading" className="text-lg">
             Change password

@@ -5,28 +5,20 @@ import {
   type ShouldRevalidateFunctionArgs,
 } from "react-router";
 import { auditFilterOptions } from "~/audit/audit-trail.server";
-import { auditKindLabels, auditKinds, isAuditKind } from "~/audit/kinds";
 import { requirePermission } from "~/auth/page-access.server";
+import {
+  AuditFilterFields,
+  periodErrors,
+  useAuditFilters,
+} from "~/components/audit/audit-filters";
 import { AuditGrid } from "~/components/audit/audit-grid";
-import {
-  auditQuery,
-  useAuditEntries,
-  type AuditFilterName,
-} from "~/components/audit/use-audit";
-import { SiteOptions } from "~/components/options";
-import {
-  Button,
-  Card,
-  cx,
-  EmptyState,
-  Field,
-  Notice,
-  PageHeader,
-  SelectField,
-} from "~/components/ui";
+import { LedgerScope } from "~/components/audit/ledger-scope";
+import { auditQuery, useAuditEntries } from "~/components/audit/use-audit";
+import { ExportLink } from "~/components/export-link";
+import { FiltersCard } from "~/components/filters";
+import { SectionCard } from "~/components/section-card";
+import { Button, EmptyState, PageHeader } from "~/components/ui";
 import { useHydrated } from "~/lib/use-hydrated";
-import { useUrlFilters } from "~/lib/use-url-filters";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
 import type { Route } from "./+types/audit";
 
 export const meta: Route.MetaFunction = () => [
@@ -52,200 +44,9 @@ export function shouldRevalidate({
   return defaultShouldRevalidate;
 }
 
-type LoaderData = Route.ComponentProps["loaderData"];
-
-const DAY = /^\d{4}-(0[1-9]|1[0-2])-(0[1-9]|[12]\d|3[01])$/;
-const MONTH = /^\d{4}-(0[1-9]|1[0-2])$/;
-
-const linkButton =
-  "inline-flex min-h-10 items-center justify-center rounded-lg bg-surface px-4 text-[15px] font-semibold text-ink ring-1 ring-inset ring-line-strong";
-
-function monthName(month: string): string {
-  const [y, m] = month.split("-").map(Number);
-  return new Intl.DateTimeFormat("en-GB", {
-    month: "long",
-    year: "numeric",
-    timeZone: "UTC",
-  }).format(new Date(Date.UTC(y, m - 1, 1)));
-}
-
-/**
- * The filters as asked for in the URL, kept only where they make sense:
- * an id that is not one of this organisation's options is not used.
- */
-function useFilters(options: LoaderData) {
-  const [get, set] = useUrlFilters();
-  const oneOf = (name: string, ids: readonly string[]) => {
-    const value = get(name);
-    return ids.includes(value) ? value : "";
-  };
-  const site = oneOf(
-    "site",
-    options.sites.map((s) => s.id),
-  );
-  const meters = site
-    ? options.meters.filter((m) => m.siteId === site)
-    : options.meters;
-  const kind = get("kind");
-  const carrier = get("carrier");
-  const since = get("since");
-  const values: Record<AuditFilterName, string> = {
-    site,
-    meter: oneOf(
-      "meter",
-      meters.map((m) => m.id),
-    ),
-    person: oneOf(
-      "person",
-      options.people.map((p) => p.id),
-    ),
-    kind: isAuditKind(kind) ? kind : "",
-    from: get("from"),
-    to: get("to"),
-    month: MONTH.test(get("month")) ? get("month") : "",
-    carrier: (carriers as readonly string[]).includes(carrier) ? carrier : "",
-    since: Number.isNaN(Date.parse(since)) ? "" : since,
-  };
-  return { values, meters, set };
-}
-
-function periodErrors(from: string, to: string) {
-  const fromError =
-    from && !DAY.test(from) ? "Use a day like 2026-01-31." : undefined;
-  const toError =
-    to && !DAY.test(to)
-      ? "Use a day like 2026-01-31."
-      : from && to && !fromError && to < from
-        ? "The last day comes before the first."
-        : undefined;
-  return { fromError, toError };
-}
-
-/** The Ledger's link to a closed month's adjusting entries, said in words. */
-function LedgerScope({
-  values,
-  siteName,
-  onClear,
-}: {
-  values: Record<AuditFilterName, string>;
-  siteName: string | undefined;
-  onClear: () => void;
-}) {
-  if (!values.month && !values.carrier && !values.since) return null;
-  const closed = values.since
-    ? new Intl.DateTimeFormat("en-GB", {
-        dateStyle: "medium",
-        timeStyle: "short",
-      }).format(new Date(values.since))
-    : null;
-  return (
-    <Notice title="From the Ledger">
-      Showing{" "}
-      {values.kind === "adjustment" ? "the adjusting entries" : "entries"}
-      {values.carrier
-        ? ` to ${carrierLabels[values.carrier as (typeof carriers)[number]].toLowerCase()}`
-        : ""}
-      {siteName ? ` at ${siteName}` : ""}
-      {values.month ? ` for ${monthName(values.month)}` : ""}
-      {closed ? `, made since the month was closed (${closed})` : ""}.{" "}
-      <button
-        type="button"
-        onClick={onClear}
-        className="font-semibold underline"
-      >
-        Show all entries
-      </button>
-    </Notice>
-  );
-}
-
-function Filters({
-  options,
-  meters,
-  values,
-  set,
-}: {
-  options: LoaderData;
-  meters: LoaderData["meters"];
-  values: Record<AuditFilterName, string>;
-  set: (name: string, value: string) => void;
-}) {
-  const { fromError, toError } = periodErrors(values.from, values.to);
-  return (
-    <div className="grid gap-4 sm:grid-cols-3 lg:grid-cols-6 lg:items-start">
-      <SelectField
-        label="Site"
-        name="site"
-        value={values.site}
-        onChange={(e) => set("site", e.target.value)}
-      >
-        <option value="">All sites</option>
-        <SiteOptions sites={options.sites} />
-      </SelectField>
-      <SelectField
-        label="Meter"
-        name="meter"
-        value={values.meter}
-        onChange={(e) => set("meter", e.target.value)}
-      >
-        <option value="">All meters</option>
-        {meters.map((m) => (
-          <option key={m.id} value={m.id}>
-            {m.code} · {m.name}
-          </option>
-        ))}
-      </SelectField>
-      <SelectField
-        label="Person"
-        name="person"
-        value={values.person}
-        onChange={(e) => set("person", e.target.value)}
-      >
-        <option value="">Everyone</option>
-        {options.people.map((p) => (
-          <option key={p.id} value={p.id}>
-            {p.name}
-          </option>
-        ))}
-      </SelectField>
-      <SelectField
-        label="Kind of change"
-        name="kind"
-        value={values.kind}
-        onChange={(e) => set("kind", e.target.value)}
-      >
-        <option value="">Every kind</option>
-        {auditKinds.map((k) => (
-          <option key={k} value={k}>
-            {auditKindLabels[k]}
-          </option>
-        ))}
-      </SelectField>
-      <Field
-        label="From day"
-        name="from"
-        type="date"
-        value={values.from}
-        max={DAY.test(values.to) ? values.to : undefined}
-        onChange={(e) => set("from", e.target.value)}
-        error={fromError}
-      />
-      <Field
-        label="To day"
-        name="to"
-        type="date"
-        value={values.to}
-        min={DAY.test(values.from) ? values.from : undefined}
-        onChange={(e) => set("to", e.target.value)}
-        error={toError}
-      />
-    </div>
-  );
-}
-
 export default function AuditTrailPage({ loaderData }: Route.ComponentProps) {
   const { organization } = loaderData;
-  const { values, meters, set } = useFilters(loaderData);
+  const { values, meters, set } = useAuditFilters(loaderData);
   const [, setParams] = useSearchParams();
   // The grid and the reader's time zone exist in the browser only.
   const mounted = useHydrated();
@@ -270,23 +71,15 @@ export default function AuditTrailPage({ loaderData }: Route.ComponentProps) {
         title="Audit trail"
         description={`Every change in ${organization.name}: who made it, when, why, and what it was before and after.`}
         actions={
-          <a
+          <ExportLink
             href={
               query === null
-                ? undefined
+                ? null
                 : `/api/v1/orgs/${organization.id}/audit.csv?${query}`
             }
-            aria-disabled={query === null ? "true" : undefined}
-            download
-            className={cx(
-              linkButton,
-              query === null
-                ? "cursor-not-allowed text-ink-faint"
-                : "hover:bg-sunken",
-            )}
           >
             Export CSV
-          </a>
+          </ExportLink>
         }
       />
       <div className="flex flex-col gap-6">
@@ -295,29 +88,23 @@ export default function AuditTrailPage({ loaderData }: Route.ComponentProps) {
           siteName={siteName}
           onClear={clearLedgerScope}
         />
-        <Card aria-labelledby="filters-heading">
-          <h2 id="filters-heading" className="sr-only">
-            Filters
-          </h2>
-          <Filters
+        <FiltersCard
+          error={error}
+          status={
+            loading
+              ? "Loading…"
+              : query !== null && !error
+                ? `${entries.length.toLocaleString("en-GB")} ${entries.length === 1 ? "entry" : "entries"}${hasOlder ? " so far" : ""}, newest first`
+                : ""
+          }
+        >
+          <AuditFilterFields
             options={loaderData}
             meters={meters}
             values={values}
             set={set}
           />
-          <p className="mt-3 text-sm text-ink-muted" role="status">
-            {loading
-              ? "Loading…"
-              : query !== null && !error
-                ? `${entries.length.toLocaleString("en-GB")} ${entries.length === 1 ? "entry" : "entries"}${hasOlder ? " so far" : ""}, newest first`
-                : ""}
-          </p>
-          {error ? (
-            <div className="mt-3">
-              <Notice tone="error">{error}</Notice>
-            </div>
-          ) : null}
-        </Card>
+        </FiltersCard>
         {!loading && !error && query !== null && entries.length === 0 ? (
           <EmptyState title="No changes match these filters">
             Changes appear here as people correct hours, close months, look
@@ -325,10 +112,7 @@ export default function AuditTrailPage({ loaderData }: Route.ComponentProps) {
           </EmptyState>
         ) : null}
         {mounted && entries.length > 0 ? (
-          <Card aria-labelledby="entries-heading">
-            <h2 id="entries-heading" className="text-lg">
-              Changes
-            </h2>
+          <SectionCard headingId="entries-heading" title="Changes">
             <div className="mt-3">
               <AuditGrid entries={entries} />
             </div>
@@ -347,7 +131,7 @@ export default function AuditTrailPage({ loaderData }: Route.ComponentProps) {
               Times are in your browser's time zone ({timeZone}); the CSV gives
               them in UTC. Meters, sites and people are named as they are now.
             </p>
-          </Card>
+          </SectionCard>
         ) : null}
         <p className="text-sm text-ink-muted">
           Adjusting entries also appear in the{" "}

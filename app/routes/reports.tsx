@@ -3,7 +3,7 @@ import { data, Form, Link, useNavigation, useRevalidator } from "react-router";
 import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
-import { SiteOptions } from "~/components/options";
+import { ListCard } from "~/components/list-card";
 import {
   Badge,
   Button,
@@ -24,6 +24,7 @@ import { queueReport } from "~/reports/report-jobs.server";
 import { listReports } from "~/reports/reports.server";
 import { anyInProgress, type ReportSummary } from "~/reports/report-summary";
 import { listSites } from "~/sites/sites.server";
+import { SiteOptions } from "~/components/options";
 import type { Route } from "./+types/reports";
 
 export const meta: Route.MetaFunction = () => [
@@ -229,24 +230,23 @@ function ReportList({
   orgId: string;
 }) {
   return (
-    <Card aria-labelledby="report-list-heading">
-      <h2 id="report-list-heading" className="text-lg">
-        Issued reports
-      </h2>
-      {reports.length === 0 ? (
-        <div className="mt-3">
-          <EmptyState title="No reports yet">
-            An energy manager or owner can make one above.
-          </EmptyState>
-        </div>
-      ) : (
-        <ul className="mt-2 divide-y divide-line" aria-live="polite">
-          {reports.map((r) => (
-            <ReportItem key={r.id} report={r} orgId={orgId} />
-          ))}
-        </ul>
-      )}
-    </Card>
+    <ListCard
+      headingId="report-list-heading"
+      title="Issued reports"
+      empty={
+        reports.length === 0
+          ? {
+              title: "No reports yet",
+              text: "An energy manager or owner can make one above.",
+            }
+          : null
+      }
+      list={{ className: "mt-2", "aria-live": "polite" }}
+    >
+      {reports.map((r) => (
+        <ReportItem key={r.id} report={r} orgId={orgId} />
+      ))}
+    </ListCard>
   );
 }
 

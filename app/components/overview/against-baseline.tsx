@@ -18,7 +18,7 @@ export function AgainstBaseline({
   base,
 }: MonthOfSitesProps<BaselineComparison>) {
   return (
-    <SectionCard id="baseline" title="Against baseline">
+    <SectionCard headingId="baseline-heading" title="Against baseline">
       <p className="text-sm text-ink-muted">
         {month} against what each site's newest saved baseline predicts for that
         month's degree days: ▲ more energy than expected, ▼ less; solid beyond ±

@@ -23,7 +23,7 @@ export function AlertSettings({
     ["monthReady", "Last month is ready to close", alerts.monthReady],
   ] as const;
   return (
-    <SectionCard id="alerts" title="Your alert e-mails">
+    <SectionCard headingId="alerts-heading" title="Your alert e-mails">
       <p className="text-sm text-ink-muted">
         One e-mail per check, listing the conditions that started; none again
         until each has cleared.

@@ -9,7 +9,10 @@ import { EmptyState } from "~/components/ui";
 /** The estate's delivered and exported energy per month, by carrier. */
 export function EnergyByMonth({ months }: { months: CarrierMonth[] }) {
   return (
-    <SectionCard id="carrier" title="Energy delivered and exported per month">
+    <SectionCard
+      headingId="carrier-heading"
+      title="Energy delivered and exported per month"
+    >
       <p className="text-sm text-ink-muted">
         Boundary meters, by carrier: delivered above zero, exported below it.
         Carriers are shown side by side, never added together.

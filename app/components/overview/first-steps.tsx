@@ -52,7 +52,7 @@ export function FirstSteps({
     },
   ];
   return (
-    <SectionCard id="first-steps" title={title}>
+    <SectionCard headingId="first-steps-heading" title={title}>
       <p className="mt-1 text-ink-muted">
         The figures on this page appear once a meter on a site sends readings.
         Three steps get there:

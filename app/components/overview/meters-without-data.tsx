@@ -20,7 +20,7 @@ export function MetersWithoutData({
 }) {
   const other = hours === 24 ? 72 : 24;
   return (
-    <SectionCard id="silent" title="Meters with no data">
+    <SectionCard headingId="silent-heading" title="Meters with no data">
       <p className="text-sm text-ink-muted">
         No actual reading for more than {hours} hours.{" "}
         <Link className="underline" to={`?silent=${other}`}>

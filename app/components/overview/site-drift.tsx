@@ -16,7 +16,7 @@ export function SitesThatChanged({
   base,
 }: MonthOfSitesProps<SiteDrift>) {
   return (
-    <SectionCard id="drift" title="Sites that changed most">
+    <SectionCard headingId="drift-heading" title="Sites that changed most">
       <p className="text-sm text-ink-muted">
         Energy delivered in {month} against the same month a year before, per
         carrier (boundary import meters; chilled water as cooling delivered): ▲

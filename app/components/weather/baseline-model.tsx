@@ -49,7 +49,7 @@ export function BaselineModelCard({
   const limits = GUIDELINE_14[view.saved?.granularity ?? "monthly"];
   return (
     <SectionCard
-      id="model"
+      headingId="model-heading"
       title={view.saved ? "Saved baseline" : "Baseline model"}
     >
       {view.saved ? (

@@ -20,7 +20,10 @@ export interface AnalysisCardProps {
 /** The months of both periods: a chart, and the figures in a table below it. */
 export function DegreeDaysByMonth({ carrier, analysis }: AnalysisCardProps) {
   return (
-    <SectionCard id="months" title="Degree days and energy by month">
+    <SectionCard
+      headingId="months-heading"
+      title="Degree days and energy by month"
+    >
       <BrowserOnly>
         <DegreeDayChart
           carrier={carrier}

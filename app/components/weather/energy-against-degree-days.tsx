@@ -10,7 +10,7 @@ export function EnergyAgainstDegreeDays({
   analysis,
 }: AnalysisCardProps) {
   return (
-    <SectionCard id="scatter" title="Energy against degree days">
+    <SectionCard headingId="scatter-heading" title="Energy against degree days">
       <BrowserOnly>
         <BaselineScatter
           carrier={carrier}

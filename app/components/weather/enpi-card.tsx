@@ -18,7 +18,7 @@ export function EnpiCard({
     ["Reporting period", analysis.reporting, analysis.enpis.reporting],
   ] as const;
   return (
-    <SectionCard id="enpi" title="Energy performance indicators">
+    <SectionCard headingId="enpi-heading" title="Energy performance indicators">
       <p className="mt-1 text-ink-muted">
         Ratio EnPIs in the sense of ISO 50006 over the months counted; the
         regression above is the statistical EnPI. Energy per degree day includes

@@ -29,7 +29,7 @@ export function SavedBaselines({
 }) {
   if (savedList.length === 0) return null;
   return (
-    <SectionCard id="saved" title="Saved baselines">
+    <SectionCard headingId="saved-heading" title="Saved baselines">
       <FigureTable
         className="mt-3"
         columns={[

@@ -17,7 +17,7 @@ export function SavingsCard({ analysis }: { analysis: AnalysisView }) {
       m.month <= analysis.reporting.to,
   );
   return (
-    <SectionCard id="savings" title="Weather-normalised savings">
+    <SectionCard headingId="savings-heading" title="Weather-normalised savings">
       <p className="mt-1 text-ink-muted">
         Avoided energy use = adjusted baseline − reporting-period energy: the
         baseline model restated to each reporting month's degree days, less what

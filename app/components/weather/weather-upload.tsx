@@ -200,7 +200,7 @@ export function WeatherUpload({
 /** The upload section of the page, for those who may upload. */
 export function WeatherUploadCard(props: Parameters<typeof WeatherUpload>[0]) {
   return (
-    <SectionCard id="upload" title="Upload weather">
+    <SectionCard headingId="upload-heading" title="Upload weather">
       <p className="mt-1 text-ink-muted">
         Daily mean outdoor temperature, °C, for the days of the site's own
         calendar. The whole file is checked first: if any row is wrong, nothing

@@ -1,0 +1,50 @@
+import type { ComponentProps, ReactNode } from "react";
+import { SectionCard } from "~/components/section-card";
+import { LedgerGrid } from "./ledger-grid";
+import type { LedgerRow } from "./use-ledger";
+
+/**
+ * The audit trail filtered to one row's adjusting entries: its site, month
+ * and carrier, made since the month was closed (as the ledger counts them).
+ */
+export function adjustmentsHref(orgId: string, row: LedgerRow): string {
+  const query = new URLSearchParams({
+    kind: "adjustment",
+    site: row.site_id,
+    month: row.month,
+    carrier: row.carrier,
+  });
+  if (row.closed_at) query.set("since", row.closed_at);
+  return `/o/${orgId}/audit?${query}`;
+}
+
+function Legend({ children }: { children: ReactNode }) {
+  return <p className="mt-3 text-sm text-ink-muted">{children}</p>;
+}
+
+/** The monthly entries' grid, with what its columns mean. */
+export function LedgerEntries(grid: ComponentProps<typeof LedgerGrid>) {
+  return (
+    <SectionCard headingId="ledger-heading" title="Monthly entries">
+      <div className="mt-3">
+        <LedgerGrid {...grid} />
+      </div>
+      <Legend>
+        Estimated share: the part of the net figure that comes from estimated
+        intervals. ± uncertainty: the heat meters' maximum permissible error (EN
+        1434), where it applies. Adjustments: corrections entered after the
+        month was closed, with their count
+        {grid.adjustmentsLink
+          ? "; select one to see its entries in the audit trail"
+          : ""}
+        .
+        {grid.perM2
+          ? " Per m²: each site's figures divided by its floor area; a carrier's total by the floor area of the sites listed with it."
+          : ""}{" "}
+        One total row per carrier (carriers are never added together); each adds
+        its uncertainty bands, a bound that holds even when meter errors are
+        correlated.
+      </Legend>
+    </SectionCard>
+  );
+}
