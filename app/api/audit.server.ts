@@ -8,8 +8,9 @@ import {
 import { sideText } from "~/audit/describe";
 import { auditKinds } from "~/audit/kinds";
 import { toCsv } from "~/lib/csv-export";
+import { idSchema } from "~/lib/ids";
 import { MONTH_PATTERN } from "~/lib/months";
-import { carriers } from "~/sites/meter-schema";
+import { carriers } from "~/sites/meter-kinds";
 import { isTimeZone } from "~/sites/site-schema";
 import { sendError, sendValidationError } from "./respond.server";
 
@@ -18,8 +19,8 @@ const optional = <T extends z.ZodType>(schema: T) =>
   z.union([z.literal(""), schema]).optional();
 
 export const auditFiltersSchema = z.strictObject({
-  site: optional(z.uuid("site: expected a site id")),
-  meter: optional(z.uuid("meter: expected a meter id")),
+  site: optional(idSchema("site: expected a site id")),
+  meter: optional(idSchema("meter: expected a meter id")),
   person: optional(z.string().max(128, "person: expected a person's id")),
   kind: optional(
     z.enum(auditKinds, { error: `kind: one of ${auditKinds.join(", ")}` }),

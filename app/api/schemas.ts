@@ -10,14 +10,14 @@
  * `~/reports/report-request`.
  */
 import { z } from "zod";
+import { idSchema } from "~/lib/ids";
 import { MONTH_PATTERN } from "~/lib/months";
+import { intervalQualities } from "~/ingest/series";
 import { ledgerUnits } from "~/ledger/ledger-units";
 import { reportSummarySchema } from "~/reports/report-summary";
+import { carriers, orientations } from "~/sites/meter-kinds";
 
 // ---------------------------------------------------------------- shared --
-
-/** Any 8-4-4-4-12 hex id, the form PostgreSQL's uuid type takes (`isUuid`). */
-const id = () => z.guid();
 
 /** Exact PostgreSQL numerics travel as decimal text, never as doubles. */
 const decimalKwh = (description: string) =>
@@ -26,8 +26,7 @@ const decimalKwh = (description: string) =>
     .regex(/^-?\d+(\.\d+)?$/)
     .describe(`${description}, kWh as exact decimal text`);
 
-export const CARRIERS = ["heat", "cooling", "steam", "electricity"] as const;
-const carrier = z.enum(CARRIERS);
+const carrier = z.enum(carriers);
 
 /** Every API error: a code, a sentence, and (for `invalid_body`) field issues. */
 export const errorBodySchema = z.strictObject({
@@ -49,10 +48,10 @@ export type ApiErrorBody = z.output<typeof errorBodySchema>;
 // ---------------------------------------------------------- path params --
 
 export const orgPathSchema = z.strictObject({
-  orgId: id().describe("The organisation; another's answers 404"),
+  orgId: idSchema().describe("The organisation; another's answers 404"),
 });
-export const meterPathSchema = orgPathSchema.extend({ meterId: id() });
-export const reportPathSchema = orgPathSchema.extend({ reportId: id() });
+export const meterPathSchema = orgPathSchema.extend({ meterId: idSchema() });
+export const reportPathSchema = orgPathSchema.extend({ reportId: idSchema() });
 
 // ---------------------------------------------------------------- health --
 
@@ -71,7 +70,7 @@ export const itemProblemSchema = z.strictObject({
 });
 
 export const ingestAnswerSchema = z.strictObject({
-  batch_id: id(),
+  batch_id: idSchema(),
   accepted: z.number().int(),
   repeats: z
     .number()
@@ -102,7 +101,7 @@ export const intervalsQuerySchema = z.strictObject({
 export const intervalSchema = z.strictObject({
   hour_start: z.iso.datetime(),
   energy_kwh: decimalKwh("Signed energy of the hour (into the site +)"),
-  quality: z.enum(["measured", "estimated", "edited", "missing"]),
+  quality: z.enum(intervalQualities),
   flags: z.array(z.string()),
   estimate_method: z.string().nullable(),
   source_count: z.number().int().describe("Readings behind the hour"),
@@ -111,11 +110,11 @@ export type Interval = z.output<typeof intervalSchema>;
 
 export const intervalPageSchema = z.strictObject({
   meter: z.strictObject({
-    id: id(),
+    id: idSchema(),
     code: z.string(),
     name: z.string(),
     carrier,
-    orientation: z.enum(["import", "export"]),
+    orientation: z.enum(orientations),
     time_zone: z.string(),
   }),
   from: z.iso.datetime(),
@@ -135,11 +134,11 @@ export const ledgerQuerySchema = z.strictObject({
   from: monthParam("from").describe("First month, YYYY-MM"),
   to: monthParam("to").describe("Last month, YYYY-MM; at most 120 months"),
   site: z
-    .union([z.literal(""), z.uuid("site: expected a site id")])
+    .union([z.literal(""), idSchema("site: expected a site id")])
     .optional()
     .describe("One site; empty or absent: every site"),
   carrier: z
-    .enum(["", ...CARRIERS], {
+    .enum(["", ...carriers], {
       error: "carrier: heat, cooling, steam or electricity",
     })
     .optional()
@@ -167,7 +166,7 @@ export const ledgerExportQuerySchema = ledgerQuerySchema.extend({
  * a positive figure.
  */
 export const ledgerRowSchema = z.strictObject({
-  site_id: id(),
+  site_id: idSchema(),
   site_name: z.string(),
   floor_area_m2: z.string().nullable().describe("Decimal text, m²"),
   month: z.string().regex(MONTH_PATTERN),
@@ -216,7 +215,7 @@ export const reportListSchema = z.strictObject({
 });
 
 export const reportQueuedSchema = z.strictObject({
-  id: id(),
+  id: idSchema(),
   status: z.literal("queued"),
 });
 
@@ -231,7 +230,7 @@ export const verifyOutcomeSchema = z.discriminatedUnion("verdict", [
     verdict: z.literal("genuine"),
     ...signature,
     report: z.strictObject({
-      id: id(),
+      id: idSchema(),
       title: z.string(),
       completedAt: z.iso.datetime().nullable(),
       authorName: z.string().nullable(),
@@ -288,9 +287,9 @@ export const auditEntrySchema = z.strictObject({
     id: z.string().nullable(),
     name: z.string(),
   }),
-  site: z.strictObject({ id: id(), name: z.string() }).nullable(),
+  site: z.strictObject({ id: idSchema(), name: z.string() }).nullable(),
   meter: z
-    .strictObject({ id: id(), code: z.string(), name: z.string() })
+    .strictObject({ id: idSchema(), code: z.string(), name: z.string() })
     .nullable(),
   subject: z.string(),
   reason: z.string().nullable(),

@@ -5,6 +5,7 @@
  * organisation, joins included, so no filter can reach another tenant.
  */
 import { pool } from "~/db/client.server";
+import { UUID_TEXT } from "~/lib/ids";
 import { describeChanges, type ChangeLine } from "./describe";
 import {
   actionLabel,
@@ -84,8 +85,6 @@ interface Row {
   invitation_email: string | null;
 }
 
-const UUID = "[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}";
-
 /**
  * Every filter is a parameter that is either null (not filtering) or the
  * value to match, so the statement is fixed text. Hour corrections are
@@ -97,7 +96,7 @@ const ENTRIES_SQL = `
     select a.*,
            coalesce(a.meter_id,
                     case when a.action = 'interval.edited'
-                         then substring(a.subject from '^(${UUID})@')::uuid end) as placed_meter_id,
+                         then substring(a.subject from '^(${UUID_TEXT})@')::uuid end) as placed_meter_id,
            coalesce(a.before, case when a.action = 'interval.edited' then nullif(a.details->'from', 'null'::jsonb) end) as placed_before,
            -- A corrected hour is always "edited" afterwards; the entry keeps only its value.
            coalesce(a.after, case when a.action = 'interval.edited'

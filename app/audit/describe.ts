@@ -11,7 +11,7 @@ import {
   carriers,
   quantities,
   quantityLabels,
-} from "~/sites/meter-schema";
+} from "~/sites/meter-kinds";
 
 export interface ChangeLine {
   field: string;

@@ -7,13 +7,14 @@
  */
 import { Link } from "react-router";
 import { carrierColour } from "~/sites/carrier-colours";
+import type { Carrier, Orientation } from "~/sites/meter-kinds";
 
 export interface BoundaryMeter {
   id: string;
   code: string;
   name: string;
-  carrier: "heat" | "cooling" | "steam" | "electricity";
-  orientation: "import" | "export";
+  carrier: Carrier;
+  orientation: Orientation;
   parentMeterId: string | null;
   retired: boolean;
   energyKwh30d: number | null;

@@ -47,13 +47,6 @@ export function formatKwh(kwh: number, minimumFractionDigits = 0): string {
     .replace(/^-/, "−");
 }
 
-const carrierNouns: Record<string, string> = {
-  heat: "heat",
-  cooling: "cooling",
-  steam: "steam",
-  electricity: "electricity",
-};
-
 function direction(meter: MeterBoundary): string {
   return meter.orientation === "import"
     ? "delivered to the site"
@@ -62,7 +55,8 @@ function direction(meter: MeterBoundary): string {
 
 /** What the meter's hours are, for the correction field's hint. */
 export function correctionHint(meter: MeterBoundary): string {
-  const noun = carrierNouns[meter.carrier] ?? meter.carrier;
+  // The carriers' names are the trade's nouns: "Heat delivered to the site".
+  const noun = meter.carrier;
   const what = `${noun[0].toUpperCase()}${noun.slice(1)} ${direction(meter)}`;
   if (expectedSign(meter) === 1)
     return `${what}: enter a positive number of kWh (or 0).`;
@@ -77,7 +71,7 @@ export function wrongSignError(
 ): string | null {
   const sign = expectedSign(meter);
   if (energyKwh * sign >= 0) return null;
-  const noun = carrierNouns[meter.carrier] ?? meter.carrier;
+  const noun = meter.carrier;
   const counted = sign === 1 ? "positive" : "negative";
   const verb = meter.orientation === "import" ? "delivered" : "exported";
   return (

@@ -3,6 +3,7 @@
  * site-local calendar months (the ledger's months). Pure: no database.
  */
 import { z } from "zod";
+import { MONTH_PATTERN } from "~/lib/months";
 
 export const periodKinds = ["month", "quarter", "year"] as const;
 export type PeriodKind = (typeof periodKinds)[number];
@@ -39,7 +40,7 @@ const MONTH_NAMES = [
 ];
 
 const ANCHOR: Record<PeriodKind, { pattern: RegExp; example: string }> = {
-  month: { pattern: /^(\d{4})-(0[1-9]|1[0-2])$/, example: "2026-03" },
+  month: { pattern: MONTH_PATTERN, example: "2026-03" },
   quarter: { pattern: /^(\d{4})-Q([1-4])$/, example: "2026-Q1" },
   year: { pattern: /^(\d{4})$/, example: "2026" },
 };

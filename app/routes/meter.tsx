@@ -12,10 +12,9 @@ import {
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
 import { dayUtc } from "~/lib/times";
+import { carrierLabels, quantityLabels } from "~/sites/meter-kinds";
 import {
-  carrierLabels,
   meterFormSchema,
-  quantityLabels,
   replaceSchema,
   retireSchema,
 } from "~/sites/meter-schema";

@@ -23,7 +23,7 @@ import { deliveredSign } from "~/ledger/delivered";
 import { parseForm } from "~/lib/forms";
 import { siteEnergySince } from "~/sites/meter-energy.server";
 import { listSiteMeters } from "~/sites/meters.server";
-import { carrierLabels } from "~/sites/meter-schema";
+import { carrierLabels } from "~/sites/meter-kinds";
 import { siteFormSchema } from "~/sites/site-schema";
 import { DuplicateNameError, getSite, updateSite } from "~/sites/sites.server";
 import type { Route } from "./+types/site";

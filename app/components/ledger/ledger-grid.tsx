@@ -25,7 +25,7 @@ import {
   type LedgerUnit,
 } from "~/ledger/ledger-units";
 import { useWidth } from "~/lib/use-width";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { carrierLabels, carriers } from "~/sites/meter-kinds";
 import type { Ledger, LedgerRow } from "./use-ledger";
 
 // Only the modules this grid uses. Row grouping is not among the community

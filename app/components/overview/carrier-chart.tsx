@@ -10,7 +10,7 @@ import {
   YAxis,
 } from "recharts";
 import { carrierColour } from "~/sites/carrier-colours";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { carrierLabels, carriers } from "~/sites/meter-kinds";
 
 type Carrier = (typeof carriers)[number];
 

@@ -1,6 +1,7 @@
 import { Scatter, ScatterChart, Tooltip, XAxis, YAxis } from "recharts";
 import { useWidth } from "~/lib/use-width";
-import { carrierColour, type Carrier } from "~/sites/carrier-colours";
+import { carrierColour } from "~/sites/carrier-colours";
+import type { Carrier } from "~/sites/meter-kinds";
 import { qualityLabels, type Interval } from "./use-intervals";
 
 interface Cell {

@@ -7,7 +7,8 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
-import { carrierColours, type Carrier } from "~/sites/carrier-colours";
+import { carrierColours } from "~/sites/carrier-colours";
+import type { Carrier } from "~/sites/meter-kinds";
 import type { Interval } from "./use-intervals";
 
 /**

@@ -13,7 +13,8 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
-import { carrierColour, type Carrier } from "~/sites/carrier-colours";
+import { carrierColour } from "~/sites/carrier-colours";
+import type { Carrier } from "~/sites/meter-kinds";
 
 const INK = "#4f5966";
 const INK_STRONG = "#1a222d";

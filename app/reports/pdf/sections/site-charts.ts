@@ -1,6 +1,6 @@
 /** Chart series built from the ledger tables of one or more sites. */
 import { sumDecimals } from "../../data/decimal";
-import { CARRIER_ORDER } from "../../data/ledger-tables";
+import { carrierReportOrder } from "~/sites/meter-kinds";
 import type { Carrier, LedgerEntry, SiteReport } from "../../data/types";
 import type { BarSeries } from "../charts/monthly-chart";
 import { carrierColours, carrierNames } from "../theme";
@@ -31,7 +31,7 @@ export function monthlyByCarrier(
   sites: readonly SiteReport[],
   months: readonly string[],
 ): BarSeries[] {
-  const carriers = CARRIER_ORDER.filter((c) =>
+  const carriers = carrierReportOrder.filter((c) =>
     sites.some((s) => s.tables.some((t) => t.carrier === c)),
   );
   return carriers.flatMap((carrier) => {
