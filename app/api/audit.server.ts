@@ -10,6 +10,7 @@ import { auditKinds } from "~/audit/kinds";
 import { toCsv } from "~/lib/csv-export";
 import { idSchema } from "~/lib/ids";
 import { MONTH_PATTERN } from "~/lib/months";
+import { formatCount } from "~/lib/format";
 import { carriers } from "~/sites/meter-kinds";
 import { isTimeZone } from "~/sites/site-schema";
 import { sendError, sendValidationError } from "./respond.server";
@@ -162,7 +163,7 @@ export async function getAuditCsv(
         res,
         400,
         "too_many_entries",
-        `More than ${CSV_MAX_ROWS.toLocaleString("en-GB")} entries match; choose a shorter period or more filters.`,
+        `More than ${formatCount(CSV_MAX_ROWS)} entries match; choose a shorter period or more filters.`,
       );
     const csv = toCsv(
       CSV_COLUMNS.map(([header]) => header),

@@ -5,6 +5,7 @@
  * organisation, joins included, so no filter can reach another tenant.
  */
 import { pool } from "~/db/client.server";
+import { dateTimeIn, monthLong } from "~/lib/format";
 import { UUID_TEXT } from "~/lib/ids";
 import { describeChanges, type ChangeLine } from "./describe";
 import {
@@ -163,13 +164,7 @@ function parameters(
 
 function monthName(month: unknown): string {
   if (typeof month !== "string") return "";
-  const [y, m] = month.split("-").map(Number);
-  if (!y || !m) return month;
-  return new Intl.DateTimeFormat("en-GB", {
-    month: "long",
-    year: "numeric",
-    timeZone: "UTC",
-  }).format(new Date(Date.UTC(y, m - 1, 1)));
+  return monthLong(month);
 }
 
 /** The corrected hour in its site's own time, as the Readings page shows it. */
@@ -177,15 +172,7 @@ function hourText(subject: string, timeZone: string | null): string {
   const at = new Date(subject.split("@")[1] ?? "");
   if (Number.isNaN(at.getTime())) return subject;
   const zone = timeZone ?? "UTC";
-  const text = new Intl.DateTimeFormat("en-GB", {
-    day: "numeric",
-    month: "short",
-    year: "numeric",
-    hour: "2-digit",
-    minute: "2-digit",
-    timeZone: zone,
-  }).format(at);
-  return `Hour from ${text} (${zone})`;
+  return `Hour from ${dateTimeIn(at, zone)} (${zone})`;
 }
 
 const text = (value: unknown): string =>

@@ -9,6 +9,7 @@
 // Days are site-local calendar days, so a month's degree days are the sum
 // over the days of the site's own month.
 
+import { formatCelsius } from "~/lib/format";
 import { MONTH_PATTERN } from "~/lib/months";
 
 /** One site-local day's mean outdoor temperature. */
@@ -52,7 +53,7 @@ export const driverLabels: Record<DegreeDayDriver, string> = {
  * heading wraps.
  */
 export function degreeDayLabel(driver: DegreeDayDriver, baseC: number): string {
-  return `${driver === "hdd" ? "HDD" : "CDD"} (${baseC.toFixed(1)}\u00a0°C)`;
+  return `${driver === "hdd" ? "HDD" : "CDD"} (${formatCelsius(baseC)})`;
 }
 
 /** Days in a YYYY-MM month of the Gregorian calendar. */

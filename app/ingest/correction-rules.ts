@@ -7,6 +7,7 @@
  *
  * Pure: the page shows the same words the write path answers with.
  */
+import { formatHourKwh, formatNumber } from "~/lib/format";
 import type { HourlyPoint } from "./series";
 import {
   expectedSign,
@@ -37,15 +38,11 @@ export interface Jump {
   spikeFactor: number;
 }
 
-/** kWh as people read them: grouped, at most 3 decimals, a real minus sign. */
-export function formatKwh(kwh: number, minimumFractionDigits = 0): string {
-  return kwh
-    .toLocaleString("en-GB", {
-      minimumFractionDigits,
-      maximumFractionDigits: Math.max(3, minimumFractionDigits),
-    })
-    .replace(/^-/, "−");
-}
+/**
+ * An hour's kWh as people read them (the house style's hour precision). The
+ * Readings route still imports it by this name.
+ */
+export const formatKwh = formatHourKwh;
 
 function direction(meter: MeterBoundary): string {
   return meter.orientation === "import"
@@ -76,8 +73,8 @@ export function wrongSignError(
   const verb = meter.orientation === "import" ? "delivered" : "exported";
   return (
     `${meter.code} records ${noun} ${direction(meter)}, which the ledger counts as ` +
-    `${counted} kWh (or 0): ${formatKwh(energyKwh)} kWh has the wrong sign. ` +
-    `If ${formatKwh(Math.abs(energyKwh))} kWh was ${verb}, enter ${formatKwh(-energyKwh)}.`
+    `${counted} kWh (or 0): ${formatHourKwh(energyKwh)} kWh has the wrong sign. ` +
+    `If ${formatHourKwh(Math.abs(energyKwh))} kWh was ${verb}, enter ${formatHourKwh(-energyKwh)}.`
   );
 }
 
@@ -107,21 +104,19 @@ export function spikeJump(
 }
 
 function formatTimes(times: number): string {
-  return times.toLocaleString("en-GB", {
-    maximumFractionDigits: times < 100 ? 1 : 0,
-  });
+  return formatNumber(times, times < 100 ? 1 : 0);
 }
 
 /** Names the jump, for the refusal that asks for a confirmation. */
 export function jumpMessage(energyKwh: number, jump: Jump): string {
   return (
-    `${formatKwh(energyKwh)} kWh is ${formatTimes(jump.timesTypical)} × this meter's ` +
-    `typical hour of ${formatKwh(jump.typicalHourKwh, 1)} kWh; hours above ` +
+    `${formatHourKwh(energyKwh)} kWh is ${formatTimes(jump.timesTypical)} × this meter's ` +
+    `typical hour of ${formatHourKwh(jump.typicalHourKwh, 1)} kWh; hours above ` +
     `${formatTimes(jump.spikeFactor)} × are flagged as spikes. Confirm the value to save it.`
   );
 }
 
 /** The confirmation's own words: it names the value it stands behind. */
 export function confirmLabel(energyKwh: number): string {
-  return `Yes, ${formatKwh(energyKwh)} kWh is right: save it and flag the hour as a confirmed spike`;
+  return `Yes, ${formatHourKwh(energyKwh)} kWh is right: save it and flag the hour as a confirmed spike`;
 }

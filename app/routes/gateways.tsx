@@ -20,7 +20,7 @@ import {
 } from "~/gateways/manage-gateways.server";
 import { parseForm } from "~/lib/forms";
 import { idField, isUuid } from "~/lib/ids";
-import { dateTimeUtc } from "~/lib/times";
+import { dateTimeUtc } from "~/lib/format";
 import type { Route } from "./+types/gateways";
 
 export const meta: Route.MetaFunction = () => [

@@ -3,7 +3,8 @@ import { sumDecimals } from "../../data/decimal";
 import { carrierReportOrder } from "~/sites/meter-kinds";
 import type { Carrier, LedgerEntry, SiteReport } from "../../data/types";
 import type { BarSeries } from "../charts/monthly-chart";
-import { carrierColours, carrierNames } from "../theme";
+import { carrierColours } from "../theme";
+import { carrierLabels } from "~/sites/meter-kinds";
 
 /** A figure of one carrier per month (YYYY-MM), summed over the sites. */
 function perMonth(
@@ -36,7 +37,7 @@ export function monthlyByCarrier(
   );
   return carriers.flatMap((carrier) => {
     const delivered: BarSeries = {
-      label: `${carrierNames[carrier]} delivered`,
+      label: `${carrierLabels[carrier]} delivered`,
       color: carrierColours[carrier],
       values: perMonth(sites, carrier, months, (e) => e.importsKwh),
       group: carrier,
@@ -48,7 +49,7 @@ export function monthlyByCarrier(
       (e) => e.exportsKwh,
     );
     const exported: BarSeries = {
-      label: `${carrierNames[carrier]} exported`,
+      label: `${carrierLabels[carrier]} exported`,
       color: carrierColours[carrier],
       values: exportedValues,
       group: carrier,
