@@ -1,10 +1,9 @@
 /** Chart series built from the ledger tables of one or more sites. */
 import { sumDecimals } from "../../data/decimal";
-import { carrierReportOrder } from "~/sites/meter-kinds";
+import { carrierLabels, carrierReportOrder } from "~/sites/meter-kinds";
 import type { Carrier, LedgerEntry, SiteReport } from "../../data/types";
 import type { BarSeries } from "../charts/monthly-chart";
 import { carrierColours } from "../theme";
-import { carrierLabels } from "~/sites/meter-kinds";
 
 /** A figure of one carrier per month (YYYY-MM), summed over the sites. */
 function perMonth(
