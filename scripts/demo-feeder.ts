@@ -16,6 +16,7 @@ import pg from "pg";
 import { parseEnv, type Env } from "../app/env.server";
 import { DEFAULT_DEMO_GATEWAY_KEY } from "../seeds/demo-people";
 import { LiveFeed } from "../seeds/live/feed";
+import { formatCount } from "../app/lib/format";
 import { FeedRefused, gatewayPoster } from "../seeds/live/gateway-poster";
 import { storedUntil } from "../seeds/live/stored-until";
 
@@ -97,7 +98,7 @@ async function main(): Promise<number> {
     return 0;
   }
   log(
-    `up to date (${backfilled.toLocaleString("en-GB")} readings posted); posting each hour as it ends`,
+    `up to date (${formatCount(backfilled)} readings posted); posting each hour as it ends`,
   );
   while (!signal.aborted) {
     await sleep(TICK_MS, undefined, { signal });

@@ -11,6 +11,7 @@ import { closeMonth } from "../app/ledger/month-close.server";
 import { ingestReadings } from "../app/ingest/ingest-readings.server";
 import { estimationIdle } from "../app/ingest/after-ingest.server";
 import { MAX_READINGS_PER_BATCH } from "../app/ingest/reading-schema";
+import { formatCount } from "../app/lib/format";
 import {
   METERS,
   ORGANIZATION_NAME,
@@ -158,13 +159,13 @@ async function ingestScenario(
     if (percent >= lastReport + 10) {
       lastReport = percent - (percent % 10);
       console.log(
-        `[joulebook] demo readings: ${percent}% (${total.toLocaleString("en-GB")} readings, ${Math.round((Date.now() - started) / 1000)} s)`,
+        `[joulebook] demo readings: ${percent}% (${formatCount(total)} readings, ${Math.round((Date.now() - started) / 1000)} s)`,
       );
     }
   }
   await flush();
   console.log(
-    `[joulebook] demo readings: 100% (${total.toLocaleString("en-GB")} readings); estimating gaps…`,
+    `[joulebook] demo readings: 100% (${formatCount(total)} readings); estimating gaps…`,
   );
   await estimationIdle();
 }

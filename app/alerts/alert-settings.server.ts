@@ -1,11 +1,16 @@
 import { pool } from "~/db/client.server";
-import type { Role } from "~/auth/permissions";
+import { managers, type Role } from "~/auth/permissions";
 
 export interface AlertPreferences {
   silentMeter: boolean;
   residual: boolean;
   monthReady: boolean;
   silentHours: number;
+}
+
+/** Managers get every alert until they choose otherwise; the others opt in. */
+export function alertsOnByDefault(role: string): boolean {
+  return (managers as readonly string[]).includes(role);
 }
 
 /** A person's choices, or the defaults for their role when they made none. */
@@ -23,7 +28,7 @@ export async function alertPreferences(
     "select silent_meter, residual, month_ready, silent_hours from alert_settings where organization_id = $1 and user_id = $2",
     [organizationId, userId],
   );
-  const byDefault = role === "owner" || role === "energy_manager";
+  const byDefault = alertsOnByDefault(role);
   const r = rows[0];
   return r
     ? {

@@ -1,5 +1,6 @@
 import { pool } from "~/db/client.server";
 import { appUrl } from "~/env.server";
+import { alertsOnByDefault } from "./alert-settings.server";
 import { sendEmail } from "~/email/mailer.server";
 import { alertDigestEmail, type DigestSection } from "./digest-email.server";
 import {
@@ -38,7 +39,7 @@ async function recipients(
     [organizationId],
   );
   const list = rows.map((r) => {
-    const byDefault = r.role === "owner" || r.role === "energy_manager";
+    const byDefault = alertsOnByDefault(r.role);
     const kinds = new Set<AlertKind>();
     if (r.silent_meter ?? byDefault) kinds.add("silent_meter");
     if (r.residual ?? byDefault) kinds.add("residual");

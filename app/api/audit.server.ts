@@ -8,8 +8,10 @@ import {
 import { sideText } from "~/audit/describe";
 import { auditKinds } from "~/audit/kinds";
 import { toCsv } from "~/lib/csv-export";
+import { idSchema } from "~/lib/ids";
 import { MONTH_PATTERN } from "~/lib/months";
-import { carriers } from "~/sites/meter-schema";
+import { formatCount } from "~/lib/format";
+import { carriers } from "~/sites/meter-kinds";
 import { isTimeZone } from "~/sites/site-schema";
 import { sendError, sendValidationError } from "./respond.server";
 
@@ -18,8 +20,8 @@ const optional = <T extends z.ZodType>(schema: T) =>
   z.union([z.literal(""), schema]).optional();
 
 export const auditFiltersSchema = z.strictObject({
-  site: optional(z.uuid("site: expected a site id")),
-  meter: optional(z.uuid("meter: expected a meter id")),
+  site: optional(idSchema("site: expected a site id")),
+  meter: optional(idSchema("meter: expected a meter id")),
   person: optional(z.string().max(128, "person: expected a person's id")),
   kind: optional(
     z.enum(auditKinds, { error: `kind: one of ${auditKinds.join(", ")}` }),
@@ -161,7 +163,7 @@ export async function getAuditCsv(
         res,
         400,
         "too_many_entries",
-        `More than ${CSV_MAX_ROWS.toLocaleString("en-GB")} entries match; choose a shorter period or more filters.`,
+        `More than ${formatCount(CSV_MAX_ROWS)} entries match; choose a shorter period or more filters.`,
       );
     const csv = toCsv(
       CSV_COLUMNS.map(([header]) => header),

@@ -9,7 +9,7 @@ import {
 } from "~/ledger/ledger-export";
 import { ledgerRows } from "~/ledger/ledger-rows.server";
 import { ledgerXlsx } from "~/ledger/ledger-xlsx.server";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { carrierLabels, carriers } from "~/sites/meter-kinds";
 import { getSite } from "~/sites/sites.server";
 import { sendError, sendValidationError } from "./respond.server";
 import {

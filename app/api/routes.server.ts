@@ -67,6 +67,7 @@ import {
   webhookAnswerSchema,
 } from "./schemas";
 import { uploadReadings } from "./upload-readings.server";
+import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
 const readingBatchExample = {
@@ -172,7 +173,7 @@ export function apiRoutes(): ApiRoute[] {
       method: "post",
       path: "/energy/evaluate",
       summary: "Turn measured quantities into energy (nothing is stored)",
-      description: `Up to ${MAX_EVALUATE_ITEMS.toLocaleString("en")} items. Results come back in item order; an item that fails answers \`ok: false\` with a plain reason and never fails the others.`,
+      description: `Up to ${formatCount(MAX_EVALUATE_ITEMS)} items. Results come back in item order; an item that fails answers \`ok: false\` with a plain reason and never fails the others.`,
       access: { kind: "gatewayOrSession" },
       body: {
         kind: "json",
@@ -195,7 +196,7 @@ export function apiRoutes(): ApiRoute[] {
       responses: {
         200: jsonReply("One result per item, in order", evaluateResponseSchema),
         400: errorReply(
-          `The body is not JSON or not an object with 1–${MAX_EVALUATE_ITEMS.toLocaleString("en")} items`,
+          `The body is not JSON or not an object with 1–${formatCount(MAX_EVALUATE_ITEMS)} items`,
         ),
         401: errorReply("No valid gateway key or session"),
         413: errorReply("Body larger than 8 MB"),
@@ -205,7 +206,7 @@ export function apiRoutes(): ApiRoute[] {
       method: "post",
       path: "/readings",
       summary: "A gateway's batch of readings",
-      description: `Up to ${MAX_READINGS_PER_BATCH.toLocaleString("en")} readings or 5 MB. Idempotent on (meter, reading time): the same reading again is a repeat; a different one at the same key is a conflict, kept for review and not applied. A key only reaches its own organisation's meters. Acknowledged only after the batch is committed.`,
+      description: `Up to ${formatCount(MAX_READINGS_PER_BATCH)} readings or 5 MB. Idempotent on (meter, reading time): the same reading again is a repeat; a different one at the same key is a conflict, kept for review and not applied. A key only reaches its own organisation's meters. Acknowledged only after the batch is committed.`,
       access: { kind: "gateway" },
       before: [gatewayRateLimit()],
       body: {
@@ -223,7 +224,7 @@ export function apiRoutes(): ApiRoute[] {
         400: errorReply("Not JSON, or not `{ readings: [...] }`"),
         401: errorReply("No gateway key, or an unknown or revoked one"),
         413: errorReply(
-          `More than ${MAX_READINGS_PER_BATCH.toLocaleString("en")} readings or 5 MB`,
+          `More than ${formatCount(MAX_READINGS_PER_BATCH)} readings or 5 MB`,
         ),
         429: {
           ...errorReply("This gateway's rate limit; see Retry-After"),
@@ -332,7 +333,7 @@ export function apiRoutes(): ApiRoute[] {
         200: jsonReply("As for /readings", ingestAnswerSchema),
         403: errorReply("The role may not edit readings"),
         413: errorReply(
-          `More than ${MAX_READINGS_PER_BATCH.toLocaleString("en")} readings or 5 MB`,
+          `More than ${formatCount(MAX_READINGS_PER_BATCH)} readings or 5 MB`,
         ),
       },
     },

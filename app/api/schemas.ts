@@ -12,11 +12,14 @@
  * `~/reports/verify-outcome`; they are re-exported here.
  */
 import { z } from "zod";
+import { idSchema } from "~/lib/ids";
 import { MONTH_PATTERN } from "~/lib/months";
+import { intervalQualities } from "~/ingest/series";
 import { ledgerUnits } from "~/ledger/ledger-units";
 import { reportSummarySchema } from "~/reports/report-summary";
 import { intervalSchema } from "~/ingest/interval-schema";
-import { carrier, CARRIERS, id } from "~/lib/wire-schemas";
+import { carrier, id } from "~/lib/wire-schemas";
+import { carriers, orientations } from "~/sites/meter-kinds";
 
 // Shapes that live beside their domain, so the domain need not reach up
 // into the API for them; the API's contract is still read from here.
@@ -33,7 +36,6 @@ export {
   verifyOutcomeSchema,
   type VerifyOutcome,
 } from "~/reports/verify-outcome";
-export { CARRIERS } from "~/lib/wire-schemas";
 
 // ---------------------------------------------------------------- shared --
 
@@ -57,10 +59,10 @@ export type ApiErrorBody = z.output<typeof errorBodySchema>;
 // ---------------------------------------------------------- path params --
 
 export const orgPathSchema = z.strictObject({
-  orgId: id().describe("The organisation; another's answers 404"),
+  orgId: idSchema().describe("The organisation; another's answers 404"),
 });
-export const meterPathSchema = orgPathSchema.extend({ meterId: id() });
-export const reportPathSchema = orgPathSchema.extend({ reportId: id() });
+export const meterPathSchema = orgPathSchema.extend({ meterId: idSchema() });
+export const reportPathSchema = orgPathSchema.extend({ reportId: idSchema() });
 
 // ---------------------------------------------------------------- health --
 
@@ -79,7 +81,7 @@ export const itemProblemSchema = z.strictObject({
 });
 
 export const ingestAnswerSchema = z.strictObject({
-  batch_id: id(),
+  batch_id: idSchema(),
   accepted: z.number().int(),
   repeats: z
     .number()
@@ -109,11 +111,11 @@ export const intervalsQuerySchema = z.strictObject({
 
 export const intervalPageSchema = z.strictObject({
   meter: z.strictObject({
-    id: id(),
+    id: idSchema(),
     code: z.string(),
     name: z.string(),
     carrier,
-    orientation: z.enum(["import", "export"]),
+    orientation: z.enum(orientations),
     time_zone: z.string(),
   }),
   from: z.iso.datetime(),
@@ -133,11 +135,11 @@ export const ledgerQuerySchema = z.strictObject({
   from: monthParam("from").describe("First month, YYYY-MM"),
   to: monthParam("to").describe("Last month, YYYY-MM; at most 120 months"),
   site: z
-    .union([z.literal(""), z.uuid("site: expected a site id")])
+    .union([z.literal(""), idSchema("site: expected a site id")])
     .optional()
     .describe("One site; empty or absent: every site"),
   carrier: z
-    .enum(["", ...CARRIERS], {
+    .enum(["", ...carriers], {
       error: "carrier: heat, cooling, steam or electricity",
     })
     .optional()
@@ -166,7 +168,7 @@ export const reportListSchema = z.strictObject({
 });
 
 export const reportQueuedSchema = z.strictObject({
-  id: id(),
+  id: idSchema(),
   status: z.literal("queued"),
 });
 
@@ -198,9 +200,9 @@ export const auditEntrySchema = z.strictObject({
     id: z.string().nullable(),
     name: z.string(),
   }),
-  site: z.strictObject({ id: id(), name: z.string() }).nullable(),
+  site: z.strictObject({ id: idSchema(), name: z.string() }).nullable(),
   meter: z
-    .strictObject({ id: id(), code: z.string(), name: z.string() })
+    .strictObject({ id: idSchema(), code: z.string(), name: z.string() })
     .nullable(),
   subject: z.string(),
   reason: z.string().nullable(),

@@ -5,6 +5,8 @@
  * organisation, joins included, so no filter can reach another tenant.
  */
 import { pool } from "~/db/client.server";
+import { dateTimeIn, monthLong } from "~/lib/format";
+import { UUID_TEXT } from "~/lib/ids";
 import { describeChanges, type ChangeLine } from "./describe";
 import {
   actionLabel,
@@ -84,8 +86,6 @@ interface Row {
   invitation_email: string | null;
 }
 
-const UUID = "[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}";
-
 /**
  * Every filter is a parameter that is either null (not filtering) or the
  * value to match, so the statement is fixed text. Hour corrections are
@@ -97,7 +97,7 @@ const ENTRIES_SQL = `
     select a.*,
            coalesce(a.meter_id,
                     case when a.action = 'interval.edited'
-                         then substring(a.subject from '^(${UUID})@')::uuid end) as placed_meter_id,
+                         then substring(a.subject from '^(${UUID_TEXT})@')::uuid end) as placed_meter_id,
            coalesce(a.before, case when a.action = 'interval.edited' then nullif(a.details->'from', 'null'::jsonb) end) as placed_before,
            -- A corrected hour is always "edited" afterwards; the entry keeps only its value.
            coalesce(a.after, case when a.action = 'interval.edited'
@@ -164,13 +164,7 @@ function parameters(
 
 function monthName(month: unknown): string {
   if (typeof month !== "string") return "";
-  const [y, m] = month.split("-").map(Number);
-  if (!y || !m) return month;
-  return new Intl.DateTimeFormat("en-GB", {
-    month: "long",
-    year: "numeric",
-    timeZone: "UTC",
-  }).format(new Date(Date.UTC(y, m - 1, 1)));
+  return monthLong(month);
 }
 
 /** The corrected hour in its site's own time, as the Readings page shows it. */
@@ -178,15 +172,7 @@ function hourText(subject: string, timeZone: string | null): string {
   const at = new Date(subject.split("@")[1] ?? "");
   if (Number.isNaN(at.getTime())) return subject;
   const zone = timeZone ?? "UTC";
-  const text = new Intl.DateTimeFormat("en-GB", {
-    day: "numeric",
-    month: "short",
-    year: "numeric",
-    hour: "2-digit",
-    minute: "2-digit",
-    timeZone: zone,
-  }).format(at);
-  return `Hour from ${text} (${zone})`;
+  return `Hour from ${dateTimeIn(at, zone)} (${zone})`;
 }
 
 const text = (value: unknown): string =>

@@ -7,11 +7,18 @@
 import { roleLabels, isRole } from "~/auth/permissions";
 import { driverLabels } from "~/baselines/degree-days";
 import {
+  calendarDay,
+  dateTimeUtc,
+  dayUtc,
+  formatNumber,
+  monthLong,
+} from "~/lib/format";
+import {
   carrierLabels,
   carriers,
   quantities,
   quantityLabels,
-} from "~/sites/meter-schema";
+} from "~/sites/meter-kinds";
 
 export interface ChangeLine {
   field: string;
@@ -28,12 +35,13 @@ type Format = (value: unknown, names: NameLookup) => string;
 
 const NONE = "—";
 
-const kwh = new Intl.NumberFormat("en-GB", { maximumFractionDigits: 6 });
+/** The trail shows an hour's energy as stored, to the micro-kWh. */
+const STORED_KWH_DECIMALS = 6;
 
 function energy(value: unknown): string {
   const n = Number(value);
   if (value === null || value === "" || !Number.isFinite(n)) return NONE;
-  return `${kwh.format(n).replace("-", "\u2212")} kWh`;
+  return `${formatNumber(n, STORED_KWH_DECIMALS)} kWh`;
 }
 
 function signedEnergy(value: unknown): string {
@@ -41,45 +49,22 @@ function signedEnergy(value: unknown): string {
   return Number(value) > 0 ? `+${text}` : text;
 }
 
-const dateOnly = new Intl.DateTimeFormat("en-GB", {
-  day: "numeric",
-  month: "short",
-  year: "numeric",
-  timeZone: "UTC",
-});
-const dateTime = new Intl.DateTimeFormat("en-GB", {
-  day: "numeric",
-  month: "short",
-  year: "numeric",
-  hour: "2-digit",
-  minute: "2-digit",
-  timeZone: "UTC",
-});
-
 /** A stored instant; midnight UTC is a date someone chose, shown without a time. */
 function instant(value: unknown): string {
   if (typeof value !== "string" || value === "") return NONE;
   const date = new Date(value);
   if (Number.isNaN(date.getTime())) return value;
   return date.toISOString().endsWith("T00:00:00.000Z")
-    ? dateOnly.format(date)
-    : `${dateTime.format(date)} UTC`;
+    ? dayUtc(date)
+    : dateTimeUtc(date);
 }
-
-const monthYear = new Intl.DateTimeFormat("en-GB", {
-  month: "long",
-  year: "numeric",
-  timeZone: "UTC",
-});
 
 /** A calendar month (YYYY-MM) or day (YYYY-MM-DD), as written on a calendar. */
 function calendar(value: unknown): string {
   if (typeof value !== "string") return NONE;
   const match = /^(\d{4})-(\d{2})(?:-(\d{2}))?$/.exec(value);
   if (!match) return plain(value);
-  const [, y, m, d] = match.map(Number);
-  const date = new Date(Date.UTC(y, m - 1, d || 1));
-  return match[3] ? dateOnly.format(date) : monthYear.format(date);
+  return match[3] ? calendarDay(value) : monthLong(value);
 }
 
 function fromTable(table: Record<string, string>): Format {
@@ -103,14 +88,10 @@ function decimal(value: unknown): string {
   return plain(value);
 }
 
-const threePlaces = new Intl.NumberFormat("en-GB", {
-  maximumFractionDigits: 3,
-});
-
 /** A fitted coefficient: three decimals say all a reader can use. */
 function rounded(value: unknown): string {
   return typeof value === "number" && Number.isFinite(value)
-    ? threePlaces.format(value).replace("-", "\u2212")
+    ? formatNumber(value, 3)
     : plain(value);
 }
 

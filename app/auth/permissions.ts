@@ -22,7 +22,8 @@ export const roleDescriptions: Record<Role, string> = {
 };
 
 const everyone: readonly Role[] = roles;
-const managers: readonly Role[] = ["owner", "energy_manager"];
+/** The roles that run the estate; they also get alerts unless they opt out. */
+export const managers: readonly Role[] = ["owner", "energy_manager"];
 
 export const permissions = {
   "organization.view": everyone,

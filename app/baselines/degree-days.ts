@@ -9,6 +9,9 @@
 // Days are site-local calendar days, so a month's degree days are the sum
 // over the days of the site's own month.
 
+import { formatCelsius } from "~/lib/format";
+import { MONTH_PATTERN } from "~/lib/months";
+
 /** One site-local day's mean outdoor temperature. */
 export interface DailyTemperature {
   /** YYYY-MM-DD, a calendar day in the site's time zone. */
@@ -50,21 +53,19 @@ export const driverLabels: Record<DegreeDayDriver, string> = {
  * heading wraps.
  */
 export function degreeDayLabel(driver: DegreeDayDriver, baseC: number): string {
-  return `${driver === "hdd" ? "HDD" : "CDD"} (${baseC.toFixed(1)}\u00a0°C)`;
+  return `${driver === "hdd" ? "HDD" : "CDD"} (${formatCelsius(baseC)})`;
 }
-
-const MONTH = /^(\d{4})-(0[1-9]|1[0-2])$/;
 
 /** Days in a YYYY-MM month of the Gregorian calendar. */
 export function daysInMonth(month: string): number {
-  const match = MONTH.exec(month);
+  const match = MONTH_PATTERN.exec(month);
   if (!match) throw new RangeError(`${month} is not a month like 2025-01`);
   return new Date(Date.UTC(Number(match[1]), Number(match[2]), 0)).getUTCDate();
 }
 
 /** The months from `from` to `to`, both YYYY-MM and inclusive. */
 export function monthsBetween(from: string, to: string): string[] {
-  if (!MONTH.test(from) || !MONTH.test(to))
+  if (!MONTH_PATTERN.test(from) || !MONTH_PATTERN.test(to))
     throw new RangeError("months look like 2025-01");
   const out: string[] = [];
   let [y, m] = from.split("-").map(Number);

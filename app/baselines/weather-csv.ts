@@ -4,6 +4,7 @@
 
 import Papa from "papaparse";
 import { z } from "zod";
+import { formatCount } from "~/lib/format";
 
 export const WEATHER_COLUMNS = ["date", "mean_temp_c"] as const;
 /** About 30 years of days. */
@@ -93,7 +94,7 @@ export function checkWeatherRows(
   if (records.length > MAX_WEATHER_ROWS)
     return {
       ok: false,
-      file: `The file has ${records.length.toLocaleString("en-GB")} rows; send at most ${MAX_WEATHER_ROWS.toLocaleString("en-GB")} at a time.`,
+      file: `The file has ${formatCount(records.length)} rows; send at most ${formatCount(MAX_WEATHER_ROWS)} at a time.`,
       problems: [],
       problemCount: 0,
     };

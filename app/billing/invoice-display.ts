@@ -7,7 +7,7 @@
  * view in between. A draft is shown as being prepared, not by Stripe's
  * internal id, "draft" and "£0.00 paid".
  */
-import { dayUtc } from "~/lib/times";
+import { dayUtc } from "~/lib/format";
 import { formatMoney } from "./plan";
 
 export interface StoredInvoice {

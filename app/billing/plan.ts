@@ -3,6 +3,7 @@
  * Stripe holds the price object; these numbers create it and estimate bills
  * while no subscription exists yet.
  */
+import { formatMoney as formatMoneyIn } from "~/lib/format";
 
 /**
  * £29.00 per metered site per month, in pence (Stripe's minor units). A site
@@ -23,9 +24,7 @@ export function monthlyEstimateMinor(meteredSites: number): number {
   return planQuantity(meteredSites) * UNIT_PRICE_MINOR;
 }
 
+/** Money in minor units, in the plan's currency unless another is given. */
 export function formatMoney(minor: number, currency = PRICE_CURRENCY): string {
-  return new Intl.NumberFormat("en-GB", {
-    style: "currency",
-    currency: currency.toUpperCase(),
-  }).format(minor / 100);
+  return formatMoneyIn(minor, currency);
 }

@@ -2,7 +2,7 @@
  * Non-payment never blocks ingest or hides stored data; after the grace
  * period it only stops the estate from growing: new sites are refused.
  */
-import { format } from "date-fns";
+import { dayUtc } from "~/lib/format";
 import { standingOf } from "./account.server";
 import type { Standing } from "./standing";
 
@@ -24,7 +24,7 @@ export async function siteCreationRefusal(
   const standing = await standingOf(organizationId);
   if (!standing?.sitesBlocked) return null;
   const since = standing.graceEndsAt
-    ? ` on ${format(standing.graceEndsAt, "d MMM yyyy")}`
+    ? ` on ${dayUtc(standing.graceEndsAt)}`
     : "";
   return `New sites cannot be added: ${reason(standing)} and the grace period ended${since}. An owner or finance member can settle it on the Billing page. Readings keep arriving and nothing stored is lost.`;
 }

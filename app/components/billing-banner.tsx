@@ -1,4 +1,4 @@
-import { dayUtc } from "~/lib/times";
+import { dayUtc } from "~/lib/format";
 import { Link } from "react-router";
 
 export interface BillingBannerData {

@@ -7,13 +7,15 @@
  */
 import { Link } from "react-router";
 import { carrierColour } from "~/sites/carrier-colours";
+import { formatEnergy } from "~/lib/format";
+import type { Carrier, Orientation } from "~/sites/meter-kinds";
 
 export interface BoundaryMeter {
   id: string;
   code: string;
   name: string;
-  carrier: "heat" | "cooling" | "steam" | "electricity";
-  orientation: "import" | "export";
+  carrier: Carrier;
+  orientation: Orientation;
   parentMeterId: string | null;
   retired: boolean;
   energyKwh30d: number | null;
@@ -23,13 +25,9 @@ const ROW = 58;
 const WIDTH = 760;
 const BOX = { x: 210, w: 340 };
 
-export function formatKwh(kwh: number | null): string {
-  if (kwh === null) return "no data";
-  const abs = Math.abs(kwh);
-  const sign = kwh > 0 ? "+" : kwh < 0 ? "−" : "";
-  if (abs >= 1000)
-    return `${sign}${(abs / 1000).toLocaleString("en-GB", { maximumFractionDigits: 1 })} MWh`;
-  return `${sign}${abs.toLocaleString("en-GB", { maximumFractionDigits: 0 })} kWh`;
+/** A signed flow across the boundary ("+1.2 MWh", "−850 kWh"), or "no data". */
+export function flowLabel(kwh: number | null): string {
+  return kwh === null ? "no data" : formatEnergy(kwh, { plus: true });
 }
 
 function Arrow({
@@ -54,7 +52,7 @@ function Arrow({
   return (
     <Link
       to={`/o/${orgId}/meters/${meter.id}`}
-      aria-label={`${meter.code} ${meter.name}: ${formatKwh(meter.energyKwh30d)} in the last 30 days`}
+      aria-label={`${meter.code} ${meter.name}: ${flowLabel(meter.energyKwh30d)} in the last 30 days`}
     >
       <g opacity={meter.retired ? 0.45 : 1}>
         <line
@@ -84,7 +82,7 @@ function Arrow({
           {meter.code} · {meter.carrier}
         </text>
         <text x={labelX} y={y + 22} fill="#1a222d" fontSize="13">
-          {formatKwh(meter.energyKwh30d)}
+          {flowLabel(meter.energyKwh30d)}
         </text>
       </g>
     </Link>
@@ -107,7 +105,7 @@ function SubMeter({
   return (
     <Link
       to={`/o/${orgId}/meters/${meter.id}`}
-      aria-label={`Sub-meter ${meter.code}: ${formatKwh(meter.energyKwh30d)} in the last 30 days`}
+      aria-label={`Sub-meter ${meter.code}: ${flowLabel(meter.energyKwh30d)} in the last 30 days`}
     >
       <g opacity={meter.retired ? 0.45 : 1}>
         <path
@@ -126,7 +124,7 @@ function SubMeter({
           <tspan fontWeight={600} fill={colour}>
             {meter.code}
           </tspan>{" "}
-          {formatKwh(meter.energyKwh30d)}
+          {flowLabel(meter.energyKwh30d)}
         </text>
       </g>
     </Link>

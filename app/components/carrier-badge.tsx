@@ -1,5 +1,5 @@
-import { carrierColours, type Carrier } from "~/sites/carrier-colours";
-import { carrierLabels } from "~/sites/meter-schema";
+import { carrierColours } from "~/sites/carrier-colours";
+import { carrierLabels, type Carrier } from "~/sites/meter-kinds";
 
 /**
  * A carrier's name in its own colours: the swatch is the colour its series

@@ -1,3 +1,4 @@
+import { formatPercent } from "~/lib/format";
 import { cx } from "./ui";
 
 /**
@@ -13,7 +14,7 @@ export function ChangePill({
   change: number | null;
   tolerance: number;
 }) {
-  const text = change === null ? "—" : `${Math.abs(change * 100).toFixed(1)} %`;
+  const text = change === null ? "—" : formatPercent(Math.abs(change));
   // Shown as 0.0 %: no direction to colour.
   const direction =
     change === null || text === "0.0 %" ? "none" : change > 0 ? "up" : "down";

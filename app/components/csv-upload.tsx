@@ -2,6 +2,7 @@ import Papa from "papaparse";
 import { useState } from "react";
 import { csvRowNumber, missingColumns, rowToReading } from "~/ingest/csv";
 import { FigureTable } from "./figure-table";
+import { formatCount } from "~/lib/format";
 import { Button, Notice } from "./ui";
 
 const CHUNK = 2500;
@@ -181,13 +182,13 @@ export function CsvUpload({ orgId }: { orgId: string }) {
       {state.step === "parsed" ? (
         <>
           <p>
-            <strong>{state.rows.length.toLocaleString("en-GB")}</strong> rows in{" "}
+            <strong>{formatCount(state.rows.length)}</strong> rows in{" "}
             {state.fileName}. First rows:
           </p>
           <Preview headers={state.headers} rows={state.rows} />
           <div>
             <Button onClick={() => void upload(state.rows, state.fileName)}>
-              Upload {state.rows.length.toLocaleString("en-GB")} readings
+              Upload {formatCount(state.rows.length)} readings
             </Button>
           </div>
         </>
@@ -196,8 +197,7 @@ export function CsvUpload({ orgId }: { orgId: string }) {
         <div className="flex flex-col gap-3">
           <label htmlFor="upload-progress" className="font-semibold">
             {state.step === "done" ? "Finished" : "Uploading"}:{" "}
-            {state.sent.toLocaleString("en-GB")} of{" "}
-            {state.total.toLocaleString("en-GB")} rows
+            {formatCount(state.sent)} of {formatCount(state.total)} rows
           </label>
           <progress
             id="upload-progress"
@@ -206,9 +206,8 @@ export function CsvUpload({ orgId }: { orgId: string }) {
             className="h-3 w-full accent-spruce-700"
           />
           <p role="status">
-            {state.accepted.toLocaleString("en-GB")} stored ·{" "}
-            {state.repeats.toLocaleString("en-GB")} repeats ·{" "}
-            {state.problems.length.toLocaleString("en-GB")} rows with problems
+            {formatCount(state.accepted)} stored · {formatCount(state.repeats)}{" "}
+            repeats · {formatCount(state.problems.length)} rows with problems
           </p>
           {state.failed ? <Notice tone="error">{state.failed}</Notice> : null}
           {state.problems.length > 0 ? (

@@ -3,7 +3,7 @@ import {
   carriers,
   quantities,
   quantityLabels,
-} from "~/sites/meter-schema";
+} from "~/sites/meter-kinds";
 import { Field, SelectField } from "./ui";
 import { LabelledOptions } from "~/components/options";
 

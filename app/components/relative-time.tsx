@@ -1,4 +1,4 @@
-import { dateTimeUtc, timeAgo } from "~/lib/times";
+import { dateTimeUtc, timeAgo } from "~/lib/format";
 
 /**
  * "4 minutes ago", measured from the loader's `now` so the server and the

@@ -9,7 +9,8 @@
 import { useMemo } from "react";
 import { Form, Link, useNavigate } from "react-router";
 import { Sankey, Tooltip, type SankeyNodeProps as NodeProps } from "recharts";
-import { formatKwh } from "~/components/boundary";
+import { flowLabel } from "~/components/boundary";
+import { formatPercent, monthLong } from "~/lib/format";
 import { useHydrated } from "~/lib/use-hydrated";
 import { useWidth } from "~/lib/use-width";
 import {
@@ -41,20 +42,10 @@ function nodeColour(node: BalanceNode): string {
   return node.carrier ? carrierColour(node.carrier) : "#4f5966";
 }
 
-const monthFormat = new Intl.DateTimeFormat("en-GB", {
-  month: "long",
-  year: "numeric",
-  timeZone: "UTC",
-});
-
-export function monthLabel(month: string): string {
-  return monthFormat.format(new Date(`${month}-01T00:00:00Z`));
-}
-
-const tolerancePercent = `${(RESIDUAL_TOLERANCE * 100).toLocaleString("en-GB")} %`;
+const tolerancePercent = formatPercent(RESIDUAL_TOLERANCE, { decimals: 0 });
 
 function nodeValueLabel(node: BalanceNode): string {
-  const value = formatKwh(node.signedKwh);
+  const value = flowLabel(node.signedKwh);
   return node.kind === "site" ? `Q + W ${value}` : value;
 }
 
@@ -175,7 +166,7 @@ function BalanceChart({
                     : (item.name ?? entry.name ?? "");
                 return (
                   <div className="rounded border border-line bg-surface px-2 py-1 text-sm shadow">
-                    {title} · {formatKwh(item.signedKwh ?? null)}
+                    {title} · {flowLabel(item.signedKwh ?? null)}
                   </div>
                 );
               }}
@@ -197,11 +188,7 @@ function FlagBadge({ parent }: { parent: ParentBalance }) {
 
 function percent(fraction: number | null): string {
   if (fraction === null) return "—";
-  const value = (fraction * 100).toLocaleString("en-GB", {
-    minimumFractionDigits: 1,
-    maximumFractionDigits: 1,
-  });
-  return `${value.replace("-", "−")} %`;
+  return formatPercent(fraction);
 }
 
 function MonthPicker({ months, month }: { months: string[]; month: string }) {
@@ -230,12 +217,10 @@ function MonthPicker({ months, month }: { months: string[]; month: string }) {
             })
           }
         >
-          {index < 0 ? (
-            <option value={month}>{monthLabel(month)}</option>
-          ) : null}
+          {index < 0 ? <option value={month}>{monthLong(month)}</option> : null}
           {months.map((m) => (
             <option key={m} value={m}>
-              {monthLabel(m)}
+              {monthLong(m)}
             </option>
           ))}
         </SelectField>
@@ -246,12 +231,12 @@ function MonthPicker({ months, month }: { months: string[]; month: string }) {
       <p className="flex min-h-10 items-center gap-3 text-sm">
         {older ? (
           <Link className={linkClass} to={`?month=${older}`} preventScrollReset>
-            ← {monthLabel(older)}
+            ← {monthLong(older)}
           </Link>
         ) : null}
         {newer ? (
           <Link className={linkClass} to={`?month=${newer}`} preventScrollReset>
-            {monthLabel(newer)} →
+            {monthLong(newer)} →
           </Link>
         ) : null}
       </p>
@@ -301,7 +286,7 @@ export function SiteBalanceView({
       ) : null}
       {diagram.links.length === 0 ? (
         <p className="text-ink-muted">
-          Nothing crossed the boundary in {monthLabel(balance.month)}.
+          Nothing crossed the boundary in {monthLong(balance.month)}.
         </p>
       ) : (
         <figure>
@@ -313,7 +298,7 @@ export function SiteBalanceView({
           {/* A method note: the balance is the thermodynamic view, named here. */}
           <figcaption className="mt-2 text-sm text-ink-muted" data-method-note>
             <span className="font-semibold text-ink">Thermodynamic view.</span>{" "}
-            {monthLabel(balance.month)}, from the monthly ledger: heat and work
+            {monthLong(balance.month)}, from the monthly ledger: heat and work
             into the site +, out of it −, and the site&apos;s net Q + W. Widths
             are magnitudes; labels keep the sign. What enters comes in through
             its meter; exports and chilled water leave through theirs (cooling

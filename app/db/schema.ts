@@ -18,6 +18,15 @@ import {
   uniqueIndex,
   uuid,
 } from "drizzle-orm/pg-core";
+// Relative imports: drizzle-kit loads this file without the app's `~/` alias.
+import { roles } from "../auth/permissions";
+import { intervalQualities } from "../ingest/series";
+import {
+  carriers,
+  orientations,
+  quantities,
+  sensorPositions,
+} from "../sites/meter-kinds";
 
 /**
  * Tables shared by every organisation (people and their sessions) have a plain
@@ -25,12 +34,7 @@ import {
  * distributed PostgreSQL can shard the estate by organisation (docs/scaling.md).
  */
 
-export const roleEnum = pgEnum("member_role", [
-  "owner",
-  "energy_manager",
-  "finance",
-  "auditor",
-]);
+export const roleEnum = pgEnum("member_role", roles);
 
 const createdAt = () =>
   timestamp("created_at", { withTimezone: true, mode: "date" })
@@ -227,31 +231,16 @@ export type Role = (typeof roleEnum.enumValues)[number];
 // Sites, meters and what they measure
 // ---------------------------------------------------------------------------
 
-export const quantityEnum = pgEnum("meter_quantity", [
-  "water_heat",
-  "steam_heat",
-  "sensible_heat",
-  "electric_work",
-  "electric_register",
-  "heat_register",
-]);
-export const carrierEnum = pgEnum("energy_carrier", [
-  "heat",
-  "cooling",
-  "steam",
-  "electricity",
-]);
-export const orientationEnum = pgEnum("boundary_orientation", [
-  "import",
-  "export",
-]);
-export const sensorPositionEnum = pgEnum("sensor_position", ["flow", "return"]);
-export const intervalQualityEnum = pgEnum("interval_quality", [
-  "measured",
-  "estimated",
-  "edited",
-  "missing",
-]);
+// The enums' values come from the app's one list of each; the order is the
+// PostgreSQL type's, so a new value goes at the end (and gets a migration).
+export const quantityEnum = pgEnum("meter_quantity", quantities);
+export const carrierEnum = pgEnum("energy_carrier", carriers);
+export const orientationEnum = pgEnum("boundary_orientation", orientations);
+export const sensorPositionEnum = pgEnum("sensor_position", sensorPositions);
+export const intervalQualityEnum = pgEnum(
+  "interval_quality",
+  intervalQualities,
+);
 
 export const sites = pgTable(
   "sites",
@@ -449,7 +438,7 @@ export const intervals = pgTable(
 );
 
 export type Quantity = (typeof quantityEnum.enumValues)[number];
-export type Carrier = (typeof carrierEnum.enumValues)[number];
+export type { Carrier } from "../sites/meter-kinds";
 export type IntervalQuality = (typeof intervalQualityEnum.enumValues)[number];
 
 // ---------------------------------------------------------------------------

@@ -7,6 +7,7 @@
  *
  * Pure: the page shows the same words the write path answers with.
  */
+import { formatHourKwh, formatNumber } from "~/lib/format";
 import type { HourlyPoint } from "./series";
 import {
   expectedSign,
@@ -37,22 +38,11 @@ export interface Jump {
   spikeFactor: number;
 }
 
-/** kWh as people read them: grouped, at most 3 decimals, a real minus sign. */
-export function formatKwh(kwh: number, minimumFractionDigits = 0): string {
-  return kwh
-    .toLocaleString("en-GB", {
-      minimumFractionDigits,
-      maximumFractionDigits: Math.max(3, minimumFractionDigits),
-    })
-    .replace(/^-/, "−");
-}
-
-const carrierNouns: Record<string, string> = {
-  heat: "heat",
-  cooling: "cooling",
-  steam: "steam",
-  electricity: "electricity",
-};
+/**
+ * An hour's kWh as people read them (the house style's hour precision). The
+ * Readings route still imports it by this name.
+ */
+export const formatKwh = formatHourKwh;
 
 function direction(meter: MeterBoundary): string {
   return meter.orientation === "import"
@@ -62,7 +52,8 @@ function direction(meter: MeterBoundary): string {
 
 /** What the meter's hours are, for the correction field's hint. */
 export function correctionHint(meter: MeterBoundary): string {
-  const noun = carrierNouns[meter.carrier] ?? meter.carrier;
+  // The carriers' names are the trade's nouns: "Heat delivered to the site".
+  const noun = meter.carrier;
   const what = `${noun[0].toUpperCase()}${noun.slice(1)} ${direction(meter)}`;
   if (expectedSign(meter) === 1)
     return `${what}: enter a positive number of kWh (or 0).`;
@@ -77,13 +68,13 @@ export function wrongSignError(
 ): string | null {
   const sign = expectedSign(meter);
   if (energyKwh * sign >= 0) return null;
-  const noun = carrierNouns[meter.carrier] ?? meter.carrier;
+  const noun = meter.carrier;
   const counted = sign === 1 ? "positive" : "negative";
   const verb = meter.orientation === "import" ? "delivered" : "exported";
   return (
     `${meter.code} records ${noun} ${direction(meter)}, which the ledger counts as ` +
-    `${counted} kWh (or 0): ${formatKwh(energyKwh)} kWh has the wrong sign. ` +
-    `If ${formatKwh(Math.abs(energyKwh))} kWh was ${verb}, enter ${formatKwh(-energyKwh)}.`
+    `${counted} kWh (or 0): ${formatHourKwh(energyKwh)} kWh has the wrong sign. ` +
+    `If ${formatHourKwh(Math.abs(energyKwh))} kWh was ${verb}, enter ${formatHourKwh(-energyKwh)}.`
   );
 }
 
@@ -113,21 +104,19 @@ export function spikeJump(
 }
 
 function formatTimes(times: number): string {
-  return times.toLocaleString("en-GB", {
-    maximumFractionDigits: times < 100 ? 1 : 0,
-  });
+  return formatNumber(times, times < 100 ? 1 : 0);
 }
 
 /** Names the jump, for the refusal that asks for a confirmation. */
 export function jumpMessage(energyKwh: number, jump: Jump): string {
   return (
-    `${formatKwh(energyKwh)} kWh is ${formatTimes(jump.timesTypical)} × this meter's ` +
-    `typical hour of ${formatKwh(jump.typicalHourKwh, 1)} kWh; hours above ` +
+    `${formatHourKwh(energyKwh)} kWh is ${formatTimes(jump.timesTypical)} × this meter's ` +
+    `typical hour of ${formatHourKwh(jump.typicalHourKwh, 1)} kWh; hours above ` +
     `${formatTimes(jump.spikeFactor)} × are flagged as spikes. Confirm the value to save it.`
   );
 }
 
 /** The confirmation's own words: it names the value it stands behind. */
 export function confirmLabel(energyKwh: number): string {
-  return `Yes, ${formatKwh(energyKwh)} kWh is right: save it and flag the hour as a confirmed spike`;
+  return `Yes, ${formatHourKwh(energyKwh)} kWh is right: save it and flag the hour as a confirmed spike`;
 }

@@ -6,6 +6,7 @@ import { ensurePartitions } from "./partitions.server";
 import { detectNegative, detectSpikes, expectedSign } from "./validate";
 import type { HourlyPoint, Quality } from "./series";
 import { writeIntervals } from "./write-intervals.server";
+import type { Orientation } from "~/sites/meter-kinds";
 
 const WEEK_MS = 7 * 86_400_000;
 /** Weeks of history loaded before a gap, for the weekday × hour profile. */
@@ -14,7 +15,7 @@ const PROFILE_WEEKS = 8;
 interface MeterFacts {
   timeZone: string;
   spikeFactor: number;
-  orientation: "import" | "export";
+  orientation: Orientation;
   carrier: string;
 }
 
@@ -25,7 +26,7 @@ async function meterFacts(
   const { rows } = await pool.query<{
     time_zone: string;
     spike_factor: string;
-    orientation: "import" | "export";
+    orientation: Orientation;
     carrier: string;
   }>(
     `select s.time_zone, m.spike_factor, m.orientation, m.carrier

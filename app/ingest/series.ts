@@ -1,7 +1,14 @@
 // The hourly series of one meter, as the ingest modules pass it around.
 // Hours are UTC: an interval's hourStart is the start of its UTC hour.
 
-export type Quality = "measured" | "estimated" | "edited" | "missing";
+/** How an hour's energy came to be: read, estimated, edited, or not at all. */
+export const intervalQualities = [
+  "measured",
+  "estimated",
+  "edited",
+  "missing",
+] as const;
+export type Quality = (typeof intervalQualities)[number];
 
 export interface HourlyPoint {
   hourStart: Date;

@@ -5,6 +5,7 @@
 import { HOUR_MS, floorToHour } from "./hours";
 import { isKnown } from "./series";
 import type { HourlyPoint } from "./series";
+import type { Orientation } from "~/sites/meter-kinds";
 
 export const DEFAULT_SPIKE_FACTOR = 10;
 
@@ -68,7 +69,7 @@ export function isSpike(
 /** What a meter's hours mean: its carrier and its boundary orientation. */
 export interface MeterBoundary {
   carrier: string;
-  orientation: "import" | "export";
+  orientation: Orientation;
 }
 
 /**

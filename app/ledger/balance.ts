@@ -19,10 +19,12 @@
  *   the balance lists it as a problem.
  */
 
-import { carrierLabels, type carriers } from "~/sites/meter-schema";
-
-export type Carrier = (typeof carriers)[number];
-export type Orientation = "import" | "export";
+import {
+  carrierLabels,
+  carrierReportOrder,
+  type Carrier,
+  type Orientation,
+} from "~/sites/meter-kinds";
 
 export interface BalanceMeter {
   id: string;
@@ -204,8 +206,6 @@ export interface BalanceDiagram {
   site: number;
 }
 
-const carrierOrder: Carrier[] = ["heat", "steam", "cooling", "electricity"];
-
 /** Nodes and links for a flow diagram of the site's month. */
 export function balanceDiagram(
   balance: Pick<SiteBalance, "meters" | "parents" | "netKwh">,
@@ -335,8 +335,8 @@ export function balanceDiagram(
     .filter((m) => m.parentMeterId === null)
     .sort(
       (a, b) =>
-        carrierOrder.indexOf(a.carrier) - carrierOrder.indexOf(b.carrier) ||
-        a.code.localeCompare(b.code),
+        carrierReportOrder.indexOf(a.carrier) -
+          carrierReportOrder.indexOf(b.carrier) || a.code.localeCompare(b.code),
     );
   for (const root of roots) {
     const kwh = Number(root.energyKwh);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { carriers } from "~/sites/meter-schema";
+import { carriers } from "~/sites/meter-kinds";
 import { deliveredSign, deliveredSignSql } from "./delivered";
 
 describe("the delivered view's sign", () => {

@@ -16,9 +16,7 @@
  * its own inverse. This module is the one place that says which carriers
  * turn; SQL and TypeScript both take it from here.
  */
-import type { carriers } from "~/sites/meter-schema";
-
-type Carrier = (typeof carriers)[number];
+import type { Carrier } from "~/sites/meter-kinds";
 
 /** Carriers whose delivery is heat taken out of the site. */
 const DELIVERED_AS_HEAT_OUT: readonly Carrier[] = ["cooling"];

@@ -5,7 +5,7 @@
  * these human files change with the screen. Energies stay exact decimal text
  * (convert-energy-decimal.ts) until a writer turns them into cells.
  */
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { carrierLabels, carriers } from "~/sites/meter-kinds";
 import {
   carrierTotals,
   type ServerTotal,

@@ -6,11 +6,24 @@
  */
 import { z } from "zod";
 
-/** The canonical text form PostgreSQL's uuid type accepts, any version. */
-const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+/**
+ * The canonical text form PostgreSQL's uuid type accepts, any version, as
+ * regex text (for SQL's `~*` as well) and as an anchored pattern.
+ */
+export const UUID_TEXT =
+  "[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}";
+const UUID = new RegExp(`^${UUID_TEXT}$`, "i");
 
 export function isUuid(value: unknown): value is string {
   return typeof value === "string" && UUID.test(value);
+}
+
+/**
+ * An id in the JSON API (path, query, answer). zod's guid is this same
+ * any-version 8-4-4-4-12 form, and the OpenAPI document reads it as a uuid.
+ */
+export function idSchema(message?: string) {
+  return z.guid(message);
 }
 
 /** A form field holding one id, e.g. a meter chosen from a list. */

@@ -1,5 +1,8 @@
-/** Calendar months as `YYYY-MM`, shared by pages, API and jobs. */
-export const MONTH_PATTERN = /^\d{4}-(0[1-9]|1[0-2])$/;
+/**
+ * Calendar months as `YYYY-MM`, shared by pages, API, reports and jobs; the
+ * match's groups are the year and the month.
+ */
+export const MONTH_PATTERN = /^(\d{4})-(0[1-9]|1[0-2])$/;
 
 /** The UTC month of an instant. */
 export function monthKey(date: Date): string {

@@ -5,9 +5,11 @@
  * module: pages infer their types from the same schemas.
  */
 import { z } from "zod";
+import { carriers } from "~/sites/meter-kinds";
+import { idSchema } from "./ids";
 
 /** Any 8-4-4-4-12 hex id, the form PostgreSQL's uuid type takes (`isUuid`). */
-export const id = () => z.guid();
+export const id = idSchema;
 
 /** Exact PostgreSQL numerics travel as decimal text, never as doubles. */
 export const decimalKwh = (description: string) =>
@@ -16,5 +18,4 @@ export const decimalKwh = (description: string) =>
     .regex(/^-?\d+(\.\d+)?$/)
     .describe(`${description}, kWh as exact decimal text`);
 
-export const CARRIERS = ["heat", "cooling", "steam", "electricity"] as const;
-export const carrier = z.enum(CARRIERS);
+export const carrier = z.enum(carriers);

@@ -1,6 +1,7 @@
 import { monthsBetween } from "~/baselines/degree-days";
 import { pool } from "~/db/client.server";
-import { anchorFor, longMonthLabel } from "./periods";
+import { monthLong } from "~/lib/format";
+import { anchorFor } from "./periods";
 
 export interface PeriodOption {
   /** "month:2026-03", "quarter:2026-Q1" or "year:2026", as the form sends it */
@@ -41,7 +42,7 @@ export async function periodChoices(
   return {
     months: months.map((m) => ({
       value: `month:${m}`,
-      label: longMonthLabel(m),
+      label: monthLong(m),
     })),
     quarters: quarters.map((q) => ({
       value: `quarter:${q}`,

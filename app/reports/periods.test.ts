@@ -1,11 +1,5 @@
 import { describe, expect, it } from "vitest";
-import {
-  anchorFor,
-  longMonthLabel,
-  reportPeriod,
-  reportPeriodFields,
-  shortMonthLabel,
-} from "./periods";
+import { anchorFor, reportPeriod, reportPeriodFields } from "./periods";
 
 describe("reportPeriod", () => {
   it("a month is one month, ending on the first of the next", () => {
@@ -77,11 +71,6 @@ describe("helpers", () => {
     expect(anchorFor("quarter", "2026-03")).toBe("2026-Q1");
     expect(anchorFor("quarter", "2026-10")).toBe("2026-Q4");
     expect(anchorFor("year", "2026-10")).toBe("2026");
-  });
-
-  it("month labels", () => {
-    expect(shortMonthLabel("2026-03-01")).toBe("Mar 2026");
-    expect(longMonthLabel("2026-09")).toBe("September 2026");
   });
 });
 

@@ -3,6 +3,8 @@
  * site-local calendar months (the ledger's months). Pure: no database.
  */
 import { z } from "zod";
+import { monthLong } from "~/lib/format";
+import { MONTH_PATTERN } from "~/lib/months";
 
 export const periodKinds = ["month", "quarter", "year"] as const;
 export type PeriodKind = (typeof periodKinds)[number];
@@ -23,23 +25,8 @@ export interface ReportPeriod {
 export const FIRST_YEAR = 1990;
 export const LAST_YEAR = 2100;
 
-const MONTH_NAMES = [
-  "January",
-  "February",
-  "March",
-  "April",
-  "May",
-  "June",
-  "July",
-  "August",
-  "September",
-  "October",
-  "November",
-  "December",
-];
-
 const ANCHOR: Record<PeriodKind, { pattern: RegExp; example: string }> = {
-  month: { pattern: /^(\d{4})-(0[1-9]|1[0-2])$/, example: "2026-03" },
+  month: { pattern: MONTH_PATTERN, example: "2026-03" },
   quarter: { pattern: /^(\d{4})-Q([1-4])$/, example: "2026-Q1" },
   year: { pattern: /^(\d{4})$/, example: "2026" },
 };
@@ -91,7 +78,7 @@ export function reportPeriod(kind: PeriodKind, anchor: string): ReportPeriod {
     );
   if (kind === "month") {
     const index = Number(match[2]) - 1;
-    return build(kind, year, index, 1, `${MONTH_NAMES[index]} ${year}`);
+    return build(kind, year, index, 1, monthLong(match[0]));
   }
   if (kind === "quarter") {
     const quarter = Number(match[2]);
@@ -106,18 +93,6 @@ export function anchorFor(kind: PeriodKind, month: string): string {
   if (kind === "month") return `${year}-${m}`;
   if (kind === "quarter") return `${year}-Q${Math.ceil(Number(m) / 3)}`;
   return year;
-}
-
-/** "Mar 2026" for "2026-03" or "2026-03-01": the months in tables. */
-export function shortMonthLabel(month: string): string {
-  const [year, m] = month.split("-");
-  return `${MONTH_NAMES[Number(m) - 1].slice(0, 3)} ${year}`;
-}
-
-/** "March 2026" for "2026-03" or "2026-03-01". */
-export function longMonthLabel(month: string): string {
-  const [year, m] = month.split("-");
-  return `${MONTH_NAMES[Number(m) - 1]} ${year}`;
 }
 
 /**

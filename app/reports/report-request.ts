@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { idSchema } from "~/lib/ids";
 import { periodKinds, reportPeriod, type ReportPeriod } from "./periods";
 
 /**
@@ -7,7 +8,7 @@ import { periodKinds, reportPeriod, type ReportPeriod } from "./periods";
  * "month:2026-03", "quarter:2026-Q1", "year:2025".
  */
 export const reportRequestSchema = z.strictObject({
-  scope: z.union([z.literal("all"), z.uuid("Choose a site or all sites.")], {
+  scope: z.union([z.literal("all"), idSchema("Choose a site or all sites.")], {
     error: "Choose a site or all sites.",
   }),
   period: z

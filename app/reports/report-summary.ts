@@ -1,15 +1,20 @@
 /** Shared by the Reports page (client), its loader and the JSON API (server). */
 import { z } from "zod";
+import { idSchema } from "~/lib/ids";
+
+/** A report's life: queued, then running, then done or failed. */
+export const reportStatuses = ["queued", "running", "done", "failed"] as const;
+export type ReportStatus = (typeof reportStatuses)[number];
 
 /** A report as the Reports page and `GET …/reports` list it (never the PDF bytes). */
 export const reportSummarySchema = z.strictObject({
-  id: z.uuid(),
+  id: idSchema(),
   title: z.string(),
-  siteId: z.uuid().nullable().describe("null for a report on all sites"),
+  siteId: idSchema().nullable().describe("null for a report on all sites"),
   periodKind: z.string().describe("month, quarter or year"),
   periodStart: z.string().describe("First day, YYYY-MM-DD"),
   periodEnd: z.string().describe("Last day, YYYY-MM-DD"),
-  status: z.enum(["queued", "running", "done", "failed"]),
+  status: z.enum(reportStatuses),
   progress: z.number().int().describe("Percent done"),
   progressNote: z.string(),
   error: z.string().nullable().describe("Why a failed report failed"),

@@ -20,8 +20,8 @@ import {
   revokeGateway,
 } from "~/gateways/manage-gateways.server";
 import { parseForm } from "~/lib/forms";
-import { isUuid } from "~/lib/ids";
-import { dateTimeUtc } from "~/lib/times";
+import { idField, isUuid } from "~/lib/ids";
+import { dateTimeUtc } from "~/lib/format";
 import type { Route } from "./+types/gateways";
 
 export const meta: Route.MetaFunction = () => [
@@ -42,7 +42,7 @@ const createSchema = z.strictObject({
 // script) is refused and changes nothing.
 const revokeSchema = z.strictObject({
   intent: z.literal("revoke"),
-  gatewayId: z.uuid("Unknown gateway."),
+  gatewayId: idField("Unknown gateway."),
   confirm: z.literal("yes", {
     error: "Confirm the revocation first: choose Revoke… beside the gateway.",
   }),

@@ -12,11 +12,10 @@ import {
   PageHeader,
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
-import { dayUtc } from "~/lib/times";
+import { dayUtc } from "~/lib/format";
+import { carrierLabels, quantityLabels } from "~/sites/meter-kinds";
 import {
-  carrierLabels,
   meterFormSchema,
-  quantityLabels,
   replaceSchema,
   retireSchema,
 } from "~/sites/meter-schema";

@@ -1,7 +1,7 @@
 import { data, Form, Link, useNavigation } from "react-router";
 import { requirePermission } from "~/auth/page-access.server";
 import { Button, Card, Notice, PageHeader } from "~/components/ui";
-import { dateTimeUtc } from "~/lib/times";
+import { dateTimeUtc, formatCount } from "~/lib/format";
 import {
   verifyUploadedReport,
   type VerifyOutcome,
@@ -145,7 +145,7 @@ function when(iso: string | null): string {
 function VerifyResult({ result }: { result: ActionResult }) {
   if ("error" in result) return <Notice tone="error">{result.error}</Notice>;
   const { outcome } = result;
-  const file = `${result.fileName} (${result.byteSize.toLocaleString("en-GB")} bytes)`;
+  const file = `${result.fileName} (${formatCount(result.byteSize)} bytes)`;
   if (outcome.verdict === "invalid")
     return (
       <div data-testid="verify-result" data-verdict="invalid">

@@ -14,7 +14,7 @@ import {
   SelectField,
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
-import { dateTimeUtc } from "~/lib/times";
+import { dateTimeUtc, formatKib } from "~/lib/format";
 import { periodChoices } from "~/reports/period-options.server";
 import {
   reportRequestSchema,
@@ -268,7 +268,7 @@ function ReportItem({
           Requested by {r.authorName ?? "a former member"} on{" "}
           {dateTimeUtc(r.createdAt)}
           {r.pageCount ? ` · ${r.pageCount} pages` : ""}
-          {r.byteSize ? ` · ${(r.byteSize / 1024).toFixed(0)} KiB` : ""}
+          {r.byteSize ? ` · ${formatKib(r.byteSize)}` : ""}
         </p>
         {r.sha256 ? (
           <p

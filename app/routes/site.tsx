@@ -2,7 +2,7 @@ import { data, Form, Link } from "react-router";
 import { idParam, notFound } from "~/auth/membership.server";
 import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
-import { Boundary, formatKwh } from "~/components/boundary";
+import { Boundary, flowLabel } from "~/components/boundary";
 import { CarrierBadge } from "~/components/carrier-badge";
 import { Cautions } from "~/components/cautions";
 import { SiteBalanceView } from "~/components/site-balance";
@@ -21,10 +21,11 @@ import {
   siteBalance,
 } from "~/ledger/site-balance.server";
 import { deliveredSign } from "~/ledger/delivered";
+import { formatArea, formatCelsius } from "~/lib/format";
 import { parseForm } from "~/lib/forms";
 import { siteEnergySince } from "~/sites/meter-energy.server";
 import { listSiteMeters } from "~/sites/meters.server";
-import { carrierLabels } from "~/sites/meter-schema";
+import { carrierLabels } from "~/sites/meter-kinds";
 import { siteFormSchema } from "~/sites/site-schema";
 import { DuplicateNameError, getSite, updateSite } from "~/sites/sites.server";
 import type { Route } from "./+types/site";
@@ -113,10 +114,8 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
         title={site.name}
         description={[
           site.address,
-          site.floorAreaM2
-            ? `${Number(site.floorAreaM2).toLocaleString("en-GB")} m²`
-            : null,
-          `degree day base ${site.degreeDayBaseC} °C`,
+          site.floorAreaM2 ? formatArea(Number(site.floorAreaM2)) : null,
+          `degree day base ${formatCelsius(Number(site.degreeDayBaseC))}`,
           site.timeZone,
         ]
           .filter(Boolean)
@@ -256,7 +255,7 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                           {orientation}
                         </td>
                         <td className="py-2 pr-3 text-right align-top tabular-nums whitespace-nowrap sm:align-middle">
-                          {formatKwh(
+                          {flowLabel(
                             m.energyKwh30d === null
                               ? null
                               : deliveredSign(m.carrier) * m.energyKwh30d,

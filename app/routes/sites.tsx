@@ -4,6 +4,7 @@ import { can } from "~/auth/permissions";
 import { SiteFields } from "~/components/site-fields";
 import { Button, Card, EmptyState, Notice, PageHeader } from "~/components/ui";
 import { siteCreationRefusal } from "~/billing/site-gate.server";
+import { formatArea } from "~/lib/format";
 import { parseForm } from "~/lib/forms";
 import { siteFormSchema } from "~/sites/site-schema";
 import {
@@ -91,7 +92,7 @@ export default function Sites({
                   <p className="mt-3 text-sm">
                     {site.meterCount} meter{site.meterCount === 1 ? "" : "s"}
                     {site.floorAreaM2
-                      ? ` · ${Number(site.floorAreaM2).toLocaleString("en-GB")} m²`
+                      ? ` · ${formatArea(Number(site.floorAreaM2))}`
                       : ""}
                   </p>
                 </Link>

@@ -3,8 +3,8 @@ import {
   carrierColour,
   carrierColours,
   carrierExportColour,
-  type Carrier,
 } from "./carrier-colours";
+import type { Carrier } from "./meter-kinds";
 
 const carriers = Object.keys(carrierColours) as Carrier[];
 

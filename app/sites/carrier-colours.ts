@@ -9,9 +9,7 @@
  *   against white and against `tint`.
  * - `tint` and `ink`: a badge's background and text, at least 6.5:1.
  */
-import type { carriers } from "./meter-schema";
-
-export type Carrier = (typeof carriers)[number];
+import type { Carrier } from "./meter-kinds";
 
 export interface CarrierColour {
   chart: string;

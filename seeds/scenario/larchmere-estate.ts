@@ -3,15 +3,12 @@
 // address, serial number and figure here is made up. Plain data, so the
 // database seed and the tests read the same description.
 
-export type MeterQuantity =
-  | "water_heat"
-  | "steam_heat"
-  | "sensible_heat"
-  | "electric_work"
-  | "electric_register"
-  | "heat_register";
-
-export type Carrier = "heat" | "cooling" | "steam" | "electricity";
+import type {
+  Carrier,
+  Orientation,
+  Quantity,
+  SensorPosition,
+} from "../../app/sites/meter-kinds";
 
 export interface ScenarioSite {
   name: string;
@@ -25,15 +22,15 @@ export interface ScenarioMeter {
   code: string;
   name: string;
   siteName: string;
-  quantity: MeterQuantity;
+  quantity: Quantity;
   carrier: Carrier;
-  orientation: "import" | "export";
+  orientation: Orientation;
   parentCode?: string;
   serial: string;
   multiplier: number;
   /** Register roll-over point: the value at which it wraps to zero. */
   rolloverKwh?: number;
-  sensorAt?: "flow" | "return";
+  sensorAt?: SensorPosition;
   defaultPressureBarAbs?: number;
   /** ISO 8601, UTC. */
   installedAt: string;

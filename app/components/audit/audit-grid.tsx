@@ -10,6 +10,7 @@ import {
 import { AgGridReact } from "ag-grid-react";
 import { useMemo, type ReactNode } from "react";
 import { Badge } from "~/components/ui";
+import { dateTimeIn } from "~/lib/format";
 import type { AuditEntry } from "./use-audit";
 
 // Rows grow to fit their before/after lines, so the auto-height module.
@@ -28,15 +29,6 @@ const theme = themeQuartz.withParams({
   cellHorizontalPaddingScale: 0.7,
 });
 
-/** When, in the reader's own time zone (the grid renders in the browser only). */
-const when = new Intl.DateTimeFormat("en-GB", {
-  day: "numeric",
-  month: "short",
-  year: "numeric",
-  hour: "2-digit",
-  minute: "2-digit",
-});
-
 /**
  * Cells hold several short lines: each renderer pads its own content, as
  * auto-height rows are measured from the content, not the cell.
@@ -50,7 +42,8 @@ function WhenCell({ data }: ICellRendererParams<AuditEntry>) {
   return (
     <Lines>
       <time dateTime={data.occurred_at} title={data.occurred_at}>
-        {when.format(new Date(data.occurred_at))}
+        {/* The reader's own zone: the grid renders in the browser only. */}
+        {dateTimeIn(data.occurred_at)}
       </time>
     </Lines>
   );

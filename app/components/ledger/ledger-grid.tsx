@@ -24,8 +24,9 @@ import {
   unitLabel as labelOf,
   type LedgerUnit,
 } from "~/ledger/ledger-units";
+import { formatNumber, monthShort } from "~/lib/format";
 import { useWidth } from "~/lib/use-width";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { carrierLabels, carriers } from "~/sites/meter-kinds";
 import type { Ledger, LedgerRow } from "./use-ledger";
 
 // Only the modules this grid uses. Row grouping is not among the community
@@ -61,27 +62,6 @@ interface GridRow extends Omit<LedgerRow, "carrier" | "status"> {
   firstOfSite: boolean;
   firstOfMonth: boolean;
   isTotal: boolean;
-}
-
-const MINUS = "\u2212";
-
-/** A formatted magnitude with a real minus sign, and no sign on a zero. */
-function signed(value: number, format: Intl.NumberFormat, plus = false) {
-  const text = format.format(Math.abs(value));
-  if (!/[1-9]/.test(text)) return text;
-  return `${value < 0 ? MINUS : plus ? "+" : ""}${text}`;
-}
-
-const monthFormat = new Intl.DateTimeFormat("en-GB", {
-  month: "short",
-  year: "numeric",
-  timeZone: "UTC",
-});
-
-function monthLabel(month: string): string {
-  const [y, m] = month.split("-").map(Number);
-  if (!y || !m) return month;
-  return monthFormat.format(new Date(Date.UTC(y, m - 1, 1)));
 }
 
 const carrierOrder = (carrier: LedgerRow["carrier"]) =>
@@ -191,7 +171,7 @@ function EntryCell({ data }: ICellRendererParams<GridRow>) {
       <span className={data.firstOfSite ? "block font-semibold" : "sr-only"}>
         {data.site_name}
       </span>
-      {monthLabel(data.month)} · {carrier}
+      {monthShort(data.month)} · {carrier}
     </span>
   );
 }
@@ -241,14 +221,9 @@ export function LedgerGrid({
   const columns = useMemo<ColDef<GridRow>[]>(() => {
     const { decimals } = LEDGER_UNITS[unit];
     const places = perM2 ? decimals.perM2 : decimals.total;
-    const format = new Intl.NumberFormat("en-GB", {
-      minimumFractionDigits: places,
-      maximumFractionDigits: places,
-    });
-    const percent = new Intl.NumberFormat("en-GB", {
-      minimumFractionDigits: 1,
-      maximumFractionDigits: 1,
-    });
+    // The unit's own decimals, the same on screen and in the XLSX file.
+    const figure = (value: number, plus = false) =>
+      formatNumber(value, places, { fixed: true, plus });
     const unitLabel = labelOf(unit, perM2);
 
     /**
@@ -269,7 +244,7 @@ export function LedgerGrid({
           : null;
       };
     const show = (value: number | null) =>
-      value === null ? "—" : signed(value, format);
+      value === null ? "—" : figure(value);
     const energyColumn = (
       headerName: string,
       pick: (row: GridRow) => string | null,
@@ -296,7 +271,7 @@ export function LedgerGrid({
           {
             headerName: "Month",
             field: "month",
-            valueFormatter: (p) => (p.value ? monthLabel(p.value) : ""),
+            valueFormatter: (p) => (p.value ? monthShort(p.value) : ""),
             cellRenderer: GroupCell,
             minWidth: 88,
             flex: 1,
@@ -324,7 +299,9 @@ export function LedgerGrid({
         field: "estimated_share",
         type: "rightAligned",
         valueFormatter: (p) =>
-          Number.isFinite(p.value) ? percent.format(100 * p.value) : "—",
+          Number.isFinite(p.value)
+            ? formatNumber(100 * p.value, 1, { fixed: true })
+            : "—",
         cellStyle: (p) =>
           p.value > 0 ? { color: "#7a4b00", fontWeight: 600 } : null,
         cellClass: ["ag-right-aligned-cell", "tabular-nums"],
@@ -334,14 +311,14 @@ export function LedgerGrid({
       {
         ...energyColumn("± uncertainty", (r) => r.uncertainty_kwh),
         valueFormatter: (p) =>
-          p.value === null ? "—" : `±${format.format(Math.abs(p.value))}`,
+          p.value === null ? "—" : `±${figure(Math.abs(p.value))}`,
       },
       {
         ...energyColumn("Adjustments", (r) => r.adjustments_kwh),
         valueFormatter: (p) => {
           const count = p.data?.adjustment_count ?? 0;
           if (!count && !p.value) return "";
-          const amount = p.value === null ? "—" : signed(p.value, format, true);
+          const amount = p.value === null ? "—" : figure(p.value, true);
           return `${amount} (${count})`;
         },
         cellRenderer: AdjustmentsCell,

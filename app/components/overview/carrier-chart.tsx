@@ -10,7 +10,8 @@ import {
   YAxis,
 } from "recharts";
 import { carrierColour, carrierExportColour } from "~/sites/carrier-colours";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { carrierLabels, carriers } from "~/sites/meter-kinds";
+import { formatMwh } from "~/lib/format";
 
 type Carrier = (typeof carriers)[number];
 
@@ -91,11 +92,7 @@ export function CarrierChart({ data }: { data: CarrierMonth[] }) {
             }}
           />
           <ReferenceLine y={0} stroke="#4f5966" />
-          <Tooltip
-            formatter={(v) =>
-              `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 1 })} MWh`
-            }
-          />
+          <Tooltip formatter={(v) => formatMwh(Number(v))} />
           <Legend />
           {series.map((s) => (
             <Bar

@@ -1,6 +1,8 @@
 import { Scatter, ScatterChart, Tooltip, XAxis, YAxis } from "recharts";
 import { useWidth } from "~/lib/use-width";
-import { carrierColour, type Carrier } from "~/sites/carrier-colours";
+import { carrierColour } from "~/sites/carrier-colours";
+import type { Carrier } from "~/sites/meter-kinds";
+import { formatHourKwh } from "~/lib/format";
 import { qualityLabels, type Interval } from "./use-intervals";
 
 interface Cell {
@@ -132,10 +134,8 @@ export function CarpetPlot({
               return c ? (
                 <div className="rounded border border-line bg-surface px-2 py-1 text-sm shadow">
                   {c.dayLabel} {String(c.hour).padStart(2, "0")}:00 ·{" "}
-                  {c.value.toLocaleString("en-GB", {
-                    maximumFractionDigits: 2,
-                  })}{" "}
-                  kWh · {qualityLabels[c.quality].toLowerCase()}
+                  {formatHourKwh(c.value)} kWh ·{" "}
+                  {qualityLabels[c.quality].toLowerCase()}
                 </div>
               ) : null;
             }}

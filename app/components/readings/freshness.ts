@@ -1,4 +1,4 @@
-import { formatDistanceStrict } from "date-fns";
+import { dateTimeIn, timeAgo } from "~/lib/format";
 
 const HOUR_MS = 3_600_000;
 
@@ -24,11 +24,7 @@ export function newestReadingsStatus(
   const lastReading = new Date(Date.parse(latestHourStart) + HOUR_MS);
   if (now.getTime() - lastReading.getTime() <= LIVE_WITHIN_MS)
     return { live: true, text: "Live" };
-  const when = new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    dateStyle: "medium",
-    timeStyle: "short",
-  }).format(lastReading);
-  const ago = formatDistanceStrict(lastReading, now, { addSuffix: true });
+  const when = dateTimeIn(lastReading, timeZone);
+  const ago = timeAgo(lastReading, now);
   return { live: false, text: `Last reading ${ago} (${when})` };
 }

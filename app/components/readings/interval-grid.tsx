@@ -10,7 +10,8 @@ import {
   type ColDef,
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
-import { useMemo } from "react";
+import { useCallback, useMemo } from "react";
+import { dateTimeIn, dayMonthTimeIn, formatHourKwh } from "~/lib/format";
 import { useWidth } from "~/lib/use-width";
 import { qualityLabels, type Interval } from "./use-intervals";
 
@@ -61,21 +62,10 @@ export function IntervalGrid({
 }) {
   const { ref, width } = useWidth();
   const narrow = width > 0 && width < NARROW_GRID_PX;
-  const format = useMemo(
-    () =>
-      new Intl.DateTimeFormat(
-        "en-GB",
-        narrow
-          ? {
-              timeZone,
-              day: "numeric",
-              month: "short",
-              hour: "2-digit",
-              minute: "2-digit",
-              hourCycle: "h23",
-            }
-          : { timeZone, dateStyle: "medium", timeStyle: "short" },
-      ),
+  // A narrow grid leaves out the year, to fit.
+  const hourLabel = useCallback(
+    (at: string) =>
+      narrow ? dayMonthTimeIn(at, timeZone) : dateTimeIn(at, timeZone),
     [timeZone, narrow],
   );
   const columns = useMemo<ColDef<Interval>[]>(() => {
@@ -83,7 +73,7 @@ export function IntervalGrid({
       {
         headerName: `Hour (${timeZone})`,
         field: "hour_start",
-        valueFormatter: (p) => format.format(new Date(p.value)),
+        valueFormatter: (p) => hourLabel(p.value),
         flex: 2,
         sort: "desc",
       },
@@ -92,8 +82,7 @@ export function IntervalGrid({
         field: "energy_kwh",
         type: "numericColumn",
         valueGetter: (p) => Number(p.data?.energy_kwh),
-        valueFormatter: (p) =>
-          Number(p.value).toLocaleString("en-GB", { maximumFractionDigits: 3 }),
+        valueFormatter: (p) => formatHourKwh(Number(p.value)),
         filter: "agNumberColumnFilter",
         flex: 2,
       },
@@ -140,7 +129,7 @@ export function IntervalGrid({
       wrapHeaderText: true,
       autoHeaderHeight: true,
     }));
-  }, [format, timeZone, narrow]);
+  }, [hourLabel, timeZone, narrow]);
   return (
     <div ref={ref} style={{ height: 420 }}>
       <AgGridReact<Interval>

@@ -7,7 +7,14 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
-import { carrierColours, type Carrier } from "~/sites/carrier-colours";
+import { carrierColours } from "~/sites/carrier-colours";
+import type { Carrier } from "~/sites/meter-kinds";
+import {
+  dateTimeIn,
+  dayMonthIn,
+  formatHourKwh,
+  formatTick,
+} from "~/lib/format";
 import type { Interval } from "./use-intervals";
 
 /**
@@ -25,16 +32,6 @@ export function LoadProfile({
   carrier: Carrier;
 }) {
   const colour = carrierColours[carrier];
-  const tick = new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    day: "numeric",
-    month: "short",
-  });
-  const full = new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    dateStyle: "medium",
-    timeStyle: "short",
-  });
   const ticks = midnightTicks(intervals, timeZone);
   const data = intervals.map((i) => {
     const v = Number(i.energy_kwh);
@@ -62,13 +59,13 @@ export function LoadProfile({
             scale="time"
             ticks={ticks}
             domain={["dataMin", "dataMax"]}
-            tickFormatter={(t) => tick.format(new Date(t))}
+            tickFormatter={(t) => dayMonthIn(t, timeZone)}
             stroke="#4f5966"
           />
           <YAxis
             stroke="#4f5966"
             width={64}
-            tickFormatter={(v) => Number(v).toLocaleString("en-GB")}
+            tickFormatter={(v) => formatTick(Number(v))}
             label={{
               value: "kWh",
               angle: -90,
@@ -77,10 +74,8 @@ export function LoadProfile({
             }}
           />
           <Tooltip
-            labelFormatter={(t) => full.format(new Date(Number(t)))}
-            formatter={(v) => [
-              `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 3 })} kWh`,
-            ]}
+            labelFormatter={(t) => dateTimeIn(Number(t), timeZone)}
+            formatter={(v) => [`${formatHourKwh(Number(v))} kWh`]}
           />
           <Area
             type="stepAfter"

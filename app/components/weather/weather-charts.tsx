@@ -13,7 +13,14 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
-import { carrierColour, type Carrier } from "~/sites/carrier-colours";
+import { carrierColour } from "~/sites/carrier-colours";
+import type { Carrier } from "~/sites/meter-kinds";
+import {
+  formatDegreeDays,
+  formatKwh,
+  formatTick,
+  monthShort,
+} from "~/lib/format";
 
 const INK = "#4f5966";
 const INK_STRONG = "#1a222d";
@@ -28,21 +35,11 @@ const SPRUCE = "#0f5546";
 const energyColour = (carrier: Carrier | null) =>
   carrier ? carrierColour(carrier) : SPRUCE;
 
-const monthFormat = new Intl.DateTimeFormat("en-GB", {
-  month: "short",
-  year: "2-digit",
-  timeZone: "UTC",
-});
+/** The house month ("Oct 2025"); the Weather page's route still imports it by this name. */
+export const monthLabel = monthShort;
 
-export function monthLabel(month: string): string {
-  const [y, m] = month.split("-").map(Number);
-  return monthFormat.format(new Date(Date.UTC(y, m - 1, 1)));
-}
-
-const kwh = (v: unknown) =>
-  `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 0 })} kWh`;
-const degreeDays = (v: unknown) =>
-  `${Number(v).toLocaleString("en-GB", { maximumFractionDigits: 1 })} degree days`;
+const kwh = (v: unknown) => formatKwh(Number(v));
+const degreeDays = (v: unknown) => formatDegreeDays(Number(v));
 
 /** A round step of about a fifth of `max`: 1, 2, 2.5 or 5 times a power of ten. */
 function niceStep(max: number): number {
@@ -105,7 +102,7 @@ export function DegreeDayChart({
             width={84}
             ticks={kwhTicks}
             domain={[0, kwhTicks.at(-1)!]}
-            tickFormatter={(v) => Number(v).toLocaleString("en-GB")}
+            tickFormatter={(v) => formatTick(Number(v))}
             label={{
               value: "kWh",
               angle: -90,
@@ -245,7 +242,7 @@ export function BaselineScatter({
             width={84}
             ticks={yTicks}
             domain={[0, yTicks.at(-1)!]}
-            tickFormatter={(v) => Number(v).toLocaleString("en-GB")}
+            tickFormatter={(v) => formatTick(Number(v))}
             label={{
               value: "kWh per month",
               angle: -90,

@@ -13,6 +13,7 @@ import { FigureTable } from "~/components/figure-table";
 import { SiteOptions } from "~/components/options";
 import { SectionCard } from "~/components/section-card";
 import { Button, Notice, SelectField } from "~/components/ui";
+import { formatCount } from "~/lib/format";
 
 function Problems({
   problems,
@@ -28,7 +29,7 @@ function Problems({
       captionVisible
       caption={
         <>
-          {count.toLocaleString("en-GB")} rows with problems
+          {formatCount(count)} rows with problems
           {count > problems.length
             ? ` (the first ${problems.length} listed)`
             : ""}
@@ -104,7 +105,7 @@ export function WeatherUpload({
         ? {
             ok: false,
             name: file.name,
-            file: `The file has ${file.size.toLocaleString("en-GB")} bytes; send at most ${MAX_WEATHER_BYTES.toLocaleString("en-GB")}.`,
+            file: `The file has ${formatCount(file.size)} bytes; send at most ${formatCount(MAX_WEATHER_BYTES)}.`,
             problems: [],
             problemCount: 0,
           }
@@ -145,8 +146,8 @@ export function WeatherUpload({
           <p id="weather-hint" className="text-sm text-ink-muted">
             Header <code>date,mean_temp_c</code>; one row per site-local day,
             like <code>2026-01-31,4.5</code>. At most{" "}
-            {MAX_WEATHER_ROWS.toLocaleString("en-GB")} rows and 1 MB. Days
-            already stored take the new value.
+            {formatCount(MAX_WEATHER_ROWS)} rows and 1 MB. Days already stored
+            take the new value.
           </p>
           <input
             id="weather-file"
@@ -175,7 +176,7 @@ export function WeatherUpload({
       {check?.ok ? (
         <>
           <p>
-            <strong>{check.rows.length.toLocaleString("en-GB")}</strong> days in{" "}
+            <strong>{formatCount(check.rows.length)}</strong> days in{" "}
             {check.name}, from {check.rows[0].day} to {check.rows.at(-1)!.day}.
             First rows:
           </p>

@@ -6,6 +6,7 @@
 import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
 import type { MeterHourCounts } from "./data-quality";
+import type { Orientation } from "~/sites/meter-kinds";
 import type { Carrier } from "./types";
 
 export async function meterHourCounts(args: {
@@ -19,7 +20,7 @@ export async function meterHourCounts(args: {
     code: string;
     name: string;
     carrier: Carrier;
-    orientation: "import" | "export";
+    orientation: Orientation;
     sub_meter: boolean;
     retired: boolean;
     t0: Date;

@@ -5,6 +5,7 @@
  * without a measured hour, and the conflicting readings kept for review.
  * Pure: the counts come from data-quality.server.ts.
  */
+import type { Orientation } from "~/sites/meter-kinds";
 import type { Carrier, DataQuality, MeterQuality } from "./types";
 
 /**
@@ -20,7 +21,7 @@ export interface MeterHourCounts {
   code: string;
   name: string;
   carrier: Carrier;
-  orientation: "import" | "export";
+  orientation: Orientation;
   subMeter: boolean;
   retired: boolean;
   /** The meter's window in the period: [from, to). */

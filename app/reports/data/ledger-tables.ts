@@ -5,6 +5,7 @@
  * ledgerRows(), the closes from month_closes.
  */
 import type { LedgerRow } from "~/ledger/ledger-rows.server";
+import { carrierReportOrder } from "~/sites/meter-kinds";
 import { absDecimal, sumDecimals } from "./decimal";
 import type {
   Carrier,
@@ -14,15 +15,8 @@ import type {
   MonthStatus,
 } from "./types";
 
-export const CARRIER_ORDER: readonly Carrier[] = [
-  "heat",
-  "steam",
-  "cooling",
-  "electricity",
-];
-
 const byCarrier = (a: Carrier, b: Carrier) =>
-  CARRIER_ORDER.indexOf(a) - CARRIER_ORDER.indexOf(b);
+  carrierReportOrder.indexOf(a) - carrierReportOrder.indexOf(b);
 
 export function toEntry(row: LedgerRow): LedgerEntry {
   return {

@@ -9,7 +9,7 @@
 import { residualFlag } from "~/ledger/balance";
 import { deliveredSign } from "~/ledger/delivered";
 import { subtractDecimals, sumDecimals } from "./decimal";
-import { CARRIER_ORDER } from "./ledger-tables";
+import { carrierReportOrder } from "~/sites/meter-kinds";
 import type {
   Carrier,
   CarrierBalance,
@@ -68,7 +68,8 @@ export function siteBalanceOf(
   const carriers: CarrierBalance[] = [...tables]
     .sort(
       (a, b) =>
-        CARRIER_ORDER.indexOf(a.carrier) - CARRIER_ORDER.indexOf(b.carrier),
+        carrierReportOrder.indexOf(a.carrier) -
+        carrierReportOrder.indexOf(b.carrier),
     )
     .map((t) => ({
       carrier: t.carrier,

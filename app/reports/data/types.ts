@@ -9,9 +9,10 @@
  * view (into the site positive), and says so.
  */
 import type { ResidualFlag } from "~/ledger/balance";
+import type { Carrier, Orientation } from "~/sites/meter-kinds";
 import type { ReportPeriod } from "../periods";
 
-export type Carrier = "heat" | "cooling" | "steam" | "electricity";
+export type { Carrier };
 export type DegreeDayDriver = "hdd" | "cdd";
 
 /** Whether a month of the period is closed, for the report's scope. */
@@ -186,7 +187,7 @@ export interface MeterQuality {
   code: string;
   name: string;
   carrier: Carrier;
-  orientation: "import" | "export";
+  orientation: Orientation;
   subMeter: boolean;
   retired: boolean;
   /** Hours the meter was installed within the period (up to generation). */

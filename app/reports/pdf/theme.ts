@@ -36,13 +36,6 @@ export const carrierColours: Record<Carrier, string> = {
   electricity: carrierColour("electricity"),
 };
 
-export const carrierNames: Record<Carrier, string> = {
-  heat: "Heat",
-  cooling: "Cooling",
-  steam: "Steam",
-  electricity: "Electricity",
-};
-
 /** A4 portrait, with room above and below for the running header and footer. */
 export const page = {
   size: "A4",

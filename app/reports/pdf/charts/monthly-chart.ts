@@ -4,7 +4,7 @@
  * one group stack in one bar; groups (carriers) stand side by side, so
  * unlike carriers are never stacked into one height. Vector graphics only.
  */
-import { shortMonthLabel } from "../../periods";
+import { monthShort } from "~/lib/format";
 import { ensureSpace, frame } from "../layout";
 import { drawText } from "../text";
 import { colours, type } from "../theme";
@@ -51,7 +51,7 @@ export function chartHeight(plotHeight: number): number {
 
 function monthTicks(months: readonly string[]): string[] {
   return months.map((m) =>
-    months.length > 6 ? shortMonthLabel(m).slice(0, 3) : shortMonthLabel(m),
+    months.length > 6 ? monthShort(m).slice(0, 3) : monthShort(m),
   );
 }
 

@@ -1,7 +1,7 @@
 /** Every adjusting entry recorded against the period's months. */
 import { sumDecimals } from "../../data/decimal";
 import type { ReportData } from "../../data/types";
-import { shortMonthLabel } from "../../periods";
+import { monthShort } from "~/lib/format";
 import { compactDateTime, integer, kwh } from "../format";
 import { body, heading, newPage } from "../layout";
 import { drawTable, widths } from "../table";
@@ -53,7 +53,7 @@ export function drawAdjustments(
     rows: entries.map((e) => ({
       cells: [
         compactDateTime(e.recordedAt, data.timeZone),
-        shortMonthLabel(e.month),
+        monthShort(e.month),
         `${e.meterCode}${e.subMeter ? " (sub-meter)" : ""}, ${e.siteName}`,
         { text: kwh(e.deltaKwh), weight: "semibold" },
         sourceNames[e.source] ?? e.source,

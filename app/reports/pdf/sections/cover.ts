@@ -4,7 +4,7 @@
  * (page numbers filled in once every section is drawn) and the cautions.
  */
 import type { ReportData } from "../../data/types";
-import { longMonthLabel, shortMonthLabel } from "../../periods";
+import { monthLong, monthShort } from "~/lib/format";
 import { dateTime } from "../format";
 import { frame } from "../layout";
 import { statusTitle } from "../status";
@@ -15,8 +15,8 @@ const BAND_HEIGHT = 232;
 
 export function periodDescription(data: ReportData): string {
   const { period } = data;
-  const first = longMonthLabel(period.months[0]);
-  const last = longMonthLabel(period.months[period.months.length - 1]);
+  const first = monthLong(period.months[0]);
+  const last = monthLong(period.months[period.months.length - 1]);
   const span = period.months.length === 1 ? first : `${first} to ${last}`;
   return `${span}, in each site's local calendar`;
 }
@@ -26,7 +26,7 @@ function statusText(data: ReportData): string {
     return "Every month of the period was closed when this report was generated. A later change to a closed month is recorded as an adjusting entry, with its author, reason and time, and is never an edit without a trace.";
   const closed = data.months
     .filter((m) => m.closed)
-    .map((m) => shortMonthLabel(m.month));
+    .map((m) => monthShort(m.month));
   const list = closed.length
     ? `Closed: ${closed.join(", ")}.`
     : "No month of the period is closed yet.";

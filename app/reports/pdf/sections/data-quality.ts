@@ -3,7 +3,8 @@ import type { DataQuality, MeterQuality, ReportData } from "../../data/types";
 import { compactDateTime, integer, share } from "../format";
 import { body, heading, space } from "../layout";
 import { drawTable, widths, type Cell, type Row } from "../table";
-import { carrierNames, colours } from "../theme";
+import { colours } from "../theme";
+import { carrierLabels } from "~/sites/meter-kinds";
 
 function summary(q: DataQuality): string {
   const of = (n: number) =>
@@ -23,7 +24,7 @@ function hoursCell(value: number, tone: string): Cell {
 
 function meterRow(m: MeterQuality, silentAfter: number): Row {
   const facts = [
-    carrierNames[m.carrier],
+    carrierLabels[m.carrier],
     m.subMeter ? "sub-meter" : null,
     m.orientation === "export" ? "export" : null,
     m.retired ? "retired" : null,

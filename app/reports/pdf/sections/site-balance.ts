@@ -14,7 +14,8 @@ import { deliveredSign } from "~/ledger/delivered";
 import { kwh, share, signedNumber } from "../format";
 import { body, heading, space } from "../layout";
 import { drawTable, widths, type Cell } from "../table";
-import { carrierColours, carrierNames, colours } from "../theme";
+import { carrierColours, colours } from "../theme";
+import { carrierLabels } from "~/sites/meter-kinds";
 
 type Flows = { inflows: Flow[]; outflows: Flow[] };
 
@@ -27,7 +28,7 @@ type Flows = { inflows: Flow[]; outflows: Flow[] };
 export function flows(site: SiteReport): Flows {
   const result: Flows = { inflows: [], outflows: [] };
   for (const c of site.balance.carriers) {
-    const name = carrierNames[c.carrier];
+    const name = carrierLabels[c.carrier];
     const color = carrierColours[c.carrier];
     const sign = deliveredSign(c.carrier);
     const add = (kind: "delivered" | "exported", value: string) => {

@@ -10,12 +10,13 @@ import type {
   BaselineComparison,
   SiteReport,
 } from "../../data/types";
-import { shortMonthLabel } from "../../periods";
+import { formatCelsius, monthShort } from "~/lib/format";
 import { chartHeight, drawMonthlyChart } from "../charts/monthly-chart";
 import { magnitude, signedNumber, signedPercent } from "../format";
 import { body, heading, space } from "../layout";
 import { drawTable, widths, type Row } from "../table";
-import { carrierColours, carrierNames, colours } from "../theme";
+import { carrierColours, colours } from "../theme";
+import { carrierLabels } from "~/sites/meter-kinds";
 import { monthlyByCarrierOfSite } from "./site-charts";
 
 function verdict(
@@ -36,16 +37,16 @@ function statistic(value: number | null, digits = 2) {
 }
 
 function drawModel(doc: PDFKit.PDFDocument, b: BaselineComparison) {
-  const months = `${shortMonthLabel(b.from)} to ${shortMonthLabel(b.to)}`;
+  const months = `${monthShort(b.from)} to ${monthShort(b.to)}`;
   body(doc, [
     { text: "Model: ", weight: "semibold" },
     {
-      text: `E = ${magnitude(b.intercept)} kWh + ${b.slope.toFixed(2)} kWh per degree day × ${degreeDayLabel(b.driver, b.baseC)}, ordinary least squares on ${b.n} ${b.granularity} periods (${months}), degree days to a base of ${b.baseC.toFixed(1)} °C.`,
+      text: `E = ${magnitude(b.intercept)} kWh + ${b.slope.toFixed(2)} kWh per degree day × ${degreeDayLabel(b.driver, b.baseC)}, ordinary least squares on ${b.n} ${b.granularity} periods (${months}), degree days to a base of ${formatCelsius(b.baseC)}.`,
     },
     ...(b.baseC !== b.siteBaseC
       ? [
           {
-            text: ` The site's degree day base is now ${b.siteBaseC.toFixed(1)} °C; the model keeps the base it was fitted with.`,
+            text: ` The site's degree day base is now ${formatCelsius(b.siteBaseC)}; the model keeps the base it was fitted with.`,
             color: colours.caution700,
           },
         ]
@@ -90,7 +91,7 @@ function drawMonths(doc: PDFKit.PDFDocument, b: BaselineComparison) {
   const w = widths(1, 0.8, 0.8, 1.3, 1.3, 1, 1.6);
   const rows: Row[] = b.months.map((m) => ({
     cells: [
-      shortMonthLabel(m.month),
+      monthShort(m.month),
       m.hdd === null ? "—" : m.hdd.toFixed(1),
       m.cdd === null ? "—" : m.cdd.toFixed(1),
       m.expectedKwh === null ? "—" : magnitude(m.expectedKwh),
@@ -127,14 +128,14 @@ function drawMonths(doc: PDFKit.PDFDocument, b: BaselineComparison) {
       { header: "Note", width: w[6] },
     ],
     rows,
-    caption: `Baseline, ${carrierNames[b.carrier].toLowerCase()}`,
+    caption: `Baseline, ${carrierLabels[b.carrier].toLowerCase()}`,
   });
 }
 
 function drawComparison(doc: PDFKit.PDFDocument, b: BaselineComparison) {
   heading(
     doc,
-    `${carrierNames[b.carrier]}: against the baseline of ${shortMonthLabel(b.from)} to ${shortMonthLabel(b.to)}`,
+    `${carrierLabels[b.carrier]}: against the baseline of ${monthShort(b.from)} to ${monthShort(b.to)}`,
     3,
     chartHeight(130),
   );
@@ -144,7 +145,7 @@ function drawComparison(doc: PDFKit.PDFDocument, b: BaselineComparison) {
       months: b.months.map((m) => m.month),
       bars: [
         {
-          label: `Metered ${carrierNames[b.carrier].toLowerCase()} delivered`,
+          label: `Metered ${carrierLabels[b.carrier].toLowerCase()} delivered`,
           color: carrierColours[b.carrier],
           values: b.months.map((m) => m.actualKwh),
         },

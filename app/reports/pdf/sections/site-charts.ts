@@ -1,9 +1,9 @@
 /** Chart series built from the ledger tables of one or more sites. */
 import { sumDecimals } from "../../data/decimal";
-import { CARRIER_ORDER } from "../../data/ledger-tables";
+import { carrierLabels, carrierReportOrder } from "~/sites/meter-kinds";
 import type { Carrier, LedgerEntry, SiteReport } from "../../data/types";
 import type { BarSeries } from "../charts/monthly-chart";
-import { carrierColours, carrierNames } from "../theme";
+import { carrierColours } from "../theme";
 
 /** A figure of one carrier per month (YYYY-MM), summed over the sites. */
 function perMonth(
@@ -31,12 +31,12 @@ export function monthlyByCarrier(
   sites: readonly SiteReport[],
   months: readonly string[],
 ): BarSeries[] {
-  const carriers = CARRIER_ORDER.filter((c) =>
+  const carriers = carrierReportOrder.filter((c) =>
     sites.some((s) => s.tables.some((t) => t.carrier === c)),
   );
   return carriers.flatMap((carrier) => {
     const delivered: BarSeries = {
-      label: `${carrierNames[carrier]} delivered`,
+      label: `${carrierLabels[carrier]} delivered`,
       color: carrierColours[carrier],
       values: perMonth(sites, carrier, months, (e) => e.importsKwh),
       group: carrier,
@@ -48,7 +48,7 @@ export function monthlyByCarrier(
       (e) => e.exportsKwh,
     );
     const exported: BarSeries = {
-      label: `${carrierNames[carrier]} exported`,
+      label: `${carrierLabels[carrier]} exported`,
       color: carrierColours[carrier],
       values: exportedValues,
       group: carrier,

@@ -9,10 +9,11 @@ import type {
   LedgerEntry,
   SiteReport,
 } from "../../data/types";
-import { shortMonthLabel } from "../../periods";
+import { monthShort } from "~/lib/format";
 import { band, kwh, share } from "../format";
 import { drawTable, widths, type Row } from "../table";
-import { carrierColours, carrierNames, colours } from "../theme";
+import { carrierColours, colours } from "../theme";
+import { carrierLabels } from "~/sites/meter-kinds";
 
 function columns() {
   const w = widths(1.05, 1.3, 1.15, 1.3, 0.85, 1.1, 1.2, 0.7);
@@ -39,7 +40,7 @@ function adjustments(amount: string, count: number): string {
 function entryRow(e: LedgerEntry): Row {
   return {
     cells: [
-      shortMonthLabel(e.month),
+      monthShort(e.month),
       kwh(e.importsKwh),
       kwh(e.exportsKwh),
       { text: kwh(e.netKwh), weight: "semibold" },
@@ -76,7 +77,7 @@ function totalRow(label: string, t: EntryTotal): Row {
 function bandLabel(carrier: Carrier): string {
   return carrier === "cooling"
     ? "Cooling delivered (chilled water)"
-    : carrierNames[carrier];
+    : carrierLabels[carrier];
 }
 
 export function drawSiteLedger(

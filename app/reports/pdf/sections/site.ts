@@ -1,4 +1,5 @@
 /** One site's section: its facts, monthly ledger, baselines and balance. */
+import { formatCelsius } from "~/lib/format";
 import type { ReportData, SiteReport } from "../../data/types";
 import { integer } from "../format";
 import { body, heading, newPage, space } from "../layout";
@@ -18,7 +19,7 @@ function facts(site: SiteReport): string {
   const closed = [...months.values()].filter(Boolean).length;
   return [
     `Time zone ${site.timeZone}`,
-    `degree day base ${site.degreeDayBaseC.toFixed(1)} °C`,
+    `degree day base ${formatCelsius(site.degreeDayBaseC)}`,
     site.floorAreaM2 === null
       ? "floor area not recorded"
       : `floor area ${integer(site.floorAreaM2)} m²`,

@@ -5,14 +5,15 @@
  * carriers are never added into one kWh figure.
  */
 import type { EntryTotal, ReportData } from "../../data/types";
-import { shortMonthLabel } from "../../periods";
+import { monthShort } from "~/lib/format";
 import { chartHeight, drawMonthlyChart } from "../charts/monthly-chart";
 import { monthlyByCarrier } from "./site-charts";
 import { band, kwh, share } from "../format";
 import { body, ensureSpace, frame, heading, space } from "../layout";
 import { drawTable, widths, type Row } from "../table";
 import { drawText } from "../text";
-import { carrierColours, carrierNames, colours, type } from "../theme";
+import { carrierColours, colours, type } from "../theme";
+import { carrierLabels } from "~/sites/meter-kinds";
 
 function drawMonthStrip(doc: PDFKit.PDFDocument, data: ReportData) {
   const n = data.months.length;
@@ -32,8 +33,7 @@ function drawMonthStrip(doc: PDFKit.PDFDocument, data: ReportData) {
         .fillColor(colours.caution50)
         .strokeColor(colours.caution700)
         .fillAndStroke();
-    const label =
-      n > 6 ? shortMonthLabel(m.month).slice(0, 3) : shortMonthLabel(m.month);
+    const label = n > 6 ? monthShort(m.month).slice(0, 3) : monthShort(m.month);
     const color = m.closed ? colours.surface : colours.caution700;
     drawText(doc, label, x, top + 5, {
       size: type.small,
@@ -92,7 +92,7 @@ function drawCarrierTotals(doc: PDFKit.PDFDocument, data: ReportData) {
   const rows: Row[] = data.carrierTotals.map((t) => ({
     cells: [
       {
-        text: carrierNames[t.carrier],
+        text: carrierLabels[t.carrier],
         weight: "semibold" as const,
         color: carrierColours[t.carrier],
       },
@@ -134,7 +134,7 @@ function drawSiteTotals(doc: PDFKit.PDFDocument, data: ReportData) {
     return site.tables.map((t, i) => ({
       cells: [
         i === 0 ? name : "",
-        { text: carrierNames[t.carrier], color: carrierColours[t.carrier] },
+        { text: carrierLabels[t.carrier], color: carrierColours[t.carrier] },
         kwh(t.total.importsKwh),
         kwh(t.total.exportsKwh),
         kwh(t.total.netKwh),

@@ -1,0 +1,69 @@
+/**
+ * What a meter can be, one list each: the quantity it measures, the carrier it
+ * accounts for, which way it faces across the site's boundary, where its flow
+ * sensor sits. The database enums (`app/db/schema.ts`), the forms, the JSON
+ * API and the pages all take their values from here, so adding a carrier is
+ * one line below (plus its label and colour, which the types then ask for).
+ * Plain module with relative imports: drizzle-kit loads the schema, and with
+ * it this file, without the app's `~/` alias.
+ */
+import { QUANTITIES } from "../physics/evaluate-schema";
+
+/** What a meter can measure: the quantities the physics core evaluates. */
+export const quantities = QUANTITIES;
+export type Quantity = (typeof quantities)[number];
+
+export const quantityLabels: Record<Quantity, string> = {
+  water_heat: "Water heat meter (volume, flow and return temperature)",
+  steam_heat: "Steam meter (condensate mass, pressure)",
+  sensible_heat: "Sensible heat, other media (mass, declared c)",
+  electric_work: "Electrical work (volts, amps, power factor)",
+  electric_register: "Electricity register (cumulative kWh)",
+  heat_register: "Heat register (cumulative kWh)",
+};
+
+/** The energy carriers, in the order forms, filters and the ledger list them. */
+export const carriers = ["heat", "cooling", "steam", "electricity"] as const;
+export type Carrier = (typeof carriers)[number];
+
+export const carrierLabels: Record<Carrier, string> = {
+  heat: "Heat",
+  cooling: "Cooling",
+  steam: "Steam",
+  electricity: "Electricity",
+};
+
+/**
+ * The order of the report's carrier tables and the balance diagram: the
+ * thermal carriers from hot to cold, then electricity.
+ */
+export const carrierReportOrder: readonly Carrier[] = [
+  "heat",
+  "steam",
+  "cooling",
+  "electricity",
+];
+
+/** Which carriers a quantity can account for. */
+export const carriersFor: Record<Quantity, readonly Carrier[]> = {
+  water_heat: ["heat", "cooling"],
+  steam_heat: ["steam"],
+  sensible_heat: ["heat", "cooling"],
+  electric_work: ["electricity"],
+  electric_register: ["electricity"],
+  heat_register: ["heat", "cooling"],
+};
+
+/** Which way a meter faces: energy delivered to the site, or exported. */
+export const orientations = ["import", "export"] as const;
+export type Orientation = (typeof orientations)[number];
+
+/** Which pipe a heat meter's flow sensor sits in. */
+export const sensorPositions = ["flow", "return"] as const;
+export type SensorPosition = (typeof sensorPositions)[number];
+
+export function isCarrier(value: unknown): value is Carrier {
+  return (
+    typeof value === "string" && (carriers as readonly string[]).includes(value)
+  );
+}
