@@ -14,11 +14,10 @@
 import { z } from "zod";
 import { idSchema } from "~/lib/ids";
 import { MONTH_PATTERN } from "~/lib/months";
-import { intervalQualities } from "~/ingest/series";
 import { ledgerUnits } from "~/ledger/ledger-units";
 import { reportSummarySchema } from "~/reports/report-summary";
 import { intervalSchema } from "~/ingest/interval-schema";
-import { carrier, id } from "~/lib/wire-schemas";
+import { carrier } from "~/lib/wire-schemas";
 import { carriers, orientations } from "~/sites/meter-kinds";
 
 // Shapes that live beside their domain, so the domain need not reach up
