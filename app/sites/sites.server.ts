@@ -1,5 +1,6 @@
 import { and, asc, count, eq, isNull } from "drizzle-orm";
 import { db } from "~/db/client.server";
+import { isUniqueViolation } from "~/db/errors.server";
 import { meters, sites } from "~/db/schema";
 import { changedFields, recordAudit } from "~/audit/record-audit.server";
 import type { SiteInput } from "./site-schema";
@@ -69,13 +70,6 @@ const auditedColumns = {
 function detailsOf(site: { id: string } & Record<string, unknown>) {
   const { id: _id, ...details } = site;
   return details;
-}
-
-function isUniqueViolation(error: unknown): boolean {
-  const code =
-    (error as { code?: string; cause?: { code?: string } }).code ??
-    (error as { cause?: { code?: string } }).cause?.code;
-  return code === "23505";
 }
 
 export async function createSite(args: {
