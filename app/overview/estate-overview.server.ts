@@ -4,6 +4,7 @@ import { and, count, eq, exists, isNull } from "drizzle-orm";
 import { db, pool } from "~/db/client.server";
 import { baselines, gateways, meters, sites, type Carrier } from "~/db/schema";
 import { deliveredSignSql } from "~/ledger/delivered";
+import { activeSitesOf } from "~/sites/sites.server";
 
 /** One site and carrier: its energy delivered in a month against a year before. */
 export interface SiteDrift {
@@ -80,13 +81,6 @@ export async function siteDrift(
         a.site_name.localeCompare(b.site_name) ||
         a.carrier.localeCompare(b.carrier),
     );
-}
-
-function activeSitesOf(organizationId: string) {
-  return and(
-    eq(sites.organizationId, organizationId),
-    isNull(sites.archivedAt),
-  );
 }
 
 /** The organisation's sites in use (not archived). */

@@ -4,7 +4,8 @@ import { meters, sites } from "~/db/schema";
 import { changedFields, recordAudit } from "~/audit/record-audit.server";
 import { afterMeteredChange } from "~/billing/sync-quantity.server";
 import type { MeterInput } from "./meter-schema";
-import { DuplicateNameError, isUniqueViolation } from "./sites.server";
+import { isUniqueViolation } from "~/db/errors.server";
+import { DuplicateNameError } from "./sites.server";
 
 export const meterColumns = {
   id: meters.id,

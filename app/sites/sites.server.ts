@@ -15,6 +15,21 @@ const siteColumns = {
   createdAt: sites.createdAt,
 };
 
+/** An organisation's sites in use (not archived). */
+export function activeSitesOf(organizationId: string) {
+  return and(
+    eq(sites.organizationId, organizationId),
+    isNull(sites.archivedAt),
+  );
+}
+
+/** Join condition: the meters still installed on a site. */
+export const installedMetersOfSite = and(
+  eq(meters.organizationId, sites.organizationId),
+  eq(meters.siteId, sites.id),
+  isNull(meters.removedAt),
+);
+
 export async function listSites({
   organizationId,
 }: {
@@ -26,17 +41,8 @@ export async function listSites({
       meterCount: count(meters.id),
     })
     .from(sites)
-    .leftJoin(
-      meters,
-      and(
-        eq(meters.organizationId, sites.organizationId),
-        eq(meters.siteId, sites.id),
-        isNull(meters.removedAt),
-      ),
-    )
-    .where(
-      and(eq(sites.organizationId, organizationId), isNull(sites.archivedAt)),
-    )
+    .leftJoin(meters, installedMetersOfSite)
+    .where(activeSitesOf(organizationId))
     .groupBy(sites.organizationId, sites.id)
     .orderBy(asc(sites.name));
 }
@@ -154,5 +160,3 @@ export async function updateSite(args: {
     throw error;
   }
 }
-
-export { isUniqueViolation };
