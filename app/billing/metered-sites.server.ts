@@ -5,7 +5,7 @@
 import { asc, count } from "drizzle-orm";
 import { db, type Executor } from "~/db/client.server";
 import { meters, sites } from "~/db/schema";
-import { activeSitesOf, installedMetersOfSite } from "~/sites/sites.server";
+import { activeSitesOf, installedMetersOfSite } from "~/db/conditions.server";
 
 export async function listMeteredSites(
   { organizationId }: { organizationId: string },

@@ -1,5 +1,6 @@
 import type { Pool, PoolClient } from "pg";
 import { and, arrayContains, eq, not, sql } from "drizzle-orm";
+import { meterKey, siteOfMeter } from "~/db/conditions.server";
 import { db, pool } from "~/db/client.server";
 import { intervals, meters, sites } from "~/db/schema";
 import { withTransaction } from "~/db/transaction.server";
@@ -33,16 +34,8 @@ async function meterFacts(
       carrier: meters.carrier,
     })
     .from(meters)
-    .innerJoin(
-      sites,
-      and(
-        eq(sites.organizationId, meters.organizationId),
-        eq(sites.id, meters.siteId),
-      ),
-    )
-    .where(
-      and(eq(meters.organizationId, organizationId), eq(meters.id, meterId)),
-    );
+    .innerJoin(sites, siteOfMeter)
+    .where(meterKey(organizationId, meterId));
   return facts ? { ...facts, spikeFactor: Number(facts.spikeFactor) } : null;
 }
 

@@ -4,7 +4,7 @@ import { and, count, eq, exists, isNull } from "drizzle-orm";
 import { db, pool } from "~/db/client.server";
 import { baselines, gateways, meters, sites, type Carrier } from "~/db/schema";
 import { deliveredSignSql } from "~/ledger/delivered";
-import { activeSitesOf } from "~/sites/sites.server";
+import { activeSitesOf, siteOfMeter } from "~/db/conditions.server";
 
 /** One site and carrier: its energy delivered in a month against a year before. */
 export interface SiteDrift {
@@ -106,13 +106,7 @@ export async function setupProgress(
     db
       .select({ n: count() })
       .from(meters)
-      .innerJoin(
-        sites,
-        and(
-          eq(sites.organizationId, meters.organizationId),
-          eq(sites.id, meters.siteId),
-        ),
-      )
+      .innerJoin(sites, siteOfMeter)
       .where(
         and(
           eq(meters.organizationId, organizationId),

@@ -1,4 +1,5 @@
 import { and, eq, gte, sum } from "drizzle-orm";
+import { meterOfInterval } from "~/db/conditions.server";
 import { db } from "~/db/client.server";
 import { intervals, meters } from "~/db/schema";
 
@@ -11,13 +12,7 @@ export async function siteEnergySince(args: {
   const rows = await db
     .select({ meterId: intervals.meterId, energyKwh: sum(intervals.energyKwh) })
     .from(intervals)
-    .innerJoin(
-      meters,
-      and(
-        eq(meters.organizationId, intervals.organizationId),
-        eq(meters.id, intervals.meterId),
-      ),
-    )
+    .innerJoin(meters, meterOfInterval)
     .where(
       and(
         eq(intervals.organizationId, args.organizationId),

@@ -1,4 +1,5 @@
 import { and, asc, eq } from "drizzle-orm";
+import { meterKey, siteOfMeter } from "~/db/conditions.server";
 import { db } from "~/db/client.server";
 import { meters, sites } from "~/db/schema";
 import { changedFields, recordAudit } from "~/audit/record-audit.server";
@@ -56,13 +57,7 @@ export async function listAllMeters({
   return db
     .select({ ...meterColumns, siteName: sites.name })
     .from(meters)
-    .innerJoin(
-      sites,
-      and(
-        eq(sites.organizationId, meters.organizationId),
-        eq(sites.id, meters.siteId),
-      ),
-    )
+    .innerJoin(sites, siteOfMeter)
     .where(eq(meters.organizationId, organizationId))
     .orderBy(asc(sites.name), asc(meters.code));
 }
@@ -77,16 +72,8 @@ export async function getMeter({
   const [meter] = await db
     .select({ ...meterColumns, siteName: sites.name, timeZone: sites.timeZone })
     .from(meters)
-    .innerJoin(
-      sites,
-      and(
-        eq(sites.organizationId, meters.organizationId),
-        eq(sites.id, meters.siteId),
-      ),
-    )
-    .where(
-      and(eq(meters.organizationId, organizationId), eq(meters.id, meterId)),
-    );
+    .innerJoin(sites, siteOfMeter)
+    .where(meterKey(organizationId, meterId));
   return meter ?? null;
 }
 
@@ -139,9 +126,7 @@ async function assertParentOnSite(
   const [parent] = await db
     .select({ siteId: meters.siteId })
     .from(meters)
-    .where(
-      and(eq(meters.organizationId, organizationId), eq(meters.id, parentId)),
-    );
+    .where(meterKey(organizationId, parentId));
   if (!parent || parent.siteId !== siteId)
     throw new MeterRuleError("The parent meter must be on the same site.");
 }
@@ -207,10 +192,7 @@ export async function updateMeter(args: {
   );
   return db
     .transaction(async (tx) => {
-      const where = and(
-        eq(meters.organizationId, args.organizationId),
-        eq(meters.id, args.meterId),
-      );
+      const where = meterKey(args.organizationId, args.meterId);
       const [before] = await tx
         .select(meterColumns)
         .from(meters)
@@ -247,10 +229,7 @@ export async function retireMeter(args: {
   reason?: string;
 }) {
   const retired = await db.transaction(async (tx) => {
-    const where = and(
-      eq(meters.organizationId, args.organizationId),
-      eq(meters.id, args.meterId),
-    );
+    const where = meterKey(args.organizationId, args.meterId);
     const [before] = await tx
       .select({ siteId: meters.siteId, removedAt: meters.removedAt })
       .from(meters)
@@ -326,12 +305,7 @@ export async function replaceMeter(args: {
       await tx
         .update(meters)
         .set({ removedAt: args.swappedAt, replacedByMeterId: replacement.id })
-        .where(
-          and(
-            eq(meters.organizationId, args.organizationId),
-            eq(meters.id, args.meterId),
-          ),
-        );
+        .where(meterKey(args.organizationId, args.meterId));
       await recordAudit(tx, {
         organizationId: args.organizationId,
         actorUserId: args.actorUserId,

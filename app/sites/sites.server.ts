@@ -1,5 +1,6 @@
-import { and, asc, count, eq, isNull } from "drizzle-orm";
+import { and, asc, count, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
+import { activeSitesOf, installedMetersOfSite } from "~/db/conditions.server";
 import { isUniqueViolation } from "~/db/errors.server";
 import { meters, sites } from "~/db/schema";
 import { changedFields, recordAudit } from "~/audit/record-audit.server";
@@ -14,21 +15,6 @@ const siteColumns = {
   address: sites.address,
   createdAt: sites.createdAt,
 };
-
-/** An organisation's sites in use (not archived). */
-export function activeSitesOf(organizationId: string) {
-  return and(
-    eq(sites.organizationId, organizationId),
-    isNull(sites.archivedAt),
-  );
-}
-
-/** Join condition: the meters still installed on a site. */
-export const installedMetersOfSite = and(
-  eq(meters.organizationId, sites.organizationId),
-  eq(meters.siteId, sites.id),
-  isNull(meters.removedAt),
-);
 
 export async function listSites({
   organizationId,
