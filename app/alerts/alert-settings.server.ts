@@ -1,5 +1,7 @@
-import { pool } from "~/db/client.server";
+import { and, eq } from "drizzle-orm";
 import { managers, type Role } from "~/auth/permissions";
+import { db } from "~/db/client.server";
+import { alertSettings } from "~/db/schema";
 
 export interface AlertPreferences {
   silentMeter: boolean;
@@ -8,10 +10,20 @@ export interface AlertPreferences {
   silentHours: number;
 }
 
+/** Hours without an actual interval before a meter counts as sending no data. */
+export const DEFAULT_SILENT_HOURS = 24;
+
 /** Managers get every alert until they choose otherwise; the others opt in. */
 export function alertsOnByDefault(role: string): boolean {
   return (managers as readonly string[]).includes(role);
 }
+
+const preferenceColumns = {
+  silentMeter: alertSettings.silentMeter,
+  residual: alertSettings.residual,
+  monthReady: alertSettings.monthReady,
+  silentHours: alertSettings.silentHours,
+};
 
 /** A person's choices, or the defaults for their role when they made none. */
 export async function alertPreferences(
@@ -19,30 +31,24 @@ export async function alertPreferences(
   userId: string,
   role: Role,
 ): Promise<AlertPreferences> {
-  const { rows } = await pool.query<{
-    silent_meter: boolean;
-    residual: boolean;
-    month_ready: boolean;
-    silent_hours: number;
-  }>(
-    "select silent_meter, residual, month_ready, silent_hours from alert_settings where organization_id = $1 and user_id = $2",
-    [organizationId, userId],
-  );
+  const [chosen] = await db
+    .select(preferenceColumns)
+    .from(alertSettings)
+    .where(
+      and(
+        eq(alertSettings.organizationId, organizationId),
+        eq(alertSettings.userId, userId),
+      ),
+    );
   const byDefault = alertsOnByDefault(role);
-  const r = rows[0];
-  return r
-    ? {
-        silentMeter: r.silent_meter,
-        residual: r.residual,
-        monthReady: r.month_ready,
-        silentHours: r.silent_hours,
-      }
-    : {
-        silentMeter: byDefault,
-        residual: byDefault,
-        monthReady: byDefault,
-        silentHours: 24,
-      };
+  return (
+    chosen ?? {
+      silentMeter: byDefault,
+      residual: byDefault,
+      monthReady: byDefault,
+      silentHours: DEFAULT_SILENT_HOURS,
+    }
+  );
 }
 
 export async function saveAlertPreferences(
@@ -50,19 +56,17 @@ export async function saveAlertPreferences(
   userId: string,
   p: AlertPreferences,
 ): Promise<void> {
-  await pool.query(
-    `insert into alert_settings (organization_id, user_id, silent_meter, residual, month_ready, silent_hours)
-     values ($1, $2, $3, $4, $5, $6)
-     on conflict (organization_id, user_id) do update set
-       silent_meter = excluded.silent_meter, residual = excluded.residual,
-       month_ready = excluded.month_ready, silent_hours = excluded.silent_hours`,
-    [
-      organizationId,
-      userId,
-      p.silentMeter,
-      p.residual,
-      p.monthReady,
-      p.silentHours,
-    ],
-  );
+  const choices = {
+    silentMeter: p.silentMeter,
+    residual: p.residual,
+    monthReady: p.monthReady,
+    silentHours: p.silentHours,
+  };
+  await db
+    .insert(alertSettings)
+    .values({ organizationId, userId, ...choices })
+    .onConflictDoUpdate({
+      target: [alertSettings.organizationId, alertSettings.userId],
+      set: choices,
+    });
 }

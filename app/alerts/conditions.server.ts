@@ -1,4 +1,6 @@
-import { pool } from "~/db/client.server";
+import { and, eq, isNull } from "drizzle-orm";
+import { db, pool } from "~/db/client.server";
+import { monthCloses, monthlyRollups } from "~/db/schema";
 import { monthKey } from "~/lib/months";
 import { residualFlag } from "~/ledger/balance";
 import { silentMeters } from "~/overview/estate-overview.server";
@@ -13,6 +15,13 @@ export interface Condition {
   site: string | null;
   title: string;
   detail: string;
+}
+
+/** The UTC month before `now`'s, which the monthly checks look at. */
+function previousMonth(now: Date): string {
+  return monthKey(
+    new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1)),
+  );
 }
 
 export async function silentMeterConditions(
@@ -35,9 +44,7 @@ export async function residualConditions(
   organizationId: string,
   now: Date,
 ): Promise<Condition[]> {
-  const month = monthKey(
-    new Date(Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1)),
-  );
+  const month = previousMonth(now);
   const { rows } = await pool.query<{
     parent_id: string;
     code: string;
@@ -72,19 +79,30 @@ export async function monthReadyConditions(
   organizationId: string,
   now: Date,
 ): Promise<Condition[]> {
-  const last = new Date(
-    Date.UTC(now.getUTCFullYear(), now.getUTCMonth() - 1, 1),
-  );
-  const month = monthKey(last);
-  const { rows } = await pool.query(
-    `select 1 from month_closes where organization_id = $1 and month = to_date($2, 'YYYY-MM') and reopened_at is null and site_id is null`,
-    [organizationId, month],
-  );
-  const { rows: data } = await pool.query(
-    `select 1 from monthly_rollups where organization_id = $1 and month = to_date($2, 'YYYY-MM') limit 1`,
-    [organizationId, month],
-  );
-  if (rows.length > 0 || data.length === 0) return [];
+  const month = previousMonth(now);
+  const firstDay = `${month}-01`;
+  const [closed, data] = await Promise.all([
+    db.$count(
+      monthCloses,
+      and(
+        eq(monthCloses.organizationId, organizationId),
+        eq(monthCloses.month, firstDay),
+        isNull(monthCloses.reopenedAt),
+        isNull(monthCloses.siteId),
+      ),
+    ),
+    db
+      .select({ month: monthlyRollups.month })
+      .from(monthlyRollups)
+      .where(
+        and(
+          eq(monthlyRollups.organizationId, organizationId),
+          eq(monthlyRollups.month, firstDay),
+        ),
+      )
+      .limit(1),
+  ]);
+  if (closed > 0 || data.length === 0) return [];
   return [
     {
       kind: "month_ready",

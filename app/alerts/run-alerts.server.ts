@@ -1,7 +1,18 @@
-import { pool } from "~/db/client.server";
+import { and, eq, isNull } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import {
+  alertEvents,
+  alertSettings,
+  memberships,
+  organizations,
+  users,
+} from "~/db/schema";
 import { appUrl } from "~/env.server";
-import { alertsOnByDefault } from "./alert-settings.server";
 import { sendEmail } from "~/email/mailer.server";
+import {
+  alertsOnByDefault,
+  DEFAULT_SILENT_HOURS,
+} from "./alert-settings.server";
 import { alertDigestEmail, type DigestSection } from "./digest-email.server";
 import {
   monthReadyConditions,
@@ -22,34 +33,42 @@ interface Recipient {
 async function recipients(
   organizationId: string,
 ): Promise<{ list: Recipient[]; silentHours: number }> {
-  const { rows } = await pool.query<{
-    user_id: string;
-    email: string;
-    name: string;
-    role: string;
-    silent_meter: boolean | null;
-    residual: boolean | null;
-    month_ready: boolean | null;
-    silent_hours: number | null;
-  }>(
-    `select u.id as user_id, u.email, u.name, m.role, a.silent_meter, a.residual, a.month_ready, a.silent_hours
-       from memberships m join users u on u.id = m.user_id
-       left join alert_settings a on a.organization_id = m.organization_id and a.user_id = m.user_id
-      where m.organization_id = $1`,
-    [organizationId],
-  );
+  const rows = await db
+    .select({
+      userId: users.id,
+      email: users.email,
+      name: users.name,
+      role: memberships.role,
+      silentMeter: alertSettings.silentMeter,
+      residual: alertSettings.residual,
+      monthReady: alertSettings.monthReady,
+      silentHours: alertSettings.silentHours,
+    })
+    .from(memberships)
+    .innerJoin(users, eq(users.id, memberships.userId))
+    .leftJoin(
+      alertSettings,
+      and(
+        eq(alertSettings.organizationId, memberships.organizationId),
+        eq(alertSettings.userId, memberships.userId),
+      ),
+    )
+    .where(eq(memberships.organizationId, organizationId));
   const list = rows.map((r) => {
     const byDefault = alertsOnByDefault(r.role);
     const kinds = new Set<AlertKind>();
-    if (r.silent_meter ?? byDefault) kinds.add("silent_meter");
+    if (r.silentMeter ?? byDefault) kinds.add("silent_meter");
     if (r.residual ?? byDefault) kinds.add("residual");
-    if (r.month_ready ?? byDefault) kinds.add("month_ready");
-    return { userId: r.user_id, email: r.email, name: r.name, kinds };
+    if (r.monthReady ?? byDefault) kinds.add("month_ready");
+    return { userId: r.userId, email: r.email, name: r.name, kinds };
   });
   const hours = rows
-    .map((r) => r.silent_hours)
+    .map((r) => r.silentHours)
     .filter((h): h is number => h !== null);
-  return { list, silentHours: hours.length ? Math.min(...hours) : 24 };
+  return {
+    list,
+    silentHours: hours.length ? Math.min(...hours) : DEFAULT_SILENT_HOURS,
+  };
 }
 
 /** What one organisation's check opened and cleared, and who wants which kind. */
@@ -75,42 +94,55 @@ async function checkOrganization(
     ...(await residualConditions(organizationId, now)),
     ...(await monthReadyConditions(organizationId, now)),
   ];
-  const { rows: active } = await pool.query<{
-    kind: AlertKind;
-    subject: string;
-  }>(
-    "select kind, subject from alert_events where organization_id = $1 and cleared_at is null",
-    [organizationId],
+  const openEvents = and(
+    eq(alertEvents.organizationId, organizationId),
+    isNull(alertEvents.clearedAt),
   );
+  const active = await db
+    .select({ kind: alertEvents.kind, subject: alertEvents.subject })
+    .from(alertEvents)
+    .where(openEvents);
   const key = (c: { kind: string; subject: string }) =>
     `${c.kind}|${c.subject}`;
   const holding = new Set(conditions.map(key));
   const activeKeys = new Set(active.map(key));
   const cleared = active.filter((a) => !holding.has(key(a)));
   for (const a of cleared) {
-    await pool.query(
-      "update alert_events set cleared_at = $4 where organization_id = $1 and kind = $2 and subject = $3 and cleared_at is null",
-      [organizationId, a.kind, a.subject, now],
-    );
+    await db
+      .update(alertEvents)
+      .set({ clearedAt: now })
+      .where(
+        and(
+          openEvents,
+          eq(alertEvents.kind, a.kind),
+          eq(alertEvents.subject, a.subject),
+        ),
+      );
   }
   const opened: Condition[] = [];
   for (const c of conditions.filter((c) => !activeKeys.has(key(c)))) {
     // The unique index on open alerts makes a concurrent second run a
     // no-op: only the run whose insert took the condition mails it.
-    const { rowCount } = await pool.query(
-      `insert into alert_events (organization_id, kind, subject, title, opened_at) values ($1, $2, $3, $4, $5)
-       on conflict do nothing`,
-      [organizationId, c.kind, c.subject, c.title, now],
-    );
-    if (rowCount) opened.push(c);
+    const inserted = await db
+      .insert(alertEvents)
+      .values({
+        organizationId,
+        kind: c.kind,
+        subject: c.subject,
+        title: c.title,
+        openedAt: now,
+      })
+      .onConflictDoNothing()
+      .returning({ id: alertEvents.id });
+    if (inserted.length > 0) opened.push(c);
   }
-  const { rows: org } = await pool.query<{ name: string }>(
-    "select name from organizations where id = $1",
-    [organizationId],
-  );
+  const [org] = await db
+    .select({ name: organizations.name })
+    .from(organizations)
+    .where(eq(organizations.id, organizationId));
   return {
     organizationId,
-    organizationName: org[0]?.name ?? "",
+    organizationName: org?.name ?? "",
     opened,
     cleared: cleared.length,
     recipients: list,
@@ -172,9 +204,7 @@ export async function runAlerts(
  * calls.
  */
 export async function runAllAlerts(now = new Date()): Promise<number> {
-  const { rows } = await pool.query<{ id: string }>(
-    "select id from organizations",
-  );
+  const rows = await db.select({ id: organizations.id }).from(organizations);
   const checks: OrganizationCheck[] = [];
   for (const org of rows)
     await checkOrganization(org.id, now).then(

@@ -4,7 +4,9 @@
  * their before/after values as readable lines. Every query is bounded by the
  * organisation, joins included, so no filter can reach another tenant.
  */
-import { pool } from "~/db/client.server";
+import { eq, inArray, or } from "drizzle-orm";
+import { db, pool } from "~/db/client.server";
+import { auditLog, memberships, meters, sites, users } from "~/db/schema";
 import { dateTimeIn, monthLong } from "~/lib/format";
 import { UUID_TEXT } from "~/lib/ids";
 import { describeChanges, type ChangeLine } from "./describe";
@@ -265,10 +267,10 @@ function view(row: Row, meterCodes: ReadonlyMap<string, string>) {
 }
 
 async function meterCodes(organizationId: string) {
-  const { rows } = await pool.query<{ id: string; code: string }>(
-    "select id, code from meters where organization_id = $1",
-    [organizationId],
-  );
+  const rows = await db
+    .select({ id: meters.id, code: meters.code })
+    .from(meters)
+    .where(eq(meters.organizationId, organizationId));
   return new Map(rows.map((r) => [r.id, r.code]));
 }
 
@@ -302,29 +304,45 @@ export async function listAuditEntries(args: {
 
 /** The sites, meters and people the page's filters offer, retired ones too. */
 export async function auditFilterOptions(organizationId: string) {
-  const [sites, meters, people] = await Promise.all([
-    pool.query<{ id: string; name: string }>(
-      "select id, name from sites where organization_id = $1 order by name",
-      [organizationId],
-    ),
-    pool.query<{ id: string; code: string; name: string; site_id: string }>(
-      "select id, code, name, site_id from meters where organization_id = $1 order by code",
-      [organizationId],
-    ),
+  const [siteOptions, meterOptions, people] = await Promise.all([
+    db
+      .select({ id: sites.id, name: sites.name })
+      .from(sites)
+      .where(eq(sites.organizationId, organizationId))
+      .orderBy(sites.name),
+    db
+      .select({
+        id: meters.id,
+        code: meters.code,
+        name: meters.name,
+        siteId: meters.siteId,
+      })
+      .from(meters)
+      .where(eq(meters.organizationId, organizationId))
+      .orderBy(meters.code),
     // Members now, and anyone who made a change here before leaving.
-    pool.query<{ id: string; name: string }>(
-      `select u.id, u.name from users u
-        where u.id in (select user_id from memberships where organization_id = $1
-                       union
-                       select actor_user_id from audit_log
-                        where organization_id = $1 and actor_user_id is not null)
-        order by u.name`,
-      [organizationId],
-    ),
+    db
+      .select({ id: users.id, name: users.name })
+      .from(users)
+      .where(
+        or(
+          inArray(
+            users.id,
+            db
+              .select({ id: memberships.userId })
+              .from(memberships)
+              .where(eq(memberships.organizationId, organizationId)),
+          ),
+          inArray(
+            users.id,
+            db
+              .select({ id: auditLog.actorUserId })
+              .from(auditLog)
+              .where(eq(auditLog.organizationId, organizationId)),
+          ),
+        ),
+      )
+      .orderBy(users.name),
   ]);
-  return {
-    sites: sites.rows,
-    meters: meters.rows.map(({ site_id, ...m }) => ({ ...m, siteId: site_id })),
-    people: people.rows,
-  };
+  return { sites: siteOptions, meters: meterOptions, people };
 }

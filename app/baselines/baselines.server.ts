@@ -4,15 +4,15 @@
  * data and statistics so later changes to readings or weather never alter a
  * saved baseline silently.
  */
-import { and, desc, eq } from "drizzle-orm";
-import { recordAuditWith } from "~/audit/record-audit.server";
-import { db, pool } from "~/db/client.server";
+import { and, desc, eq, type SQL } from "drizzle-orm";
+import { recordAudit } from "~/audit/record-audit.server";
+import { db } from "~/db/client.server";
 import { baselines, users, type Carrier } from "~/db/schema";
 import { joinMonths, pointsIn, type MonthFigure } from "./analysis";
 import type { DegreeDayDriver } from "./degree-days";
 import { siteMonthlyEnergy } from "./energy.server";
 import { fitBaseline, type FitOutcome, type StoredModel } from "./regression";
-import { siteMonthlyDegreeDays } from "./weather.server";
+import { lastDayOf, siteMonthlyDegreeDays } from "./weather.server";
 
 export interface SiteRef {
   id: string;
@@ -59,11 +59,6 @@ export async function fitSiteBaseline(args: {
   return { points, outcome: fitBaseline(points), baseC };
 }
 
-function lastDayOf(month: string): string {
-  const [y, m] = month.split("-").map(Number);
-  return new Date(Date.UTC(y, m, 0)).toISOString().slice(0, 10);
-}
-
 export type SaveOutcome =
   { ok: true; id: string } | { ok: false; reason: string };
 
@@ -87,28 +82,25 @@ export async function saveBaseline(args: {
     granularity: "monthly",
     points,
   };
-  const client = await pool.connect();
-  try {
-    await client.query("begin");
-    const { rows } = await client.query<{ id: string }>(
-      `insert into baselines (organization_id, site_id, carrier, period_from, period_to, granularity, model, created_by_user_id)
-       values ($1, $2, $3, $4, $5, 'monthly', $6, $7) returning id`,
-      [
-        args.organizationId,
-        args.site.id,
-        args.carrier,
-        `${args.from}-01`,
-        lastDayOf(args.to),
-        JSON.stringify(model),
-        args.actorUserId,
-      ],
-    );
-    const id = rows[0].id;
-    await recordAuditWith(client, {
+  return db.transaction(async (tx) => {
+    const [saved] = await tx
+      .insert(baselines)
+      .values({
+        organizationId: args.organizationId,
+        siteId: args.site.id,
+        carrier: args.carrier,
+        periodFrom: `${args.from}-01`,
+        periodTo: lastDayOf(args.to),
+        granularity: "monthly",
+        model: { ...model },
+        createdByUserId: args.actorUserId,
+      })
+      .returning({ id: baselines.id });
+    await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
       action: "baseline.saved",
-      subject: id,
+      subject: saved.id,
       siteId: args.site.id,
       after: {
         carrier: args.carrier,
@@ -120,14 +112,8 @@ export async function saveBaseline(args: {
         n: model.n,
       },
     });
-    await client.query("commit");
-    return { ok: true, id };
-  } catch (error) {
-    await client.query("rollback").catch(() => undefined);
-    throw error;
-  } finally {
-    client.release();
-  }
+    return { ok: true, id: saved.id };
+  });
 }
 
 export interface SavedBaseline {
@@ -179,24 +165,28 @@ function toSaved(row: {
   };
 }
 
+/** Saved baselines with the name of who saved them, of the rows `where` picks. */
+function selectBaselines(where: SQL | undefined) {
+  return db
+    .select(columns)
+    .from(baselines)
+    .leftJoin(users, eq(users.id, baselines.createdByUserId))
+    .where(where);
+}
+
 /** A site's saved baselines, newest first; of one carrier if given. */
 export async function listBaselines(args: {
   organizationId: string;
   siteId: string;
   carrier?: Carrier;
 }): Promise<SavedBaseline[]> {
-  const rows = await db
-    .select(columns)
-    .from(baselines)
-    .leftJoin(users, eq(users.id, baselines.createdByUserId))
-    .where(
-      and(
-        eq(baselines.organizationId, args.organizationId),
-        eq(baselines.siteId, args.siteId),
-        args.carrier ? eq(baselines.carrier, args.carrier) : undefined,
-      ),
-    )
-    .orderBy(desc(baselines.createdAt));
+  const rows = await selectBaselines(
+    and(
+      eq(baselines.organizationId, args.organizationId),
+      eq(baselines.siteId, args.siteId),
+      args.carrier ? eq(baselines.carrier, args.carrier) : undefined,
+    ),
+  ).orderBy(desc(baselines.createdAt));
   return rows.map(toSaved);
 }
 
@@ -204,15 +194,11 @@ export async function getBaseline(args: {
   organizationId: string;
   id: string;
 }): Promise<SavedBaseline | null> {
-  const [row] = await db
-    .select(columns)
-    .from(baselines)
-    .leftJoin(users, eq(users.id, baselines.createdByUserId))
-    .where(
-      and(
-        eq(baselines.organizationId, args.organizationId),
-        eq(baselines.id, args.id),
-      ),
-    );
+  const [row] = await selectBaselines(
+    and(
+      eq(baselines.organizationId, args.organizationId),
+      eq(baselines.id, args.id),
+    ),
+  );
   return row ? toSaved(row) : null;
 }

@@ -2,8 +2,10 @@
  * Daily weather per site: stored from uploads (all rows or none) and from
  * the demo seed, and summed into monthly degree days in the site's months.
  */
-import { recordAuditWith } from "~/audit/record-audit.server";
-import { pool } from "~/db/client.server";
+import { and, between, count, eq, max, min, sql } from "drizzle-orm";
+import { recordAudit } from "~/audit/record-audit.server";
+import { db } from "~/db/client.server";
+import { dailyWeather } from "~/db/schema";
 import {
   monthlyDegreeDays,
   type DailyTemperature,
@@ -11,9 +13,49 @@ import {
 } from "./degree-days";
 import type { WeatherRow } from "./weather-csv";
 
-function lastDayOf(month: string): string {
+/** The last calendar day (YYYY-MM-DD) of a YYYY-MM month. */
+export function lastDayOf(month: string): string {
   const [y, m] = month.split("-").map(Number);
   return new Date(Date.UTC(y, m, 0)).toISOString().slice(0, 10);
+}
+
+/** The key a site's day is stored under, for upserts. */
+const dayKey = [
+  dailyWeather.organizationId,
+  dailyWeather.siteId,
+  dailyWeather.day,
+];
+
+/**
+ * Rows per insert: five parameters each keeps a statement well under
+ * PostgreSQL's 65,535 bind parameters, whatever an upload's length.
+ */
+const ROWS_PER_INSERT = 5_000;
+
+function* chunksOf<T>(rows: readonly T[]): Generator<readonly T[]> {
+  for (let at = 0; at < rows.length; at += ROWS_PER_INSERT)
+    yield rows.slice(at, at + ROWS_PER_INSERT);
+}
+
+function weatherRows(
+  site: { organizationId: string; siteId: string },
+  rows: readonly WeatherRow[],
+  source: "upload" | "seed",
+) {
+  return rows.map((r) => ({
+    organizationId: site.organizationId,
+    siteId: site.siteId,
+    day: r.day,
+    meanTempC: r.meanTempC.toFixed(2),
+    source,
+  }));
+}
+
+function ofSite(site: { organizationId: string; siteId: string }) {
+  return and(
+    eq(dailyWeather.organizationId, site.organizationId),
+    eq(dailyWeather.siteId, site.siteId),
+  );
 }
 
 export interface StoredWeather {
@@ -34,25 +76,32 @@ export async function storeWeather(args: {
   rows: readonly WeatherRow[];
 }): Promise<StoredWeather> {
   if (args.rows.length === 0) throw new RangeError("no weather rows");
-  const days = args.rows.map((r) => r.day);
-  const temps = args.rows.map((r) => r.meanTempC.toFixed(2));
-  const sorted = [...days].sort();
+  const sorted = args.rows.map((r) => r.day).sort();
   const from = sorted[0];
   const to = sorted.at(-1)!;
-  const client = await pool.connect();
-  try {
-    await client.query("begin");
-    const { rows } = await client.query<{ inserted: boolean }>(
-      `insert into daily_weather (organization_id, site_id, day, mean_temp_c, source)
-       select $1, $2, d, t, 'upload' from unnest($3::date[], $4::numeric[]) as u(d, t)
-       on conflict (organization_id, site_id, day) do update set
-         mean_temp_c = excluded.mean_temp_c, source = 'upload', updated_at = now()
-       returning (xmax = 0) as inserted`,
-      [args.organizationId, args.siteId, days, temps],
-    );
-    const inserted = rows.filter((r) => r.inserted).length;
-    const result = { inserted, updated: rows.length - inserted, from, to };
-    await recordAuditWith(client, {
+  return db.transaction(async (tx) => {
+    let inserted = 0;
+    let updated = 0;
+    for (const chunk of chunksOf(args.rows)) {
+      const written = await tx
+        .insert(dailyWeather)
+        .values(weatherRows(args, chunk, "upload"))
+        .onConflictDoUpdate({
+          target: dayKey,
+          set: {
+            meanTempC: sql`excluded.mean_temp_c`,
+            source: "upload",
+            updatedAt: sql`now()`,
+          },
+        })
+        // xmax is 0 on a row this statement inserted, set on one it updated.
+        .returning({ inserted: sql<boolean>`(xmax = 0)` });
+      const fresh = written.filter((r) => r.inserted).length;
+      inserted += fresh;
+      updated += written.length - fresh;
+    }
+    const result = { inserted, updated, from, to };
+    await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
       action: "weather.uploaded",
@@ -60,14 +109,8 @@ export async function storeWeather(args: {
       siteId: args.siteId,
       after: result,
     });
-    await client.query("commit");
     return result;
-  } catch (error) {
-    await client.query("rollback").catch(() => undefined);
-    throw error;
-  } finally {
-    client.release();
-  }
+  });
 }
 
 /** The seed's weather: only days the site does not have yet. */
@@ -76,18 +119,16 @@ export async function insertSeedWeather(args: {
   siteId: string;
   rows: readonly WeatherRow[];
 }): Promise<number> {
-  const { rowCount } = await pool.query(
-    `insert into daily_weather (organization_id, site_id, day, mean_temp_c, source)
-     select $1, $2, d, t, 'seed' from unnest($3::date[], $4::numeric[]) as u(d, t)
-     on conflict (organization_id, site_id, day) do nothing`,
-    [
-      args.organizationId,
-      args.siteId,
-      args.rows.map((r) => r.day),
-      args.rows.map((r) => r.meanTempC.toFixed(2)),
-    ],
-  );
-  return rowCount ?? 0;
+  let stored = 0;
+  for (const chunk of chunksOf(args.rows)) {
+    const written = await db
+      .insert(dailyWeather)
+      .values(weatherRows(args, chunk, "seed"))
+      .onConflictDoNothing({ target: dayKey })
+      .returning({ day: dailyWeather.day });
+    stored += written.length;
+  }
+  return stored;
 }
 
 /** Daily mean temperatures of a site in the months from `from` to `to`. */
@@ -97,13 +138,16 @@ export async function dailyTemperatures(args: {
   from: string;
   to: string;
 }): Promise<DailyTemperature[]> {
-  const { rows } = await pool.query<{ day: string; t: string }>(
-    `select to_char(day, 'YYYY-MM-DD') as day, mean_temp_c::text as t
-       from daily_weather
-      where organization_id = $1 and site_id = $2 and day between $3::date and $4::date
-      order by day`,
-    [args.organizationId, args.siteId, `${args.from}-01`, lastDayOf(args.to)],
-  );
+  const rows = await db
+    .select({ day: dailyWeather.day, t: dailyWeather.meanTempC })
+    .from(dailyWeather)
+    .where(
+      and(
+        ofSite(args),
+        between(dailyWeather.day, `${args.from}-01`, lastDayOf(args.to)),
+      ),
+    )
+    .orderBy(dailyWeather.day);
   return rows.map((r) => ({ day: r.day, meanTempC: Number(r.t) }));
 }
 
@@ -127,15 +171,13 @@ export async function weatherCoverage(args: {
   organizationId: string;
   siteId: string;
 }): Promise<{ first: string | null; last: string | null; days: number }> {
-  const { rows } = await pool.query<{
-    first: string | null;
-    last: string | null;
-    days: number;
-  }>(
-    `select to_char(min(day), 'YYYY-MM-DD') as first, to_char(max(day), 'YYYY-MM-DD') as last,
-            count(*)::int as days
-       from daily_weather where organization_id = $1 and site_id = $2`,
-    [args.organizationId, args.siteId],
-  );
-  return rows[0];
+  const [coverage] = await db
+    .select({
+      first: min(dailyWeather.day),
+      last: max(dailyWeather.day),
+      days: count(),
+    })
+    .from(dailyWeather)
+    .where(ofSite(args));
+  return coverage;
 }

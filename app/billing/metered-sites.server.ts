@@ -2,9 +2,10 @@
  * What the bill counts: sites that are not archived and have at least one
  * meter that has not been removed.
  */
-import { and, asc, count, eq, isNull } from "drizzle-orm";
+import { asc, count } from "drizzle-orm";
 import { db, type Executor } from "~/db/client.server";
 import { meters, sites } from "~/db/schema";
+import { activeSitesOf, installedMetersOfSite } from "~/db/conditions.server";
 
 export async function listMeteredSites(
   { organizationId }: { organizationId: string },
@@ -17,17 +18,8 @@ export async function listMeteredSites(
       activeMeters: count(meters.id),
     })
     .from(sites)
-    .innerJoin(
-      meters,
-      and(
-        eq(meters.organizationId, sites.organizationId),
-        eq(meters.siteId, sites.id),
-        isNull(meters.removedAt),
-      ),
-    )
-    .where(
-      and(eq(sites.organizationId, organizationId), isNull(sites.archivedAt)),
-    )
+    .innerJoin(meters, installedMetersOfSite)
+    .where(activeSitesOf(organizationId))
     .groupBy(sites.organizationId, sites.id)
     .orderBy(asc(sites.name));
 }

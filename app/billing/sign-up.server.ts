@@ -8,13 +8,9 @@ import { recordAudit } from "~/audit/record-audit.server";
 import { createUser } from "~/auth/create-user.server";
 import { findUserByEmail } from "~/auth/sign-in.server";
 import { db } from "~/db/client.server";
+import { isUniqueViolation } from "~/db/errors.server";
 import { memberships, organizations } from "~/db/schema";
 import { ensureBillingAccount } from "./account.server";
-
-function isUniqueViolation(error: unknown): boolean {
-  const e = error as { code?: string; cause?: { code?: string } };
-  return (e.code ?? e.cause?.code) === "23505";
-}
 
 export type SignUpResult =
   | { ok: true; userId: string; organizationId: string }

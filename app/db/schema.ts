@@ -324,8 +324,22 @@ export const meters = pgTable(
 );
 
 // ---------------------------------------------------------------------------
-// Readings as received, and the hourly intervals derived from them. Both are
-// partitioned by month of their time (see the migration and docs/scaling.md).
+// Readings as received, and the hourly intervals derived from them.
+//
+// Not expressible in Drizzle, so written by hand in the migrations, and true
+// of the database all the same:
+//  - raw_readings and intervals are PARTITION BY RANGE on their time
+//    (reading_time, hour_start), one partition per UTC month named
+//    `<table>_YYYY_MM`, created on demand by the SQL function
+//    ensure_month_partitions(from, to) under advisory lock 20261201
+//    (drizzle/0001_sites_meters_readings.sql; app/ingest/partitions.server.ts;
+//    docs/scaling.md).
+//  - Every table here that names a meter_id has a foreign key
+//    (organization_id, meter_id) → meters (organization_id, id) ON DELETE
+//    CASCADE: raw_readings_meter_fk, intervals_meter_fk,
+//    reading_conflicts_meter_fk (0001), monthly_rollups_meter_fk and
+//    ledger_adjustments_meter_fk (0002). Declared here they would make
+//    drizzle-kit generate them a second time.
 // ---------------------------------------------------------------------------
 
 export const ingestBatches = pgTable(
@@ -349,7 +363,10 @@ export const ingestBatches = pgTable(
   (t) => [primaryKey({ columns: [t.organizationId, t.id] })],
 );
 
-/** Immutable: exactly what arrived, keyed by meter and time (idempotency). */
+/**
+ * Immutable: exactly what arrived, keyed by meter and time (idempotency).
+ * Partitioned by month of reading_time; raw_readings_meter_fk (see above).
+ */
 export const rawReadings = pgTable(
   "raw_readings",
   {
@@ -377,7 +394,7 @@ export const rawReadings = pgTable(
   ],
 );
 
-/** A reading that disagreed with one already stored: kept for review. */
+/** A reading that disagreed with one already stored: kept for review. reading_conflicts_meter_fk (see above). */
 export const readingConflicts = pgTable(
   "reading_conflicts",
   {
@@ -401,6 +418,7 @@ export const readingConflicts = pgTable(
   ],
 );
 
+/** Partitioned by month of hour_start; intervals_meter_fk (see above). */
 export const intervals = pgTable(
   "intervals",
   {
@@ -446,7 +464,10 @@ export type IntervalQuality = (typeof intervalQualityEnum.enumValues)[number];
 // closes, and the adjusting entries recorded when a closed month changes.
 // ---------------------------------------------------------------------------
 
-/** One meter's signed energy in one month of its site's local calendar. */
+/**
+ * One meter's signed energy in one month of its site's local calendar.
+ * monthly_rollups_meter_fk → meters, by hand in 0002 (see "Readings" above).
+ */
 export const monthlyRollups = pgTable(
   "monthly_rollups",
   {
@@ -509,7 +530,10 @@ export const monthCloses = pgTable(
   ],
 );
 
-/** A change to a closed month: never a silent edit. */
+/**
+ * A change to a closed month: never a silent edit.
+ * ledger_adjustments_meter_fk → meters, by hand in 0002 (see "Readings" above).
+ */
 export const ledgerAdjustments = pgTable(
   "ledger_adjustments",
   {

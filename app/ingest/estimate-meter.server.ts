@@ -1,5 +1,9 @@
 import type { Pool, PoolClient } from "pg";
-import { pool } from "~/db/client.server";
+import { and, arrayContains, eq, not, sql } from "drizzle-orm";
+import { meterKey, siteOfMeter } from "~/db/conditions.server";
+import { db, pool } from "~/db/client.server";
+import { intervals, meters, sites } from "~/db/schema";
+import { withTransaction } from "~/db/transaction.server";
 import { applyRollupDeltas } from "~/ledger/refresh-rollups.server";
 import { estimateGaps } from "./estimate";
 import { ensurePartitions } from "./partitions.server";
@@ -23,32 +27,28 @@ async function meterFacts(
   organizationId: string,
   meterId: string,
 ): Promise<MeterFacts | null> {
-  const { rows } = await pool.query<{
-    time_zone: string;
-    spike_factor: string;
-    orientation: Orientation;
-    carrier: string;
-  }>(
-    `select s.time_zone, m.spike_factor, m.orientation, m.carrier
-       from meters m join sites s on s.organization_id = m.organization_id and s.id = m.site_id
-      where m.organization_id = $1 and m.id = $2`,
-    [organizationId, meterId],
-  );
-  const r = rows[0];
-  return r
-    ? {
-        timeZone: r.time_zone,
-        spikeFactor: Number(r.spike_factor),
-        orientation: r.orientation,
-        carrier: r.carrier,
-      }
-    : null;
+  const [facts] = await db
+    .select({
+      timeZone: sites.timeZone,
+      spikeFactor: meters.spikeFactor,
+      orientation: meters.orientation,
+      carrier: meters.carrier,
+    })
+    .from(meters)
+    .innerJoin(sites, siteOfMeter)
+    .where(meterKey(organizationId, meterId));
+  return facts ? { ...facts, spikeFactor: Number(facts.spikeFactor) } : null;
 }
 
 /**
  * The window to look at: from the known hour before `from`, less the profile
  * history, to the known hour after `to`. A correction is judged against the
  * same window (edit-interval.server.ts).
+ *
+ * This and loadSeries are raw SQL on a pg client because they also run
+ * inside an edit's transaction, on the client withTransaction gives; they
+ * read intervals after every ingested batch, which `npm run bench readings`
+ * measures.
  */
 export async function windowFor(
   organizationId: string,
@@ -116,13 +116,13 @@ async function storeEstimates(
   const times = estimates.map((e) => e.hourStart.getTime());
   const first = new Date(times.reduce((a, b) => Math.min(a, b)));
   const last = new Date(times.reduce((a, b) => Math.max(a, b)));
-  const client = await pool.connect();
-  try {
-    await client.query("begin");
+  // Raw SQL: the same interval and rollup writes as ingest, which
+  // `npm run bench readings` chose over the query builder.
+  await withTransaction(pool, async (client) => {
     await ensurePartitions(client, first, last);
     const deltas = await writeIntervals(client, organizationId, {
       input: `select $2::uuid as m, h, k, em
-                from unnest($3::timestamptz[], $4::numeric[], $5::text[]) as p(h, k, em)`,
+              from unnest($3::timestamptz[], $4::numeric[], $5::text[]) as p(h, k, em)`,
       params: [
         meterId,
         estimates.map((e) => e.hourStart),
@@ -140,13 +140,7 @@ async function storeEstimates(
       source: "estimate",
       reason: "gap estimates updated",
     });
-    await client.query("commit");
-  } catch (error) {
-    await client.query("rollback").catch(() => undefined);
-    throw error;
-  } finally {
-    client.release();
-  }
+  });
 }
 
 /**
@@ -190,9 +184,16 @@ async function flagHours(
   points: HourlyPoint[],
 ) {
   if (points.length === 0) return;
-  await pool.query(
-    `update intervals set flags = array_append(flags, $3)
-      where organization_id = $1 and meter_id = $2 and hour_start = any($4::timestamptz[]) and not ($3 = any(flags))`,
-    [organizationId, meterId, flag, points.map((p) => p.hourStart)],
-  );
+  await db
+    .update(intervals)
+    .set({ flags: sql`array_append(${intervals.flags}, ${flag})` })
+    .where(
+      and(
+        eq(intervals.organizationId, organizationId),
+        eq(intervals.meterId, meterId),
+        // One array parameter, however many hours a long gap flags.
+        sql`${intervals.hourStart} = any(${sql.param(points.map((p) => p.hourStart))}::timestamptz[])`,
+        not(arrayContains(intervals.flags, [flag])),
+      ),
+    );
 }

@@ -1,5 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { pool } from "~/db/client.server";
+import { withTransaction } from "~/db/transaction.server";
 import { findMetersByCode } from "./meter-lookup.server";
 import {
   codesIn,
@@ -44,10 +45,10 @@ export async function ingestReadings(
     request.now,
   );
   const batchId = randomUUID();
-  const client = await pool.connect();
-  try {
-    await client.query("begin");
-    const outcome = await storeReadings(
+  // Raw SQL on one pg client: the batch write is the hot path that
+  // `npm run bench readings` measures against COPY (docs/ingest.md).
+  const outcome = await withTransaction(pool, async (client) => {
+    const stored = await storeReadings(
       client,
       organizationId,
       batchId,
@@ -68,25 +69,21 @@ export async function ingestReadings(
         request.source,
         request.gatewayId ?? null,
         request.userId ?? null,
-        outcome.accepted,
-        outcome.repeats,
+        stored.accepted,
+        stored.repeats,
         rejected.length,
-        outcome.conflicts.length,
+        stored.conflicts.length,
       ],
     );
-    await client.query("commit");
-    afterIngest(organizationId, outcome.touched);
-    return {
-      batchId,
-      accepted: outcome.accepted,
-      repeats: outcome.repeats,
-      rejected: rejected.sort((a, b) => a.index - b.index),
-      conflicts: outcome.conflicts.sort((a, b) => a.index - b.index),
-    };
-  } catch (error) {
-    await client.query("rollback").catch(() => undefined);
-    throw error;
-  } finally {
-    client.release();
-  }
+    return stored;
+  });
+  // Committed: only now is the batch acknowledged and its estimates queued.
+  afterIngest(organizationId, outcome.touched);
+  return {
+    batchId,
+    accepted: outcome.accepted,
+    repeats: outcome.repeats,
+    rejected: rejected.sort((a, b) => a.index - b.index),
+    conflicts: outcome.conflicts.sort((a, b) => a.index - b.index),
+  };
 }

@@ -1,5 +1,14 @@
+import { and, eq, gte, lt, max, sql } from "drizzle-orm";
 import type { Interval } from "./interval-schema";
-import { pool } from "~/db/client.server";
+import { db } from "~/db/client.server";
+import { intervals } from "~/db/schema";
+
+function ofMeter(args: { organizationId: string; meterId: string }) {
+  return and(
+    eq(intervals.organizationId, args.organizationId),
+    eq(intervals.meterId, args.meterId),
+  );
+}
 
 /** One meter's hourly intervals in [from, to), oldest first. */
 export async function listIntervals(args: {
@@ -7,26 +16,35 @@ export async function listIntervals(args: {
   meterId: string;
   from: Date;
   to: Date;
-}) {
-  const { rows } = await pool.query<Interval>(
-    `select to_char(hour_start at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"') as hour_start,
-            energy_kwh::text, quality, flags, estimate_method,
-            cardinality(source_reading_times) as source_count
-       from intervals
-      where organization_id = $1 and meter_id = $2 and hour_start >= $3 and hour_start < $4
-      order by hour_start`,
-    [args.organizationId, args.meterId, args.from, args.to],
-  );
-  return rows;
+}): Promise<Interval[]> {
+  return db
+    .select({
+      // The API's instant: UTC, to the second, with its Z.
+      hour_start: sql<string>`to_char(${intervals.hourStart} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`,
+      energy_kwh: intervals.energyKwh,
+      quality: intervals.quality,
+      flags: intervals.flags,
+      estimate_method: intervals.estimateMethod,
+      source_count: sql<number>`cardinality(${intervals.sourceReadingTimes})`,
+    })
+    .from(intervals)
+    .where(
+      and(
+        ofMeter(args),
+        gte(intervals.hourStart, args.from),
+        lt(intervals.hourStart, args.to),
+      ),
+    )
+    .orderBy(intervals.hourStart);
 }
 
 export async function latestIntervalHour(args: {
   organizationId: string;
   meterId: string;
 }): Promise<Date | null> {
-  const { rows } = await pool.query<{ latest: Date | null }>(
-    `select max(hour_start) as latest from intervals where organization_id = $1 and meter_id = $2`,
-    [args.organizationId, args.meterId],
-  );
-  return rows[0]?.latest ?? null;
+  const [row] = await db
+    .select({ latest: max(intervals.hourStart) })
+    .from(intervals)
+    .where(ofMeter(args));
+  return row?.latest ?? null;
 }

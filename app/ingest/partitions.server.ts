@@ -1,5 +1,8 @@
 import type { PoolClient } from "pg";
 
+// Raw SQL, on purpose: the partition check every batch makes, measured by `npm run bench readings`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 /**
  * Makes sure raw_readings and intervals have their monthly partitions for
  * [from, to]. ensure_month_partitions serialises on one advisory lock that is

@@ -10,6 +10,9 @@ import { siteSign, type PreparedReading } from "./prepare-readings.server";
 import { registerDeltas } from "./register-series";
 import { writeIntervals } from "./write-intervals.server";
 
+// Raw SQL, on purpose: register reads turned into hours inside the batch transaction, measured by `npm run bench readings`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 type Meter = PreparedReading["meter"];
 
 export interface RegisterMeterSpan {

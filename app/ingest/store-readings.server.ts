@@ -26,6 +26,9 @@ import {
 } from "./register-hours.server";
 import { writeIntervals } from "./write-intervals.server";
 
+// Raw SQL, on purpose: the batch write path, measured by `npm run bench readings`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 export interface StoreOutcome {
   accepted: number;
   repeats: number;

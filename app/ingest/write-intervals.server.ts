@@ -23,6 +23,9 @@ import type { PoolClient } from "pg";
 import type { RollupDelta } from "~/ledger/refresh-rollups.server";
 import { named } from "./named-statement.server";
 
+// Raw SQL, on purpose: the claim/apply pair of every interval write, measured by `npm run bench readings`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 export interface IntervalWrite {
   /**
    * A SELECT of the hours to write, one row per (m = meter, h = hour start)

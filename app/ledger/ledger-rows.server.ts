@@ -2,6 +2,9 @@ import type { Ledger } from "./ledger-schema";
 import { pool } from "~/db/client.server";
 import { deliveredSignSql } from "./delivered";
 
+// Raw SQL, on purpose: the Ledger's rollup aggregate, timed against a bare read by `npm run bench ledger`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 export interface LedgerQuery {
   organizationId: string;
   /** First and last month, YYYY-MM, inclusive. */

@@ -1,5 +1,8 @@
-import { recordAuditWith } from "~/audit/record-audit.server";
-import { pool } from "~/db/client.server";
+import { and, eq, isNull, or, sql } from "drizzle-orm";
+import { recordAudit } from "~/audit/record-audit.server";
+import { db } from "~/db/client.server";
+import { isUniqueViolation } from "~/db/errors.server";
+import { monthCloses, sites } from "~/db/schema";
 
 type Outcome = { ok: true } | { ok: false; reason: string };
 
@@ -27,11 +30,26 @@ async function siteBelongs(
   siteId: string | null,
 ): Promise<boolean> {
   if (!siteId) return true;
-  const { rows } = await pool.query(
-    "select 1 from sites where organization_id = $1 and id = $2",
-    [organizationId, siteId],
+  const [site] = await db
+    .select({ id: sites.id })
+    .from(sites)
+    .where(and(eq(sites.organizationId, organizationId), eq(sites.id, siteId)));
+  return site !== undefined;
+}
+
+/** The close of exactly this scope: the site's own, or the organisation's. */
+function sameScope(siteId: string | null) {
+  return siteId === null
+    ? isNull(monthCloses.siteId)
+    : eq(monthCloses.siteId, siteId);
+}
+
+function activeClosesOf(organizationId: string, month: string) {
+  return and(
+    eq(monthCloses.organizationId, organizationId),
+    eq(monthCloses.month, monthDate(month)),
+    isNull(monthCloses.reopenedAt),
   );
-  return rows.length === 1;
 }
 
 /**
@@ -46,53 +64,54 @@ export async function closeMonth(target: MonthTarget): Promise<Outcome> {
     };
   if (!(await siteBelongs(target.organizationId, target.siteId)))
     return { ok: false, reason: "No such site." };
-  const client = await pool.connect();
   try {
-    await client.query("begin");
-    const { rows: existing } = await client.query(
-      `select site_id from month_closes
-        where organization_id = $1 and month = $2 and reopened_at is null
-          and (site_id is null or site_id = $3::uuid or $3::uuid is null)
-        for update`,
-      [target.organizationId, monthDate(target.month), target.siteId],
-    );
-    if (
-      existing.some((c) => c.site_id === null || c.site_id === target.siteId)
-    ) {
-      await client.query("rollback");
-      return {
-        ok: false,
-        reason: `${target.month} is already closed${existing.some((c) => c.site_id === null) ? " for the whole organisation" : ""}.`,
-      };
-    }
-    await client.query(
-      `insert into month_closes (organization_id, site_id, month, closed_by_user_id) values ($1, $2, $3, $4)`,
-      [
-        target.organizationId,
-        target.siteId,
-        monthDate(target.month),
-        target.actorUserId,
-      ],
-    );
-    await recordAuditWith(client, {
-      organizationId: target.organizationId,
-      actorUserId: target.actorUserId,
-      action: "month.closed",
-      subject: target.month,
-      siteId: target.siteId,
-      before: { state: "open" },
-      after: { state: "closed" },
-      details: { month: target.month },
+    return await db.transaction(async (tx): Promise<Outcome> => {
+      // An organisation-wide close covers every site; a site's close is
+      // refused under either its own close or the organisation's.
+      const existing = await tx
+        .select({ siteId: monthCloses.siteId })
+        .from(monthCloses)
+        .where(
+          and(
+            activeClosesOf(target.organizationId, target.month),
+            target.siteId === null
+              ? undefined
+              : or(
+                  isNull(monthCloses.siteId),
+                  eq(monthCloses.siteId, target.siteId),
+                ),
+          ),
+        )
+        .for("update");
+      const wholeOrganisation = existing.some((c) => c.siteId === null);
+      if (wholeOrganisation || existing.some((c) => c.siteId === target.siteId))
+        return {
+          ok: false,
+          reason: `${target.month} is already closed${wholeOrganisation ? " for the whole organisation" : ""}.`,
+        };
+      await tx.insert(monthCloses).values({
+        organizationId: target.organizationId,
+        siteId: target.siteId,
+        month: monthDate(target.month),
+        closedByUserId: target.actorUserId,
+      });
+      await recordAudit(tx, {
+        organizationId: target.organizationId,
+        actorUserId: target.actorUserId,
+        action: "month.closed",
+        subject: target.month,
+        siteId: target.siteId,
+        before: { state: "open" },
+        after: { state: "closed" },
+        details: { month: target.month },
+      });
+      return { ok: true };
     });
-    await client.query("commit");
-    return { ok: true };
   } catch (error) {
-    await client.query("rollback").catch(() => undefined);
-    if ((error as { code?: string }).code === "23505")
+    // A simultaneous close of the same scope won the unique index.
+    if (isUniqueViolation(error))
       return { ok: false, reason: `${target.month} is already closed.` };
     throw error;
-  } finally {
-    client.release();
   }
 }
 
@@ -100,30 +119,27 @@ export async function closeMonth(target: MonthTarget): Promise<Outcome> {
 export async function reopenMonth(
   target: MonthTarget & { reason: string },
 ): Promise<Outcome> {
-  const client = await pool.connect();
-  try {
-    await client.query("begin");
-    const { rows } = await client.query(
-      `update month_closes set reopened_at = now(), reopened_by_user_id = $4, reopen_reason = $5
-        where organization_id = $1 and month = $2 and reopened_at is null
-          and site_id is not distinct from $3::uuid
-        returning id, closed_at`,
-      [
-        target.organizationId,
-        monthDate(target.month),
-        target.siteId,
-        target.actorUserId,
-        target.reason,
-      ],
-    );
-    if (rows.length === 0) {
-      await client.query("rollback");
+  return db.transaction(async (tx): Promise<Outcome> => {
+    const [reopened] = await tx
+      .update(monthCloses)
+      .set({
+        reopenedAt: sql`now()`,
+        reopenedByUserId: target.actorUserId,
+        reopenReason: target.reason,
+      })
+      .where(
+        and(
+          activeClosesOf(target.organizationId, target.month),
+          sameScope(target.siteId),
+        ),
+      )
+      .returning({ closedAt: monthCloses.closedAt });
+    if (!reopened)
       return {
         ok: false,
         reason: `${target.month} is not closed${target.siteId ? " for this site" : " for the whole organisation"}.`,
       };
-    }
-    await recordAuditWith(client, {
+    await recordAudit(tx, {
       organizationId: target.organizationId,
       actorUserId: target.actorUserId,
       action: "month.reopened",
@@ -132,14 +148,8 @@ export async function reopenMonth(
       reason: target.reason,
       before: { state: "closed" },
       after: { state: "open" },
-      details: { month: target.month, closedAt: rows[0].closed_at },
+      details: { month: target.month, closedAt: reopened.closedAt },
     });
-    await client.query("commit");
     return { ok: true };
-  } catch (error) {
-    await client.query("rollback").catch(() => undefined);
-    throw error;
-  } finally {
-    client.release();
-  }
+  });
 }

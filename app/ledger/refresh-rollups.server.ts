@@ -1,5 +1,8 @@
 import type { PoolClient } from "pg";
 
+// Raw SQL, on purpose: the rollup deltas every batch applies, measured by `npm run bench readings`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 /** Who or what changed the intervals: recorded on any adjusting entry. */
 export interface ChangeAttribution {
   source: "late_data" | "edit" | "estimate";

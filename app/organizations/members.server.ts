@@ -16,6 +16,14 @@ import { INVITATION_DAYS } from "~/auth/policy";
 
 export class MembershipRuleError extends Error {}
 
+/** The one membership of a person in an organisation. */
+function membershipKey(organizationId: string, userId: string) {
+  return and(
+    eq(memberships.organizationId, organizationId),
+    eq(memberships.userId, userId),
+  );
+}
+
 export async function listMembers({
   organizationId,
 }: {
@@ -109,12 +117,7 @@ export async function changeMemberRole(args: {
     await tx
       .update(memberships)
       .set({ role: args.role })
-      .where(
-        and(
-          eq(memberships.organizationId, args.organizationId),
-          eq(memberships.userId, args.userId),
-        ),
-      );
+      .where(membershipKey(args.organizationId, args.userId));
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
@@ -142,12 +145,7 @@ export async function removeMember(args: {
     if (!target) return false;
     await tx
       .delete(memberships)
-      .where(
-        and(
-          eq(memberships.organizationId, args.organizationId),
-          eq(memberships.userId, args.userId),
-        ),
-      );
+      .where(membershipKey(args.organizationId, args.userId));
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,

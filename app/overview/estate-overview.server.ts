@@ -1,8 +1,10 @@
 import { listBaselines, siteMonths } from "~/baselines/baselines.server";
 import { avoidedEnergy, predict } from "~/baselines/regression";
-import { pool } from "~/db/client.server";
-import type { Carrier } from "~/db/schema";
+import { and, count, eq, exists, isNull } from "drizzle-orm";
+import { db, pool } from "~/db/client.server";
+import { baselines, gateways, meters, sites, type Carrier } from "~/db/schema";
 import { deliveredSignSql } from "~/ledger/delivered";
+import { activeSitesOf, siteOfMeter } from "~/db/conditions.server";
 
 /** One site and carrier: its energy delivered in a month against a year before. */
 export interface SiteDrift {
@@ -83,11 +85,7 @@ export async function siteDrift(
 
 /** The organisation's sites in use (not archived). */
 export async function activeSiteCount(organizationId: string): Promise<number> {
-  const { rows } = await pool.query<{ n: number }>(
-    "select count(*)::int as n from sites where organization_id = $1 and archived_at is null",
-    [organizationId],
-  );
-  return rows[0].n;
+  return db.$count(sites, activeSitesOf(organizationId));
 }
 
 /** How far an organisation has got with its first steps: a site, a meter, a gateway. */
@@ -102,17 +100,41 @@ export interface SetupProgress {
 export async function setupProgress(
   organizationId: string,
 ): Promise<SetupProgress> {
-  const { rows } = await pool.query<SetupProgress>(
-    `select
-       (select count(*)::int from sites where organization_id = $1 and archived_at is null) as sites,
-       (select count(*)::int from meters m join sites s on s.organization_id = m.organization_id and s.id = m.site_id
-         where m.organization_id = $1 and m.removed_at is null and s.archived_at is null) as meters,
-       (select count(*)::int from gateways where organization_id = $1 and revoked_at is null) as gateways,
-       (select id from sites where organization_id = $1 and archived_at is null
-         order by created_at, id limit 1) as "firstSiteId"`,
-    [organizationId],
-  );
-  return rows[0];
+  const [siteCount, meterCount, gatewayCount, [firstSite]] = await Promise.all([
+    activeSiteCount(organizationId),
+    // Installed meters on sites in use.
+    db
+      .select({ n: count() })
+      .from(meters)
+      .innerJoin(sites, siteOfMeter)
+      .where(
+        and(
+          eq(meters.organizationId, organizationId),
+          isNull(meters.removedAt),
+          isNull(sites.archivedAt),
+        ),
+      )
+      .then(([row]) => row.n),
+    db.$count(
+      gateways,
+      and(
+        eq(gateways.organizationId, organizationId),
+        isNull(gateways.revokedAt),
+      ),
+    ),
+    db
+      .select({ id: sites.id })
+      .from(sites)
+      .where(activeSitesOf(organizationId))
+      .orderBy(sites.createdAt, sites.id)
+      .limit(1),
+  ]);
+  return {
+    sites: siteCount,
+    meters: meterCount,
+    gateways: gatewayCount,
+    firstSiteId: firstSite?.id ?? null,
+  };
 }
 
 /** Meters (still installed) whose newest measured hour is older than `hours`. */
@@ -241,19 +263,28 @@ export async function againstBaseline(
   organizationId: string,
   month: string,
 ): Promise<BaselineComparison[]> {
-  const { rows: sites } = await pool.query<{
-    site_id: string;
-    site_name: string;
-  }>(
-    `select s.id as site_id, s.name as site_name
-       from sites s
-      where s.organization_id = $1 and s.archived_at is null
-        and exists (select 1 from baselines b where b.organization_id = s.organization_id and b.site_id = s.id)
-      order by s.name`,
-    [organizationId],
-  );
+  const withBaselines = await db
+    .select({ site_id: sites.id, site_name: sites.name })
+    .from(sites)
+    .where(
+      and(
+        activeSitesOf(organizationId),
+        exists(
+          db
+            .select({ id: baselines.id })
+            .from(baselines)
+            .where(
+              and(
+                eq(baselines.organizationId, sites.organizationId),
+                eq(baselines.siteId, sites.id),
+              ),
+            ),
+        ),
+      ),
+    )
+    .orderBy(sites.name);
   const perSite = await Promise.all(
-    sites.map(async (site) => {
+    withBaselines.map(async (site) => {
       // Newest first: the first of each carrier is the one in force.
       const saved = await listBaselines({
         organizationId,

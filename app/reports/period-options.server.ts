@@ -1,5 +1,7 @@
 import { monthsBetween } from "~/baselines/degree-days";
-import { pool } from "~/db/client.server";
+import { eq, max, min } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { monthlyRollups } from "~/db/schema";
 import { monthLong } from "~/lib/format";
 import { anchorFor } from "./periods";
 
@@ -24,16 +26,16 @@ export interface PeriodChoices {
 export async function periodChoices(
   organizationId: string,
 ): Promise<PeriodChoices> {
-  const { rows } = await pool.query<{
-    first: string | null;
-    last: string | null;
-  }>(
-    `select to_char(min(month), 'YYYY-MM') as first,
-            to_char(max(month), 'YYYY-MM') as last
-       from monthly_rollups where organization_id = $1`,
-    [organizationId],
-  );
-  const { first, last } = rows[0] ?? {};
+  const [range] = await db
+    .select({
+      first: min(monthlyRollups.month),
+      last: max(monthlyRollups.month),
+    })
+    .from(monthlyRollups)
+    .where(eq(monthlyRollups.organizationId, organizationId));
+  // Months are stored as their first day; the choices speak in YYYY-MM.
+  const first = range?.first?.slice(0, 7);
+  const last = range?.last?.slice(0, 7);
   if (!first || !last)
     return { months: [], quarters: [], years: [], suggested: null };
   const months = monthsBetween(first, last).reverse();

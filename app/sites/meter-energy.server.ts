@@ -1,4 +1,7 @@
-import { pool } from "~/db/client.server";
+import { and, eq, gte, sum } from "drizzle-orm";
+import { meterOfInterval } from "~/db/conditions.server";
+import { db } from "~/db/client.server";
+import { intervals, meters } from "~/db/schema";
 
 /** Signed energy per meter of one site since a time, from the hourly intervals. */
 export async function siteEnergySince(args: {
@@ -6,12 +9,17 @@ export async function siteEnergySince(args: {
   siteId: string;
   since: Date;
 }) {
-  const { rows } = await pool.query<{ meter_id: string; energy_kwh: string }>(
-    `select i.meter_id, sum(i.energy_kwh) as energy_kwh
-       from intervals i join meters m on m.organization_id = i.organization_id and m.id = i.meter_id
-      where i.organization_id = $1 and m.site_id = $2 and i.hour_start >= $3
-      group by i.meter_id`,
-    [args.organizationId, args.siteId, args.since],
-  );
-  return new Map(rows.map((r) => [r.meter_id, Number(r.energy_kwh)]));
+  const rows = await db
+    .select({ meterId: intervals.meterId, energyKwh: sum(intervals.energyKwh) })
+    .from(intervals)
+    .innerJoin(meters, meterOfInterval)
+    .where(
+      and(
+        eq(intervals.organizationId, args.organizationId),
+        eq(meters.siteId, args.siteId),
+        gte(intervals.hourStart, args.since),
+      ),
+    )
+    .groupBy(intervals.meterId);
+  return new Map(rows.map((r) => [r.meterId, Number(r.energyKwh)]));
 }

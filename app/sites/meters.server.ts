@@ -1,10 +1,12 @@
 import { and, asc, eq } from "drizzle-orm";
-import { db } from "~/db/client.server";
+import { meterKey, siteOfMeter } from "~/db/conditions.server";
+import { db, type Transaction } from "~/db/client.server";
 import { meters, sites } from "~/db/schema";
 import { changedFields, recordAudit } from "~/audit/record-audit.server";
 import { afterMeteredChange } from "~/billing/sync-quantity.server";
 import type { MeterInput } from "./meter-schema";
-import { DuplicateNameError, isUniqueViolation } from "./sites.server";
+import { isUniqueViolation } from "~/db/errors.server";
+import { DuplicateNameError } from "./sites.server";
 
 export const meterColumns = {
   id: meters.id,
@@ -55,13 +57,7 @@ export async function listAllMeters({
   return db
     .select({ ...meterColumns, siteName: sites.name })
     .from(meters)
-    .innerJoin(
-      sites,
-      and(
-        eq(sites.organizationId, meters.organizationId),
-        eq(sites.id, meters.siteId),
-      ),
-    )
+    .innerJoin(sites, siteOfMeter)
     .where(eq(meters.organizationId, organizationId))
     .orderBy(asc(sites.name), asc(meters.code));
 }
@@ -76,16 +72,8 @@ export async function getMeter({
   const [meter] = await db
     .select({ ...meterColumns, siteName: sites.name, timeZone: sites.timeZone })
     .from(meters)
-    .innerJoin(
-      sites,
-      and(
-        eq(sites.organizationId, meters.organizationId),
-        eq(sites.id, meters.siteId),
-      ),
-    )
-    .where(
-      and(eq(meters.organizationId, organizationId), eq(meters.id, meterId)),
-    );
+    .innerJoin(sites, siteOfMeter)
+    .where(meterKey(organizationId, meterId));
   return meter ?? null;
 }
 
@@ -138,19 +126,20 @@ async function assertParentOnSite(
   const [parent] = await db
     .select({ siteId: meters.siteId })
     .from(meters)
-    .where(
-      and(eq(meters.organizationId, organizationId), eq(meters.id, parentId)),
-    );
+    .where(meterKey(organizationId, parentId));
   if (!parent || parent.siteId !== siteId)
     throw new MeterRuleError("The parent meter must be on the same site.");
 }
 
-function rethrowDuplicate(error: unknown): never {
-  if (isUniqueViolation(error))
-    throw new DuplicateNameError(
-      "Another meter in this organisation uses this code.",
-    );
-  throw error;
+/** A transaction that writes a meter's code: a taken code is a DuplicateNameError. */
+function writeMeter<T>(work: (tx: Transaction) => Promise<T>): Promise<T> {
+  return db.transaction(work).catch((error: unknown) => {
+    if (isUniqueViolation(error))
+      throw new DuplicateNameError(
+        "Another meter in this organisation uses this code.",
+      );
+    throw error;
+  });
 }
 
 export async function createMeter(args: {
@@ -164,28 +153,26 @@ export async function createMeter(args: {
     args.siteId,
     args.input.parentMeterId,
   );
-  const meterId = await db
-    .transaction(async (tx) => {
-      const [meter] = await tx
-        .insert(meters)
-        .values({
-          organizationId: args.organizationId,
-          siteId: args.siteId,
-          ...columnsFrom(args.input),
-        })
-        .returning(meterColumns);
-      await recordAudit(tx, {
+  const meterId = await writeMeter(async (tx) => {
+    const [meter] = await tx
+      .insert(meters)
+      .values({
         organizationId: args.organizationId,
-        actorUserId: args.actorUserId,
-        action: "meter.created",
-        subject: meter.id,
         siteId: args.siteId,
-        meterId: meter.id,
-        after: settingsOf(meter),
-      });
-      return meter.id;
-    })
-    .catch(rethrowDuplicate);
+        ...columnsFrom(args.input),
+      })
+      .returning(meterColumns);
+    await recordAudit(tx, {
+      organizationId: args.organizationId,
+      actorUserId: args.actorUserId,
+      action: "meter.created",
+      subject: meter.id,
+      siteId: args.siteId,
+      meterId: meter.id,
+      after: settingsOf(meter),
+    });
+    return meter.id;
+  });
   // A site's first meter makes it billable (after the commit, never failing).
   await afterMeteredChange(args.organizationId, `meter.created:${meterId}`);
   return meterId;
@@ -204,38 +191,33 @@ export async function updateMeter(args: {
     args.input.parentMeterId,
     args.meterId,
   );
-  return db
-    .transaction(async (tx) => {
-      const where = and(
-        eq(meters.organizationId, args.organizationId),
-        eq(meters.id, args.meterId),
-      );
-      const [before] = await tx
-        .select(meterColumns)
-        .from(meters)
-        .where(where)
-        .for("update");
-      if (!before) return false;
-      const [after] = await tx
-        .update(meters)
-        .set(columnsFrom(args.input))
-        .where(where)
-        .returning(meterColumns);
-      // Saving the form unchanged is no change, and leaves no entry.
-      const changed = changedFields(settingsOf(before), settingsOf(after));
-      if (changed)
-        await recordAudit(tx, {
-          organizationId: args.organizationId,
-          actorUserId: args.actorUserId,
-          action: "meter.updated",
-          subject: args.meterId,
-          siteId: after.siteId,
-          meterId: args.meterId,
-          ...changed,
-        });
-      return true;
-    })
-    .catch(rethrowDuplicate);
+  return writeMeter(async (tx) => {
+    const where = meterKey(args.organizationId, args.meterId);
+    const [before] = await tx
+      .select(meterColumns)
+      .from(meters)
+      .where(where)
+      .for("update");
+    if (!before) return false;
+    const [after] = await tx
+      .update(meters)
+      .set(columnsFrom(args.input))
+      .where(where)
+      .returning(meterColumns);
+    // Saving the form unchanged is no change, and leaves no entry.
+    const changed = changedFields(settingsOf(before), settingsOf(after));
+    if (changed)
+      await recordAudit(tx, {
+        organizationId: args.organizationId,
+        actorUserId: args.actorUserId,
+        action: "meter.updated",
+        subject: args.meterId,
+        siteId: after.siteId,
+        meterId: args.meterId,
+        ...changed,
+      });
+    return true;
+  });
 }
 
 export async function retireMeter(args: {
@@ -246,10 +228,7 @@ export async function retireMeter(args: {
   reason?: string;
 }) {
   const retired = await db.transaction(async (tx) => {
-    const where = and(
-      eq(meters.organizationId, args.organizationId),
-      eq(meters.id, args.meterId),
-    );
+    const where = meterKey(args.organizationId, args.meterId);
     const [before] = await tx
       .select({ siteId: meters.siteId, removedAt: meters.removedAt })
       .from(meters)
@@ -297,57 +276,50 @@ export async function replaceMeter(args: {
     meterId: args.meterId,
   });
   if (!old) return null;
-  return db
-    .transaction(async (tx) => {
-      const [replacement] = await tx
-        .insert(meters)
-        .values({
-          organizationId: args.organizationId,
-          siteId: old.siteId,
-          code: args.code,
-          name: old.name,
-          quantity: old.quantity,
-          carrier: old.carrier,
-          orientation: old.orientation,
-          parentMeterId: old.parentMeterId,
-          serial: args.serial,
-          multiplier: old.multiplier,
-          rolloverKwh: old.rolloverKwh,
-          sensorAt: old.sensorAt,
-          defaultPressureBarAbs: old.defaultPressureBarAbs,
-          spikeFactor: old.spikeFactor,
-          accuracyClass: old.accuracyClass,
-          deltaThetaMinK: old.deltaThetaMinK,
-          qpM3PerH: old.qpM3PerH,
-          installedAt: args.swappedAt,
-        })
-        .returning({ id: meters.id });
-      await tx
-        .update(meters)
-        .set({ removedAt: args.swappedAt, replacedByMeterId: replacement.id })
-        .where(
-          and(
-            eq(meters.organizationId, args.organizationId),
-            eq(meters.id, args.meterId),
-          ),
-        );
-      await recordAudit(tx, {
+  return writeMeter(async (tx) => {
+    const [replacement] = await tx
+      .insert(meters)
+      .values({
         organizationId: args.organizationId,
-        actorUserId: args.actorUserId,
-        action: "meter.replaced",
-        subject: args.meterId,
         siteId: old.siteId,
-        meterId: args.meterId,
-        reason: args.reason,
-        before: { code: old.code, serial: old.serial, removedAt: null },
-        after: {
-          code: args.code,
-          serial: args.serial,
-          removedAt: args.swappedAt,
-          replacementMeterId: replacement.id,
-        },
-      });
-      return replacement.id;
-    })
-    .catch(rethrowDuplicate);
+        code: args.code,
+        name: old.name,
+        quantity: old.quantity,
+        carrier: old.carrier,
+        orientation: old.orientation,
+        parentMeterId: old.parentMeterId,
+        serial: args.serial,
+        multiplier: old.multiplier,
+        rolloverKwh: old.rolloverKwh,
+        sensorAt: old.sensorAt,
+        defaultPressureBarAbs: old.defaultPressureBarAbs,
+        spikeFactor: old.spikeFactor,
+        accuracyClass: old.accuracyClass,
+        deltaThetaMinK: old.deltaThetaMinK,
+        qpM3PerH: old.qpM3PerH,
+        installedAt: args.swappedAt,
+      })
+      .returning({ id: meters.id });
+    await tx
+      .update(meters)
+      .set({ removedAt: args.swappedAt, replacedByMeterId: replacement.id })
+      .where(meterKey(args.organizationId, args.meterId));
+    await recordAudit(tx, {
+      organizationId: args.organizationId,
+      actorUserId: args.actorUserId,
+      action: "meter.replaced",
+      subject: args.meterId,
+      siteId: old.siteId,
+      meterId: args.meterId,
+      reason: args.reason,
+      before: { code: old.code, serial: old.serial, removedAt: null },
+      after: {
+        code: args.code,
+        serial: args.serial,
+        removedAt: args.swappedAt,
+        replacementMeterId: replacement.id,
+      },
+    });
+    return replacement.id;
+  });
 }

@@ -1,5 +1,7 @@
-import { and, asc, count, eq, isNull } from "drizzle-orm";
+import { and, asc, count, eq } from "drizzle-orm";
 import { db } from "~/db/client.server";
+import { activeSitesOf, installedMetersOfSite } from "~/db/conditions.server";
+import { isUniqueViolation } from "~/db/errors.server";
 import { meters, sites } from "~/db/schema";
 import { changedFields, recordAudit } from "~/audit/record-audit.server";
 import type { SiteInput } from "./site-schema";
@@ -25,17 +27,8 @@ export async function listSites({
       meterCount: count(meters.id),
     })
     .from(sites)
-    .leftJoin(
-      meters,
-      and(
-        eq(meters.organizationId, sites.organizationId),
-        eq(meters.siteId, sites.id),
-        isNull(meters.removedAt),
-      ),
-    )
-    .where(
-      and(eq(sites.organizationId, organizationId), isNull(sites.archivedAt)),
-    )
+    .leftJoin(meters, installedMetersOfSite)
+    .where(activeSitesOf(organizationId))
     .groupBy(sites.organizationId, sites.id)
     .orderBy(asc(sites.name));
 }
@@ -69,13 +62,6 @@ const auditedColumns = {
 function detailsOf(site: { id: string } & Record<string, unknown>) {
   const { id: _id, ...details } = site;
   return details;
-}
-
-function isUniqueViolation(error: unknown): boolean {
-  const code =
-    (error as { code?: string; cause?: { code?: string } }).code ??
-    (error as { cause?: { code?: string } }).cause?.code;
-  return code === "23505";
 }
 
 export async function createSite(args: {
@@ -160,5 +146,3 @@ export async function updateSite(args: {
     throw error;
   }
 }
-
-export { isUniqueViolation };

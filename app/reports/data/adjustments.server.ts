@@ -6,6 +6,9 @@ import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
 import type { AdjustmentEntry, Carrier } from "./types";
 
+// Raw SQL, on purpose: one of loadReportData's loads, measured by `npm run bench reports`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 export async function periodAdjustments(
   organizationId: string,
   siteId: string | null,

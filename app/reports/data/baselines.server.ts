@@ -9,6 +9,9 @@ import type { ReportPeriod } from "../periods";
 import type { SavedBaselineRow } from "./baseline-comparison";
 import type { Carrier } from "./types";
 
+// Raw SQL, on purpose: one of loadReportData's loads, measured by `npm run bench reports`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 export async function baselinesInForce(
   organizationId: string,
   siteIds: readonly string[],

@@ -7,6 +7,9 @@ import type { ReportPeriod } from "../periods";
 import type { MeterPeriodEnergy } from "./period-balance";
 import type { Carrier } from "./types";
 
+// Raw SQL, on purpose: one of loadReportData's loads, measured by `npm run bench reports`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 export async function meterPeriodEnergy(
   organizationId: string,
   siteId: string | null,

@@ -6,6 +6,9 @@ import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
 import type { ActiveClose } from "./ledger-tables";
 
+// Raw SQL, on purpose: one of loadReportData's loads, measured by `npm run bench reports`.
+// Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
+
 export interface ScopeSite {
   id: string;
   name: string;
