@@ -8,8 +8,16 @@ import type { Sheet, SheetRow } from "./types";
 import { isBlank } from "./columns";
 
 export function readCsv(text: string): Sheet {
-  const parsed = Papa.parse<string[]>(text.replace(/^\uFEFF/, ""), {
+  const body = text.replace(/^\uFEFF/, "");
+  // papaparse's delimiter guess counts empty lines as one-field rows and then
+  // prefers a comma, so it guesses on the first lines without them.
+  const delimiter = Papa.parse<string[]>(body.slice(0, 64_000), {
+    preview: 20,
+    skipEmptyLines: true,
+  }).meta.delimiter;
+  const parsed = Papa.parse<string[]>(body, {
     header: false,
+    delimiter,
     dynamicTyping: false,
     // Empty lines are kept so that each record's index is its row number.
     skipEmptyLines: false,
