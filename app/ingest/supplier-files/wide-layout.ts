@@ -184,9 +184,11 @@ export function parseWideLayout(
       const dayName = formatWallDate(date.wall);
       const change =
         shape.count < normal
-          ? `the clocks go forward ${clockShift((normal - shape.count) * minutes)} at ${shape.changeWall.slice(0, 5)}`
-          : `the clocks go back ${clockShift((shape.count - normal) * minutes)}, so ${shape.changeWall} happens twice`;
-      const intro = `${dayName} has ${shape.count} ${word} in ${options.timeZone} (${change})`;
+          ? ` (the clocks go forward ${clockShift((normal - shape.count) * minutes)} at ${shape.changeWall.slice(0, 5)})`
+          : shape.count > normal
+            ? ` (the clocks go back ${clockShift((shape.count - normal) * minutes)}, so ${shape.changeWall} happens twice)`
+            : "";
+      const intro = `${dayName} has ${shape.count} ${word} in ${options.timeZone}${change}`;
       const column = placed.column === undefined ? dateLabel : columnLabel(header, firstColumn + placed.column);
       refuse(column, `${intro}, ${placed.error}`);
       continue;
