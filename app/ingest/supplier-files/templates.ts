@@ -15,7 +15,8 @@ export interface TemplateOptions {
 }
 
 const DEMO_METERS = ["CH-EL1", "NP-EL1"] as const;
-const EXAMPLE_DATE = "01/04/2026";
+// Day 14 settles the date order: 14/04 can only be day first.
+const EXAMPLE_DATE = "14/04/2026";
 
 const pad = (n: number) => String(n).padStart(2, "0");
 
