@@ -43,8 +43,11 @@ const YEAR_FIRST =
 const YEAR_LAST =
   /^(\d{1,2})[/.-](\d{1,2})[/.-](\d{4})(?:[T ]+(\d{1,2}):(\d{2})(?::(\d{2}))?)?$/;
 
+const MONTH_DAYS = [31, 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31];
+
 function daysInMonth(year: number, month: number): number {
-  return new Date(Date.UTC(year, month, 0)).getUTCDate();
+  const leap = year % 4 === 0 && (year % 100 !== 0 || year % 400 === 0);
+  return month === 2 && leap ? 29 : MONTH_DAYS[month - 1];
 }
 
 function offsetOf(text: string | undefined): number | undefined {
@@ -117,10 +120,34 @@ export function serialToWall(serial: number, date1904: boolean): number {
   return Math.round((days * DAY_MS) / 1000) * 1000;
 }
 
+/**
+ * parseDateText with its answers remembered: a file of 50 meters writes each
+ * half-hour's time 50 times, and a year has 17,520 of them. Cleared when it
+ * grows past `limit` so that a file of all-distinct times stays bounded.
+ */
+export class DateTextCache {
+  private readonly answers = new Map<string, ParsedDateTime | { error: string }>();
+
+  constructor(
+    private readonly order: DateOrder,
+    private readonly limit = 100_000,
+  ) {}
+
+  parse(text: string): ParsedDateTime | { error: string } {
+    let answer = this.answers.get(text);
+    if (answer === undefined) {
+      if (this.answers.size >= this.limit) this.answers.clear();
+      answer = parseDateText(text, this.order);
+      this.answers.set(text, answer);
+    }
+    return answer;
+  }
+}
+
 /** Any cell of a date or time column; null for a blank one. */
 export function readDateCell(
   cell: Cell,
-  order: DateOrder,
+  order: DateOrder | DateTextCache,
   date1904: boolean,
 ): DateCellResult {
   if (cell === null || isBlank(cell)) return null;
@@ -138,7 +165,7 @@ export function readDateCell(
     return { error: `${cell} is not a date` };
   }
   if (typeof cell === "boolean") return { error: `${cell} is not a date` };
-  return parseDateText(cell, order);
+  return typeof order === "string" ? parseDateText(cell, order) : order.parse(cell);
 }
 
 export interface DateOrderGuess {

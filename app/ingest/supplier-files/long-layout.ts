@@ -4,7 +4,7 @@
  * as many supplier files stamp it, its end; the mapping says which.
  */
 import { columnLabel } from "./columns";
-import { detectDateOrder, readDateCell, type DateOrder } from "./date-text";
+import { DateTextCache, detectDateOrder, readDateCell, type DateOrder } from "./date-text";
 import { readEnergyCell } from "./energy-value";
 import { ErrorList } from "./error-list";
 import {
@@ -48,7 +48,11 @@ class RepeatedTimes {
   }
 }
 
-/** Interval starts already read per meter, to refuse a second row for the same interval. */
+/**
+ * Interval starts already read per meter, to refuse a second row for the same
+ * interval. Keyed by minutes since 1970, small integers V8 hashes fast
+ * (milliseconds would be boxed doubles).
+ */
 class SeenIntervals {
   private readonly byMeter = new Map<string, Map<number, number>>();
 
@@ -59,8 +63,9 @@ class SeenIntervals {
       starts = new Map();
       this.byMeter.set(meter, starts);
     }
-    const earlier = starts.get(start);
-    if (earlier === undefined) starts.set(start, row);
+    const key = start / 60_000;
+    const earlier = starts.get(key);
+    if (earlier === undefined) starts.set(key, row);
     return earlier;
   }
 }
@@ -87,7 +92,9 @@ export function parseLongLayout(
   const { header } = table;
   const timeLabel = columnLabel(header, mapping.time.column);
   const energyLabel = columnLabel(header, mapping.energy.column);
-  const order = chooseOrder(table, mapping.time.column, timeLabel, options.dateOrder, result.notes);
+  const order = new DateTextCache(
+    chooseOrder(table, mapping.time.column, timeLabel, options.dateOrder, result.notes),
+  );
   const clock = new ZoneClock(options.timeZone);
   const iso = new IsoText();
   const repeated = new RepeatedTimes();

@@ -131,6 +131,20 @@ export function parseWideLayout(
   const order = chooseOrder(table, mapping.date.column, dateLabel, options.dateOrder, result.notes);
   const clock = new ZoneClock(options.timeZone);
   const iso = new IsoText();
+  // The ISO text of a placement's starts and ends, made once per day and
+  // placement: the 50 meters' rows of a day share the same arrays.
+  const isoTexts = new WeakMap<number[], { starts: string[]; ends: string[] }>();
+  const isoOf = (starts: number[]) => {
+    let texts = isoTexts.get(starts);
+    if (texts === undefined) {
+      texts = {
+        starts: starts.map((t) => (Number.isNaN(t) ? "" : iso.of(t))),
+        ends: starts.map((t) => (Number.isNaN(t) ? "" : iso.of(t + lengthMs))),
+      };
+      isoTexts.set(starts, texts);
+    }
+    return texts;
+  };
   const shapes = new Map<number, DayShape | { error: string }>();
   const seenDays = new Map<string, number>();
   const lengthMs = minutes * MINUTE_MS;
@@ -195,9 +209,9 @@ export function parseWideLayout(
     }
     if (placed.note) result.notes.push(`Row ${row.number} (${formatWallDate(date.wall)}): ${placed.note}`);
 
+    const texts = isoOf(placed.starts);
     for (let k = 0; k < placed.starts.length; k++) {
-      const start = placed.starts[k];
-      if (Number.isNaN(start)) continue;
+      if (Number.isNaN(placed.starts[k])) continue;
       const energy = readEnergyCell(values[k] ?? null);
       if (energy === null) continue;
       if ("error" in energy) {
@@ -207,8 +221,8 @@ export function parseWideLayout(
       result.readings.push({
         meter: meter.code,
         quantity: "interval_energy",
-        start: iso.of(start),
-        end: iso.of(start + lengthMs),
+        start: texts.starts[k],
+        end: texts.ends[k],
         energy_kwh: energy.kwh,
       });
       result.readingRows.push(row.number);

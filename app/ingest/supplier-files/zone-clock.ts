@@ -133,12 +133,18 @@ export class ZoneClock {
 
   constructor(readonly timeZone: string) {}
 
-  /** The local day holding a wall-clock time (its date fields). */
+  /** A local day by its date fields. */
   day(year: number, month: number, day: number): LocalDay {
-    const key = year * 10_000 + month * 100 + day;
+    return this.dayOfWall(Date.UTC(year, month - 1, day));
+  }
+
+  /** The local day holding a wall-clock time. */
+  dayOfWall(wall: number): LocalDay {
+    // Days since 1970: a small integer, quick to look up.
+    const key = Math.floor(wall / DAY_MS);
     let found = this.days.get(key);
     if (found === undefined) {
-      const midnight = Date.UTC(year, month - 1, day);
+      const midnight = key * DAY_MS;
       const start = firstInstantOf(midnight, this.timeZone);
       const end = firstInstantOf(midnight + DAY_MS, this.timeZone);
       found = {
@@ -153,8 +159,7 @@ export class ZoneClock {
   }
 
   resolve(wall: number): WallResolution {
-    const d = new Date(wall);
-    const day = this.day(d.getUTCFullYear(), d.getUTCMonth() + 1, d.getUTCDate());
+    const day = this.dayOfWall(wall);
     if (day.steady) {
       return { kind: "unique", instant: wall - day.offsetMinutes * MINUTE_MS };
     }
