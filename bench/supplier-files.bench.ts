@@ -29,8 +29,14 @@ const SPRING_BLANKS = new Set([2, 3]);
 
 const pad = (n: number) => String(n).padStart(2, "0");
 
-function* daysOf(year: number): Generator<{ date: string; month: number; day: number }> {
-  for (let t = Date.UTC(year, 0, 1); t < Date.UTC(year + 1, 0, 1); t += 86_400_000) {
+function* daysOf(
+  year: number,
+): Generator<{ date: string; month: number; day: number }> {
+  for (
+    let t = Date.UTC(year, 0, 1);
+    t < Date.UTC(year + 1, 0, 1);
+    t += 86_400_000
+  ) {
     const d = new Date(t);
     const [day, month] = [d.getUTCDate(), d.getUTCMonth() + 1];
     yield { date: `${pad(day)}/${pad(month)}/${year}`, month, day };
@@ -38,7 +44,8 @@ function* daysOf(year: number): Generator<{ date: string; month: number; day: nu
 }
 
 /** kWh of one half-hour: a deterministic, varied two-decimal value. */
-const kwh = (meter: number, day: number, k: number) => (((meter * 7 + day * 13 + k * 31) % 997) / 10 + 0.25).toFixed(2);
+const kwh = (meter: number, day: number, k: number) =>
+  (((meter * 7 + day * 13 + k * 31) % 997) / 10 + 0.25).toFixed(2);
 
 function wideCsv(): string {
   const lines = [["meter", "date", ...intervalHeadings(30)].join(",")];
@@ -78,10 +85,18 @@ function time<T>(run: () => T): { ms: number; cpuMs: number; value: T } {
   const cpu = process.cpuUsage();
   const value = run();
   const used = process.cpuUsage(cpu);
-  return { ms: performance.now() - start, cpuMs: (used.user + used.system) / 1000, value };
+  return {
+    ms: performance.now() - start,
+    cpuMs: (used.user + used.system) / 1000,
+    value,
+  };
 }
 
-function best(label: string, csv: string, parse: (t: Table) => ParseResult): ParseResult {
+function best(
+  label: string,
+  csv: string,
+  parse: (t: Table) => ParseResult,
+): ParseResult {
   let result: ParseResult | undefined;
   const rounds: { read: number; parse: number; cpu: number }[] = [];
   time(() => parse(toTable(readCsv(csv))!)); // warm-up
@@ -89,10 +104,16 @@ function best(label: string, csv: string, parse: (t: Table) => ParseResult): Par
     result = undefined; // let the previous round's readings go before measuring
     const read = time(() => toTable(readCsv(csv))!);
     const parsed = time(() => parse(read.value));
-    rounds.push({ read: read.ms, parse: parsed.ms, cpu: read.cpuMs + parsed.cpuMs });
+    rounds.push({
+      read: read.ms,
+      parse: parsed.ms,
+      cpu: read.cpuMs + parsed.cpuMs,
+    });
     result = parsed.value;
   }
-  const fastest = rounds.reduce((a, b) => (a.read + a.parse <= b.read + b.parse ? a : b));
+  const fastest = rounds.reduce((a, b) =>
+    a.read + a.parse <= b.read + b.parse ? a : b,
+  );
   const values = result!.readings.length;
   const ms = (n: number) => n.toFixed(0).padStart(5);
   console.log(
@@ -102,11 +123,22 @@ function best(label: string, csv: string, parse: (t: Table) => ParseResult): Par
 }
 
 export async function benchSupplierFiles(): Promise<void> {
-  console.log(`node ${process.version}, ${os.cpus().length} cpus; ${METERS} meters × ${YEAR}, ${TIME_ZONE}`);
+  console.log(
+    `node ${process.version}, ${os.cpus().length} cpus; ${METERS} meters × ${YEAR}, ${TIME_ZONE}`,
+  );
   const wide = wideCsv();
   const options = { timeZone: TIME_ZONE };
   const wideResult = best("wide", wide, (t) =>
-    parseWideLayout(t, { layout: "wide", meter: { column: 0 }, date: { column: 1 }, intervals: { firstColumn: 2, count: 48 } }, options),
+    parseWideLayout(
+      t,
+      {
+        layout: "wide",
+        meter: { column: 0 },
+        date: { column: 1 },
+        intervals: { firstColumn: 2, count: 48 },
+      },
+      options,
+    ),
   );
   // 365 days × 48 half-hours, less 2 on 29 March and plus 2 on 25 October.
   const expected = METERS * 365 * 48;
@@ -116,7 +148,13 @@ export async function benchSupplierFiles(): Promise<void> {
   best("long", longCsv(wideResult), (t) =>
     parseLongLayout(
       t,
-      { layout: "long", meter: { column: 0 }, time: { column: 1, marks: "end" }, energy: { column: 2 }, intervalMinutes: 30 },
+      {
+        layout: "long",
+        meter: { column: 0 },
+        time: { column: 1, marks: "end" },
+        energy: { column: 2 },
+        intervalMinutes: 30,
+      },
       options,
     ),
   );

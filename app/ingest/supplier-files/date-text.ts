@@ -71,7 +71,9 @@ function fieldsToWall(
     return { error: `"${text}" is not a date` };
   }
   if (day < 1 || day > daysInMonth(year, month)) {
-    return { error: `"${text}" is not a date: that month has ${daysInMonth(year, month)} days` };
+    return {
+      error: `"${text}" is not a date: that month has ${daysInMonth(year, month)} days`,
+    };
   }
   const hasTime = time[0] !== undefined;
   const hour = hasTime ? Number(time[0]) : 0;
@@ -81,7 +83,10 @@ function fieldsToWall(
   if ((hour > 23 && !endOfDay) || minute > 59 || second > 59) {
     return { error: `"${text}" is not a time of day` };
   }
-  return { wall: Date.UTC(year, month - 1, day, hour, minute, second), hasTime };
+  return {
+    wall: Date.UTC(year, month - 1, day, hour, minute, second),
+    hasTime,
+  };
 }
 
 /** Reads one date or date-time text in the given order; ISO text is read whatever the order. */
@@ -92,7 +97,11 @@ export function parseDateText(
   const text = raw.trim();
   const iso = YEAR_FIRST.exec(text);
   if (iso) {
-    const parsed = fieldsToWall(text, +iso[1], +iso[2], +iso[3], [iso[4], iso[5], iso[6]]);
+    const parsed = fieldsToWall(text, +iso[1], +iso[2], +iso[3], [
+      iso[4],
+      iso[5],
+      iso[6],
+    ]);
     const offsetMinutes = offsetOf(iso[7]);
     if ("error" in parsed || offsetMinutes === undefined) return parsed;
     return { ...parsed, offsetMinutes };
@@ -106,7 +115,11 @@ export function parseDateText(
         error: `"${text}" is not a date read as ${DATE_ORDER_NAMES[order]}: ${month} is not a month`,
       };
     }
-    return fieldsToWall(text, +slashed[3], month, day, [slashed[4], slashed[5], slashed[6]]);
+    return fieldsToWall(text, +slashed[3], month, day, [
+      slashed[4],
+      slashed[5],
+      slashed[6],
+    ]);
   }
   return {
     error: `"${text}" is not a date and time in a known format (dd/mm/yyyy hh:mm, yyyy-mm-dd hh:mm or ISO 8601)`,
@@ -126,7 +139,10 @@ export function serialToWall(serial: number, date1904: boolean): number {
  * grows past `limit` so that a file of all-distinct times stays bounded.
  */
 export class DateTextCache {
-  private readonly answers = new Map<string, ParsedDateTime | { error: string }>();
+  private readonly answers = new Map<
+    string,
+    ParsedDateTime | { error: string }
+  >();
 
   constructor(
     private readonly order: DateOrder,
@@ -155,7 +171,9 @@ export function readDateCell(
     // Spreadsheet readers hand over a date cell's fields as UTC: they are
     // the wall-clock time written in the cell, with no zone.
     const wall = cell.getTime();
-    return Number.isNaN(wall) ? { error: "the cell is not a valid date" } : { wall, hasTime: true };
+    return Number.isNaN(wall)
+      ? { error: "the cell is not a valid date" }
+      : { wall, hasTime: true };
   }
   if (typeof cell === "number") {
     // 1 = 1900-01-01 … 2958465 = 9999-12-31: the serials a spreadsheet shows as dates.
@@ -165,7 +183,9 @@ export function readDateCell(
     return { error: `${cell} is not a date` };
   }
   if (typeof cell === "boolean") return { error: `${cell} is not a date` };
-  return typeof order === "string" ? parseDateText(cell, order) : order.parse(cell);
+  return typeof order === "string"
+    ? parseDateText(cell, order)
+    : order.parse(cell);
 }
 
 export interface DateOrderGuess {
@@ -181,7 +201,10 @@ export interface DateOrderGuess {
  * of the file is the 12th or earlier) the file is read day first, the UK
  * convention the trade's files follow, and the note says so.
  */
-export function detectDateOrder(cells: Iterable<Cell>, columnName: string): DateOrderGuess {
+export function detectDateOrder(
+  cells: Iterable<Cell>,
+  columnName: string,
+): DateOrderGuess {
   let slashed = 0;
   let yearFirst = 0;
   let dayFirstExample: string | null = null;

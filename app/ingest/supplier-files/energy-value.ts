@@ -13,7 +13,8 @@ export type EnergyCellResult =
 
 // Plain digits, or digits grouped in threes by commas ("1,234.5", the UK and
 // US way of writing thousands), with an optional decimal point and exponent.
-const NUMBER_TEXT = /^[+-]?(?:\d{1,3}(?:,\d{3})+|\d+)?(?:\.\d+)?(?:[eE][+-]?\d+)?$/;
+const NUMBER_TEXT =
+  /^[+-]?(?:\d{1,3}(?:,\d{3})+|\d+)?(?:\.\d+)?(?:[eE][+-]?\d+)?$/;
 
 function refuseNegative(kwh: number, shown: string): EnergyCellResult {
   if (kwh < 0) {
@@ -28,7 +29,8 @@ function refuseNegative(kwh: number, shown: string): EnergyCellResult {
 export function readEnergyCell(cell: Cell): EnergyCellResult {
   if (cell === null || cell === undefined) return null;
   if (typeof cell === "number") {
-    if (!Number.isFinite(cell)) return { error: `${cell} is not a number of kWh` };
+    if (!Number.isFinite(cell))
+      return { error: `${cell} is not a number of kWh` };
     return refuseNegative(cell, String(cell));
   }
   if (typeof cell !== "string") {

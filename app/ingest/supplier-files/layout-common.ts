@@ -31,7 +31,10 @@ export function meterOf(
   }
   const code = String(cell).trim();
   if (code.length > METER_CODE_MAX) {
-    return { error: `the meter code is longer than ${METER_CODE_MAX} characters`, column };
+    return {
+      error: `the meter code is longer than ${METER_CODE_MAX} characters`,
+      column,
+    };
   }
   return { code };
 }
@@ -52,7 +55,9 @@ export function mappingErrors(
     }
   }
   if ("code" in meter && meter.code.trim() === "") {
-    problems.push("Choose the meter the file is for, or the column that holds meter codes.");
+    problems.push(
+      "Choose the meter the file is for, or the column that holds meter codes.",
+    );
   }
   return problems;
 }
@@ -95,10 +100,20 @@ export function formatWallTime(wall: number): string {
 /** "an hour", "30 minutes": how far the clocks move. */
 export function clockShift(minutes: number): string {
   const m = Math.abs(minutes);
-  return m === 60 ? "an hour" : m % 60 === 0 ? `${m / 60} hours` : `${m} minutes`;
+  return m === 60
+    ? "an hour"
+    : m % 60 === 0
+      ? `${m / 60} hours`
+      : `${m} minutes`;
 }
 
 /** "half-hours", "hours", "quarter-hours" for a resolution. */
 export function intervalWord(minutes: number): string {
-  return minutes === 30 ? "half-hours" : minutes === 60 ? "hours" : minutes === 15 ? "quarter-hours" : `${minutes}-minute intervals`;
+  return minutes === 30
+    ? "half-hours"
+    : minutes === 60
+      ? "hours"
+      : minutes === 15
+        ? "quarter-hours"
+        : `${minutes}-minute intervals`;
 }

@@ -27,12 +27,16 @@ const byColumns = (marks: "start" | "end"): LongLayoutMapping => ({
   intervalMinutes: 30,
 });
 
-const spans = (r: ReturnType<typeof parseLongLayout>) => r.readings.map((x) => `${x.start} ${x.end}`);
+const spans = (r: ReturnType<typeof parseLongLayout>) =>
+  r.readings.map((x) => `${x.start} ${x.end}`);
 
 describe("parseLongLayout: times and zones", () => {
   it("reads start-stamped rows in the site's zone: GMT in January, BST in July", () => {
     const r = parseLongLayout(
-      table(["CH-EL1,15/01/2026 00:00,12.5", 'CH-EL1,01/07/2026 00:00,"1,234.5"']),
+      table([
+        "CH-EL1,15/01/2026 00:00,12.5",
+        'CH-EL1,01/07/2026 00:00,"1,234.5"',
+      ]),
       byColumns("start"),
       LONDON,
     );
@@ -70,7 +74,12 @@ describe("parseLongLayout: times and zones", () => {
 
   it("refuses 01:00 and 01:30 on 29 March 2026, which do not exist in London, and reads 02:00 as 01:00 UTC", () => {
     const r = parseLongLayout(
-      table(["CH-EL1,29/03/2026 00:30,1", "CH-EL1,29/03/2026 01:00,1", "CH-EL1,29/03/2026 01:30,1", "CH-EL1,29/03/2026 02:00,1"]),
+      table([
+        "CH-EL1,29/03/2026 00:30,1",
+        "CH-EL1,29/03/2026 01:00,1",
+        "CH-EL1,29/03/2026 01:30,1",
+        "CH-EL1,29/03/2026 02:00,1",
+      ]),
       byColumns("start"),
       LONDON,
     );
@@ -78,12 +87,14 @@ describe("parseLongLayout: times and zones", () => {
       {
         row: 3,
         column: "time",
-        message: "29/03/2026 01:00 does not exist in Europe/London: the clocks go forward an hour that night",
+        message:
+          "29/03/2026 01:00 does not exist in Europe/London: the clocks go forward an hour that night",
       },
       {
         row: 4,
         column: "time",
-        message: "29/03/2026 01:30 does not exist in Europe/London: the clocks go forward an hour that night",
+        message:
+          "29/03/2026 01:30 does not exist in Europe/London: the clocks go forward an hour that night",
       },
     ]);
     expect(spans(r)).toEqual([
@@ -109,7 +120,9 @@ describe("parseLongLayout: times and zones", () => {
       "2026-10-25T01:30:00.000Z",
       "2026-10-25T02:00:00.000Z",
     ]);
-    expect(r.notes.join(" ")).toContain("25/10/2026: the clocks go back in Europe/London");
+    expect(r.notes.join(" ")).toContain(
+      "25/10/2026: the clocks go back in Europe/London",
+    );
   });
 
   it("reads the same repeated stamps as interval ends when the file stamps ends", () => {
@@ -130,7 +143,12 @@ describe("parseLongLayout: times and zones", () => {
 
   it("counts the repeat per meter, and refuses a third row at a repeated time", () => {
     const r = parseLongLayout(
-      table(["A,25/10/2026 01:00,1", "B,25/10/2026 01:00,1", "A,25/10/2026 01:00,1", "A,25/10/2026 01:00,1"]),
+      table([
+        "A,25/10/2026 01:00,1",
+        "B,25/10/2026 01:00,1",
+        "A,25/10/2026 01:00,1",
+        "A,25/10/2026 01:00,1",
+      ]),
       byColumns("start"),
       LONDON,
     );
@@ -143,7 +161,8 @@ describe("parseLongLayout: times and zones", () => {
       {
         row: 5,
         column: "time",
-        message: "25/10/2026 01:00 happens twice in Europe/London, and this is its third row for meter A",
+        message:
+          "25/10/2026 01:00 happens twice in Europe/London, and this is its third row for meter A",
       },
     ]);
   });
@@ -155,29 +174,55 @@ describe("parseLongLayout: times and zones", () => {
       LONDON,
     );
     expect(r.errors).toEqual([]);
-    expect(r.readings.map((x) => x.start)).toEqual(["2026-03-29T00:30:00.000Z", "2026-03-29T01:30:00.000Z"]);
+    expect(r.readings.map((x) => x.start)).toEqual([
+      "2026-03-29T00:30:00.000Z",
+      "2026-03-29T01:30:00.000Z",
+    ]);
   });
 
   it("reads a file kept in GMT all year when the zone is UTC", () => {
-    const r = parseLongLayout(table(["A,29/03/2026 01:00,1"]), byColumns("start"), { timeZone: "UTC" });
-    expect(r.readings.map((x) => x.start)).toEqual(["2026-03-29T01:00:00.000Z"]);
+    const r = parseLongLayout(
+      table(["A,29/03/2026 01:00,1"]),
+      byColumns("start"),
+      { timeZone: "UTC" },
+    );
+    expect(r.readings.map((x) => x.start)).toEqual([
+      "2026-03-29T01:00:00.000Z",
+    ]);
   });
 
   it("makes quarter-hour and hourly intervals from the mapping's resolution", () => {
     const t = table(["A,15/01/2026 10:00,1"]);
-    expect(spans(parseLongLayout(t, { ...byColumns("start"), intervalMinutes: 15 }, LONDON))).toEqual([
-      "2026-01-15T10:00:00.000Z 2026-01-15T10:15:00.000Z",
-    ]);
-    expect(spans(parseLongLayout(t, { ...byColumns("end"), intervalMinutes: 60 }, LONDON))).toEqual([
-      "2026-01-15T09:00:00.000Z 2026-01-15T10:00:00.000Z",
-    ]);
+    expect(
+      spans(
+        parseLongLayout(
+          t,
+          { ...byColumns("start"), intervalMinutes: 15 },
+          LONDON,
+        ),
+      ),
+    ).toEqual(["2026-01-15T10:00:00.000Z 2026-01-15T10:15:00.000Z"]);
+    expect(
+      spans(
+        parseLongLayout(
+          t,
+          { ...byColumns("end"), intervalMinutes: 60 },
+          LONDON,
+        ),
+      ),
+    ).toEqual(["2026-01-15T09:00:00.000Z 2026-01-15T10:00:00.000Z"]);
   });
 });
 
 describe("parseLongLayout: values, meters and refusals", () => {
   it("skips blank values (no reading, not zero), refuses negative and non-numeric ones with row and column", () => {
     const r = parseLongLayout(
-      table(["A,15/01/2026 00:00,", "A,15/01/2026 00:30,0", "A,15/01/2026 01:00,-2", "A,15/01/2026 01:30,lots"]),
+      table([
+        "A,15/01/2026 00:00,",
+        "A,15/01/2026 00:30,0",
+        "A,15/01/2026 01:00,-2",
+        "A,15/01/2026 01:30,lots",
+      ]),
       byColumns("start"),
       LONDON,
     );
@@ -192,11 +237,19 @@ describe("parseLongLayout: values, meters and refusals", () => {
   });
 
   it("names every problem of a row, and refuses a date without a time", () => {
-    const r = parseLongLayout(table([",not a date,-1", "A,15/01/2026,1"]), byColumns("start"), LONDON);
+    const r = parseLongLayout(
+      table([",not a date,-1", "A,15/01/2026,1"]),
+      byColumns("start"),
+      LONDON,
+    );
     expect(r.errors).toEqual([
       { row: 2, column: "meter", message: "no meter code" },
       { row: 2, column: "kWh", message: expect.stringContaining("negative") },
-      { row: 2, column: "time", message: expect.stringContaining('"not a date" is not a date and time') },
+      {
+        row: 2,
+        column: "time",
+        message: expect.stringContaining('"not a date" is not a date and time'),
+      },
       { row: 3, column: "time", message: "15/01/2026 has no time of day" },
     ]);
     expect(r.readings).toEqual([]);
@@ -206,20 +259,38 @@ describe("parseLongLayout: values, meters and refusals", () => {
     const t = toTable(readCsv("Date,Consumption\n15/01/2026 00:00,4\n"))!;
     const r = parseLongLayout(
       t,
-      { layout: "long", meter: { code: " NP-EL1 " }, time: { column: 0, marks: "start" }, energy: { column: 1 }, intervalMinutes: 30 },
+      {
+        layout: "long",
+        meter: { code: " NP-EL1 " },
+        time: { column: 0, marks: "start" },
+        energy: { column: 1 },
+        intervalMinutes: 30,
+      },
       LONDON,
     );
-    expect(r.readings.map((x) => [x.meter, x.energy_kwh])).toEqual([["NP-EL1", 4]]);
+    expect(r.readings.map((x) => [x.meter, x.energy_kwh])).toEqual([
+      ["NP-EL1", 4],
+    ]);
   });
 
   it("refuses a second row for the same interval and meter, naming the first", () => {
     const r = parseLongLayout(
-      table(["A,15/01/2026 00:00,1", "A,15/01/2026 00:00,2", "B,15/01/2026 00:00,2"]),
+      table([
+        "A,15/01/2026 00:00,1",
+        "A,15/01/2026 00:00,2",
+        "B,15/01/2026 00:00,2",
+      ]),
       byColumns("start"),
       LONDON,
     );
     expect(r.readings).toHaveLength(2);
-    expect(r.errors).toEqual([{ row: 3, column: "time", message: "row 2 already gives this interval of meter A" }]);
+    expect(r.errors).toEqual([
+      {
+        row: 3,
+        column: "time",
+        message: "row 2 already gives this interval of meter A",
+      },
+    ]);
   });
 
   it("states the date order it chose, and follows the person's choice instead", () => {
@@ -227,7 +298,10 @@ describe("parseLongLayout: values, meters and refusals", () => {
     const guessed = parseLongLayout(t, byColumns("start"), LONDON);
     expect(guessed.readings[0].start).toBe("2026-02-01T00:00:00.000Z");
     expect(guessed.notes[0]).toContain("the UK convention");
-    const chosen = parseLongLayout(t, byColumns("start"), { ...LONDON, dateOrder: "mdy" });
+    const chosen = parseLongLayout(t, byColumns("start"), {
+      ...LONDON,
+      dateOrder: "mdy",
+    });
     expect(chosen.readings[0].start).toBe("2026-01-02T00:00:00.000Z");
     expect(chosen.notes).toEqual([]);
   });
@@ -236,7 +310,11 @@ describe("parseLongLayout: values, meters and refusals", () => {
     const t = table(["A,15/01/2026 00:00,1"]);
     const r = parseLongLayout(
       t,
-      { ...byColumns("start"), energy: { column: 7 }, intervalMinutes: 20 as 30 },
+      {
+        ...byColumns("start"),
+        energy: { column: 7 },
+        intervalMinutes: 20 as 30,
+      },
       { timeZone: "Nowhere/Town" },
     );
     expect(r.readings).toEqual([]);
@@ -245,14 +323,21 @@ describe("parseLongLayout: values, meters and refusals", () => {
       [1, '"Nowhere/Town" is not a time zone.'],
       [1, "The interval length must be 15, 30 or 60 minutes."],
     ]);
-    expect(parseLongLayout(t, { ...byColumns("start"), meter: { code: "" } }, LONDON).errors[0].message).toContain(
-      "Choose the meter",
-    );
+    expect(
+      parseLongLayout(t, { ...byColumns("start"), meter: { code: "" } }, LONDON)
+        .errors[0].message,
+    ).toContain("Choose the meter");
   });
 
   it("lists the first maxErrors refusals and counts them all", () => {
-    const lines = Array.from({ length: 30 }, (_, i) => `A,15/01/2026 00:00,bad${i}`);
-    const r = parseLongLayout(table(lines), byColumns("start"), { ...LONDON, maxErrors: 5 });
+    const lines = Array.from(
+      { length: 30 },
+      (_, i) => `A,15/01/2026 00:00,bad${i}`,
+    );
+    const r = parseLongLayout(table(lines), byColumns("start"), {
+      ...LONDON,
+      maxErrors: 5,
+    });
     expect(r.errors).toHaveLength(5);
     expect(r.errorCount).toBe(30);
     expect(r.errors[4].row).toBe(6);

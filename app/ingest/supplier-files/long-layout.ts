@@ -4,7 +4,12 @@
  * as many supplier files stamp it, its end; the mapping says which.
  */
 import { columnLabel } from "./columns";
-import { DateTextCache, detectDateOrder, readDateCell, type DateOrder } from "./date-text";
+import {
+  DateTextCache,
+  detectDateOrder,
+  readDateCell,
+  type DateOrder,
+} from "./date-text";
 import { readEnergyCell } from "./energy-value";
 import { ErrorList } from "./error-list";
 import {
@@ -76,24 +81,38 @@ export function parseLongLayout(
   options: ParseOptions,
 ): ParseResult {
   const errors = new ErrorList(options.maxErrors);
-  const result: ParseResult = { readings: [], readingRows: [], errors: errors.errors, errorCount: 0, notes: [] };
+  const result: ParseResult = {
+    readings: [],
+    readingRows: [],
+    errors: errors.errors,
+    errorCount: 0,
+    notes: [],
+  };
   const problems = mappingErrors(
     table,
     { time: mapping.time.column, energy: mapping.energy.column },
     mapping.meter,
   );
-  if (!isValidTimeZone(options.timeZone)) problems.push(`"${options.timeZone}" is not a time zone.`);
+  if (!isValidTimeZone(options.timeZone))
+    problems.push(`"${options.timeZone}" is not a time zone.`);
   if (![15, 30, 60].includes(mapping.intervalMinutes)) {
     problems.push("The interval length must be 15, 30 or 60 minutes.");
   }
-  for (const problem of problems) errors.add(table.headerRowNumber, "", problem);
+  for (const problem of problems)
+    errors.add(table.headerRowNumber, "", problem);
   if (problems.length > 0) return { ...result, errorCount: errors.count };
 
   const { header } = table;
   const timeLabel = columnLabel(header, mapping.time.column);
   const energyLabel = columnLabel(header, mapping.energy.column);
   const order = new DateTextCache(
-    chooseOrder(table, mapping.time.column, timeLabel, options.dateOrder, result.notes),
+    chooseOrder(
+      table,
+      mapping.time.column,
+      timeLabel,
+      options.dateOrder,
+      result.notes,
+    ),
   );
   const clock = new ZoneClock(options.timeZone);
   const iso = new IsoText();
@@ -107,7 +126,11 @@ export function parseLongLayout(
     // A blank value is no reading (not zero): the row is skipped, whatever else it holds.
     if (energy === null) continue;
     const meter = meterOf(mapping.meter, row.cells, header);
-    const time = readDateCell(row.cells[mapping.time.column] ?? null, order, table.date1904);
+    const time = readDateCell(
+      row.cells[mapping.time.column] ?? null,
+      order,
+      table.date1904,
+    );
     let failed = false;
     const refuse = (column: string, message: string) => {
       errors.add(row.number, column, message);
@@ -118,8 +141,10 @@ export function parseLongLayout(
     let instant = NaN;
     if (time === null) refuse(timeLabel, "no time");
     else if ("error" in time) refuse(timeLabel, time.error);
-    else if (!time.hasTime) refuse(timeLabel, `${formatWallDate(time.wall)} has no time of day`);
-    else if (time.offsetMinutes !== undefined) instant = time.wall - time.offsetMinutes * MINUTE_MS;
+    else if (!time.hasTime)
+      refuse(timeLabel, `${formatWallDate(time.wall)} has no time of day`);
+    else if (time.offsetMinutes !== undefined)
+      instant = time.wall - time.offsetMinutes * MINUTE_MS;
     else if (!("error" in meter)) {
       const r = clock.resolve(time.wall);
       if (r.kind === "unique") instant = r.instant;
@@ -143,11 +168,16 @@ export function parseLongLayout(
         }
       }
     }
-    if (failed || "error" in meter || energy === null || "error" in energy) continue;
+    if (failed || "error" in meter || energy === null || "error" in energy)
+      continue;
     const start = mapping.time.marks === "start" ? instant : instant - lengthMs;
     const earlier = seen.claim(meter.code, start, row.number);
     if (earlier !== undefined) {
-      errors.add(row.number, timeLabel, `row ${earlier} already gives this interval of meter ${meter.code}`);
+      errors.add(
+        row.number,
+        timeLabel,
+        `row ${earlier} already gives this interval of meter ${meter.code}`,
+      );
       continue;
     }
     result.readings.push({

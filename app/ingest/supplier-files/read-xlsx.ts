@@ -17,7 +17,8 @@ export interface XlsxOptions {
   sheet?: string | number;
 }
 
-export type XlsxResult = { sheet: Sheet; sheetNames: string[] } | { error: string };
+export type XlsxResult =
+  { sheet: Sheet; sheetNames: string[] } | { error: string };
 
 /** A cell value as exceljs gives it (formula, rich text, hyperlink, error objects included) reduced to a plain cell. */
 export function plainCell(value: unknown): Cell {
@@ -35,7 +36,9 @@ export function plainCell(value: unknown): Cell {
     if ("result" in v) return plainCell(v.result);
     if ("formula" in v || "sharedFormula" in v) return null;
     if (Array.isArray(v.richText)) {
-      return v.richText.map((run: { text?: string }) => run.text ?? "").join("");
+      return v.richText
+        .map((run: { text?: string }) => run.text ?? "")
+        .join("");
     }
     if ("text" in v) return plainCell(v.text);
     if ("error" in v) return String(v.error);
@@ -53,7 +56,9 @@ export async function readXlsx(
     // exceljs's types ask for a Node Buffer; it reads any ArrayBuffer view.
     await workbook.xlsx.load(data as unknown as ArrayBuffer);
   } catch {
-    return { error: "The file could not be read as an Excel workbook (.xlsx)." };
+    return {
+      error: "The file could not be read as an Excel workbook (.xlsx).",
+    };
   }
   const sheetNames = workbook.worksheets.map((ws) => ws.name);
   const worksheet =
@@ -76,7 +81,8 @@ export async function readXlsx(
     const values = row.values as unknown[];
     const cells: Cell[] = [];
     for (let i = 1; i < values.length; i++) cells.push(plainCell(values[i]));
-    if (cells.some((cell) => !isBlank(cell))) rows.push({ number: rowNumber, cells });
+    if (cells.some((cell) => !isBlank(cell)))
+      rows.push({ number: rowNumber, cells });
   });
   const date1904 = Boolean(
     (workbook.properties as { date1904?: boolean } | undefined)?.date1904,

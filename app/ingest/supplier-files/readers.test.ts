@@ -7,7 +7,9 @@ import { toTable } from "./table";
 
 describe("readCsv", () => {
   it("numbers rows as a spreadsheet shows them, blank lines left out but counted", () => {
-    const sheet = readCsv("meter,start,energy_kwh\r\nCH-EL1,01/04/2026 00:00,12.5\r\n\r\nCH-EL1,01/04/2026 00:30,11\r\n");
+    const sheet = readCsv(
+      "meter,start,energy_kwh\r\nCH-EL1,01/04/2026 00:00,12.5\r\n\r\nCH-EL1,01/04/2026 00:30,11\r\n",
+    );
     expect(sheet.rows.map((r) => r.number)).toEqual([1, 2, 4]);
     expect(sheet.rows[2].cells).toEqual(["CH-EL1", "01/04/2026 00:30", "11"]);
   });
@@ -19,7 +21,10 @@ describe("readCsv", () => {
     ]);
     expect(readCsv("meter;kwh\nA;12.5\n").rows[1].cells).toEqual(["A", "12.5"]);
     // A blank line once made papaparse guess a comma for a semicolon file.
-    expect(readCsv("meter;kwh\r\nA;12.5\r\n\r\nB;3\r\n").rows[2]).toEqual({ number: 4, cells: ["B", "3"] });
+    expect(readCsv("meter;kwh\r\nA;12.5\r\n\r\nB;3\r\n").rows[2]).toEqual({
+      number: 4,
+      cells: ["B", "3"],
+    });
   });
 });
 
@@ -28,7 +33,10 @@ describe("toTable", () => {
     const sheet = readCsv("Account 1234,,\nmeter,start,kWh\nA,x,1\n");
     expect(toTable(sheet)?.header).toEqual(["Account 1234", "", ""]);
     const table = toTable(sheet, 2);
-    expect(table).toMatchObject({ header: ["meter", "start", "kWh"], headerRowNumber: 2 });
+    expect(table).toMatchObject({
+      header: ["meter", "start", "kWh"],
+      headerRowNumber: 2,
+    });
     expect(table?.rows.map((r) => r.number)).toEqual([3]);
     expect(toTable(readCsv(""))).toBeNull();
   });
@@ -36,7 +44,15 @@ describe("toTable", () => {
 
 describe("columns", () => {
   it("letters columns as spreadsheets do: A, Z, AA, AZ, BA", () => {
-    expect([0, 25, 26, 51, 52, 701, 702].map(columnLetter)).toEqual(["A", "Z", "AA", "AZ", "BA", "ZZ", "AAA"]);
+    expect([0, 25, 26, 51, 52, 701, 702].map(columnLetter)).toEqual([
+      "A",
+      "Z",
+      "AA",
+      "AZ",
+      "BA",
+      "ZZ",
+      "AAA",
+    ]);
   });
 
   it("names a column by its header, or its letter when the header is blank", () => {
@@ -46,7 +62,9 @@ describe("columns", () => {
   });
 });
 
-async function workbookBytes(fill: (wb: ExcelJS.Workbook) => void): Promise<Uint8Array> {
+async function workbookBytes(
+  fill: (wb: ExcelJS.Workbook) => void,
+): Promise<Uint8Array> {
   const wb = new ExcelJS.Workbook();
   fill(wb);
   return new Uint8Array(await wb.xlsx.writeBuffer());
@@ -67,7 +85,10 @@ describe("readXlsx", () => {
     expect(result.sheetNames).toEqual(["Half-hours"]);
     expect(result.sheet.date1904).toBe(false);
     const [header, dated, serial] = result.sheet.rows;
-    expect(header).toEqual({ number: 1, cells: ["meter", "start", "energy_kwh"] });
+    expect(header).toEqual({
+      number: 1,
+      cells: ["meter", "start", "energy_kwh"],
+    });
     expect(dated.cells[1]).toEqual(new Date("2026-10-25T01:30:00Z"));
     expect(serial.cells).toEqual(["CH-EL1", 46110 + 1 / 48, 7.25]);
   });
@@ -100,8 +121,12 @@ describe("readXlsx", () => {
   });
 
   it("reduces exceljs's rich text, hyperlink and error values to plain cells", () => {
-    expect(plainCell({ richText: [{ text: "CH-" }, { text: "EL1" }] })).toBe("CH-EL1");
-    expect(plainCell({ text: "NP-EL1", hyperlink: "https://example.org" })).toBe("NP-EL1");
+    expect(plainCell({ richText: [{ text: "CH-" }, { text: "EL1" }] })).toBe(
+      "CH-EL1",
+    );
+    expect(
+      plainCell({ text: "NP-EL1", hyperlink: "https://example.org" }),
+    ).toBe("NP-EL1");
     expect(plainCell({ error: "#N/A" })).toBe("#N/A");
     expect(plainCell({ formula: "A1" })).toBeNull();
     expect(plainCell(undefined)).toBeNull();

@@ -9,22 +9,33 @@ import type { SupplierFileMapping } from "./parse-supplier-file";
 import type { IntervalMinutes } from "./types";
 import { resolutionOfColumnCount } from "./wide-layout";
 
-const INTERVAL_HEADING = /^(?:\d{1,2}[:.]\d{2}(?::\d{2})?|(?:hh|p|period|interval)?\s*\d{1,3})$/i;
+const INTERVAL_HEADING =
+  /^(?:\d{1,2}[:.]\d{2}(?::\d{2})?|(?:hh|p|period|interval)?\s*\d{1,3})$/i;
 
-function findColumn(header: readonly string[], pattern: RegExp, except: number[] = []): number {
+function findColumn(
+  header: readonly string[],
+  pattern: RegExp,
+  except: number[] = [],
+): number {
   return header.findIndex((h, i) => pattern.test(h) && !except.includes(i));
 }
 
 /** The longest run of interval-like headings whose length is a day's count of intervals. */
-function intervalRun(header: readonly string[]): { firstColumn: number; count: number } | null {
+function intervalRun(
+  header: readonly string[],
+): { firstColumn: number; count: number } | null {
   let best: { firstColumn: number; count: number } | null = null;
   let start = -1;
   for (let i = 0; i <= header.length; i++) {
-    const isInterval = i < header.length && INTERVAL_HEADING.test(header[i].trim());
+    const isInterval =
+      i < header.length && INTERVAL_HEADING.test(header[i].trim());
     if (isInterval && start < 0) start = i;
     if (!isInterval && start >= 0) {
       const count = i - start;
-      if (resolutionOfColumnCount(count) !== undefined && (best === null || count > best.count)) {
+      if (
+        resolutionOfColumnCount(count) !== undefined &&
+        (best === null || count > best.count)
+      ) {
         best = { firstColumn: start, count };
       }
       start = -1;
@@ -46,8 +57,15 @@ export function suggestMapping(
     return { layout: "wide", meter, date: { column: date }, intervals: run };
   }
   const taken = [meterColumn];
-  const energy = findColumn(header, /kwh|energy|consumption|usage|value/i, taken);
-  const time = findColumn(header, /start|end|time|date|period|interval/i, [...taken, energy]);
+  const energy = findColumn(
+    header,
+    /kwh|energy|consumption|usage|value/i,
+    taken,
+  );
+  const time = findColumn(header, /start|end|time|date|period|interval/i, [
+    ...taken,
+    energy,
+  ]);
   if (energy < 0 || time < 0) return null;
   return {
     layout: "long",

@@ -29,7 +29,11 @@ export function intervalHeadings(minutes: IntervalMinutes): string[] {
 }
 
 /** An invented working-day profile: a base load, more from 07:00 to 19:00; kWh per interval. */
-function exampleKwh(minuteOfDay: number, minutes: number, scale: number): string {
+function exampleKwh(
+  minuteOfDay: number,
+  minutes: number,
+  scale: number,
+): string {
   const perHour = minuteOfDay >= 420 && minuteOfDay < 1140 ? 42 : 18;
   return ((perHour * scale * minutes) / 60).toFixed(2);
 }
@@ -47,8 +51,17 @@ export function csvTemplate(options: TemplateOptions): string {
   }
   const headings = intervalHeadings(minutes);
   const row = (meter: string, scale: number) =>
-    [meter, EXAMPLE_DATE, ...headings.map((_, k) => exampleKwh(k * minutes, minutes, scale))].join(",");
-  return [["meter", "date", ...headings].join(","), row(first, 1), row(second, 0.6), ""].join("\n");
+    [
+      meter,
+      EXAMPLE_DATE,
+      ...headings.map((_, k) => exampleKwh(k * minutes, minutes, scale)),
+    ].join(",");
+  return [
+    ["meter", "date", ...headings].join(","),
+    row(first, 1),
+    row(second, 0.6),
+    "",
+  ].join("\n");
 }
 
 export function templateFileName(options: TemplateOptions): string {

@@ -53,7 +53,9 @@ const RESOLUTION_OF_COUNT: Record<number, IntervalMinutes> = {
   100: 15,
 };
 
-export function resolutionOfColumnCount(count: number): IntervalMinutes | undefined {
+export function resolutionOfColumnCount(
+  count: number,
+): IntervalMinutes | undefined {
   return RESOLUTION_OF_COUNT[count];
 }
 
@@ -70,9 +72,17 @@ interface DayShape {
   changeWall: string;
 }
 
-function shapeOf(clock: ZoneClock, wallMidnight: number, minutes: number): DayShape | { error: string } {
+function shapeOf(
+  clock: ZoneClock,
+  wallMidnight: number,
+  minutes: number,
+): DayShape | { error: string } {
   const d = new Date(wallMidnight);
-  const day = clock.day(d.getUTCFullYear(), d.getUTCMonth() + 1, d.getUTCDate());
+  const day = clock.day(
+    d.getUTCFullYear(),
+    d.getUTCMonth() + 1,
+    d.getUTCDate(),
+  );
   const lengthMs = minutes * MINUTE_MS;
   const count = (day.end - day.start) / lengthMs;
   if (!Number.isInteger(count)) {
@@ -80,7 +90,10 @@ function shapeOf(clock: ZoneClock, wallMidnight: number, minutes: number): DaySh
       error: `${formatWallDate(wallMidnight)} in ${clock.timeZone} is not a whole number of ${minutes}-minute intervals long`,
     };
   }
-  const starts = Array.from({ length: count }, (_, i) => day.start + i * lengthMs);
+  const starts = Array.from(
+    { length: count },
+    (_, i) => day.start + i * lengthMs,
+  );
   const normal = DAY_MS / lengthMs;
   const byClockColumn: number[] = [];
   let changeWall = "";
@@ -109,12 +122,22 @@ export function parseWideLayout(
   options: ParseOptions,
 ): ParseResult {
   const errors = new ErrorList(options.maxErrors);
-  const result: ParseResult = { readings: [], readingRows: [], errors: errors.errors, errorCount: 0, notes: [] };
+  const result: ParseResult = {
+    readings: [],
+    readingRows: [],
+    errors: errors.errors,
+    errorCount: 0,
+    notes: [],
+  };
   const { firstColumn, count: headerCount } = mapping.intervals;
   const minutes = resolutionOfColumnCount(headerCount);
   const problems = mappingErrors(
     table,
-    { date: mapping.date.column, "first interval": firstColumn, "last interval": firstColumn + headerCount - 1 },
+    {
+      date: mapping.date.column,
+      "first interval": firstColumn,
+      "last interval": firstColumn + headerCount - 1,
+    },
     mapping.meter,
   );
   if (minutes === undefined) {
@@ -122,18 +145,30 @@ export function parseWideLayout(
       `A day has 24 hourly, 48 half-hourly or 96 quarter-hourly intervals (25, 50 or 100 with room for the day the clocks go back); the mapping gives ${headerCount} interval columns.`,
     );
   }
-  if (!isValidTimeZone(options.timeZone)) problems.push(`"${options.timeZone}" is not a time zone.`);
-  for (const problem of problems) errors.add(table.headerRowNumber, "", problem);
-  if (problems.length > 0 || minutes === undefined) return { ...result, errorCount: errors.count };
+  if (!isValidTimeZone(options.timeZone))
+    problems.push(`"${options.timeZone}" is not a time zone.`);
+  for (const problem of problems)
+    errors.add(table.headerRowNumber, "", problem);
+  if (problems.length > 0 || minutes === undefined)
+    return { ...result, errorCount: errors.count };
 
   const { header } = table;
   const dateLabel = columnLabel(header, mapping.date.column);
-  const order = chooseOrder(table, mapping.date.column, dateLabel, options.dateOrder, result.notes);
+  const order = chooseOrder(
+    table,
+    mapping.date.column,
+    dateLabel,
+    options.dateOrder,
+    result.notes,
+  );
   const clock = new ZoneClock(options.timeZone);
   const iso = new IsoText();
   // The ISO text of a placement's starts and ends, made once per day and
   // placement: the 50 meters' rows of a day share the same arrays.
-  const isoTexts = new WeakMap<number[], { starts: string[]; ends: string[] }>();
+  const isoTexts = new WeakMap<
+    number[],
+    { starts: string[]; ends: string[] }
+  >();
   const isoOf = (starts: number[]) => {
     let texts = isoTexts.get(starts);
     if (texts === undefined) {
@@ -154,15 +189,25 @@ export function parseWideLayout(
   const intervalsEndRow = firstColumn + headerCount === header.length;
 
   for (const row of table.rows) {
-    const available = intervalsEndRow ? Math.max(headerCount, row.cells.length - firstColumn) : headerCount;
-    const values: Cell[] = row.cells.slice(firstColumn, firstColumn + available);
+    const available = intervalsEndRow
+      ? Math.max(headerCount, row.cells.length - firstColumn)
+      : headerCount;
+    const values: Cell[] = row.cells.slice(
+      firstColumn,
+      firstColumn + available,
+    );
     const lastFilled = findLastFilled(values);
     if (lastFilled < 0) continue; // a day with no values: nothing to read
-    const refuse = (column: string, message: string) => errors.add(row.number, column, message);
+    const refuse = (column: string, message: string) =>
+      errors.add(row.number, column, message);
 
     const meter = meterOf(mapping.meter, row.cells, header);
     if ("error" in meter) refuse(meter.column, meter.error);
-    const date = readDateCell(row.cells[mapping.date.column] ?? null, order, table.date1904);
+    const date = readDateCell(
+      row.cells[mapping.date.column] ?? null,
+      order,
+      table.date1904,
+    );
     if (date === null) {
       refuse(dateLabel, "no date");
       continue;
@@ -172,14 +217,20 @@ export function parseWideLayout(
       continue;
     }
     if (date.wall % DAY_MS !== 0) {
-      refuse(dateLabel, "expected a date without a time of day: each row is one whole day");
+      refuse(
+        dateLabel,
+        "expected a date without a time of day: each row is one whole day",
+      );
       continue;
     }
     if ("error" in meter) continue;
     const dayKey = `${meter.code}\u0000${date.wall}`;
     const earlierRow = seenDays.get(dayKey);
     if (earlierRow !== undefined) {
-      refuse(dateLabel, `row ${earlierRow} already gives ${formatWallDate(date.wall)} for meter ${meter.code}`);
+      refuse(
+        dateLabel,
+        `row ${earlierRow} already gives ${formatWallDate(date.wall)} for meter ${meter.code}`,
+      );
       continue;
     }
     seenDays.set(dayKey, row.number);
@@ -203,11 +254,17 @@ export function parseWideLayout(
             ? ` (the clocks go back ${clockShift((shape.count - normal) * minutes)}, so ${shape.changeWall} happens twice)`
             : "";
       const intro = `${dayName} has ${shape.count} ${word} in ${options.timeZone}${change}`;
-      const column = placed.column === undefined ? dateLabel : columnLabel(header, firstColumn + placed.column);
+      const column =
+        placed.column === undefined
+          ? dateLabel
+          : columnLabel(header, firstColumn + placed.column);
       refuse(column, `${intro}, ${placed.error}`);
       continue;
     }
-    if (placed.note) result.notes.push(`Row ${row.number} (${formatWallDate(date.wall)}): ${placed.note}`);
+    if (placed.note)
+      result.notes.push(
+        `Row ${row.number} (${formatWallDate(date.wall)}): ${placed.note}`,
+      );
 
     const texts = isoOf(placed.starts);
     for (let k = 0; k < placed.starts.length; k++) {
@@ -255,19 +312,31 @@ function placeColumns(
   const { count, starts } = shape;
   if (count === normal) {
     if (lastFilled >= normal) {
-      return { error: `but the row has values past its ${normal}th column`, column: lastFilled };
+      return {
+        error: `but the row has values past its ${normal}th column`,
+        column: lastFilled,
+      };
     }
     return { starts };
   }
   if (count < normal) {
-    const gaps = shape.byClockColumn.flatMap((start, k) => (Number.isNaN(start) ? [k] : []));
+    const gaps = shape.byClockColumn.flatMap((start, k) =>
+      Number.isNaN(start) ? [k] : [],
+    );
     const gapsBlank = gaps.every((k) => isBlank(values[k]));
-    if (gapsBlank && lastFilled < normal) return { starts: shape.byClockColumn };
+    if (gapsBlank && lastFilled < normal)
+      return { starts: shape.byClockColumn };
     if (lastFilled < count) {
-      return { starts, note: `the day's ${count} values read in order, the clock-change hour left out.` };
+      return {
+        starts,
+        note: `the day's ${count} values read in order, the clock-change hour left out.`,
+      };
     }
     if (lastFilled >= normal) {
-      return { error: `but the row has values past its ${normal}th column`, column: lastFilled };
+      return {
+        error: `but the row has values past its ${normal}th column`,
+        column: lastFilled,
+      };
     }
     return {
       error: `but the row has values in the columns for ${shape.changeWall}, times that do not exist that day: leave those ${gaps.length} columns blank, or give the day's ${count} values in order`,
@@ -286,7 +355,10 @@ function placeColumns(
     };
   }
   if (lastFilled >= count) {
-    return { error: `but the row has values past its ${count}th column`, column: lastFilled };
+    return {
+      error: `but the row has values past its ${count}th column`,
+      column: lastFilled,
+    };
   }
   return { starts };
 }

@@ -1,5 +1,10 @@
 import { describe, expect, it } from "vitest";
-import { ZoneClock, isValidTimeZone, offsetMinutesAt, resolveWall } from "./zone-clock";
+import {
+  ZoneClock,
+  isValidTimeZone,
+  offsetMinutesAt,
+  resolveWall,
+} from "./zone-clock";
 
 // Check values: UK civil time is GMT in winter and BST (UTC+1) from 01:00 UTC
 // on the last Sunday of March to 01:00 UTC on the last Sunday of October
@@ -15,25 +20,39 @@ describe("offsetMinutesAt", () => {
   it("is 0 in GMT and 60 in BST, changing at 01:00 UTC on 29 March 2026", () => {
     expect(offsetMinutesAt(Date.parse("2026-01-15T12:00:00Z"), LONDON)).toBe(0);
     expect(offsetMinutesAt(Date.parse("2026-03-29T00:59:59Z"), LONDON)).toBe(0);
-    expect(offsetMinutesAt(Date.parse("2026-03-29T01:00:00Z"), LONDON)).toBe(60);
-    expect(offsetMinutesAt(Date.parse("2026-10-25T00:59:59Z"), LONDON)).toBe(60);
+    expect(offsetMinutesAt(Date.parse("2026-03-29T01:00:00Z"), LONDON)).toBe(
+      60,
+    );
+    expect(offsetMinutesAt(Date.parse("2026-10-25T00:59:59Z"), LONDON)).toBe(
+      60,
+    );
     expect(offsetMinutesAt(Date.parse("2026-10-25T01:00:00Z"), LONDON)).toBe(0);
   });
 
   it("reads zones west of UTC as negative (New York EST −5 h)", () => {
-    expect(offsetMinutesAt(Date.parse("2026-01-15T12:00:00Z"), "America/New_York")).toBe(-300);
+    expect(
+      offsetMinutesAt(Date.parse("2026-01-15T12:00:00Z"), "America/New_York"),
+    ).toBe(-300);
   });
 });
 
 describe("resolveWall", () => {
   it("gives one instant for an ordinary time: 12:00 BST on 1 July 2026 is 11:00 UTC", () => {
     const r = resolveWall(wall("2026-07-01T12:00:00"), LONDON);
-    expect(r).toEqual({ kind: "unique", instant: Date.parse("2026-07-01T11:00:00Z") });
+    expect(r).toEqual({
+      kind: "unique",
+      instant: Date.parse("2026-07-01T11:00:00Z"),
+    });
   });
 
   it("finds no instant for 01:30 on 29 March 2026: the clocks jump from 01:00 to 02:00", () => {
-    expect(resolveWall(wall("2026-03-29T01:30:00"), LONDON)).toEqual({ kind: "skipped", gapMinutes: 60 });
-    expect(resolveWall(wall("2026-03-29T01:00:00"), LONDON).kind).toBe("skipped");
+    expect(resolveWall(wall("2026-03-29T01:30:00"), LONDON)).toEqual({
+      kind: "skipped",
+      gapMinutes: 60,
+    });
+    expect(resolveWall(wall("2026-03-29T01:00:00"), LONDON).kind).toBe(
+      "skipped",
+    );
     expect(resolveWall(wall("2026-03-29T02:00:00"), LONDON)).toEqual({
       kind: "unique",
       instant: Date.parse("2026-03-29T01:00:00Z"),
@@ -44,11 +63,16 @@ describe("resolveWall", () => {
     const r = resolveWall(wall("2026-10-25T01:30:00"), LONDON);
     expect(r.kind).toBe("repeated");
     if (r.kind !== "repeated") return;
-    expect([iso(r.earlier), iso(r.later)]).toEqual(["2026-10-25T00:30:00.000Z", "2026-10-25T01:30:00.000Z"]);
+    expect([iso(r.earlier), iso(r.later)]).toEqual([
+      "2026-10-25T00:30:00.000Z",
+      "2026-10-25T01:30:00.000Z",
+    ]);
   });
 
   it("knows another zone's rules: 02:30 on 8 March 2026 does not exist in New York", () => {
-    expect(resolveWall(wall("2026-03-08T02:30:00"), "America/New_York").kind).toBe("skipped");
+    expect(
+      resolveWall(wall("2026-03-08T02:30:00"), "America/New_York").kind,
+    ).toBe("skipped");
   });
 });
 
@@ -63,13 +87,20 @@ describe("ZoneClock", () => {
       false,
     ]);
     const autumn = clock.day(2026, 10, 25);
-    expect([iso(autumn.start), iso(autumn.end)]).toEqual(["2026-10-24T23:00:00.000Z", "2026-10-26T00:00:00.000Z"]);
+    expect([iso(autumn.start), iso(autumn.end)]).toEqual([
+      "2026-10-24T23:00:00.000Z",
+      "2026-10-26T00:00:00.000Z",
+    ]);
     expect((autumn.end - autumn.start) / 3_600_000).toBe(25);
   });
 
   it("takes a summer day's offset from the cache: 1 July 2026 00:00 BST is 30 June 23:00 UTC", () => {
     const day = clock.day(2026, 7, 1);
-    expect([iso(day.start), day.steady, day.offsetMinutes]).toEqual(["2026-06-30T23:00:00.000Z", true, 60]);
+    expect([iso(day.start), day.steady, day.offsetMinutes]).toEqual([
+      "2026-06-30T23:00:00.000Z",
+      true,
+      60,
+    ]);
     expect(clock.resolve(wall("2026-07-01T13:30:00"))).toEqual({
       kind: "unique",
       instant: Date.parse("2026-07-01T12:30:00Z"),

@@ -79,7 +79,14 @@ export function offsetMinutesAt(instant: number, timeZone: string): number {
   for (const part of formatterFor(timeZone).formatToParts(whole)) {
     if (part.type !== "literal") f[part.type] = Number(part.value);
   }
-  const asWall = Date.UTC(f.year, f.month - 1, f.day, f.hour, f.minute, f.second);
+  const asWall = Date.UTC(
+    f.year,
+    f.month - 1,
+    f.day,
+    f.hour,
+    f.minute,
+    f.second,
+  );
   return (asWall - whole) / MINUTE_MS;
 }
 
