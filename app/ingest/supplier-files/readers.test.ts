@@ -3,6 +3,7 @@ import { describe, expect, it } from "vitest";
 import { columnLabel, columnLetter } from "./columns";
 import { readCsv } from "./read-csv";
 import { plainCell, readXlsx } from "./read-xlsx";
+import { readXlsxStream } from "./read-xlsx-stream.server";
 import { toTable } from "./table";
 
 describe("readCsv", () => {
@@ -130,5 +131,39 @@ describe("readXlsx", () => {
     expect(plainCell({ error: "#N/A" })).toBe("#N/A");
     expect(plainCell({ formula: "A1" })).toBeNull();
     expect(plainCell(undefined)).toBeNull();
+  });
+});
+
+describe("readXlsxStream (server)", () => {
+  it("gives the same rows as readXlsx: text, date cells, serials, formula results, row numbers", async () => {
+    const bytes = await workbookBytes((wb) => {
+      wb.addWorksheet("Notes").addRow(["not this one"]);
+      const ws = wb.addWorksheet("Half-hours");
+      ws.addRow(["meter", "start", "energy_kwh"]);
+      ws
+        .addRow(["CH-EL1", new Date("2026-10-25T01:30:00Z"), 12.5])
+        .getCell(2).numFmt = "dd/mm/yyyy hh:mm";
+      ws.getCell("A5").value = "NP-EL1";
+      ws.getCell("B5").value = 46110 + 1 / 48;
+      ws.getCell("C5").value = { formula: "1+1", result: 2 };
+    });
+    const streamed = await readXlsxStream(bytes, { sheet: "Half-hours" });
+    expect(streamed).toEqual(await readXlsx(bytes, { sheet: "Half-hours" }));
+    if ("error" in streamed) throw new Error(streamed.error);
+    expect(streamed.sheet.rows.map((r) => r.number)).toEqual([1, 2, 5]);
+    expect(streamed.sheet.rows[1].cells[1]).toEqual(
+      new Date("2026-10-25T01:30:00Z"),
+    );
+    expect(await readXlsxStream(bytes, { sheet: 3 })).toEqual({
+      error: 'The workbook has no worksheet "3"; it has Notes, Half-hours.',
+    });
+  });
+
+  it("answers an error for bytes that are not a workbook", async () => {
+    expect(
+      await readXlsxStream(new TextEncoder().encode("meter,start\n")),
+    ).toEqual({
+      error: "The file could not be read as an Excel workbook (.xlsx).",
+    });
   });
 });
