@@ -6,12 +6,14 @@ import { benchPhysics } from "./physics.bench";
 import { benchLedger } from "./ledger.bench";
 import { benchReadings } from "./readings.bench";
 import { benchReports } from "./reports.bench";
+import { benchSupplierFiles } from "./supplier-files.bench";
 
 const BENCHES: Record<string, () => Promise<void>> = {
   physics: benchPhysics,
   readings: benchReadings,
   ledger: benchLedger,
   reports: benchReports,
+  "supplier-files": benchSupplierFiles,
 };
 
 const asked = process.argv.slice(2);
