@@ -1,5 +1,5 @@
 import { listBaselines, siteMonths } from "~/baselines/baselines.server";
-import { avoidedEnergy, predict } from "~/baselines/regression";
+import { avoidedEnergy, monthsFitted, predict } from "~/baselines/regression";
 import { and, count, eq, exists, isNull } from "drizzle-orm";
 import { db, pool } from "~/db/client.server";
 import { baselines, gateways, meters, sites, type Carrier } from "~/db/schema";
@@ -249,6 +249,8 @@ export interface BaselineComparison {
   note: string | null;
   /** The month's degree days lie outside the range the baseline was fitted on. */
   extrapolated: boolean;
+  /** Calendar months the baseline was fitted on; under 12 it carries a caution. */
+  months_fitted: number;
 }
 
 /**
@@ -330,6 +332,7 @@ export async function againstBaseline(
               dds.length > 0 &&
               (figure.dd < Math.min(...dds) - 1e-9 ||
                 figure.dd > Math.max(...dds) + 1e-9),
+            months_fitted: monthsFitted(model.points),
           };
         }),
       );

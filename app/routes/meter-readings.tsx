@@ -147,7 +147,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
           <FetchError error={error} />
           {page && intervals.length > 0 ? (
             <div className="mt-4">
-              <IntervalSummary intervals={intervals} />
+              <IntervalSummary intervals={intervals} meter={meter} />
             </div>
           ) : null}
         </Card>

@@ -129,6 +129,26 @@ describe("on a phone", () => {
   });
 });
 
+describe("a meter's readings summary", () => {
+  /** The summary's figure under `label`, e.g. "Delivered". */
+  async function summaryFigure(meterId: string, label: string) {
+    await open(`/o/${org.org.id}/meters/${meterId}/readings`);
+    const term = page.locator("dt", { hasText: new RegExp(`^${label}$`) });
+    await term.waitFor();
+    return term.locator("xpath=following-sibling::dd").textContent();
+  }
+
+  it("names an import meter's energy delivered and an export meter's exported, each positive", async () => {
+    expect(await summaryFigure(org.meters.register.id, "Delivered")).toMatch(
+      /^\d[\d,.]* kWh$/,
+    );
+    expect(await summaryFigure(org.meters.export.id, "Exported")).toMatch(
+      /^\d[\d,.]* kWh$/,
+    );
+    expect(await page.locator("dt", { hasText: "Signed" }).count()).toBe(0);
+  });
+});
+
 describe("no page of an organisation scrolls sideways on a phone", () => {
   const pages = [
     "overview",

@@ -211,6 +211,10 @@ describe("Overview", () => {
     expect(row![1]).toMatch(
       /data-direction="up"[^>]*bg-danger-700[^>]*>.*▲.*\+20\.0 %/,
     );
+    // Six months fitted: the page's and the reports' caution, here too.
+    expect(row![1].replace(/<!-- -->/g, "")).toContain(
+      "Fitted on 6 months only: treat with caution",
+    );
 
     // A newer baseline of the same site and carrier takes over: still one row.
     expect(
@@ -236,5 +240,6 @@ describe("Overview", () => {
     expect(again.match(/<tr[^>]*data-site=/g)).toHaveLength(1);
     expect(again).toContain(`baseline=${newest.id}`);
     expect(again).not.toContain(`baseline=${baseline.id}`);
+    expect(again.replace(/<!-- -->/g, "")).toContain("Fitted on 4 months only");
   });
 });

@@ -3,11 +3,11 @@ import {
   ClientSideRowModelModule,
   ModuleRegistry,
   RowAutoHeightModule,
-  themeQuartz,
   type ColDef,
   type ICellRendererParams,
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
+import { gridTheme } from "~/components/grid-theme";
 import { useMemo, type ReactNode } from "react";
 import { Badge } from "~/components/ui";
 import { dateTimeIn } from "~/lib/format";
@@ -19,15 +19,6 @@ ModuleRegistry.registerModules([
   CellStyleModule,
   RowAutoHeightModule,
 ]);
-
-const theme = themeQuartz.withParams({
-  fontFamily: "inherit",
-  headerBackgroundColor: "#ece8df",
-  accentColor: "#0f5546",
-  borderColor: "#dcd6ca",
-  fontSize: 14,
-  cellHorizontalPaddingScale: 0.7,
-});
 
 /**
  * Cells hold several short lines: each renderer pads its own content, as
@@ -186,7 +177,7 @@ export function AuditGrid({ entries }: { entries: AuditEntry[] }) {
   return (
     <AgGridReact<AuditEntry>
       domLayout="autoHeight"
-      theme={theme}
+      theme={gridTheme}
       rowData={entries}
       columnDefs={columns}
       defaultColDef={defaultColumn}

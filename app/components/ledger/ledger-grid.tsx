@@ -5,7 +5,6 @@ import {
   PinnedRowModule,
   RowAutoHeightModule,
   RowStyleModule,
-  themeQuartz,
   type ColDef,
   type ICellRendererParams,
   type RowClassParams,
@@ -13,6 +12,7 @@ import {
   type ValueGetterParams,
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
+import { gridTheme } from "~/components/grid-theme";
 import { useMemo } from "react";
 import { Link } from "react-router";
 import { CarrierBadge } from "~/components/carrier-badge";
@@ -45,15 +45,6 @@ ModuleRegistry.registerModules([
  * pinned at the left, so the figures start beside it instead of off screen.
  */
 const NARROW_GRID_PX = 600;
-
-const theme = themeQuartz.withParams({
-  fontFamily: "inherit",
-  headerBackgroundColor: "#ece8df",
-  accentColor: "#0f5546",
-  borderColor: "#dcd6ca",
-  fontSize: 14,
-  cellHorizontalPaddingScale: 0.7,
-});
 
 interface GridRow extends Omit<LedgerRow, "carrier" | "status"> {
   id: string;
@@ -254,7 +245,7 @@ export function LedgerGrid({
       valueGetter: energy(pick),
       valueFormatter: (p) => show(p.value),
       cellClass: ["ag-right-aligned-cell", "tabular-nums"],
-      minWidth: 96,
+      minWidth: 88,
       flex: 1,
     });
 
@@ -265,7 +256,7 @@ export function LedgerGrid({
             headerName: "Site",
             field: "site_name",
             cellRenderer: GroupCell,
-            minWidth: 140,
+            minWidth: 128,
             flex: 1.5,
           },
           {
@@ -346,7 +337,7 @@ export function LedgerGrid({
         // widths and pinning across column updates.
         key={narrow ? "narrow" : "wide"}
         domLayout={short ? "autoHeight" : "normal"}
-        theme={theme}
+        theme={gridTheme}
         rowData={rows}
         pinnedBottomRowData={totals}
         columnDefs={columns}

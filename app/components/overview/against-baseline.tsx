@@ -1,4 +1,6 @@
+import type { ReactNode } from "react";
 import { Link } from "react-router";
+import { FULL_YEAR_MONTHS } from "~/baselines/regression";
 import type { BaselineComparison } from "~/overview/estate-overview.server";
 import { SectionCard } from "~/components/section-card";
 import {
@@ -10,6 +12,31 @@ import { EmptyState } from "~/components/ui";
 
 /** Beyond this share either side of the baseline, a month is marked. */
 const BASELINE_TOLERANCE = 0.1;
+
+/**
+ * Why a row's figures need care: a missing figure, degree days outside the
+ * fitted range, or a baseline fitted on under a year (the same rule as the
+ * Weather & baselines page and the signed reports).
+ */
+function baselineNote(r: BaselineComparison): ReactNode {
+  const notes = [
+    r.note ??
+      (r.extrapolated ? "degree days outside the baseline's range" : null),
+  ].filter(Boolean);
+  const short = r.months_fitted < FULL_YEAR_MONTHS;
+  if (!notes.length && !short) return null;
+  return (
+    <>
+      {notes.join("; ")}
+      {short ? (
+        <span className="block font-semibold text-caution-700" data-short-fit>
+          Fitted on {r.months_fitted} month{r.months_fitted === 1 ? "" : "s"}{" "}
+          only: treat with caution
+        </span>
+      ) : null}
+    </>
+  );
+}
 
 /** Each site's `month` against what its newest saved baseline predicts. */
 export function AgainstBaseline({
@@ -48,11 +75,7 @@ export function AgainstBaseline({
               siteId={r.site_id}
               siteName={r.site_name}
               siteLink={`${base}/weather?site=${r.site_id}&carrier=${r.carrier}&baseline=${r.baseline_id}&reportFrom=${r.month}&reportTo=${r.month}`}
-              note={
-                r.note || r.extrapolated
-                  ? (r.note ?? "degree days outside the baseline's range")
-                  : null
-              }
+              note={baselineNote(r)}
               carrier={r.carrier}
               figures={[r.actual_kwh, r.expected_kwh]}
               change={r.difference}

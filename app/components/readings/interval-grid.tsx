@@ -6,10 +6,10 @@ import {
   PaginationModule,
   RowSelectionModule,
   TextFilterModule,
-  themeQuartz,
   type ColDef,
 } from "ag-grid-community";
 import { AgGridReact } from "ag-grid-react";
+import { gridTheme } from "~/components/grid-theme";
 import { useCallback, useMemo } from "react";
 import { dateTimeIn, dayMonthTimeIn, formatHourKwh } from "~/lib/format";
 import { useWidth } from "~/lib/use-width";
@@ -24,14 +24,6 @@ ModuleRegistry.registerModules([
   PaginationModule,
   RowSelectionModule,
 ]);
-
-const theme = themeQuartz.withParams({
-  fontFamily: "inherit",
-  headerBackgroundColor: "#ece8df",
-  accentColor: "#0f5546",
-  borderColor: "#dcd6ca",
-  fontSize: 14,
-});
 
 /** Quality in the energy manager's words; the API keeps the stored names. */
 /**
@@ -136,7 +128,7 @@ export function IntervalGrid({
         // A new grid when the layout changes: a grid keeps its columns'
         // widths and pinning across column updates.
         key={narrow ? "narrow" : "wide"}
-        theme={theme}
+        theme={gridTheme}
         rowData={intervals}
         columnDefs={columns}
         getRowId={(p) => p.data.hour_start}

@@ -1,15 +1,39 @@
+import { deliveredSign } from "~/ledger/delivered";
+import type { Carrier, Orientation } from "~/sites/meter-kinds";
 import type { Interval } from "./use-intervals";
 
-/** The hours shown, their signed total, and how many are estimated, corrected or flagged. */
-export function IntervalSummary({ intervals }: { intervals: Interval[] }) {
-  const total = intervals.reduce((s, i) => s + Number(i.energy_kwh), 0);
+/**
+ * The hours' energy as the meter's role names it: an import meter's
+ * delivered energy (chilled water: cooling delivered), an export meter's
+ * exported energy, each a positive figure; the hours are stored with the
+ * boundary's sign (into the site +).
+ */
+function deliveredOrExported(
+  intervals: Interval[],
+  meter: { carrier: Carrier; orientation: Orientation },
+): [label: string, kwh: number] {
+  const net = intervals.reduce((s, i) => s + Number(i.energy_kwh), 0);
+  return meter.orientation === "export"
+    ? ["Exported", -net]
+    : ["Delivered", deliveredSign(meter.carrier) * net];
+}
+
+/** The hours shown, their delivered or exported total, and how many are estimated, corrected or flagged. */
+export function IntervalSummary({
+  intervals,
+  meter,
+}: {
+  intervals: Interval[];
+  meter: { carrier: Carrier; orientation: Orientation };
+}) {
+  const [totalLabel, total] = deliveredOrExported(intervals, meter);
   const estimated = intervals.filter((i) => i.quality === "estimated").length;
   const edited = intervals.filter((i) => i.quality === "edited").length;
   const flagged = intervals.filter((i) => i.flags.length > 0).length;
   const items = [
     ["Hours", intervals.length.toLocaleString("en-GB")],
     [
-      "Signed total",
+      totalLabel,
       `${total.toLocaleString("en-GB", { maximumFractionDigits: 1 })} kWh`,
     ],
     [
