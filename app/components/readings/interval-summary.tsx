@@ -1,3 +1,4 @@
+import { formatCount, formatKwh, formatPercent, NO_FIGURE } from "~/lib/format";
 import type { Interval } from "./use-intervals";
 
 /** The hours shown, their signed total, and how many are estimated, corrected or flagged. */
@@ -7,19 +8,16 @@ export function IntervalSummary({ intervals }: { intervals: Interval[] }) {
   const edited = intervals.filter((i) => i.quality === "edited").length;
   const flagged = intervals.filter((i) => i.flags.length > 0).length;
   const items = [
-    ["Hours", intervals.length.toLocaleString("en-GB")],
-    [
-      "Signed total",
-      `${total.toLocaleString("en-GB", { maximumFractionDigits: 1 })} kWh`,
-    ],
+    ["Hours", formatCount(intervals.length)],
+    ["Signed total", formatKwh(total)],
     [
       "Estimated",
       intervals.length
-        ? `${((100 * estimated) / intervals.length).toFixed(1)} %`
-        : "—",
+        ? formatPercent(estimated / intervals.length)
+        : NO_FIGURE,
     ],
-    ["Corrected", String(edited)],
-    ["Flagged", String(flagged)],
+    ["Corrected", formatCount(edited)],
+    ["Flagged", formatCount(flagged)],
   ];
   return (
     <dl className="grid grid-cols-2 gap-3 sm:grid-cols-5">
