@@ -1,4 +1,9 @@
-import { formatCount, formatKwh, formatPercent, NO_FIGURE } from "~/lib/format";
+import {
+  formatCount,
+  formatNumber,
+  formatPercent,
+  NO_FIGURE,
+} from "~/lib/format";
 import type { Interval } from "./use-intervals";
 
 /** The hours shown, their signed total, and how many are estimated, corrected or flagged. */
@@ -9,7 +14,8 @@ export function IntervalSummary({ intervals }: { intervals: Interval[] }) {
   const flagged = intervals.filter((i) => i.flags.length > 0).length;
   const items = [
     ["Hours", formatCount(intervals.length)],
-    ["Signed total", formatKwh(total)],
+    // Tenths, not the ledger's whole kWh: a few hours' worth must still show.
+    ["Signed total", `${formatNumber(total, 1)} kWh`],
     [
       "Estimated",
       intervals.length
