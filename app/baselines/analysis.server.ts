@@ -4,7 +4,7 @@
  * Guideline 14 assessment, ratio EnPIs and the avoided energy use of the
  * reporting period.
  */
-import type { Carrier } from "~/db/schema";
+import type { Carrier } from "~/sites/meter-kinds";
 import {
   defaultPeriods,
   pointsIn,

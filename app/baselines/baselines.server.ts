@@ -7,7 +7,8 @@
 import { and, desc, eq, type SQL } from "drizzle-orm";
 import { recordAudit } from "~/audit/record-audit.server";
 import { db } from "~/db/client.server";
-import { baselines, users, type Carrier } from "~/db/schema";
+import { baselines, users } from "~/db/schema";
+import type { Carrier } from "~/sites/meter-kinds";
 import { joinMonths, pointsIn, type MonthFigure } from "./analysis";
 import type { DegreeDayDriver } from "./degree-days";
 import { siteMonthlyEnergy } from "./energy.server";

@@ -8,7 +8,7 @@
  */
 import { pool } from "~/db/client.server";
 import { deliveredSignSql } from "~/ledger/delivered";
-import type { Carrier } from "~/db/schema";
+import type { Carrier } from "~/sites/meter-kinds";
 import type { MonthlyEnergy } from "./analysis";
 
 export interface SiteMonthlyEnergy extends MonthlyEnergy {

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { defaultDriver, isCarrier, isDriver, periodErrors } from "./periods";
+import { isCarrier } from "~/sites/meter-kinds";
+import { defaultDriver, isDriver, periodErrors } from "./periods";
 
 const names: [string, string] = ["from", "to"];
 

@@ -1,13 +1,10 @@
-import type { Carrier } from "~/db/schema";
 import { MONTH_PATTERN, monthCount } from "~/lib/months";
-import { carriers } from "~/sites/meter-schema";
+import type { Carrier } from "~/sites/meter-kinds";
 import type { DegreeDayDriver } from "./degree-days";
 
 /** A period of at most ten years. */
 export const MAX_MONTHS = 120;
 
-export const isCarrier = (v: string | null): v is Carrier =>
-  v !== null && (carriers as readonly string[]).includes(v);
 export const isDriver = (v: string | null): v is DegreeDayDriver =>
   v === "hdd" || v === "cdd";
 /** Cooling follows cooling degree days; every other carrier heating. */

@@ -7,7 +7,8 @@ import { isUuid } from "~/lib/ids";
 import type { getSite } from "~/sites/sites.server";
 import { analyseSite, siteDefaults } from "./analysis.server";
 import { getBaseline, listBaselines } from "./baselines.server";
-import { defaultDriver, isCarrier, isDriver, periodErrors } from "./periods";
+import { isCarrier } from "~/sites/meter-kinds";
+import { defaultDriver, isDriver, periodErrors } from "./periods";
 import { weatherCoverage } from "./weather.server";
 
 type Site = NonNullable<Awaited<ReturnType<typeof getSite>>>;

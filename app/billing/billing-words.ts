@@ -2,7 +2,7 @@
  * The Billing page's words for days, counts and a reconciliation's outcome.
  * Plain module: the page shows them, the action answers with them.
  */
-import { dayUtc } from "~/lib/times";
+import { dayUtc } from "~/lib/format";
 import type { ReconcileOutcome } from "./reconcile.server";
 
 /** A stored day, or a dash where there is none. */

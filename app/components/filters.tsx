@@ -1,6 +1,11 @@
 import type { ReactNode } from "react";
 import { Card, Field, Notice, SelectField } from "~/components/ui";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import {
+  carrierLabels,
+  carriers,
+  isCarrier,
+  type Carrier,
+} from "~/sites/meter-kinds";
 
 /** One choice of a filter menu: its value in the URL and its words. */
 export interface FilterChoice {
@@ -8,13 +13,9 @@ export interface FilterChoice {
   label: string;
 }
 
-export type Carrier = (typeof carriers)[number];
-
 /** The carrier asked for in the URL, or "" (all) for anything else. */
 export function carrierFilter(value: string): Carrier | "" {
-  return (carriers as readonly string[]).includes(value)
-    ? (value as Carrier)
-    : "";
+  return isCarrier(value) ? value : "";
 }
 
 export const carrierChoices: readonly FilterChoice[] = carriers.map((c) => ({

@@ -456,7 +456,6 @@ export const intervals = pgTable(
 );
 
 export type Quantity = (typeof quantityEnum.enumValues)[number];
-export type { Carrier } from "../sites/meter-kinds";
 export type IntervalQuality = (typeof intervalQualityEnum.enumValues)[number];
 
 // ---------------------------------------------------------------------------

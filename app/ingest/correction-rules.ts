@@ -38,12 +38,6 @@ export interface Jump {
   spikeFactor: number;
 }
 
-/**
- * An hour's kWh as people read them (the house style's hour precision). The
- * Readings route still imports it by this name.
- */
-export const formatKwh = formatHourKwh;
-
 function direction(meter: MeterBoundary): string {
   return meter.orientation === "import"
     ? "delivered to the site"

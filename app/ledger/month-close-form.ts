@@ -4,15 +4,17 @@
  * the answer's type.
  */
 import { z } from "zod";
-import { MONTH_PATTERN, monthName } from "~/lib/months";
+import { monthLong } from "~/lib/format";
+import { optionalIdField } from "~/lib/ids";
+import { MONTH_PATTERN } from "~/lib/months";
 
 const monthField = z
   .string()
   .trim()
   .regex(MONTH_PATTERN, "Choose a month, like 2025-01.");
-const siteField = z.union([z.literal(""), z.uuid()], {
-  error: "Choose a site from the list, or the whole organisation.",
-});
+const siteField = optionalIdField(
+  "Choose a site from the list, or the whole organisation.",
+);
 
 export const closeSchema = z.strictObject({
   intent: z.literal("close", { error: "Unknown action." }),
@@ -45,6 +47,6 @@ export function monthCloseMessage(
   where: string,
 ): string {
   return reopening
-    ? `${monthName(month)} is open again for ${where}; the reason is in the audit log.`
-    : `${monthName(month)} is closed for ${where}. Later corrections appear as adjustments.`;
+    ? `${monthLong(month)} is open again for ${where}; the reason is in the audit log.`
+    : `${monthLong(month)} is closed for ${where}. Later corrections appear as adjustments.`;
 }

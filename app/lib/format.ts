@@ -15,8 +15,8 @@
  * - a relative time ("4 minutes ago") is measured from a `now` the loader
  *   sends, never from the clock of whichever machine renders it.
  *
- * Numbers: digits grouped ("12,345"), a real minus sign (−), and one
- * precision per unit (`DECIMALS`; the ledger's units have theirs in
+ * Numbers: digits grouped ("12,345"), a real minus sign (−), a dash (—)
+ * where there is no figure, and one precision per unit (`DECIMALS`; the ledger's units have theirs in
  * `~/ledger/ledger-units`). Money goes through Intl's currency style.
  *
  * Plain module: the server and the browser both use it.
@@ -25,6 +25,8 @@ import { formatDistanceStrict } from "date-fns";
 
 const LOCALE = "en-GB";
 const MINUS = "\u2212";
+/** What stands where a figure is missing or not a number. */
+export const NO_FIGURE = "\u2014";
 
 type Instant = Date | string | number;
 
@@ -197,13 +199,16 @@ function numberFormat(min: number, max: number): Intl.NumberFormat {
 
 /**
  * A number, grouped, with a real minus sign and no sign on a value that
- * rounds to zero. `decimals` is the most shown; `fixed` shows exactly that many.
+ * rounds to zero; a dash when there is no figure (null, NaN, ∞).
+ * `decimals` is the most shown; `fixed` shows exactly that many.
  */
 export function formatNumber(
-  value: number,
+  value: number | null | undefined,
   decimals: number,
   options: { fixed?: boolean; plus?: boolean } = {},
 ): string {
+  if (value === null || value === undefined || !Number.isFinite(value))
+    return NO_FIGURE;
   const text = numberFormat(options.fixed ? decimals : 0, decimals).format(
     Math.abs(value),
   );
@@ -242,9 +247,13 @@ export function formatHourKwh(kwh: number, minimumDecimals = 0): string {
     .replace(/^-/, MINUS);
 }
 
-/** A total in whole kWh: "1,234 kWh". */
-export function formatKwh(kwh: number, options: { plus?: boolean } = {}) {
-  return `${formatNumber(kwh, DECIMALS.kWh, options)} kWh`;
+/** A total in whole kWh: "1,234 kWh"; a dash alone when there is none. */
+export function formatKwh(
+  kwh: number | null,
+  options: { plus?: boolean } = {},
+): string {
+  const text = formatNumber(kwh, DECIMALS.kWh, options);
+  return text === NO_FIGURE ? text : `${text} kWh`;
 }
 
 /** A total in MWh, one decimal: "1,234.5 MWh". */
@@ -275,13 +284,33 @@ export function formatCelsius(celsius: number): string {
   return `${formatNumber(celsius, DECIMALS.celsius, { fixed: true })}\u00a0°C`;
 }
 
-/** A fraction as a percentage, one decimal: 0.1234 → "12.3 %". */
+type PercentOptions = { decimals?: number; plus?: boolean };
+
+/** A fraction as a percentage, one decimal: 0.1234 → "12.3 %"; a dash when there is none. */
 export function formatPercent(
-  fraction: number,
-  options: { decimals?: number; plus?: boolean } = {},
+  fraction: number | null,
+  options: PercentOptions = {},
+): string {
+  return formatPercentPoints(
+    fraction === null ? null : fraction * 100,
+    options,
+  );
+}
+
+/**
+ * A figure that is already a percentage (a statistic's CV(RMSE), a saving's
+ * share): 12.34 → "12.3 %"; a dash when there is none.
+ */
+export function formatPercentPoints(
+  percent: number | null,
+  options: PercentOptions = {},
 ): string {
   const decimals = options.decimals ?? DECIMALS.percent;
-  return `${formatNumber(fraction * 100, decimals, { fixed: true, plus: options.plus })} %`;
+  const text = formatNumber(percent, decimals, {
+    fixed: true,
+    plus: options.plus,
+  });
+  return text === NO_FIGURE ? text : `${text} %`;
 }
 
 /** Money held in minor units (pence, cents): 12345, "gbp" → "£123.45". */

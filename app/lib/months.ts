@@ -16,16 +16,6 @@ export function monthCount(from: string, to: string): number {
   return (ty - fy) * 12 + (tm - fm) + 1;
 }
 
-/** "January 2025": a `YYYY-MM` month in words, the same on server and browser. */
-export function monthName(month: string): string {
-  const [y, m] = month.split("-").map(Number);
-  return new Intl.DateTimeFormat("en-GB", {
-    month: "long",
-    year: "numeric",
-    timeZone: "UTC",
-  }).format(new Date(Date.UTC(y, m - 1, 1)));
-}
-
 /** The instants a `YYYY-MM` month runs between (UTC), or null for anything else. */
 export function monthRange(month: string): { from: string; to: string } | null {
   if (!/^\d{4}-\d{2}$/.test(month)) return null;

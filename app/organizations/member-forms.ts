@@ -5,9 +5,10 @@
 import { z } from "zod";
 import { roles } from "~/auth/permissions";
 import { emailField, type FieldErrors } from "~/lib/forms";
+import { idField } from "~/lib/ids";
 
 const roleField = z.enum(roles, { error: "Choose one of the four roles." });
-const idField = z.string().min(1).max(64);
+const userIdField = z.string().min(1).max(64);
 
 export const inviteSchema = z.strictObject({
   intent: z.literal("invite"),
@@ -16,16 +17,16 @@ export const inviteSchema = z.strictObject({
 });
 export const changeRoleSchema = z.strictObject({
   intent: z.literal("change-role"),
-  userId: idField,
+  userId: userIdField,
   role: roleField,
 });
 export const removeSchema = z.strictObject({
   intent: z.literal("remove"),
-  userId: idField,
+  userId: userIdField,
 });
 export const revokeSchema = z.strictObject({
   intent: z.literal("revoke"),
-  invitationId: z.uuid("Unknown invitation."),
+  invitationId: idField("Unknown invitation."),
 });
 
 export type MembersActionResult = {

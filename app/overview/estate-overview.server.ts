@@ -2,7 +2,8 @@ import { listBaselines, siteMonths } from "~/baselines/baselines.server";
 import { avoidedEnergy, monthsFitted, predict } from "~/baselines/regression";
 import { and, count, eq, exists, isNull } from "drizzle-orm";
 import { db, pool } from "~/db/client.server";
-import { baselines, gateways, meters, sites, type Carrier } from "~/db/schema";
+import { baselines, gateways, meters, sites } from "~/db/schema";
+import type { Carrier } from "~/sites/meter-kinds";
 import { deliveredSignSql } from "~/ledger/delivered";
 import { activeSitesOf, siteOfMeter } from "~/db/conditions.server";
 

@@ -18,6 +18,7 @@ import { ExportLink } from "~/components/export-link";
 import { FiltersCard } from "~/components/filters";
 import { SectionCard } from "~/components/section-card";
 import { Button, EmptyState, PageHeader } from "~/components/ui";
+import { formatCount } from "~/lib/format";
 import { useHydrated } from "~/lib/use-hydrated";
 import type { Route } from "./+types/audit";
 
@@ -94,7 +95,7 @@ export default function AuditTrailPage({ loaderData }: Route.ComponentProps) {
             loading
               ? "Loading…"
               : query !== null && !error
-                ? `${entries.length.toLocaleString("en-GB")} ${entries.length === 1 ? "entry" : "entries"}${hasOlder ? " so far" : ""}, newest first`
+                ? `${formatCount(entries.length)} ${entries.length === 1 ? "entry" : "entries"}${hasOlder ? " so far" : ""}, newest first`
                 : ""
           }
         >

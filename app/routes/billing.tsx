@@ -28,13 +28,14 @@ import { PlanCard } from "~/components/billing/plan-card";
 import { TrialNote } from "~/components/billing/trial-note";
 import { Notice, PageHeader } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
+import { idField } from "~/lib/ids";
 import type { Route } from "./+types/billing";
 
 export const meta: Route.MetaFunction = () => [
   { title: "Billing · Joulebook" },
 ];
 
-const attemptField = z.uuid("Reload the page and try again.");
+const attemptField = idField("Reload the page and try again.");
 /** Both send the browser to Stripe: Checkout to subscribe, the portal to manage. */
 const goToStripeSchema = z.strictObject({
   intent: z.enum(["subscribe", "portal"]),

@@ -28,9 +28,10 @@ import {
   type MonthCloseResult as Result,
 } from "~/ledger/month-close-form";
 import { closeMonth, reopenMonth } from "~/ledger/month-close.server";
+import { formatCount } from "~/lib/format";
 import { useHydrated } from "~/lib/use-hydrated";
 import { parseForm } from "~/lib/forms";
-import { carrierLabels } from "~/sites/meter-schema";
+import { carrierLabels } from "~/sites/meter-kinds";
 import { getSite, listSites } from "~/sites/sites.server";
 import type { Route } from "./+types/ledger";
 
@@ -174,7 +175,7 @@ export default function LedgerPage({
             loading
               ? "Loading…"
               : ledger
-                ? `${rows.length.toLocaleString("en-GB")} entries · ${siteName ?? "all sites"} · ${
+                ? `${formatCount(rows.length)} entries · ${siteName ?? "all sites"} · ${
                     carrier ? carrierLabels[carrier] : "all carriers"
                   }`
                 : ""

@@ -23,14 +23,14 @@ import { EnpiCard } from "~/components/weather/enpi-card";
 import { SavedBaselines } from "~/components/weather/saved-baselines";
 import { SavingsCard } from "~/components/weather/savings-card";
 import { WeatherControls } from "~/components/weather/weather-controls";
-import { monthLabel } from "~/components/weather/weather-charts";
+import { formatCount, monthShort } from "~/lib/format";
 import { WeatherUploadCard } from "~/components/weather/weather-upload";
 import type { WeatherUploadResult } from "~/baselines/weather-csv";
 import { FormTooLarge, readBoundedForm } from "~/lib/bounded-form.server";
 import { parseForm } from "~/lib/forms";
 import { idField, isUuid } from "~/lib/ids";
 import { MONTH_PATTERN } from "~/lib/months";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { carrierLabels, carriers } from "~/sites/meter-kinds";
 import { getSite, listSites } from "~/sites/sites.server";
 import type { Route } from "./+types/weather-baselines";
 
@@ -153,7 +153,7 @@ export async function action({ request, context }: Route.ActionArgs) {
   return data<ActionResult>({
     intent: "save-baseline",
     errors: {},
-    message: `Baseline saved for ${site.name}, ${carrierLabels[form.data.carrier].toLowerCase()}, ${monthLabel(from)} to ${monthLabel(to)}. Savings can now be reckoned against it, whatever changes later.`,
+    message: `Baseline saved for ${site.name}, ${carrierLabels[form.data.carrier].toLowerCase()}, ${monthShort(from)} to ${monthShort(to)}. Savings can now be reckoned against it, whatever changes later.`,
   });
 }
 
@@ -187,7 +187,7 @@ export default function WeatherBaselines({
               </Notice>
             ) : coverage ? (
               <p className="text-sm text-ink-muted">
-                Weather for {coverage.days.toLocaleString("en-GB")} days, from{" "}
+                Weather for {formatCount(coverage.days)} days, from{" "}
                 {coverage.first} to {coverage.last}.
               </p>
             ) : null}

@@ -8,11 +8,6 @@ import {
   sensorPositions,
 } from "./meter-kinds";
 
-// The lists live in ./meter-kinds; these names stay importable from here only
-// until the route modules being split (ledger, audit, weather baselines)
-// import them from there.
-export { carrierLabels, carriers, quantities } from "./meter-kinds";
-
 const decimal = (label: string, min: number, max: number) =>
   z
     .string()

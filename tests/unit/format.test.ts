@@ -165,4 +165,12 @@ describe("numbers, one precision per unit", () => {
     expect(formatMoney(2900, "gbp")).toBe("£29.00");
     expect(formatMoney(123456, "EUR")).toBe("€1,234.56");
   });
+
+  it("writes a dash where there is no figure", () => {
+    for (const missing of [null, undefined, NaN, Infinity])
+      expect(formatNumber(missing, 1)).toBe("\u2014");
+    expect(formatKwh(null)).toBe("\u2014");
+    expect(formatKwh(98765.4)).toBe("98,765 kWh");
+    expect(formatKwh(0)).toBe("0 kWh");
+  });
 });

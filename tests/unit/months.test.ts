@@ -1,10 +1,11 @@
 import { describe, expect, it } from "vitest";
-import { monthName, monthRange } from "~/lib/months";
+import { monthLong } from "~/lib/format";
+import { monthRange } from "~/lib/months";
 
 describe("months in words and as instants", () => {
   it("names a month in full, whatever the machine's time zone", () => {
-    expect(monthName("2025-01")).toBe("January 2025");
-    expect(monthName("2026-12")).toBe("December 2026");
+    expect(monthLong("2025-01")).toBe("January 2025");
+    expect(monthLong("2026-12")).toBe("December 2026");
   });
 
   it("gives the UTC instants a month runs between, the next month's start excluded", () => {

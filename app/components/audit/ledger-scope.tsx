@@ -1,6 +1,6 @@
 import { Notice } from "~/components/ui";
-import { monthName } from "~/lib/months";
-import { carrierLabels, carriers } from "~/sites/meter-schema";
+import { dateTimeUtc, monthLong } from "~/lib/format";
+import { carrierLabels, isCarrier } from "~/sites/meter-kinds";
 import type { AuditFilterValues } from "./audit-filters";
 
 /** The Ledger's link to a closed month's adjusting entries, said in words. */
@@ -14,21 +14,16 @@ export function LedgerScope({
   onClear: () => void;
 }) {
   if (!values.month && !values.carrier && !values.since) return null;
-  const closed = values.since
-    ? new Intl.DateTimeFormat("en-GB", {
-        dateStyle: "medium",
-        timeStyle: "short",
-      }).format(new Date(values.since))
-    : null;
+  const closed = values.since ? dateTimeUtc(values.since) : null;
   return (
     <Notice title="From the Ledger">
       Showing{" "}
       {values.kind === "adjustment" ? "the adjusting entries" : "entries"}
-      {values.carrier
-        ? ` to ${carrierLabels[values.carrier as (typeof carriers)[number]].toLowerCase()}`
+      {isCarrier(values.carrier)
+        ? ` to ${carrierLabels[values.carrier].toLowerCase()}`
         : ""}
       {siteName ? ` at ${siteName}` : ""}
-      {values.month ? ` for ${monthName(values.month)}` : ""}
+      {values.month ? ` for ${monthLong(values.month)}` : ""}
       {closed ? `, made since the month was closed (${closed})` : ""}.{" "}
       <button
         type="button"

@@ -2,7 +2,7 @@ import { Form } from "react-router";
 import type { BillingActionResult } from "~/billing/billing-words";
 import { SectionCard } from "~/components/section-card";
 import { Button, Notice } from "~/components/ui";
-import { dateTimeUtc } from "~/lib/times";
+import { dateTimeUtc } from "~/lib/format";
 import { BusyLabel } from "./busy-label";
 
 /** "Check now": that Stripe bills today's metered-site count. */

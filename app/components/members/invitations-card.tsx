@@ -2,7 +2,7 @@ import { Form } from "react-router";
 import { roleLabels, type Role } from "~/auth/permissions";
 import { ListCard } from "~/components/list-card";
 import { Button } from "~/components/ui";
-import { dateTimeUtc } from "~/lib/times";
+import { dateTimeUtc } from "~/lib/format";
 
 /** Invitations sent and not yet accepted, each with "Withdraw". */
 export function InvitationsCard({

@@ -2,7 +2,7 @@ import { useEffect, useRef } from "react";
 import { Form } from "react-router";
 import { roleDescriptions, roleLabels, type Role } from "~/auth/permissions";
 import { Badge, Button, SelectField } from "~/components/ui";
-import { dayUtc } from "~/lib/times";
+import { dayUtc } from "~/lib/format";
 import type { MembersActionResult } from "~/organizations/member-forms";
 import { RoleOptions } from "./role-options";
 

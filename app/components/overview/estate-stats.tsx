@@ -1,3 +1,5 @@
+import { formatCount, formatPercent } from "~/lib/format";
+
 /** The estate in four figures: sites, actual and estimated shares, meters with no data. */
 export function EstateStats({
   sites,
@@ -14,12 +16,11 @@ export function EstateStats({
   silentHours: number;
   silentMeters: number;
 }) {
-  const percent = (share: number) => `${(share * 100).toFixed(1)} %`;
   const stats = [
-    ["Sites", String(sites)],
-    ["Actual, last 30 days", percent(measuredShare)],
-    ["Estimated, last 30 days", percent(estimatedShare)],
-    [`No data over ${silentHours} h`, String(silentMeters)],
+    ["Sites", formatCount(sites)],
+    ["Actual, last 30 days", formatPercent(measuredShare)],
+    ["Estimated, last 30 days", formatPercent(estimatedShare)],
+    [`No data over ${silentHours} h`, formatCount(silentMeters)],
   ];
   return (
     <dl className="grid grid-cols-2 gap-4 lg:grid-cols-4">

@@ -1,8 +1,8 @@
-import { formatDistanceStrict } from "date-fns";
 import { Link } from "react-router";
 import type { SilentMeter } from "~/overview/estate-overview.server";
 import { SectionCard } from "~/components/section-card";
 import { EmptyState } from "~/components/ui";
+import { timeAgo } from "~/lib/format";
 
 /** Meters with no actual reading for more than `hours`, each linked to its readings. */
 export function MetersWithoutData({
@@ -48,9 +48,7 @@ export function MetersWithoutData({
                 </span>
               </Link>
               <span className="text-sm text-ink-muted">
-                {m.last_hour
-                  ? `last ${formatDistanceStrict(new Date(m.last_hour), new Date(now))} ago`
-                  : "never"}
+                {m.last_hour ? `last ${timeAgo(m.last_hour, now)}` : "never"}
               </span>
             </li>
           ))}

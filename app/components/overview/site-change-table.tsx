@@ -2,8 +2,8 @@ import type { ReactNode } from "react";
 import { Link } from "react-router";
 import { CarrierBadge } from "~/components/carrier-badge";
 import { ChangePill } from "~/components/change-pill";
-import type { Carrier } from "~/db/schema";
-import { formatKwh } from "~/lib/number-format";
+import type { Carrier } from "~/sites/meter-kinds";
+import { formatKwh } from "~/lib/format";
 
 /** A card of the sites' figures for one month. */
 export interface MonthOfSitesProps<Row> {

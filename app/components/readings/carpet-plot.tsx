@@ -2,13 +2,15 @@ import { Scatter, ScatterChart, Tooltip, XAxis, YAxis } from "recharts";
 import { useWidth } from "~/lib/use-width";
 import { carrierColour } from "~/sites/carrier-colours";
 import type { Carrier } from "~/sites/meter-kinds";
-import { formatHourKwh } from "~/lib/format";
+import { localParts } from "~/ingest/local-time";
+import { dateTimeIn, dayMonthIn, formatHourKwh } from "~/lib/format";
 import { qualityLabels, type Interval } from "./use-intervals";
 
 interface Cell {
   hour: number;
   day: number;
-  dayLabel: string;
+  /** "10 Mar 2026, 08:00" in the site's zone. */
+  label: string;
   value: number;
   quality: Interval["quality"];
 }
@@ -18,31 +20,27 @@ function cellsOf(
   intervals: Interval[],
   timeZone: string,
 ): { cells: Cell[]; days: string[] } {
-  const parts = new Intl.DateTimeFormat("en-CA", {
-    timeZone,
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    hourCycle: "h23",
-  });
+  // Local day → its row, and each row's tick ("10 Mar").
   const dayIndex = new Map<string, number>();
+  const days: string[] = [];
   const cells: Cell[] = [];
   for (const i of intervals) {
-    const p = Object.fromEntries(
-      parts.formatToParts(new Date(i.hour_start)).map((x) => [x.type, x.value]),
-    );
-    const dayLabel = `${p.year}-${p.month}-${p.day}`;
-    if (!dayIndex.has(dayLabel)) dayIndex.set(dayLabel, dayIndex.size);
+    const at = new Date(i.hour_start);
+    const p = localParts(at, timeZone);
+    const key = `${p.year}-${p.month}-${p.day}`;
+    if (!dayIndex.has(key)) {
+      dayIndex.set(key, days.length);
+      days.push(dayMonthIn(at, timeZone));
+    }
     cells.push({
-      hour: Number(p.hour),
-      day: dayIndex.get(dayLabel)!,
-      dayLabel,
+      hour: p.hour,
+      day: dayIndex.get(key)!,
+      label: dateTimeIn(at, timeZone),
       value: Number(i.energy_kwh),
       quality: i.quality,
     });
   }
-  return { cells, days: [...dayIndex.keys()] };
+  return { cells, days };
 }
 
 const rgbOf = (hex: string) =>
@@ -121,7 +119,7 @@ export function CarpetPlot({
             type="number"
             domain={[-0.5, days.length - 0.5]}
             reversed
-            tickFormatter={(d) => days[d]?.slice(5) ?? ""}
+            tickFormatter={(d) => days[d] ?? ""}
             interval="preserveStartEnd"
             stroke="#4f5966"
             width={Y_AXIS_WIDTH}
@@ -133,8 +131,7 @@ export function CarpetPlot({
               const c = payload?.[0]?.payload as Cell | undefined;
               return c ? (
                 <div className="rounded border border-line bg-surface px-2 py-1 text-sm shadow">
-                  {c.dayLabel} {String(c.hour).padStart(2, "0")}:00 ·{" "}
-                  {formatHourKwh(c.value)} kWh ·{" "}
+                  {c.label} · {formatHourKwh(c.value)} kWh ·{" "}
                   {qualityLabels[c.quality].toLowerCase()}
                 </div>
               ) : null;

@@ -1,11 +1,8 @@
 import { Form, useActionData, useNavigation } from "react-router";
 import { Button, Field, Notice } from "~/components/ui";
-import {
-  CONFIRMED_SPIKE_FLAG,
-  confirmLabel,
-  formatKwh,
-} from "~/ingest/correction-rules";
+import { CONFIRMED_SPIKE_FLAG, confirmLabel } from "~/ingest/correction-rules";
 import type { EditAnswer } from "~/ingest/interval-edit-form";
+import { dateTimeIn, formatHourKwh } from "~/lib/format";
 import type { Interval } from "./use-intervals";
 
 /** "250000.000000" as a person would type it: "250000". Exact, no float. */
@@ -51,11 +48,7 @@ export function EditPanel({
       : true;
   const answer = forThisHour ? actionData : undefined;
   const errors: Record<string, string | undefined> = answer?.errors ?? {};
-  const label = new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    dateStyle: "full",
-    timeStyle: "short",
-  }).format(new Date(selected.hour_start));
+  const label = dateTimeIn(selected.hour_start, timeZone);
   return (
     <Form
       method="post"
@@ -74,7 +67,7 @@ export function EditPanel({
       {errors.form ? <Notice tone="error">{errors.form}</Notice> : null}
       <p>
         Correcting <strong>{label}</strong>: now{" "}
-        {formatKwh(Number(selected.energy_kwh))} kWh,{" "}
+        {formatHourKwh(Number(selected.energy_kwh))} kWh,{" "}
         {qualityWords[selected.quality]}.
       </p>
       <input type="hidden" name="intent" value="edit" />

@@ -1,5 +1,11 @@
 import { deliveredSign } from "~/ledger/delivered";
 import type { Carrier, Orientation } from "~/sites/meter-kinds";
+import {
+  formatCount,
+  formatNumber,
+  formatPercent,
+  NO_FIGURE,
+} from "~/lib/format";
 import type { Interval } from "./use-intervals";
 
 /**
@@ -31,19 +37,17 @@ export function IntervalSummary({
   const edited = intervals.filter((i) => i.quality === "edited").length;
   const flagged = intervals.filter((i) => i.flags.length > 0).length;
   const items = [
-    ["Hours", intervals.length.toLocaleString("en-GB")],
-    [
-      totalLabel,
-      `${total.toLocaleString("en-GB", { maximumFractionDigits: 1 })} kWh`,
-    ],
+    ["Hours", formatCount(intervals.length)],
+    // Tenths, not the ledger's whole kWh: a few hours' worth must still show.
+    [totalLabel, `${formatNumber(total, 1)} kWh`],
     [
       "Estimated",
       intervals.length
-        ? `${((100 * estimated) / intervals.length).toFixed(1)} %`
-        : "—",
+        ? formatPercent(estimated / intervals.length)
+        : NO_FIGURE,
     ],
-    ["Corrected", String(edited)],
-    ["Flagged", String(flagged)],
+    ["Corrected", formatCount(edited)],
+    ["Flagged", formatCount(flagged)],
   ];
   return (
     <dl className="grid grid-cols-2 gap-3 sm:grid-cols-5">

@@ -15,6 +15,7 @@ import {
   formatHourKwh,
   formatTick,
 } from "~/lib/format";
+import { localParts } from "~/ingest/local-time";
 import type { Interval } from "./use-intervals";
 
 /**
@@ -103,14 +104,9 @@ export function LoadProfile({
 
 /** Local midnights, thinned to about ten, so each tick names one day. */
 function midnightTicks(intervals: Interval[], timeZone: string): number[] {
-  const hour = new Intl.DateTimeFormat("en-GB", {
-    timeZone,
-    hour: "2-digit",
-    hourCycle: "h23",
-  });
   const midnights = intervals
     .map((i) => new Date(i.hour_start))
-    .filter((d) => hour.format(d) === "00")
+    .filter((d) => localParts(d, timeZone).hour === 0)
     .map((d) => d.getTime());
   const step = Math.max(1, Math.ceil(midnights.length / 10));
   return midnights.filter((_, i) => i % step === 0);

@@ -10,14 +10,14 @@ import { SectionCard } from "~/components/section-card";
 import { Button, Notice } from "~/components/ui";
 import { savingsHref } from "~/components/weather/saved-baselines";
 import { PassBadge, Stat } from "~/components/weather/stat";
-import { monthLabel } from "~/components/weather/weather-charts";
 import {
+  dayUtc,
+  DECIMALS,
   formatNumber,
-  formatSigned,
-  MINUS,
-  NO_FIGURE,
-} from "~/lib/number-format";
-import { dayUtc } from "~/lib/times";
+  formatPercent,
+  formatPercentPoints,
+  monthShort,
+} from "~/lib/format";
 
 /** What the page's save form is answered. */
 export interface SaveBaselineResult {
@@ -56,7 +56,7 @@ export function BaselineModelCard({
         <p className="mt-1 text-ink-muted">
           Saved {dayUtc(view.saved.createdAt)}
           {view.saved.createdBy ? ` by ${view.saved.createdBy}` : ""}, fitted on{" "}
-          {monthLabel(view.saved.from)} to {monthLabel(view.saved.to)}. Its
+          {monthShort(view.saved.from)} to {monthShort(view.saved.to)}. Its
           model and months stay as saved.{" "}
           <Link
             className="font-semibold text-spruce-700 underline"
@@ -77,29 +77,29 @@ export function BaselineModelCard({
           <p className="mt-4 text-lg">
             <span className="font-semibold">E</span> ={" "}
             <span className="tabular-nums">
-              {formatNumber(model.intercept)}
+              {formatNumber(model.intercept, DECIMALS.kWh)}
             </span>{" "}
-            kWh {model.slope < 0 ? MINUS : "+"}{" "}
+            kWh {model.slope < 0 ? "\u2212" : "+"}{" "}
             <span className="tabular-nums">
-              {formatNumber(Math.abs(model.slope), 2)}
+              {formatNumber(Math.abs(model.slope), 2, { fixed: true })}
             </span>{" "}
             kWh per degree day × {degreeDays}{" "}
             <span className="text-base text-ink-muted">per month</span>
           </p>
           <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-4 xl:grid-cols-2 2xl:grid-cols-4">
             <Stat label="Months (n)">{model.n}</Stat>
-            <Stat label="R²">{formatNumber(model.r2, 4)}</Stat>
+            <Stat label="R²">{formatNumber(model.r2, 4, { fixed: true })}</Stat>
             <Stat
               label={`CV(RMSE), limit ${limits.cvrmse} %`}
               badge={<PassBadge pass={assessment.cvrmse.pass} />}
             >
-              {formatNumber(model.cvrmse, 2)} %
+              {formatPercentPoints(model.cvrmse, { decimals: 2 })}
             </Stat>
             <Stat
               label={`NMBE, limit ±${limits.nmbe} %`}
               badge={<PassBadge pass={assessment.nmbe.pass} />}
             >
-              {model.nmbe === null ? NO_FIGURE : formatSigned(model.nmbe, 2)} %
+              {formatPercentPoints(model.nmbe, { decimals: 2, plus: true })}
             </Stat>
           </dl>
           {tooShort ? (
@@ -112,10 +112,10 @@ export function BaselineModelCard({
           {model.r2 !== null && model.r2 < 0.5 ? (
             <div className="mt-3">
               <Notice tone="caution">
-                R² is {formatNumber(model.r2, 2)}: the degree days explain about{" "}
-                {formatNumber(100 * model.r2)} % of the month-to-month change in
-                this energy, so the model is close to a constant. Check the
-                carrier and the kind of degree days.
+                R² is {formatNumber(model.r2, 2, { fixed: true })}: the degree
+                days explain about {formatPercent(model.r2, { decimals: 0 })} of
+                the month-to-month change in this energy, so the model is close
+                to a constant. Check the carrier and the kind of degree days.
               </Notice>
             </div>
           ) : null}

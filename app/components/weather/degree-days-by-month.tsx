@@ -3,13 +3,16 @@ import type { AnalysisView } from "~/baselines/weather-page.server";
 import { BrowserOnly } from "~/components/browser-only";
 import { FigureTable } from "~/components/figure-table";
 import { SectionCard } from "~/components/section-card";
+import { DegreeDayChart } from "~/components/weather/weather-charts";
 import {
-  DegreeDayChart,
-  monthLabel,
-} from "~/components/weather/weather-charts";
-import { formatNumber, NO_FIGURE } from "~/lib/number-format";
-import { carrierLabels } from "~/sites/meter-schema";
-import type { Carrier } from "~/db/schema";
+  DECIMALS,
+  formatNumber,
+  formatPercent,
+  monthShort,
+  NO_FIGURE,
+} from "~/lib/format";
+import { carrierLabels } from "~/sites/meter-kinds";
+import type { Carrier } from "~/sites/meter-kinds";
 
 /** A card of one analysis of a site and carrier. */
 export interface AnalysisCardProps {
@@ -75,22 +78,22 @@ function MonthTable({ analysis }: { analysis: AnalysisView }) {
           data-month={m.month}
           className="border-t border-line tabular-nums"
         >
-          <td className="px-2 py-1">{monthLabel(m.month)}</td>
+          <td className="px-2 py-1">{monthShort(m.month)}</td>
           <td className="px-2 py-1">{inPeriod(m.month)}</td>
           <td className="px-2 py-1 text-right">
             {`${m.weatherDays}/${m.daysInMonth}`}
           </td>
           <td className="px-2 py-1 text-right" data-hdd={m.hdd.toFixed(2)}>
-            {formatNumber(m.hdd, 1)}
+            {formatNumber(m.hdd, DECIMALS.degreeDays, { fixed: true })}
           </td>
           <td className="px-2 py-1 text-right" data-cdd={m.cdd.toFixed(2)}>
-            {formatNumber(m.cdd, 1)}
+            {formatNumber(m.cdd, DECIMALS.degreeDays, { fixed: true })}
           </td>
-          <td className="px-2 py-1 text-right">{formatNumber(m.kwh)}</td>
           <td className="px-2 py-1 text-right">
-            {m.kwh
-              ? `${formatNumber((100 * m.estimatedKwh) / m.kwh, 1)} %`
-              : NO_FIGURE}
+            {formatNumber(m.kwh, DECIMALS.kWh)}
+          </td>
+          <td className="px-2 py-1 text-right">
+            {m.kwh ? formatPercent(m.estimatedKwh / m.kwh) : NO_FIGURE}
           </td>
           <td className="px-2 py-1 text-ink-muted">{m.note ?? ""}</td>
         </tr>

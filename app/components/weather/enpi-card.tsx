@@ -2,8 +2,7 @@ import { degreeDayLabel } from "~/baselines/degree-days";
 import type { AnalysisView, SiteView } from "~/baselines/weather-page.server";
 import { FigureTable } from "~/components/figure-table";
 import { SectionCard } from "~/components/section-card";
-import { monthLabel } from "~/components/weather/weather-charts";
-import { formatNumber } from "~/lib/number-format";
+import { DECIMALS, formatArea, formatNumber, monthShort } from "~/lib/format";
 
 /** Ratio energy performance indicators of the baseline and reporting periods. */
 export function EnpiCard({
@@ -43,19 +42,21 @@ export function EnpiCard({
             <th scope="row" className="px-2 py-1 text-left font-semibold">
               {label}{" "}
               <span className="font-normal text-ink-muted">
-                {monthLabel(period.from)}–{monthLabel(period.to)}
+                {monthShort(period.from)}–{monthShort(period.to)}
               </span>
             </th>
             <td className="px-2 py-1 text-right">{e.months}</td>
-            <td className="px-2 py-1 text-right">{formatNumber(e.kwh)}</td>
             <td className="px-2 py-1 text-right">
-              {formatNumber(e.degreeDays, 1)}
+              {formatNumber(e.kwh, DECIMALS.kWh)}
             </td>
             <td className="px-2 py-1 text-right">
-              {formatNumber(e.kwhPerDegreeDay, 1)}
+              {formatNumber(e.degreeDays, DECIMALS.degreeDays, { fixed: true })}
             </td>
             <td className="px-2 py-1 text-right">
-              {formatNumber(e.kwhPerM2, 2)}
+              {formatNumber(e.kwhPerDegreeDay, 1, { fixed: true })}
+            </td>
+            <td className="px-2 py-1 text-right">
+              {formatNumber(e.kwhPerM2, 2, { fixed: true })}
             </td>
           </tr>
         ))}
@@ -63,7 +64,7 @@ export function EnpiCard({
       <p className="mt-2 text-sm text-ink-muted">
         {view.site.floorAreaM2 === null
           ? "The site has no floor area, so there is no figure per m²."
-          : `Floor area ${formatNumber(view.site.floorAreaM2)} m².`}
+          : `Floor area ${formatArea(view.site.floorAreaM2)}.`}
       </p>
     </SectionCard>
   );

@@ -5,9 +5,13 @@ import type { SiteView } from "~/baselines/weather-page.server";
 import { FigureTable } from "~/components/figure-table";
 import { SectionCard } from "~/components/section-card";
 import { Badge, cx } from "~/components/ui";
-import { monthLabel } from "~/components/weather/weather-charts";
-import { formatNumber, formatSigned, NO_FIGURE } from "~/lib/number-format";
-import { dayUtc } from "~/lib/times";
+import {
+  dayUtc,
+  DECIMALS,
+  formatNumber,
+  formatPercentPoints,
+  monthShort,
+} from "~/lib/format";
 
 /**
  * This page for the view's site, carrier and reporting months: savings
@@ -51,7 +55,7 @@ export function SavedBaselines({
             )}
           >
             <td className="px-2 py-1">
-              {monthLabel(b.from)}–{monthLabel(b.to)}
+              {monthShort(b.from)}–{monthShort(b.to)}
               {shortBaselineWarning(b.model.points) ? (
                 <span className="mt-1 block whitespace-nowrap">
                   <Badge tone="copper">Under a year</Badge>
@@ -59,20 +63,18 @@ export function SavedBaselines({
               ) : null}
             </td>
             <td className="px-2 py-1">
-              {formatNumber(b.model.intercept)} +{" "}
-              {formatNumber(b.model.slope, 2)} × {b.model.driver.toUpperCase()}
+              {formatNumber(b.model.intercept, DECIMALS.kWh)} +{" "}
+              {formatNumber(b.model.slope, 2, { fixed: true })} ×{" "}
+              {b.model.driver.toUpperCase()}
             </td>
             <td className="px-2 py-1 text-right">
-              {formatNumber(b.model.r2, 4)}
+              {formatNumber(b.model.r2, 4, { fixed: true })}
             </td>
             <td className="px-2 py-1 text-right">
-              {formatNumber(b.model.cvrmse, 2)} %
+              {formatPercentPoints(b.model.cvrmse, { decimals: 2 })}
             </td>
             <td className="px-2 py-1 text-right">
-              {b.model.nmbe === null
-                ? NO_FIGURE
-                : formatSigned(b.model.nmbe, 2)}{" "}
-              %
+              {formatPercentPoints(b.model.nmbe, { decimals: 2, plus: true })}
             </td>
             <td className="px-2 py-1">
               {dayUtc(b.createdAt)}

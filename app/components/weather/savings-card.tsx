@@ -4,8 +4,13 @@ import { FigureTable } from "~/components/figure-table";
 import { SectionCard } from "~/components/section-card";
 import { cx, Notice } from "~/components/ui";
 import { Stat } from "~/components/weather/stat";
-import { monthLabel } from "~/components/weather/weather-charts";
-import { formatNumber, formatSigned, NO_FIGURE } from "~/lib/number-format";
+import {
+  DECIMALS,
+  formatKwh,
+  formatNumber,
+  formatPercentPoints,
+  monthShort,
+} from "~/lib/format";
 
 /** Avoided energy use of the reporting period against the baseline model, in its weather. */
 export function SavingsCard({ analysis }: { analysis: AnalysisView }) {
@@ -28,24 +33,20 @@ export function SavingsCard({ analysis }: { analysis: AnalysisView }) {
         <>
           <dl className="mt-4 grid grid-cols-2 gap-3 sm:grid-cols-4">
             <Stat label="Adjusted baseline">
-              {formatNumber(savings.adjustedBaselineKwh)} kWh
+              {formatKwh(savings.adjustedBaselineKwh)}
             </Stat>
-            <Stat label="Metered">
-              {formatNumber(savings.reportingKwh)} kWh
-            </Stat>
+            <Stat label="Metered">{formatKwh(savings.reportingKwh)}</Stat>
             <Stat label="Avoided energy use">
-              {formatSigned(savings.avoidedKwh)} kWh
+              {formatKwh(savings.avoidedKwh, { plus: true })}
             </Stat>
             <Stat label="Of the adjusted baseline">
-              {savings.avoidedPercent === null
-                ? NO_FIGURE
-                : `${formatSigned(savings.avoidedPercent, 1)} %`}
+              {formatPercentPoints(savings.avoidedPercent, { plus: true })}
             </Stat>
           </dl>
           {analysis.extrapolated.length > 0 ? (
             <div className="mt-3">
               <Notice tone="caution">
-                {analysis.extrapolated.map(monthLabel).join(", ")}{" "}
+                {analysis.extrapolated.map(monthShort).join(", ")}{" "}
                 {analysis.extrapolated.length === 1 ? "has" : "have"} degree
                 days outside the baseline months' range: the model is
                 extrapolated there.
@@ -68,15 +69,15 @@ export function SavingsCard({ analysis }: { analysis: AnalysisView }) {
           >
             {savings.months.map((m) => (
               <tr key={m.month} className="border-t border-line tabular-nums">
-                <td className="px-2 py-1">{monthLabel(m.month)}</td>
+                <td className="px-2 py-1">{monthShort(m.month)}</td>
                 <td className="px-2 py-1 text-right">
-                  {formatNumber(m.dd, 1)}
+                  {formatNumber(m.dd, DECIMALS.degreeDays, { fixed: true })}
                 </td>
                 <td className="px-2 py-1 text-right">
-                  {formatNumber(m.adjustedKwh)}
+                  {formatNumber(m.adjustedKwh, DECIMALS.kWh)}
                 </td>
                 <td className="px-2 py-1 text-right">
-                  {formatNumber(m.actualKwh)}
+                  {formatNumber(m.actualKwh, DECIMALS.kWh)}
                 </td>
                 <td
                   className={cx(
@@ -84,7 +85,7 @@ export function SavingsCard({ analysis }: { analysis: AnalysisView }) {
                     m.avoidedKwh < 0 && "text-danger-700",
                   )}
                 >
-                  {formatSigned(m.avoidedKwh)}
+                  {formatNumber(m.avoidedKwh, DECIMALS.kWh, { plus: true })}
                 </td>
               </tr>
             ))}
@@ -100,7 +101,7 @@ export function SavingsCard({ analysis }: { analysis: AnalysisView }) {
       {skipped.length > 0 ? (
         <p className="mt-2 text-sm text-ink-muted">
           Left out of the reporting period:{" "}
-          {skipped.map((m) => `${monthLabel(m.month)} (${m.note})`).join(", ")}.
+          {skipped.map((m) => `${monthShort(m.month)} (${m.note})`).join(", ")}.
         </p>
       ) : null}
     </SectionCard>

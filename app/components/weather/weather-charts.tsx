@@ -35,9 +35,6 @@ const SPRUCE = "#0f5546";
 const energyColour = (carrier: Carrier | null) =>
   carrier ? carrierColour(carrier) : SPRUCE;
 
-/** The house month ("Oct 2025"); the Weather page's route still imports it by this name. */
-export const monthLabel = monthShort;
-
 const kwh = (v: unknown) => formatKwh(Number(v));
 const degreeDays = (v: unknown) => formatDegreeDays(Number(v));
 
@@ -79,7 +76,7 @@ export function DegreeDayChart({
   baseline: { from: string; to: string };
   reporting: { from: string; to: string } | null;
 }) {
-  const data = months.map((m) => ({ ...m, label: monthLabel(m.month) }));
+  const data = months.map((m) => ({ ...m, label: monthShort(m.month) }));
   const kwhTicks = roundTicks(Math.max(0, ...months.map((m) => m.kwh ?? 0)));
   const ddTicks = roundTicks(Math.max(0, ...months.map((m) => m.dd ?? 0)));
   const has = (month: string) => months.some((m) => m.month === month);
@@ -127,8 +124,8 @@ export function DegreeDayChart({
           {has(baseline.from) && has(baseline.to) ? (
             <ReferenceArea
               yAxisId="kwh"
-              x1={monthLabel(baseline.from)}
-              x2={monthLabel(baseline.to)}
+              x1={monthShort(baseline.from)}
+              x2={monthShort(baseline.to)}
               fill="#cfe5dc"
               fillOpacity={0.35}
               label={{ value: "Baseline", position: "insideTop", fill: SPRUCE }}
@@ -137,8 +134,8 @@ export function DegreeDayChart({
           {reporting && has(reporting.from) && has(reporting.to) ? (
             <ReferenceArea
               yAxisId="kwh"
-              x1={monthLabel(reporting.from)}
-              x2={monthLabel(reporting.to)}
+              x1={monthShort(reporting.from)}
+              x2={monthShort(reporting.to)}
               fill="#ece8df"
               fillOpacity={0.6}
               label={{
@@ -210,7 +207,7 @@ export function BaselineScatter({
     ),
   );
   const tooltip = (p: ScatterPoint) =>
-    `${monthLabel(p.month)}: ${degreeDays(p.dd)}, ${kwh(p.kwh)}`;
+    `${monthShort(p.month)}: ${degreeDays(p.dd)}, ${kwh(p.kwh)}`;
   return (
     <div
       style={{ width: "100%", height: 340 }}

@@ -2,8 +2,8 @@ import { Form, useSubmit } from "react-router";
 import type { SiteView } from "~/baselines/weather-page.server";
 import { LabelledOptions, SiteOptions } from "~/components/options";
 import { Button, Card, Field, SelectField } from "~/components/ui";
-import { formatNumber } from "~/lib/number-format";
-import { carrierLabels } from "~/sites/meter-schema";
+import { formatCelsius } from "~/lib/format";
+import { carrierLabels } from "~/sites/meter-kinds";
 
 /**
  * The page's question: site, carrier, degree days and the two periods. Any
@@ -86,7 +86,7 @@ export function WeatherControls({
       </Form>
       <p className="mt-3 text-sm text-ink-muted">
         Degree days to a base of{" "}
-        {formatNumber(view.analysis?.baseC ?? view.site.degreeDayBaseC, 1)} °C (
+        {formatCelsius(view.analysis?.baseC ?? view.site.degreeDayBaseC)} (
         {saved ? "the saved baseline's base" : "the site's base"}), summed over
         the days of each month in the site's calendar ({view.site.timeZone}).
         Energy: what the import meters on the site's boundary metered, from the
