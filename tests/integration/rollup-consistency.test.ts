@@ -14,6 +14,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { Client } from "../support/http";
 import { pool } from "../support/db";
+import { estimationSettled } from "../support/estimation";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
 /** Each seed is its own organisation and mix; a failure names its seed. */
@@ -169,24 +170,6 @@ async function postAll(org: MeteredOrg, list: Reading[][], pause = 0) {
   return answers;
 }
 
-/** Waits until estimation has settled: the hours stop changing. */
-async function quiet(org: MeteredOrg) {
-  let last = "";
-  let same = 0;
-  for (const deadline = Date.now() + 20_000; Date.now() < deadline;) {
-    const { rows } = await pool.query<{ state: string }>(
-      `select count(*) || '|' || coalesce(max(updated_at)::text, '') as state
-         from intervals where organization_id = $1`,
-      [org.org.id],
-    );
-    same = rows[0].state === last ? same + 1 : 0;
-    if (same >= 3) return;
-    last = rows[0].state;
-    await sleep(400);
-  }
-  throw new Error("the hours kept changing for 20 s");
-}
-
 /** Every meter-month whose rollup differs from the sum of its hours, in one snapshot. */
 async function mismatches(org: MeteredOrg) {
   const { rows } = await pool.query(
@@ -307,7 +290,7 @@ describe.each(SEEDS)(
         150,
       );
       expect(await mismatches(org)).toEqual([]);
-      await quiet(org);
+      await estimationSettled(org.org.id);
       const { rows: estimated } = await pool.query(
         `select 1 from intervals where organization_id = $1 and meter_id = $2 and quality = 'estimated'`,
         [org.org.id, org.meters.water.id],
@@ -322,7 +305,7 @@ describe.each(SEEDS)(
       ]);
       answers.push(...more);
       expect(await mismatches(org)).toEqual([]);
-      await quiet(org);
+      await estimationSettled(org.org.id);
 
       // March closes; then late data and an edit arrive in it (and in April).
       const close = await manager.post(`/o/${org.org.id}/ledger`, {
@@ -338,7 +321,7 @@ describe.each(SEEDS)(
       ]);
       answers.push(...late);
       expect(await mismatches(org)).toEqual([]);
-      await quiet(org);
+      await estimationSettled(org.org.id);
 
       expect(await mismatches(org)).toEqual([]);
       const { rows: marked } = await pool.query(
