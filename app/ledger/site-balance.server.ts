@@ -25,6 +25,9 @@ import { deliveredSignSql } from "./delivered";
  * exported energy, as the ledger shows them (delivered.ts). The figures are
  * the rollups as they stand, corrections after a month close included. Sums
  * are PostgreSQL numeric and come back as decimal strings.
+ *
+ * Still raw SQL, and not yet justified by a bench (docs/architecture.md,
+ * "Data access"): it is to be measured against a query-builder version.
  */
 export async function siteBalance({
   organizationId,
