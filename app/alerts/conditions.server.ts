@@ -1,6 +1,7 @@
-import { and, eq, isNull } from "drizzle-orm";
-import { db, pool } from "~/db/client.server";
-import { monthCloses, monthlyRollups } from "~/db/schema";
+import { and, eq, isNull, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { db } from "~/db/client.server";
+import { meters, monthCloses, monthlyRollups, sites } from "~/db/schema";
 import { monthKey } from "~/lib/months";
 import { residualFlag } from "~/ledger/balance";
 import { silentMeters } from "~/overview/estate-overview.server";
@@ -45,24 +46,51 @@ export async function residualConditions(
   now: Date,
 ): Promise<Condition[]> {
   const month = previousMonth(now);
-  const { rows } = await pool.query<{
-    parent_id: string;
-    code: string;
-    site_name: string;
-    parent_kwh: string;
-    children_kwh: string;
-  }>(
-    `select p.id as parent_id, p.code, s.name as site_name, pr.energy_kwh::text as parent_kwh,
-            coalesce(sum(cr.energy_kwh), 0)::text as children_kwh
-       from meters p
-       join sites s on s.organization_id = p.organization_id and s.id = p.site_id
-       join monthly_rollups pr on pr.organization_id = p.organization_id and pr.meter_id = p.id and pr.month = to_date($2, 'YYYY-MM')
-       join meters c on c.organization_id = p.organization_id and c.parent_meter_id = p.id
-       left join monthly_rollups cr on cr.organization_id = c.organization_id and cr.meter_id = c.id and cr.month = pr.month
-      where p.organization_id = $1
-      group by p.id, p.code, s.name, pr.energy_kwh`,
-    [organizationId, month],
-  );
+  const parent = alias(meters, "p");
+  const child = alias(meters, "c");
+  const parentMonth = alias(monthlyRollups, "pr");
+  const childMonth = alias(monthlyRollups, "cr");
+  const rows = await db
+    .select({
+      parent_id: parent.id,
+      code: parent.code,
+      site_name: sites.name,
+      parent_kwh: parentMonth.energyKwh,
+      children_kwh: sql<string>`coalesce(sum(${childMonth.energyKwh}), 0)::text`,
+    })
+    .from(parent)
+    .innerJoin(
+      sites,
+      and(
+        eq(sites.organizationId, parent.organizationId),
+        eq(sites.id, parent.siteId),
+      ),
+    )
+    .innerJoin(
+      parentMonth,
+      and(
+        eq(parentMonth.organizationId, parent.organizationId),
+        eq(parentMonth.meterId, parent.id),
+        eq(parentMonth.month, `${month}-01`),
+      ),
+    )
+    .innerJoin(
+      child,
+      and(
+        eq(child.organizationId, parent.organizationId),
+        eq(child.parentMeterId, parent.id),
+      ),
+    )
+    .leftJoin(
+      childMonth,
+      and(
+        eq(childMonth.organizationId, child.organizationId),
+        eq(childMonth.meterId, child.id),
+        eq(childMonth.month, parentMonth.month),
+      ),
+    )
+    .where(eq(parent.organizationId, organizationId))
+    .groupBy(parent.id, parent.code, sites.name, parentMonth.energyKwh);
   return rows
     .filter((r) => residualFlag(r.parent_kwh, r.children_kwh) !== "ok")
     .map((r) => ({

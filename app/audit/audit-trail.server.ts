@@ -4,9 +4,29 @@
  * their before/after values as readable lines. Every query is bounded by the
  * organisation, joins included, so no filter can reach another tenant.
  */
-import { eq, inArray, or } from "drizzle-orm";
-import { db, pool } from "~/db/client.server";
-import { auditLog, memberships, meters, sites, users } from "~/db/schema";
+import {
+  and,
+  desc,
+  eq,
+  gte,
+  inArray,
+  like,
+  lt,
+  or,
+  sql,
+  type SQL,
+} from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { db } from "~/db/client.server";
+import {
+  auditLog,
+  gateways,
+  invitations,
+  memberships,
+  meters,
+  sites,
+  users,
+} from "~/db/schema";
 import { dateTimeIn, monthLong } from "~/lib/format";
 import { UUID_TEXT } from "~/lib/ids";
 import { describeChanges, type ChangeLine } from "./describe";
@@ -89,79 +109,160 @@ interface Row {
 }
 
 /**
- * Every filter is a parameter that is either null (not filtering) or the
- * value to match, so the statement is fixed text. Hour corrections are
- * written by app/ingest/edit-interval.server.ts as `<meter>@<hour>` with
- * their values in details.from/to; they are placed here like the others.
+ * Hour corrections are written by app/ingest/edit-interval.server.ts as
+ * `<meter>@<hour>` with their values in details.from/to; these expressions
+ * place them like the other entries (their meter, before, after, reason).
  */
-const ENTRIES_SQL = `
-  with placed as (
-    select a.*,
-           coalesce(a.meter_id,
-                    case when a.action = 'interval.edited'
-                         then substring(a.subject from '^(${UUID_TEXT})@')::uuid end) as placed_meter_id,
-           coalesce(a.before, case when a.action = 'interval.edited' then nullif(a.details->'from', 'null'::jsonb) end) as placed_before,
-           -- A corrected hour is always "edited" afterwards; the entry keeps only its value.
-           coalesce(a.after, case when a.action = 'interval.edited'
-                                  then a.details->'to' || '{"quality": "edited"}'::jsonb end) as placed_after,
-           coalesce(a.reason, case when a.action = 'interval.edited' then a.details->>'reason' end) as placed_reason
-      from audit_log a
-     where a.organization_id = $1
-  )
-  select p.id::text, p.occurred_at, p.action, p.subject, p.placed_reason as reason,
-         p.placed_before as before, p.placed_after as after, p.details,
-         p.actor_user_id, u.name as actor_name, p.actor_gateway_id, g.name as gateway_name,
-         s.id as site_id, s.name as site_name, s.time_zone,
-         m.id as meter_id, m.code as meter_code, m.name as meter_name,
-         su.name as member_name, su.email as member_email,
-         sg.name as subject_gateway_name, inv.email as invitation_email
-    from placed p
-    left join users u on u.id = p.actor_user_id
-    left join gateways g on g.organization_id = p.organization_id and g.id = p.actor_gateway_id
-    left join meters m on m.organization_id = p.organization_id and m.id = p.placed_meter_id
-    left join sites s on s.organization_id = p.organization_id and s.id = coalesce(p.site_id, m.site_id)
-    left join users su on p.action like 'member.%' and su.id = p.subject
-    left join gateways sg on p.action like 'gateway.%' and sg.organization_id = p.organization_id
-                         and sg.id::text = p.subject
-    left join invitations inv on p.action like 'invitation.%' and inv.organization_id = p.organization_id
-                             and inv.id::text = p.subject
-   where ($2::uuid is null or s.id = $2::uuid)
-     and ($3::uuid is null or m.id = $3::uuid)
-     and ($4::text is null or p.actor_user_id = $4::text)
-     and ($5::text[] is null or p.action = any($5::text[]))
-     and ($6::date is null or p.occurred_at >= ($6::date)::timestamp at time zone $8::text)
-     and ($7::date is null or p.occurred_at < ($7::date + 1)::timestamp at time zone $8::text)
-     and ($9::text is null
-          or coalesce(p.details->>'month', case when p.action like 'month.%' then p.subject end) = $9::text)
-     and ($10::text is null or m.carrier::text = $10::text)
-     and ($11::timestamptz is null or p.occurred_at >= $11::timestamptz)
-     and ($12::bigint is null
-          or (p.occurred_at, p.id) < (select c.occurred_at, c.id from audit_log c
-                                        where c.organization_id = $1 and c.id = $12::bigint))
-   order by p.occurred_at desc, p.id desc
-   limit $13`;
+const edited = sql`${auditLog.action} = 'interval.edited'`;
+const placedMeterId = sql`coalesce(${auditLog.meterId}, case when ${edited} then substring(${auditLog.subject} from ${`^(${UUID_TEXT})@`})::uuid end)`;
+const placedBefore = sql<Record<
+  string,
+  unknown
+> | null>`coalesce(${auditLog.before}, case when ${edited} then nullif(${auditLog.details}->'from', 'null'::jsonb) end)`;
+// A corrected hour is always "edited" afterwards; the entry keeps only its value.
+const placedAfter = sql<Record<
+  string,
+  unknown
+> | null>`coalesce(${auditLog.after}, case when ${edited} then ${auditLog.details}->'to' || '{"quality": "edited"}'::jsonb end)`;
+const placedReason = sql<
+  string | null
+>`coalesce(${auditLog.reason}, case when ${edited} then ${auditLog.details}->>'reason' end)`;
 
-function parameters(
+/** The entry a page follows, for keyset paging. */
+const cursor = alias(auditLog, "c");
+
+/** The filters that are set, as conditions on the joined entry. */
+function filterConditions(
   organizationId: string,
   f: AuditFilters,
+  before: number | null,
+): SQL[] {
+  const timeZone = f.timeZone || "UTC";
+  const conditions: (SQL | undefined)[] = [
+    eq(auditLog.organizationId, organizationId),
+    f.siteId ? eq(sites.id, f.siteId) : undefined,
+    f.meterId ? eq(meters.id, f.meterId) : undefined,
+    f.personId ? eq(auditLog.actorUserId, f.personId) : undefined,
+    f.kind ? inArray(auditLog.action, actionsOfKind(f.kind)) : undefined,
+    f.from
+      ? gte(
+          auditLog.occurredAt,
+          sql`(${f.from}::date)::timestamp at time zone ${timeZone}::text`,
+        )
+      : undefined,
+    f.to
+      ? lt(
+          auditLog.occurredAt,
+          sql`(${f.to}::date + 1)::timestamp at time zone ${timeZone}::text`,
+        )
+      : undefined,
+    f.month
+      ? sql`coalesce(${auditLog.details}->>'month', case when ${auditLog.action} like 'month.%' then ${auditLog.subject} end) = ${f.month}::text`
+      : undefined,
+    f.carrier ? sql`${meters.carrier}::text = ${f.carrier}::text` : undefined,
+    // Kept as text: PostgreSQL reads its microseconds.
+    f.since != null
+      ? gte(auditLog.occurredAt, sql`${f.since}::timestamptz`)
+      : undefined,
+    before !== null
+      ? sql`(${auditLog.occurredAt}, ${auditLog.id}) < (${db
+          .select({ at: cursor.occurredAt, id: cursor.id })
+          .from(cursor)
+          .where(
+            and(
+              eq(cursor.organizationId, organizationId),
+              eq(cursor.id, before),
+            ),
+          )})`
+      : undefined,
+  ];
+  return conditions.filter((c) => c !== undefined);
+}
+
+const subjectMember = alias(users, "su");
+const subjectGateway = alias(gateways, "sg");
+
+/** Entries newest first, with the names they refer to. */
+function entries(
+  organizationId: string,
+  filters: AuditFilters,
   limit: number,
   before: number | null,
-) {
-  return [
-    organizationId,
-    f.siteId || null,
-    f.meterId || null,
-    f.personId || null,
-    f.kind ? actionsOfKind(f.kind) : null,
-    f.from || null,
-    f.to || null,
-    f.timeZone || "UTC",
-    f.month || null,
-    f.carrier || null,
-    f.since ?? null,
-    before,
-    limit,
-  ];
+): Promise<Row[]> {
+  return db
+    .select({
+      id: sql<string>`${auditLog.id}::text`,
+      occurred_at: auditLog.occurredAt,
+      action: auditLog.action,
+      subject: auditLog.subject,
+      reason: placedReason,
+      before: placedBefore,
+      after: placedAfter,
+      details: auditLog.details,
+      actor_user_id: auditLog.actorUserId,
+      actor_name: users.name,
+      actor_gateway_id: auditLog.actorGatewayId,
+      gateway_name: gateways.name,
+      site_id: sites.id,
+      site_name: sites.name,
+      time_zone: sites.timeZone,
+      meter_id: meters.id,
+      meter_code: meters.code,
+      meter_name: meters.name,
+      member_name: subjectMember.name,
+      member_email: subjectMember.email,
+      subject_gateway_name: subjectGateway.name,
+      invitation_email: invitations.email,
+    })
+    .from(auditLog)
+    .leftJoin(users, eq(users.id, auditLog.actorUserId))
+    .leftJoin(
+      gateways,
+      and(
+        eq(gateways.organizationId, auditLog.organizationId),
+        eq(gateways.id, auditLog.actorGatewayId),
+      ),
+    )
+    .leftJoin(
+      meters,
+      and(
+        eq(meters.organizationId, auditLog.organizationId),
+        eq(meters.id, placedMeterId),
+      ),
+    )
+    .leftJoin(
+      sites,
+      and(
+        eq(sites.organizationId, auditLog.organizationId),
+        eq(sites.id, sql`coalesce(${auditLog.siteId}, ${meters.siteId})`),
+      ),
+    )
+    .leftJoin(
+      subjectMember,
+      and(
+        like(auditLog.action, "member.%"),
+        eq(subjectMember.id, auditLog.subject),
+      ),
+    )
+    .leftJoin(
+      subjectGateway,
+      and(
+        like(auditLog.action, "gateway.%"),
+        eq(subjectGateway.organizationId, auditLog.organizationId),
+        sql`${subjectGateway.id}::text = ${auditLog.subject}`,
+      ),
+    )
+    .leftJoin(
+      invitations,
+      and(
+        like(auditLog.action, "invitation.%"),
+        eq(invitations.organizationId, auditLog.organizationId),
+        sql`${invitations.id}::text = ${auditLog.subject}`,
+      ),
+    )
+    .where(and(...filterConditions(organizationId, filters, before)))
+    .orderBy(desc(auditLog.occurredAt), desc(auditLog.id))
+    .limit(limit);
 }
 
 function monthName(month: unknown): string {
@@ -284,15 +385,12 @@ export async function listAuditEntries(args: {
   limit: number;
   before?: number | null;
 }): Promise<{ entries: AuditEntryView[]; more: boolean }> {
-  const [{ rows }, codes] = await Promise.all([
-    pool.query<Row>(
-      ENTRIES_SQL,
-      parameters(
-        args.organizationId,
-        args.filters,
-        args.limit + 1,
-        args.before ?? null,
-      ),
+  const [rows, codes] = await Promise.all([
+    entries(
+      args.organizationId,
+      args.filters,
+      args.limit + 1,
+      args.before ?? null,
     ),
     meterCodes(args.organizationId),
   ]);

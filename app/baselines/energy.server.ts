@@ -6,8 +6,15 @@
  * cooling delivered, positive: ~/ledger/delivered.ts); export meters are
  * listed apart and never offset the consumption.
  */
-import { pool } from "~/db/client.server";
-import { deliveredSignSql } from "~/ledger/delivered";
+import { and, between, eq, isNull, sql } from "drizzle-orm";
+import type { AnyPgColumn } from "drizzle-orm/pg-core";
+import { db } from "~/db/client.server";
+import {
+  deliveredSignOfMeter,
+  firstDayOf,
+  meterOfRollup,
+} from "~/db/conditions.server";
+import { meters, monthlyRollups } from "~/db/schema";
 import type { Carrier } from "~/sites/meter-kinds";
 import type { MonthlyEnergy } from "./analysis";
 
@@ -26,29 +33,32 @@ export async function siteMonthlyEnergy(args: {
   from: string;
   to: string;
 }): Promise<SiteMonthlyEnergy[]> {
-  const { rows } = await pool.query<{
-    month: string;
-    imports_kwh: string;
-    exports_kwh: string;
-    estimated_kwh: string;
-    import_meters: number;
-  }>(
-    `select to_char(r.month, 'YYYY-MM') as month,
-            coalesce(sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where m.orientation = 'import'), 0)::text as imports_kwh,
-            coalesce(sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where m.orientation = 'export'), 0)::text as exports_kwh,
-            coalesce(sum(${deliveredSignSql("m.carrier")} * r.estimated_kwh) filter (where m.orientation = 'import'), 0)::text as estimated_kwh,
-            count(*) filter (where m.orientation = 'import')::int as import_meters
-       from monthly_rollups r
-       join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
-      where r.organization_id = $1
-        and m.site_id = $2
-        and m.carrier = $3::energy_carrier
-        and m.parent_meter_id is null
-        and r.month between to_date($4, 'YYYY-MM') and to_date($5, 'YYYY-MM')
-      group by r.month
-      order by r.month`,
-    [args.organizationId, args.siteId, args.carrier, args.from, args.to],
-  );
+  const delivered = (kwh: AnyPgColumn) => sql`${deliveredSignOfMeter} * ${kwh}`;
+  const rows = await db
+    .select({
+      month: sql<string>`to_char(${monthlyRollups.month}, 'YYYY-MM')`,
+      imports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
+      exports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'export'), 0)::text`,
+      estimated_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.estimatedKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
+      import_meters: sql<number>`count(*) filter (where ${meters.orientation} = 'import')::int`,
+    })
+    .from(monthlyRollups)
+    .innerJoin(meters, meterOfRollup)
+    .where(
+      and(
+        eq(monthlyRollups.organizationId, args.organizationId),
+        eq(meters.siteId, args.siteId),
+        eq(meters.carrier, args.carrier),
+        isNull(meters.parentMeterId),
+        between(
+          monthlyRollups.month,
+          firstDayOf(args.from),
+          firstDayOf(args.to),
+        ),
+      ),
+    )
+    .groupBy(monthlyRollups.month)
+    .orderBy(monthlyRollups.month);
   return rows
     .filter((r) => r.import_meters > 0)
     .map((r) => ({
@@ -65,20 +75,27 @@ export async function siteCarriers(args: {
   organizationId: string;
   siteId: string;
 }): Promise<{ carrier: Carrier; first: string | null; last: string | null }[]> {
-  const { rows } = await pool.query<{
-    carrier: Carrier;
-    first: string | null;
-    last: string | null;
-  }>(
-    `select m.carrier::text as carrier,
-            to_char(min(r.month), 'YYYY-MM') as first, to_char(max(r.month), 'YYYY-MM') as last
-       from meters m
-       left join monthly_rollups r on r.organization_id = m.organization_id and r.meter_id = m.id
-      where m.organization_id = $1 and m.site_id = $2
-        and m.parent_meter_id is null and m.orientation = 'import'
-      group by m.carrier
-      order by m.carrier`,
-    [args.organizationId, args.siteId],
-  );
+  const rows = await db
+    .select({
+      carrier: sql<Carrier>`${meters.carrier}::text`,
+      first: sql<
+        string | null
+      >`to_char(min(${monthlyRollups.month}), 'YYYY-MM')`,
+      last: sql<
+        string | null
+      >`to_char(max(${monthlyRollups.month}), 'YYYY-MM')`,
+    })
+    .from(meters)
+    .leftJoin(monthlyRollups, meterOfRollup)
+    .where(
+      and(
+        eq(meters.organizationId, args.organizationId),
+        eq(meters.siteId, args.siteId),
+        isNull(meters.parentMeterId),
+        eq(meters.orientation, "import"),
+      ),
+    )
+    .groupBy(meters.carrier)
+    .orderBy(meters.carrier);
   return rows;
 }

@@ -3,8 +3,9 @@
  * organization_id as well, which the keys start with) and the few filters
  * many modules share. One place, so that no join forgets the organisation.
  */
-import { and, eq, isNull } from "drizzle-orm";
-import { intervals, meters, sites } from "./schema";
+import { and, eq, isNull, sql } from "drizzle-orm";
+import { deliveredSignSql } from "~/ledger/delivered";
+import { intervals, meters, monthlyRollups, sites } from "./schema";
 
 /** Join condition: a meter's site. */
 export const siteOfMeter = and(
@@ -36,4 +37,24 @@ export function activeSitesOf(organizationId: string) {
     eq(sites.organizationId, organizationId),
     isNull(sites.archivedAt),
   );
+}
+
+/**
+ * delivered.ts's sign for the carrier of the `meters` table (not an alias of
+ * it) in a query-builder select, so that `sum(sign * energy)` turns the
+ * thermodynamic rollups into delivered and exported energy.
+ */
+export const deliveredSignOfMeter = sql.raw(
+  deliveredSignSql(`"meters"."carrier"`),
+);
+
+/** Join condition: a monthly rollup's meter. */
+export const meterOfRollup = and(
+  eq(meters.organizationId, monthlyRollups.organizationId),
+  eq(meters.id, monthlyRollups.meterId),
+);
+
+/** A `YYYY-MM` month as the date of its first day, as rollups key it. */
+export function firstDayOf(month: string) {
+  return sql`to_date(${month}, 'YYYY-MM')`;
 }

@@ -1,11 +1,36 @@
 import { listBaselines, siteMonths } from "~/baselines/baselines.server";
 import { avoidedEnergy, monthsFitted, predict } from "~/baselines/regression";
-import { and, count, eq, exists, isNull } from "drizzle-orm";
-import { db, pool } from "~/db/client.server";
-import { baselines, gateways, meters, sites } from "~/db/schema";
+import {
+  and,
+  between,
+  count,
+  desc,
+  eq,
+  exists,
+  gte,
+  inArray,
+  isNull,
+  lt,
+  or,
+  sql,
+} from "drizzle-orm";
+import { db } from "~/db/client.server";
+import {
+  baselines,
+  gateways,
+  intervals,
+  meters,
+  monthlyRollups,
+  sites,
+} from "~/db/schema";
 import type { Carrier } from "~/sites/meter-kinds";
-import { deliveredSignSql } from "~/ledger/delivered";
-import { activeSitesOf, siteOfMeter } from "~/db/conditions.server";
+import {
+  activeSitesOf,
+  deliveredSignOfMeter,
+  firstDayOf,
+  meterOfRollup,
+  siteOfMeter,
+} from "~/db/conditions.server";
 
 /** One site and carrier: its energy delivered in a month against a year before. */
 export interface SiteDrift {
@@ -39,25 +64,39 @@ export async function siteDrift(
   organizationId: string,
   month: string,
 ): Promise<SiteDrift[]> {
-  const { rows } = await pool.query<{
-    site_id: string;
-    site_name: string;
-    carrier: Carrier;
-    delivered: string | null;
-    previous: string | null;
-  }>(
-    `select s.id as site_id, s.name as site_name, m.carrier::text as carrier,
-            sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where r.month = to_date($2, 'YYYY-MM'))::text as delivered,
-            sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where r.month = to_date($2, 'YYYY-MM') - interval '1 year')::text as previous
-       from sites s
-       join meters m on m.organization_id = s.organization_id and m.site_id = s.id
-        and m.parent_meter_id is null and m.orientation = 'import'
-       join monthly_rollups r on r.organization_id = m.organization_id and r.meter_id = m.id
-        and r.month in (to_date($2, 'YYYY-MM'), (to_date($2, 'YYYY-MM') - interval '1 year')::date)
-      where s.organization_id = $1 and s.archived_at is null
-      group by s.id, s.name, m.carrier`,
-    [organizationId, month],
-  );
+  const thisMonth = firstDayOf(month);
+  const yearBefore = sql`(${firstDayOf(month)} - interval '1 year')::date`;
+  const delivered = sql`${deliveredSignOfMeter} * ${monthlyRollups.energyKwh}`;
+  const rows = await db
+    .select({
+      site_id: sites.id,
+      site_name: sites.name,
+      carrier: sql<Carrier>`${meters.carrier}::text`,
+      delivered: sql<
+        string | null
+      >`(sum(${delivered}) filter (where ${monthlyRollups.month} = ${thisMonth}))::text`,
+      previous: sql<
+        string | null
+      >`(sum(${delivered}) filter (where ${monthlyRollups.month} = ${firstDayOf(month)} - interval '1 year'))::text`,
+    })
+    .from(sites)
+    .innerJoin(
+      meters,
+      and(
+        siteOfMeter,
+        isNull(meters.parentMeterId),
+        eq(meters.orientation, "import"),
+      ),
+    )
+    .innerJoin(
+      monthlyRollups,
+      and(
+        meterOfRollup,
+        sql`${monthlyRollups.month} in (${thisMonth}, ${yearBefore})`,
+      ),
+    )
+    .where(activeSitesOf(organizationId))
+    .groupBy(sites.id, sites.name, meters.carrier);
   return rows
     .map((r) => {
       const delivered = Number(r.delivered ?? 0);
@@ -144,21 +183,47 @@ export async function silentMeters(
   hours: number,
   now = new Date(),
 ): Promise<SilentMeter[]> {
-  const { rows } = await pool.query<SilentMeter>(
-    `select m.id as meter_id, m.code, m.name, s.name as site_name,
-            to_char(last.hour_start at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"') as last_hour,
-            floor(extract(epoch from ($3::timestamptz - last.hour_start)) / 3600)::int as silent_hours
-       from meters m
-       join sites s on s.organization_id = m.organization_id and s.id = m.site_id
-       left join lateral (
-         select i.hour_start from intervals i
-          where i.organization_id = m.organization_id and i.meter_id = m.id and i.quality = 'measured'
-          order by i.hour_start desc limit 1) last on true
-      where m.organization_id = $1 and m.removed_at is null
-        and (last.hour_start is null or last.hour_start < $3::timestamptz - make_interval(hours => $2))
-      order by last.hour_start nulls first, m.code`,
-    [organizationId, hours, now],
-  );
+  const last = db
+    .select({ hourStart: intervals.hourStart })
+    .from(intervals)
+    .where(
+      and(
+        eq(intervals.organizationId, meters.organizationId),
+        eq(intervals.meterId, meters.id),
+        eq(intervals.quality, "measured"),
+      ),
+    )
+    .orderBy(desc(intervals.hourStart))
+    .limit(1)
+    .as("last");
+  const at = sql`${now}::timestamptz`;
+  const rows: SilentMeter[] = await db
+    .select({
+      meter_id: meters.id,
+      code: meters.code,
+      name: meters.name,
+      site_name: sites.name,
+      last_hour: sql<
+        string | null
+      >`to_char(${last.hourStart} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`,
+      silent_hours: sql<
+        number | null
+      >`floor(extract(epoch from (${at} - ${last.hourStart})) / 3600)::int`,
+    })
+    .from(meters)
+    .innerJoin(sites, siteOfMeter)
+    .leftJoinLateral(last, sql`true`)
+    .where(
+      and(
+        eq(meters.organizationId, organizationId),
+        isNull(meters.removedAt),
+        or(
+          isNull(last.hourStart),
+          lt(last.hourStart, sql`${at} - make_interval(hours => ${hours})`),
+        ),
+      ),
+    )
+    .orderBy(sql`${last.hourStart} nulls first`, meters.code);
   return rows;
 }
 
@@ -168,25 +233,29 @@ export async function completeness(
   days: number,
   now = new Date(),
 ) {
-  const { rows } = await pool.query<{
-    measured: string;
-    estimated: string;
-    expected: string;
-  }>(
-    `select (select count(*) from intervals i
-              where i.organization_id = $1 and i.hour_start >= $3::timestamptz - make_interval(days => $2)
-                and i.hour_start < $3 and i.quality in ('measured', 'edited')) as measured,
-            (select count(*) from intervals i
-              where i.organization_id = $1 and i.hour_start >= $3::timestamptz - make_interval(days => $2)
-                and i.hour_start < $3 and i.quality = 'estimated') as estimated,
-            (select count(*) * $2 * 24 from meters m where m.organization_id = $1 and m.removed_at is null) as expected`,
-    [organizationId, days, now],
+  const inWindow = and(
+    eq(intervals.organizationId, organizationId),
+    gte(
+      intervals.hourStart,
+      sql`${now}::timestamptz - make_interval(days => ${days})`,
+    ),
+    lt(intervals.hourStart, now),
   );
-  const r = rows[0];
-  const expected = Number(r.expected);
+  const [measured, estimated, installed] = await Promise.all([
+    db.$count(
+      intervals,
+      and(inWindow, inArray(intervals.quality, ["measured", "edited"])),
+    ),
+    db.$count(intervals, and(inWindow, eq(intervals.quality, "estimated"))),
+    db.$count(
+      meters,
+      and(eq(meters.organizationId, organizationId), isNull(meters.removedAt)),
+    ),
+  ]);
+  const expected = installed * days * 24;
   return {
-    measuredShare: expected ? Number(r.measured) / expected : 0,
-    estimatedShare: expected ? Number(r.estimated) / expected : 0,
+    measuredShare: expected ? measured / expected : 0,
+    estimatedShare: expected ? estimated / expected : 0,
   };
 }
 
@@ -209,21 +278,28 @@ export async function monthlyByCarrier(
   from: string,
   to: string,
 ): Promise<CarrierMonth[]> {
-  const { rows } = await pool.query<{
-    month: string;
-    carrier: Carrier;
-    delivered: string;
-    exported: string;
-  }>(
-    `select to_char(r.month, 'YYYY-MM') as month, m.carrier::text as carrier,
-            coalesce(sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where m.orientation = 'import'), 0)::text as delivered,
-            coalesce(sum(${deliveredSignSql("m.carrier")} * r.energy_kwh) filter (where m.orientation = 'export'), 0)::text as exported
-       from monthly_rollups r join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
-      where r.organization_id = $1 and m.parent_meter_id is null
-        and r.month between to_date($2, 'YYYY-MM') and to_date($3, 'YYYY-MM')
-      group by 1, 2 order by 1, 2`,
-    [organizationId, from, to],
-  );
+  const monthKey = sql<string>`to_char(${monthlyRollups.month}, 'YYYY-MM')`;
+  // By the carrier's name, not the enum's declared order.
+  const carrier = sql<Carrier>`${meters.carrier}::text`;
+  const delivered = sql`${deliveredSignOfMeter} * ${monthlyRollups.energyKwh}`;
+  const rows = await db
+    .select({
+      month: monthKey,
+      carrier,
+      delivered: sql<string>`coalesce(sum(${delivered}) filter (where ${meters.orientation} = 'import'), 0)::text`,
+      exported: sql<string>`coalesce(sum(${delivered}) filter (where ${meters.orientation} = 'export'), 0)::text`,
+    })
+    .from(monthlyRollups)
+    .innerJoin(meters, meterOfRollup)
+    .where(
+      and(
+        eq(monthlyRollups.organizationId, organizationId),
+        isNull(meters.parentMeterId),
+        between(monthlyRollups.month, firstDayOf(from), firstDayOf(to)),
+      ),
+    )
+    .groupBy(monthKey, carrier)
+    .orderBy(monthKey, carrier);
   return rows.map((r) => ({
     month: r.month,
     carrier: r.carrier,
