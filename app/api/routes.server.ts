@@ -67,6 +67,7 @@ import {
   webhookAnswerSchema,
 } from "./schemas";
 import { uploadReadings } from "./upload-readings.server";
+import { provisioningRoutes } from "./provisioning-routes.server";
 import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
@@ -411,6 +412,7 @@ export function apiRoutes(): ApiRoute[] {
         404: errorReply("No such report here, or not finished"),
       },
     },
+    ...provisioningRoutes(),
   ];
   let cached: ReturnType<typeof openApiDocument> | undefined;
   const document = () => (cached ??= openApiDocument(routes));

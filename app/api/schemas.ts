@@ -18,7 +18,12 @@ import { ledgerUnits } from "~/ledger/ledger-units";
 import { reportSummarySchema } from "~/reports/report-summary";
 import { intervalSchema } from "~/ingest/interval-schema";
 import { carrier } from "~/lib/wire-schemas";
-import { carriers, orientations } from "~/sites/meter-kinds";
+import {
+  carriers,
+  orientations,
+  quantities,
+  sensorPositions,
+} from "~/sites/meter-kinds";
 
 // Shapes that live beside their domain, so the domain need not reach up
 // into the API for them; the API's contract is still read from here.
@@ -224,4 +229,116 @@ export const auditPageSchema = z.strictObject({
     .int()
     .nullable()
     .describe("Pass as `before` for the next page; null on the last"),
+});
+
+// ---------------------------------------------------------- provisioning --
+// Sites and meters over the API. The bodies are checked for JSON types here;
+// the rules (lengths, ranges, time zones, carrier for quantity…) are the
+// pages' form schemas, applied by provisioning.server.ts.
+
+export const sitePathSchema = orgPathSchema.extend({ siteId: idSchema() });
+
+const decimalOrNull = z.number().nullable();
+
+export const siteCreateBodySchema = z.strictObject({
+  name: z.string(),
+  time_zone: z.string().describe("IANA time zone, e.g. Europe/London"),
+  floor_area_m2: decimalOrNull.optional(),
+  degree_day_base_c: z.number().optional().describe("°C; 15.5 if left out"),
+  address: z.string().optional(),
+});
+export const siteUpdateBodySchema = siteCreateBodySchema.partial();
+
+export const siteSchema = z.strictObject({
+  id: z.guid(),
+  name: z.string(),
+  time_zone: z.string(),
+  floor_area_m2: z.number().nullable(),
+  degree_day_base_c: z.number(),
+  address: z.string(),
+  created_at: z.iso.datetime({ offset: true }),
+  archived_at: z.iso.datetime({ offset: true }).nullable(),
+});
+export type ApiSite = z.output<typeof siteSchema>;
+export const siteListSchema = z.strictObject({ sites: z.array(siteSchema) });
+
+/**
+ * Only hourly meters exist until meters get a resolution column (issue #14);
+ * 15 and 30 are refused with a reason rather than silently stored as 60.
+ */
+const intervalMinutes = z
+  .number()
+  .refine((v) => v === 60, {
+    message:
+      "Half-hourly and quarter-hourly meters are not available yet; send 60 or leave interval_minutes out.",
+  })
+  .describe("Only 60 for now");
+
+const meterSettingsShape = {
+  code: z.string().describe("What gateways put in a reading's `meter`"),
+  name: z.string(),
+  quantity: z.enum(quantities),
+  carrier: z.enum(carriers),
+  orientation: z.enum(orientations),
+  interval_minutes: intervalMinutes.optional(),
+  parent_meter_id: z.guid().nullable().optional(),
+  serial: z.string().optional(),
+  multiplier: z.number().optional(),
+  rollover_kwh: decimalOrNull.optional(),
+  sensor_at: z.enum(sensorPositions).nullable().optional(),
+  default_pressure_bar_abs: decimalOrNull.optional(),
+  spike_factor: z.number().optional(),
+  accuracy_class: z
+    .union([z.literal(1), z.literal(2), z.literal(3)])
+    .nullable()
+    .optional(),
+  delta_theta_min_k: decimalOrNull.optional(),
+  qp_m3_per_h: decimalOrNull.optional(),
+  installed_at: z.string().describe("YYYY-MM-DD or a date-time"),
+};
+
+export const meterCreateBodySchema = z.strictObject({
+  site_id: z.guid(),
+  ...meterSettingsShape,
+});
+/** A meter stays on its site: site_id cannot be changed. */
+export const meterUpdateBodySchema = z
+  .strictObject(meterSettingsShape)
+  .partial();
+
+export const meterArchiveBodySchema = z.strictObject({
+  removed_at: z
+    .string()
+    .optional()
+    .describe("YYYY-MM-DD or a date-time; now if left out"),
+  reason: z.string().optional(),
+});
+
+export const meterSchema = z.strictObject({
+  id: z.guid(),
+  site_id: z.guid(),
+  code: z.string(),
+  name: z.string(),
+  quantity: z.enum(quantities),
+  carrier: z.enum(carriers),
+  orientation: z.enum(orientations),
+  interval_minutes: z.literal(60),
+  parent_meter_id: z.guid().nullable(),
+  serial: z.string(),
+  multiplier: z.number(),
+  rollover_kwh: z.number().nullable(),
+  sensor_at: z.enum(sensorPositions).nullable(),
+  default_pressure_bar_abs: z.number().nullable(),
+  spike_factor: z.number(),
+  accuracy_class: z.number().int().nullable(),
+  delta_theta_min_k: z.number().nullable(),
+  qp_m3_per_h: z.number().nullable(),
+  installed_at: z.iso.datetime({ offset: true }),
+  removed_at: z.iso.datetime({ offset: true }).nullable(),
+  replaced_by_meter_id: z.guid().nullable(),
+});
+export type ApiMeter = z.output<typeof meterSchema>;
+export const meterListSchema = z.strictObject({ meters: z.array(meterSchema) });
+export const meterListQuerySchema = z.strictObject({
+  site_id: z.guid().optional().describe("Only this site's meters"),
 });

@@ -46,6 +46,7 @@ export const auditActions = {
   "meter.replaced": { kind: "meter", label: "Meter swapped" },
   "site.created": { kind: "site", label: "Site added" },
   "site.updated": { kind: "site", label: "Site details changed" },
+  "site.archived": { kind: "site", label: "Site archived" },
   "gateway.created": { kind: "gateway", label: "Gateway key issued" },
   "gateway.revoked": { kind: "gateway", label: "Gateway key revoked" },
   "organization.created": { kind: "member", label: "Organisation created" },

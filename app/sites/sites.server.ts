@@ -4,6 +4,7 @@ import { activeSitesOf, installedMetersOfSite } from "~/db/conditions.server";
 import { isUniqueViolation } from "~/db/errors.server";
 import { meters, sites } from "~/db/schema";
 import { changedFields, recordAudit } from "~/audit/record-audit.server";
+import { afterMeteredChange } from "~/billing/sync-quantity.server";
 import type { SiteInput } from "./site-schema";
 
 const siteColumns = {
@@ -14,6 +15,7 @@ const siteColumns = {
   degreeDayBaseC: sites.degreeDayBaseC,
   address: sites.address,
   createdAt: sites.createdAt,
+  archivedAt: sites.archivedAt,
 };
 
 export async function listSites({
@@ -145,4 +147,53 @@ export async function updateSite(args: {
       throw new DuplicateNameError("A site with this name exists already.");
     throw error;
   }
+}
+
+/**
+ * Takes a site out of use: it leaves the site lists and the bill, and keeps
+ * its meters and history. Archiving an archived site changes nothing.
+ * False when the organisation has no such site.
+ */
+export async function archiveSite(args: {
+  organizationId: string;
+  actorUserId: string;
+  siteId: string;
+  reason?: string;
+}) {
+  const archived = await db.transaction(async (tx) => {
+    const where = and(
+      eq(sites.organizationId, args.organizationId),
+      eq(sites.id, args.siteId),
+    );
+    const [before] = await tx
+      .select({ archivedAt: sites.archivedAt })
+      .from(sites)
+      .where(where)
+      .for("update");
+    if (!before) return null;
+    if (before.archivedAt) return before.archivedAt;
+    const [after] = await tx
+      .update(sites)
+      .set({ archivedAt: new Date() })
+      .where(where)
+      .returning({ archivedAt: sites.archivedAt });
+    await recordAudit(tx, {
+      organizationId: args.organizationId,
+      actorUserId: args.actorUserId,
+      action: "site.archived",
+      subject: args.siteId,
+      siteId: args.siteId,
+      reason: args.reason,
+      before: { archivedAt: null },
+      after: { archivedAt: after.archivedAt },
+    });
+    return after.archivedAt;
+  });
+  // An archived site is no longer billed (after the commit, never failing).
+  if (archived)
+    await afterMeteredChange(
+      args.organizationId,
+      `site.archived:${args.siteId}`,
+    );
+  return archived !== null;
 }
