@@ -128,7 +128,7 @@ function check(path: string[], value: unknown): string[] {
 
 /** The problems of an answer against the document's schema for its status. */
 async function answerProblems(
-  method: "get" | "post",
+  method: "get" | "post" | "patch",
   expressPath: string,
   response: Response,
 ): Promise<string[]> {
@@ -319,7 +319,7 @@ describe("what the server answers fits the document", () => {
   const gateway = () => ({ authorization: `Bearer ${org.gatewayKey}` });
 
   async function expectFits(
-    method: "get" | "post",
+    method: "get" | "post" | "patch",
     expressPath: string,
     response: Response,
     status: number,
@@ -549,6 +549,116 @@ describe("what the server answers fits the document", () => {
     expect(await invalid.clone().json()).toMatchObject({ verdict: "invalid" });
     await expectFits("post", verifyPath, invalid, 200);
     await expectFits("post", verifyPath, await verify(Buffer.alloc(0)), 400);
+  });
+
+  it("sites and meters: create, read, list, patch, archive, and the refusals", async () => {
+    const sites = "/orgs/:orgId/sites";
+    const site = "/orgs/:orgId/sites/:siteId";
+    const meters = "/orgs/:orgId/meters";
+    const meter = "/orgs/:orgId/meters/:meterId";
+    const patch = (path: string, body: unknown) =>
+      owner.request(api(path), {
+        method: "PATCH",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify(body),
+      });
+    const siteBody = { name: `Contract ${org.tag}`, time_zone: "UTC" };
+    const created = await owner.postJson(api(`${orgPath}/sites`), siteBody);
+    const siteId = ((await created.clone().json()) as { id: string }).id;
+    await expectFits("post", sites, created, 201);
+    await expectFits(
+      "post",
+      sites,
+      await owner.postJson(api(`${orgPath}/sites`), siteBody),
+      409,
+    );
+    await expectFits(
+      "post",
+      sites,
+      await finance.postJson(api(`${orgPath}/sites`), siteBody),
+      403,
+    );
+    await expectFits(
+      "get",
+      sites,
+      await owner.get(api(`${orgPath}/sites`)),
+      200,
+    );
+    const sitePath = `${orgPath}/sites/${siteId}`;
+    await expectFits("get", site, await finance.get(api(sitePath)), 200);
+    await expectFits(
+      "patch",
+      site,
+      await patch(sitePath, { address: "1 Quay" }),
+      200,
+    );
+    await expectFits(
+      "patch",
+      site,
+      await patch(sitePath, { time_zone: "Nope" }),
+      400,
+    );
+    const meterBody = {
+      site_id: siteId,
+      code: `C-${org.tag}`,
+      name: "Contract meter",
+      quantity: "electric_register",
+      carrier: "electricity",
+      orientation: "import",
+      installed_at: "2026-01-01",
+    };
+    const newMeter = await owner.postJson(api(`${orgPath}/meters`), meterBody);
+    const meterId = ((await newMeter.clone().json()) as { id: string }).id;
+    await expectFits("post", meters, newMeter, 201);
+    await expectFits(
+      "post",
+      meters,
+      await owner.postJson(api(`${orgPath}/meters`), {
+        ...meterBody,
+        interval_minutes: 30,
+      }),
+      400,
+    );
+    await expectFits(
+      "get",
+      meters,
+      await owner.get(api(`${orgPath}/meters`)),
+      200,
+    );
+    const meterPath = `${orgPath}/meters/${meterId}`;
+    await expectFits("get", meter, await owner.get(api(meterPath)), 200);
+    await expectFits(
+      "patch",
+      meter,
+      await patch(meterPath, { serial: "SN-1" }),
+      200,
+    );
+    await expectFits(
+      "post",
+      `${meter}/archive`,
+      await owner.postJson(api(`${meterPath}/archive`), {}),
+      200,
+    );
+    await expectFits(
+      "post",
+      `${meter}/archive`,
+      await owner.postJson(api(`${meterPath}/archive`), {}),
+      409,
+    );
+    await expectFits(
+      "post",
+      `${site}/archive`,
+      await owner.postJson(api(`${sitePath}/archive`), {}),
+      200,
+    );
+    await expectFits(
+      "get",
+      site,
+      await owner.get(
+        api(`${orgPath}/sites/00000000-0000-4000-8000-000000000000`),
+      ),
+      404,
+    );
   });
 
   it("the billing webhook, signed and unsigned", async () => {
