@@ -8,6 +8,7 @@
 import { carrierLabels, carriers } from "~/sites/meter-kinds";
 import {
   carrierTotals,
+  type CarrierTotalRow,
   type ServerTotal,
   type TotalInput,
 } from "./carrier-totals";
@@ -103,16 +104,7 @@ export function ledgerExport(
       : null;
   };
   const figures = (
-    r: {
-      imports_kwh: string;
-      exports_kwh: string;
-      net_kwh: string;
-      estimated_kwh: string;
-      estimated_share: number;
-      uncertainty_kwh: string | null;
-      adjustments_kwh: string;
-      adjustment_count: number;
-    },
+    r: Omit<CarrierTotalRow, "carrier" | "floor_area_m2">,
     area: string | null,
   ): ExportCell[] => [
     ...(perM2 ? [area] : []),

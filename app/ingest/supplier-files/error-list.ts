@@ -1,4 +1,4 @@
-import type { RowError } from "./types";
+import type { ParseResult, RowError } from "./types";
 
 export const DEFAULT_MAX_ERRORS = 1000;
 
@@ -19,4 +19,15 @@ export class ErrorList {
       this.errors.push({ row, column, message });
     }
   }
+}
+
+/** A parse's result before its first row: nothing read, its refusals in `errors`. */
+export function emptyResult(errors: ErrorList): ParseResult {
+  return {
+    readings: [],
+    readingRows: [],
+    errors: errors.errors,
+    errorCount: 0,
+    notes: [],
+  };
 }

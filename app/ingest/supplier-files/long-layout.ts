@@ -11,7 +11,7 @@ import {
   type DateOrder,
 } from "./date-text";
 import { readEnergyCell } from "./energy-value";
-import { ErrorList } from "./error-list";
+import { emptyResult, ErrorList } from "./error-list";
 import {
   IsoText,
   clockShift,
@@ -81,13 +81,7 @@ export function parseLongLayout(
   options: ParseOptions,
 ): ParseResult {
   const errors = new ErrorList(options.maxErrors);
-  const result: ParseResult = {
-    readings: [],
-    readingRows: [],
-    errors: errors.errors,
-    errorCount: 0,
-    notes: [],
-  };
+  const result = emptyResult(errors);
   const problems = mappingErrors(
     table,
     { time: mapping.time.column, energy: mapping.energy.column },

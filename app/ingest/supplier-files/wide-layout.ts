@@ -16,7 +16,7 @@
 import { columnLabel, isBlank } from "./columns";
 import { readDateCell } from "./date-text";
 import { readEnergyCell } from "./energy-value";
-import { ErrorList } from "./error-list";
+import { emptyResult, ErrorList } from "./error-list";
 import {
   IsoText,
   clockShift,
@@ -122,13 +122,7 @@ export function parseWideLayout(
   options: ParseOptions,
 ): ParseResult {
   const errors = new ErrorList(options.maxErrors);
-  const result: ParseResult = {
-    readings: [],
-    readingRows: [],
-    errors: errors.errors,
-    errorCount: 0,
-    notes: [],
-  };
+  const result = emptyResult(errors);
   const { firstColumn, count: headerCount } = mapping.intervals;
   const minutes = resolutionOfColumnCount(headerCount);
   const problems = mappingErrors(
