@@ -320,3 +320,8 @@ export function formatMoney(minor: number, currency: string): string {
     currency: currency.toUpperCase(),
   }).format(minor / 100);
 }
+
+/** An exact decimal as a person would type it: "250000.000000" → "250000". No float. */
+export function decimalAsTyped(decimal: string): string {
+  return decimal.includes(".") ? decimal.replace(/\.?0+$/, "") : decimal;
+}

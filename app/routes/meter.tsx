@@ -3,6 +3,8 @@ import { idParam, notFound } from "~/auth/membership.server";
 import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { MeterFields } from "~/components/meter-fields";
+import { MeterLastReading } from "~/components/meter-last-reading";
+import { lastReadingOf } from "~/ingest/last-reading.server";
 import {
   Badge,
   Button,
@@ -41,13 +43,18 @@ export async function loader({ params, context }: Route.LoaderArgs) {
     meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
-  const siblings = await listSiteMeters({
-    organizationId: organization.id,
-    siteId: meter.siteId,
-  });
+  const [siblings, last] = await Promise.all([
+    listSiteMeters({ organizationId: organization.id, siteId: meter.siteId }),
+    lastReadingOf({ organizationId: organization.id, meterId: meter.id }),
+  ]);
   return {
     organization,
     meter,
+    last: {
+      at: last.at?.toISOString() ?? null,
+      registerKwh: last.registerKwh,
+      registerAt: last.registerAt?.toISOString() ?? null,
+    },
     parents: siblings.filter((m) => m.id !== meter.id && !m.removedAt),
     replacement: meter.replacedByMeterId
       ? (siblings.find((m) => m.id === meter.replacedByMeterId) ?? null)
@@ -138,7 +145,8 @@ export default function Meter({
   loaderData,
   actionData,
 }: Route.ComponentProps) {
-  const { meter, parents, canManage, organization, replacement } = loaderData;
+  const { meter, parents, canManage, organization, replacement, last } =
+    loaderData;
   const result = actionData as Result | undefined;
   const errorsFor = (intent: string): Record<string, string | undefined> =>
     result?.intent === intent ? result.errors : {};
@@ -172,6 +180,7 @@ export default function Meter({
         {result?.message ? (
           <Notice tone="success">{result.message}</Notice>
         ) : null}
+        <MeterLastReading last={last} timeZone={meter.timeZone} />
         {meter.removedAt ? (
           <Notice tone="caution" title="Retired">
             Removed on {dayUtc(meter.removedAt)}.

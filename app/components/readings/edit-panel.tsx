@@ -2,13 +2,8 @@ import { Form, useActionData, useNavigation } from "react-router";
 import { Button, Field, Notice } from "~/components/ui";
 import { CONFIRMED_SPIKE_FLAG, confirmLabel } from "~/ingest/correction-rules";
 import type { EditAnswer } from "~/ingest/interval-edit-form";
-import { dateTimeIn, formatHourKwh } from "~/lib/format";
+import { dateTimeIn, decimalAsTyped, formatHourKwh } from "~/lib/format";
 import type { Interval } from "./use-intervals";
-
-/** "250000.000000" as a person would type it: "250000". Exact, no float. */
-function withoutTrailingZeros(decimal: string): string {
-  return decimal.includes(".") ? decimal.replace(/\.?0+$/, "") : decimal;
-}
 
 /** Quality in the energy manager's words. */
 const qualityWords: Record<Interval["quality"], string> = {
@@ -77,7 +72,7 @@ export function EditPanel({
         name="energyKwh"
         inputMode="decimal"
         hint={hint}
-        defaultValue={withoutTrailingZeros(selected.energy_kwh)}
+        defaultValue={decimalAsTyped(selected.energy_kwh)}
         error={errors.energyKwh ?? errors.hourStart}
       />
       {answer?.confirm ? (
