@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { rowToReading } from "./csv";
 import { meterKindError, resolutionError } from "./interval-energy";
 import {
   parseReading,
@@ -107,5 +108,20 @@ describe("interval_energy readings: the meter's intervals", () => {
       "quantity: meter E-1 is a register (electric_register); send its register reads, not interval_energy",
     );
     expect(meterKindError({ code: "W-1", quantity: "water_heat" })).toBeNull();
+  });
+});
+
+describe("interval_energy rows in a CSV upload", () => {
+  it("a row with the API's field names becomes a reading the envelope takes", () => {
+    const reading = rowToReading({
+      meter: "S-1",
+      quantity: "interval_energy",
+      start: "2026-05-01T10:00:00Z",
+      end: "2026-05-01T11:00:00Z",
+      energy_kwh: "12.5",
+      volume_m3: "",
+    });
+    expect(reading).toEqual(energy());
+    expect(parseReading(reading, NOW).ok).toBe(true);
   });
 });
