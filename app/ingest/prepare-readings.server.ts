@@ -4,6 +4,11 @@ import { evaluateItem } from "~/physics/evaluate";
 import { parseReading, type ParsedReading } from "./reading-schema";
 import type { IngestMeter } from "./meter-lookup.server";
 import { installedError } from "./time-rules";
+import {
+  meterKindError,
+  resolutionError,
+  resolutionMinutes,
+} from "./interval-energy";
 
 /** A reading ready to store: its key, what arrived and its signed energy. */
 export interface PreparedReading {
@@ -59,15 +64,19 @@ export function hashPayload(payload: unknown): string {
  * (design.md). Export meters measure what leaves the site: the sign flips.
  * A cooling meter's register counts the cooling it delivered, a magnitude,
  * while that cooling is heat leaving the site: its hours are negative, as
- * chilled water measured by flow and return comes out by itself.
+ * chilled water measured by flow and return comes out by itself. An
+ * `interval_energy` reading is such a magnitude too, on any meter.
  */
 export function siteSign(
   meter: Pick<IngestMeter, "orientation" | "carrier" | "quantity">,
+  readingQuantity: string = meter.quantity,
 ): 1 | -1 {
   const orientation = meter.orientation === "export" ? -1 : 1;
-  const registersCoolingDelivered =
-    meter.carrier === "cooling" && meter.quantity === "heat_register";
-  return registersCoolingDelivered ? (-orientation as 1 | -1) : orientation;
+  const magnitude =
+    readingQuantity === "heat_register" ||
+    readingQuantity === "interval_energy";
+  const coolingDelivered = meter.carrier === "cooling" && magnitude;
+  return coolingDelivered ? (-orientation as 1 | -1) : orientation;
 }
 
 /**
@@ -118,6 +127,8 @@ function prepareOne(
   reading: ParsedReading,
   meter: IngestMeter,
 ): PreparedReading | Rejection {
+  if (reading.kind === "interval_energy")
+    return prepareIntervalEnergy(index, raw, reading, meter);
   const at = reading.kind === "interval" ? reading.start : reading.time;
   if (reading.quantity !== meter.quantity) {
     return {
@@ -160,6 +171,38 @@ function prepareOne(
       typeof mpePercent === "number"
         ? ((Math.abs(result.energy_kwh) * mpePercent) / 100).toFixed(6)
         : null,
+  };
+}
+
+/**
+ * The kWh of one of the meter's intervals. Any interval meter takes it
+ * whatever it measures (a supplier's kWh is as good as the meter's own
+ * readings); register meters do not (interval-energy.ts).
+ */
+function prepareIntervalEnergy(
+  index: number,
+  raw: unknown,
+  reading: Extract<ParsedReading, { kind: "interval_energy" }>,
+  meter: IngestMeter,
+): PreparedReading | Rejection {
+  const refusal =
+    meterKindError(meter) ??
+    resolutionError(resolutionMinutes(meter), reading.start, reading.end) ??
+    installedError(meter, reading.start);
+  if (refusal) return { index, meter: meter.code, reason: refusal };
+  const payload = raw as Record<string, unknown>;
+  const signed = reading.energyKwh * siteSign(meter, reading.quantity);
+  return {
+    index,
+    meter,
+    payload,
+    payloadHash: hashPayload(payload),
+    readingTime: reading.start,
+    endTime: reading.end,
+    // + 0 turns an export meter's −0 into 0.
+    energyKwh: (signed + 0).toFixed(6),
+    registerKwh: null,
+    uncertaintyKwh: null,
   };
 }
 

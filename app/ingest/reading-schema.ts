@@ -45,10 +45,16 @@ const instant = (field: string) =>
     })
     .transform((s) => new Date(s));
 
+/**
+ * What a reading may carry: every quantity a meter measures, and the kWh of
+ * an interval, which any interval meter accepts (interval-energy.ts).
+ */
+export const READING_QUANTITIES = [...QUANTITIES, "interval_energy"] as const;
+
 const envelopeSchema = z.looseObject({
   meter: meterCode,
-  quantity: z.enum(QUANTITIES, {
-    error: `quantity: expected one of ${QUANTITIES.join(", ")}`,
+  quantity: z.enum(READING_QUANTITIES, {
+    error: `quantity: expected one of ${READING_QUANTITIES.join(", ")}`,
   }),
 });
 
@@ -67,6 +73,26 @@ const registerSchema = z.strictObject({
   register_kwh: z
     .number({ error: "register_kwh: expected a finite number" })
     .min(0, "register_kwh: must not be negative"),
+});
+
+/**
+ * The kWh of one of the meter's intervals, as a supplier's file gives it: a
+ * magnitude, signed by the meter's orientation when it is stored.
+ */
+const intervalEnergySchema = z.strictObject({
+  meter: meterCode,
+  quantity: z.literal("interval_energy"),
+  start: instant("start"),
+  end: instant("end"),
+  energy_kwh: z
+    .number({ error: "energy_kwh: expected a finite number of kWh" })
+    .min(
+      0,
+      "energy_kwh: must not be negative; the sign comes from the meter's orientation (import or export)",
+    )
+    .describe(
+      "Energy in the interval, kWh, ≥ 0; an export meter's is stored negative",
+    ),
 });
 
 /** An interval reading: an evaluate item plus its meter and its hour span. */
@@ -90,6 +116,7 @@ export const wellFormedReadingSchema = z
     steamHeatItemSchema.extend(intervalReadingFields),
     sensibleHeatItemSchema.extend(intervalReadingFields),
     electricWorkItemSchema.extend(intervalReadingFields),
+    intervalEnergySchema,
     registerSchema,
   ])
   .meta({ id: "Reading" });
@@ -113,6 +140,15 @@ export type ParsedReading =
       end: Date;
       /** The reading without `meter`: a physics evaluate item. */
       item: Record<string, unknown>;
+    }
+  | {
+      kind: "interval_energy";
+      meter: string;
+      quantity: "interval_energy";
+      start: Date;
+      end: Date;
+      /** The interval's kWh as sent: a magnitude, never negative. */
+      energyKwh: number;
     }
   | {
       kind: "register";
@@ -198,11 +234,33 @@ export function parseWithSchemas(
     return { ok: false, error: firstIssue(envelope.error) };
   if (isRegisterQuantity(envelope.data.quantity))
     return parseRegister(raw, now);
+  if (envelope.data.quantity === "interval_energy")
+    return parseIntervalEnergy(raw, now);
   const times = intervalTimes.safeParse(raw);
   if (!times.success) return { ok: false, error: firstIssue(times.error) };
   const { meter, quantity } = envelope.data;
   const { start, end } = times.data;
   return intervalReading(raw, { meter, quantity, start, end }, now);
+}
+
+function parseIntervalEnergy(raw: object, now: Date) {
+  const parsed = intervalEnergySchema.safeParse(raw);
+  if (!parsed.success)
+    return { ok: false as const, error: firstIssue(parsed.error) };
+  const { meter, start, end, energy_kwh } = parsed.data;
+  const error = intervalError(start, end, now);
+  if (error) return { ok: false as const, error };
+  return {
+    ok: true as const,
+    reading: {
+      kind: "interval_energy" as const,
+      meter,
+      quantity: "interval_energy" as const,
+      start,
+      end,
+      energyKwh: energy_kwh,
+    },
+  };
 }
 
 function parseRegister(raw: object, now: Date) {
