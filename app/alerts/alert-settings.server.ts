@@ -2,6 +2,7 @@ import { and, eq } from "drizzle-orm";
 import { managers, type Role } from "~/auth/permissions";
 import { db } from "~/db/client.server";
 import { alertSettings } from "~/db/schema";
+import { NO_DATA_AFTER_HOURS } from "./no-data";
 
 export interface AlertPreferences {
   silentMeter: boolean;
@@ -9,9 +10,6 @@ export interface AlertPreferences {
   monthReady: boolean;
   silentHours: number;
 }
-
-/** Hours without an actual interval before a meter counts as sending no data. */
-export const DEFAULT_SILENT_HOURS = 24;
 
 /** Managers get every alert until they choose otherwise; the others opt in. */
 export function alertsOnByDefault(role: string): boolean {
@@ -46,7 +44,7 @@ export async function alertPreferences(
       silentMeter: byDefault,
       residual: byDefault,
       monthReady: byDefault,
-      silentHours: DEFAULT_SILENT_HOURS,
+      silentHours: NO_DATA_AFTER_HOURS,
     }
   );
 }

@@ -9,10 +9,8 @@ import {
 } from "~/db/schema";
 import { appUrl } from "~/env.server";
 import { sendEmail } from "~/email/mailer.server";
-import {
-  alertsOnByDefault,
-  DEFAULT_SILENT_HOURS,
-} from "./alert-settings.server";
+import { alertsOnByDefault } from "./alert-settings.server";
+import { NO_DATA_AFTER_HOURS } from "./no-data";
 import { alertDigestEmail, type DigestSection } from "./digest-email.server";
 import {
   monthReadyConditions,
@@ -67,7 +65,7 @@ async function recipients(
     .filter((h): h is number => h !== null);
   return {
     list,
-    silentHours: hours.length ? Math.min(...hours) : DEFAULT_SILENT_HOURS,
+    silentHours: hours.length ? Math.min(...hours) : NO_DATA_AFTER_HOURS,
   };
 }
 

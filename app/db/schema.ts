@@ -19,6 +19,7 @@ import {
   uuid,
 } from "drizzle-orm/pg-core";
 // Relative imports: drizzle-kit loads this file without the app's `~/` alias.
+import { NO_DATA_AFTER_HOURS } from "../alerts/no-data";
 import { roles } from "../auth/permissions";
 import { intervalQualities } from "../ingest/series";
 import {
@@ -637,7 +638,7 @@ export const alertSettings = pgTable(
     silentMeter: boolean("silent_meter").notNull(),
     residual: boolean("residual").notNull(),
     monthReady: boolean("month_ready").notNull(),
-    silentHours: integer("silent_hours").notNull().default(24),
+    silentHours: integer("silent_hours").notNull().default(NO_DATA_AFTER_HOURS),
   },
   (t) => [primaryKey({ columns: [t.organizationId, t.userId] })],
 );

@@ -15,6 +15,7 @@ import {
   alertPreferences,
   saveAlertPreferences,
 } from "~/alerts/alert-settings.server";
+import { NO_DATA_AFTER_HOURS } from "~/alerts/no-data";
 import { parseForm } from "~/lib/forms";
 import { estateOverview } from "~/overview/overview-page.server";
 import type { Route } from "./+types/overview";
@@ -29,7 +30,7 @@ const querySchema = z.object({
     .int()
     .min(1)
     .max(24 * 90)
-    .catch(24),
+    .catch(NO_DATA_AFTER_HOURS),
 });
 
 export async function loader({ request, context }: Route.LoaderArgs) {

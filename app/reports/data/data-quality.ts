@@ -5,14 +5,9 @@
  * without a measured hour, and the conflicting readings kept for review.
  * Pure: the counts come from data-quality.server.ts.
  */
+import { NO_DATA_AFTER_HOURS } from "~/alerts/no-data";
 import type { Orientation } from "~/sites/meter-kinds";
 import type { Carrier, DataQuality, MeterQuality } from "./types";
-
-/**
- * A meter silent this long has missed a day of readings: the default of the
- * product's silent-meter alert (alert_settings.silent_hours).
- */
-export const SILENT_AFTER_HOURS = 24;
 
 const HOUR = 3_600_000;
 
@@ -86,9 +81,9 @@ export function dataQuality(counts: readonly MeterHourCounts[]): DataQuality {
     estimatedHours: sum((m) => m.estimatedHours),
     editedHours: sum((m) => m.editedHours),
     missingHours: sum((m) => m.missingHours),
-    silentAfterHours: SILENT_AFTER_HOURS,
+    silentAfterHours: NO_DATA_AFTER_HOURS,
     silentMeters: meters.filter(
-      (m) => m.longestSilentHours >= SILENT_AFTER_HOURS,
+      (m) => m.longestSilentHours >= NO_DATA_AFTER_HOURS,
     ).length,
     conflicts: sum((m) => m.conflicts),
     openConflicts: sum((m) => m.openConflicts),
