@@ -47,6 +47,8 @@ export const auditActions = {
   "site.created": { kind: "site", label: "Site added" },
   "site.updated": { kind: "site", label: "Site details changed" },
   "site.archived": { kind: "site", label: "Site archived" },
+  "plant.created": { kind: "site", label: "Plant added" },
+  "plant.archived": { kind: "site", label: "Plant archived" },
   "gateway.created": { kind: "gateway", label: "Gateway key issued" },
   "gateway.revoked": { kind: "gateway", label: "Gateway key revoked" },
   "organization.created": { kind: "member", label: "Organisation created" },

@@ -22,6 +22,7 @@ import {
 import { NO_DATA_AFTER_HOURS } from "../alerts/no-data";
 import { roles } from "../auth/permissions";
 import { intervalQualities } from "../ingest/series";
+import { plantKinds, plantMeterRoles } from "../plant/plant-roles";
 import {
   carriers,
   orientations,
@@ -618,6 +619,73 @@ export const baselines = pgTable(
       sql`${t.granularity} in ('monthly', 'daily')`,
     ),
     check("baselines_period_check", sql`${t.periodFrom} <= ${t.periodTo}`),
+  ],
+);
+
+// ---------------------------------------------------------------------------
+// Plant inside a site's boundary (boiler, CHP, heat pump, chiller, fuel
+// cell): a sub-system with the meters on its inputs and outputs, judged each
+// month against the first and second laws (app/plant/).
+// ---------------------------------------------------------------------------
+
+export const plantKindEnum = pgEnum("plant_kind", plantKinds);
+export const plantMeterRoleEnum = pgEnum("plant_meter_role", plantMeterRoles);
+
+export const plants = pgTable(
+  "plants",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: uuid("id").notNull().defaultRandom(),
+    siteId: uuid("site_id").notNull(),
+    kind: plantKindEnum("kind").notNull(),
+    name: text("name").notNull(),
+    /** The calorific-value basis its fuel meters' kWh are stated on. */
+    fuelCvBasis: text("fuel_cv_basis").notNull().default("gross"),
+    /** Design water temperatures: the Carnot and exergy figures use them. */
+    heatFlowC: numeric("heat_flow_c", { precision: 5, scale: 1 }),
+    heatReturnC: numeric("heat_return_c", { precision: 5, scale: 1 }),
+    chilledFlowC: numeric("chilled_flow_c", { precision: 5, scale: 1 }),
+    chilledReturnC: numeric("chilled_return_c", { precision: 5, scale: 1 }),
+    createdAt: createdAt(),
+    archivedAt: timestamp("archived_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("plants_name_unique").on(
+      t.organizationId,
+      t.siteId,
+      sql`lower(${t.name})`,
+    ),
+    foreignKey({
+      columns: [t.organizationId, t.siteId],
+      foreignColumns: [sites.organizationId, sites.id],
+    }).onDelete("cascade"),
+    check(
+      "plants_fuel_cv_basis_check",
+      sql`${t.fuelCvBasis} in ('gross', 'net')`,
+    ),
+  ],
+);
+
+/** Which meter measures which of a plant's inputs or outputs. */
+export const plantMeters = pgTable(
+  "plant_meters",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    plantId: uuid("plant_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    role: plantMeterRoleEnum("role").notNull(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.plantId, t.meterId] }),
+    foreignKey({
+      columns: [t.organizationId, t.plantId],
+      foreignColumns: [plants.organizationId, plants.id],
+    }).onDelete("cascade"),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
   ],
 );
 

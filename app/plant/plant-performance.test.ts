@@ -151,3 +151,16 @@ describe("heat pumps and chillers", () => {
     ).toEqual(["eer"]);
   });
 });
+
+describe("a month without weather", () => {
+  it("still shows the COP but leaves the Carnot check and the exergy out", () => {
+    const month: PlantMonth = {
+      ...airSourceHeatPump(12),
+      temperatures: { heatFlowC: 35, heatReturnC: 30 },
+    };
+    const perf = plantPerformance(month);
+    expect(figure(month, "cop")).toBeCloseTo(12, 12);
+    expect(figure(month, "second_law_efficiency")).toBeNull();
+    expect(perf.checks).toEqual([]);
+  });
+});

@@ -32,9 +32,12 @@ export interface PlantMonth {
   /** Cooling delivered, ≥ 0. */
   coolingOutKwh?: number;
   electricityOutKwh?: number;
-  /** The month's means; the outdoor mean is also the dead state. */
+  /**
+   * The month's means; the outdoor mean is also the dead state. Without it
+   * (no weather for the month) the Carnot and exergy figures are left out.
+   */
   temperatures: {
-    outdoorC: number;
+    outdoorC?: number;
     heatFlowC?: number;
     heatReturnC?: number;
     chilledFlowC?: number;
@@ -87,12 +90,14 @@ function fuelMaxWork(month: PlantMonth): number {
 function heatExergy(month: PlantMonth): number | null {
   const { heatFlowC, heatReturnC, outdoorC } = month.temperatures;
   if (heatFlowC === undefined || heatReturnC === undefined) return null;
+  if (outdoorC === undefined) return null;
   return heatExergyKwh(month.heatOutKwh ?? 0, heatFlowC, heatReturnC, outdoorC);
 }
 
 function coolingExergy(month: PlantMonth): number | null {
   const { chilledFlowC, chilledReturnC, outdoorC } = month.temperatures;
   if (chilledFlowC === undefined || chilledReturnC === undefined) return null;
+  if (outdoorC === undefined) return null;
   return heatExergyKwh(
     month.coolingOutKwh ?? 0,
     chilledFlowC,
@@ -169,7 +174,9 @@ function heatPump(month: PlantMonth): PlantPerformance {
   const { heatFlowC, heatReturnC, outdoorC } = month.temperatures;
   const exergy = heatExergy(month);
   const limit =
-    heatFlowC === undefined || heatReturnC === undefined
+    heatFlowC === undefined ||
+    heatReturnC === undefined ||
+    outdoorC === undefined
       ? null
       : carnotHeatingCop(
           meanTemperatureK(heatFlowC, heatReturnC) - kelvin(0),
@@ -198,7 +205,9 @@ function chiller(month: PlantMonth): PlantPerformance {
   const { chilledFlowC, chilledReturnC, outdoorC } = month.temperatures;
   const exergy = coolingExergy(month);
   const limit =
-    chilledFlowC === undefined || chilledReturnC === undefined
+    chilledFlowC === undefined ||
+    chilledReturnC === undefined ||
+    outdoorC === undefined
       ? null
       : carnotCoolingCop(
           meanTemperatureK(chilledFlowC, chilledReturnC) - kelvin(0),
