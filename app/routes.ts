@@ -25,6 +25,7 @@ export default [
       route("sites", "routes/sites.tsx"),
       route("sites/:siteId", "routes/site.tsx"),
       route("sites/:siteId/meters/new", "routes/meter-new.tsx"),
+      route("sites/:siteId/plant", "routes/site-plant.tsx"),
       route("meters/:meterId", "routes/meter.tsx"),
       route("meters/:meterId/readings", "routes/meter-readings.tsx"),
       route("readings", "routes/readings.tsx"),
