@@ -25,6 +25,7 @@ CREATE TABLE "plants" (
 	CONSTRAINT "plants_fuel_cv_basis_check" CHECK ("plants"."fuel_cv_basis" in ('gross', 'net'))
 );
 --> statement-breakpoint
+ALTER TABLE "alert_settings" ADD COLUMN "plant_fault" boolean DEFAULT true NOT NULL;--> statement-breakpoint
 ALTER TABLE "plant_meters" ADD CONSTRAINT "plant_meters_organization_id_plant_id_plants_organization_id_id_fk" FOREIGN KEY ("organization_id","plant_id") REFERENCES "public"."plants"("organization_id","id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "plant_meters" ADD CONSTRAINT "plant_meters_organization_id_meter_id_meters_organization_id_id_fk" FOREIGN KEY ("organization_id","meter_id") REFERENCES "public"."meters"("organization_id","id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE "plants" ADD CONSTRAINT "plants_organization_id_site_id_sites_organization_id_id_fk" FOREIGN KEY ("organization_id","site_id") REFERENCES "public"."sites"("organization_id","id") ON DELETE cascade ON UPDATE no action;--> statement-breakpoint

@@ -706,6 +706,8 @@ export const alertSettings = pgTable(
     silentMeter: boolean("silent_meter").notNull(),
     residual: boolean("residual").notNull(),
     monthReady: boolean("month_ready").notNull(),
+    /** A plant's month broke a law: a meter on it reads wrongly. */
+    plantFault: boolean("plant_fault").notNull().default(true),
     silentHours: integer("silent_hours").notNull().default(NO_DATA_AFTER_HOURS),
   },
   (t) => [primaryKey({ columns: [t.organizationId, t.userId] })],

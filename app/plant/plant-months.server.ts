@@ -138,19 +138,24 @@ function judgeMonth(
   return plantPerformance(month);
 }
 
-/** The last `months` months with data of each plant, newest first. */
+/**
+ * Each plant's months with data, newest first: the last `months` (12 by
+ * default), or only those of `within` (YYYY-MM), for a report's period.
+ */
 export async function sitePlantMonths(args: {
   organizationId: string;
   siteId: string;
   plants: PlantRow[];
   months?: number;
+  within?: readonly string[];
 }): Promise<Map<string, PlantMonthFigures[]>> {
   const meterIds = args.plants.flatMap((p) => p.meters.map((m) => m.meterId));
   const rows = await plantRollups(args.organizationId, meterIds);
   const monthsWithData = [...new Set(rows.map((r) => r.month.slice(0, 7)))]
+    .filter((m) => args.within?.includes(m) ?? true)
     .sort()
     .reverse()
-    .slice(0, args.months ?? 12);
+    .slice(0, args.within ? undefined : (args.months ?? 12));
   const outdoor = monthsWithData.length
     ? await monthlyOutdoorMeans(
         args.organizationId,

@@ -32,15 +32,26 @@ const plantColumns = {
   chilledReturnC: plants.chilledReturnC,
 };
 
-export type PlantRow = Awaited<ReturnType<typeof listSitePlants>>[number];
+export type PlantRow = Awaited<ReturnType<typeof listPlants>>[number];
 
 /** The site's plant in use, each with the meters on its inputs and outputs. */
-export async function listSitePlants({
+export function listSitePlants(args: {
+  organizationId: string;
+  siteId: string;
+}) {
+  return listPlants(args);
+}
+
+/**
+ * Plant in use with the meters on its inputs and outputs: one site's, or
+ * (siteId null) the whole organisation's.
+ */
+export async function listPlants({
   organizationId,
   siteId,
 }: {
   organizationId: string;
-  siteId: string;
+  siteId: string | null;
 }) {
   const rows = await db
     .select(plantColumns)
@@ -48,7 +59,7 @@ export async function listSitePlants({
     .where(
       and(
         eq(plants.organizationId, organizationId),
-        eq(plants.siteId, siteId),
+        siteId === null ? undefined : eq(plants.siteId, siteId),
         isNull(plants.archivedAt),
       ),
     )

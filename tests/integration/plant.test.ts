@@ -3,11 +3,19 @@
 // checks the role and no organisation sees another's plant.
 import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { applyAppTestEnv } from "../support/app-env";
 import { createOrganization, db, pool, schema } from "../support/db";
-import { Client } from "../support/http";
+import { Client, outbox } from "../support/http";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
-afterAll(() => pool.end());
+type RunAlerts = typeof import("../../app/alerts/run-alerts.server").runAlerts;
+let runAlerts: RunAlerts;
+let appPool: { end: () => Promise<void> };
+
+afterAll(async () => {
+  await appPool.end();
+  await pool.end();
+});
 
 let org: MeteredOrg;
 let owner: Client;
@@ -42,6 +50,9 @@ async function rollup(meterId: string, month: string, energyKwh: string) {
 }
 
 beforeAll(async () => {
+  applyAppTestEnv();
+  ({ runAlerts } = await import("../../app/alerts/run-alerts.server"));
+  ({ pool: appPool } = await import("../../app/db/client.server"));
   org = await createMeteredOrg({ roles: ["owner", "auditor"] });
   owner = new Client();
   await owner.signIn(org.org.members[0].email, org.org.members[0].password);
@@ -173,5 +184,41 @@ describe("the plant's months", () => {
     const response = await client.get(plantPath());
     expect([403, 404]).toContain(response.status);
     expect(await response.text()).not.toContain("Heat pump HP1");
+  });
+});
+
+describe("the alert", () => {
+  it("mails the owner once about July's fault, naming the plant's meters", async () => {
+    const inAugust = new Date("2026-08-05T06:00:00Z");
+    const first = await runAlerts(org.org.id, inAugust);
+    const plantAlerts = first.opened.filter((c) => c.kind === "plant_fault");
+    expect(plantAlerts).toHaveLength(1);
+    expect(plantAlerts[0].title).toContain("Metering fault at Heat pump HP1");
+    expect(plantAlerts[0].detail).toContain(org.meters.water.code);
+    const mails = (await outbox()).filter(
+      (m) =>
+        m.to.includes(org.org.members[0].email) &&
+        m.text.includes("Metering fault at Heat pump HP1"),
+    );
+    expect(mails).toHaveLength(1);
+    const again = await runAlerts(org.org.id, inAugust);
+    expect(again.opened.filter((c) => c.kind === "plant_fault")).toEqual([]);
+  });
+
+  it("clears when the heat meter's July is corrected", async () => {
+    await db
+      .update(schema.monthlyRollups)
+      .set({ energyKwh: "3000" })
+      .where(
+        and(
+          eq(schema.monthlyRollups.organizationId, org.org.id),
+          eq(schema.monthlyRollups.meterId, org.meters.water.id),
+          eq(schema.monthlyRollups.month, "2026-07-01"),
+        ),
+      );
+    const run = await runAlerts(org.org.id, new Date("2026-08-06T06:00:00Z"));
+    expect(run.cleared).toBeGreaterThanOrEqual(1);
+    const html = await (await owner.get(plantPath())).text();
+    expect(html).not.toContain("with a metering fault");
   });
 });

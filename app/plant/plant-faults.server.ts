@@ -1,0 +1,83 @@
+/**
+ * The months in which a plant broke a law, across an organisation or a site:
+ * what the alerts raise and the reports list under data quality. Each names
+ * the plant's meters, since one of them is reading wrongly.
+ */
+import { and, eq, inArray } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { sites } from "~/db/schema";
+import { sitePlantMonths } from "./plant-months.server";
+import { plantKindLabels, type PlantKind } from "./plant-roles";
+import { plantFaultText } from "./plant-words";
+import { listPlants, type PlantRow } from "./plants.server";
+
+export interface PlantFault {
+  plantId: string;
+  plantName: string;
+  kind: PlantKind;
+  kindLabel: string;
+  siteName: string;
+  /** YYYY-MM */
+  month: string;
+  /** Codes of the plant's meters, one of which reads wrongly. */
+  meterCodes: string[];
+  text: string;
+}
+
+async function siteNames(organizationId: string, ids: string[]) {
+  if (ids.length === 0) return new Map<string, string>();
+  const rows = await db
+    .select({ id: sites.id, name: sites.name })
+    .from(sites)
+    .where(
+      and(eq(sites.organizationId, organizationId), inArray(sites.id, ids)),
+    );
+  return new Map(rows.map((r) => [r.id, r.name]));
+}
+
+function groupBySite(plants: PlantRow[]): Map<string, PlantRow[]> {
+  const bySite = new Map<string, PlantRow[]>();
+  for (const p of plants)
+    bySite.set(p.siteId, [...(bySite.get(p.siteId) ?? []), p]);
+  return bySite;
+}
+
+/** Every plant fault in the given months (YYYY-MM), oldest month first. */
+export async function plantFaults(args: {
+  organizationId: string;
+  siteId: string | null;
+  months: readonly string[];
+}): Promise<PlantFault[]> {
+  const plants = await listPlants(args);
+  const bySite = groupBySite(plants);
+  const names = await siteNames(args.organizationId, [...bySite.keys()]);
+  const faults: PlantFault[] = [];
+  for (const [siteId, sitePlants] of bySite) {
+    const months = await sitePlantMonths({
+      organizationId: args.organizationId,
+      siteId,
+      plants: sitePlants,
+      within: args.months,
+    });
+    for (const plant of sitePlants) {
+      for (const m of months.get(plant.id) ?? []) {
+        for (const check of m.faults) {
+          faults.push({
+            plantId: plant.id,
+            plantName: plant.name,
+            kind: plant.kind,
+            kindLabel: plantKindLabels[plant.kind],
+            siteName: names.get(siteId) ?? "",
+            month: m.month,
+            meterCodes: plant.meters.map((l) => l.code),
+            text: plantFaultText(plant.kind, check),
+          });
+        }
+      }
+    }
+  }
+  return faults.sort(
+    (a, b) =>
+      a.month.localeCompare(b.month) || a.plantName.localeCompare(b.plantName),
+  );
+}
