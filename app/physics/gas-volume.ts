@@ -64,7 +64,7 @@ export function gasCorrectionFactor(
 
 // The correction factor a caller may state directly is bounded by what the
 // line-condition ranges above can produce, so both routes accept the same
-// gas states (about 0.598 to 6.86).
+// gas states (about 0.598 to 6.853).
 export const CORRECTION_FACTOR_RANGE = {
   min: gasCorrectionFactor(
     GAS_RANGES.gasTempC.max,
