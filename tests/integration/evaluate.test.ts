@@ -425,7 +425,7 @@ describe("POST /api/v1/energy/evaluate: item shape", () => {
 
   it("an unknown quantity, or an item that is not an object, fails alone", async () => {
     const results = await evaluate([
-      { ...WATER, quantity: "gas_volume" },
+      { ...WATER, quantity: "coal_mass" },
       "water_heat",
       null,
       42,
