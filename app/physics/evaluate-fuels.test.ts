@@ -255,3 +255,24 @@ it("answers a mixed fuel batch item by item, one refusal leaving the rest", () =
     expect(evaluateResultSchema.safeParse(r).success).toBe(true);
   expect(errorOf(results[4])).toContain("gas_volume, liquid_fuel, hydrogen");
 });
+
+it.each([
+  [{ ...GAS, volume_m3: 1e308 }, "volume_m3"],
+  [
+    { quantity: "gas_volume", volume_ft3: 1e308, calorific_value_mj_m3: 40 },
+    "volume_ft3",
+  ],
+  [
+    { ...OIL, opening_stock_l: 1e308, deliveries_l: 1e308, closing_stock_l: 0 },
+    "opening_stock_l",
+  ],
+  [{ quantity: "hydrogen", volume_nm3: 1e308 }, "volume_nm3"],
+  [{ ...HEATING, volume_m3: 1e306, ambient_temp_c: 5 }, "volume_m3"],
+])(
+  "refuses figures that overflow under the item's own field (%o)",
+  (item, field) => {
+    expect(errorOf(evaluateItem(item))).toMatch(
+      new RegExp(`^${field}: .* too large to represent`),
+    );
+  },
+);
