@@ -18,7 +18,7 @@ import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 applyAppTestEnv();
 // After the environment is set: the app's modules read it when they load.
 const { apiRouter } = await import("../../app/api/router.server");
-const { QUANTITIES, evaluateItemSchema } =
+const { EVALUATE_QUANTITIES, evaluateItemSchema } =
   await import("../../app/physics/evaluate-schema");
 
 afterAll(() => pool.end());
@@ -225,7 +225,7 @@ describe("the document is valid OpenAPI 3.1", () => {
     };
     expect(item.discriminator.propertyName).toBe("quantity");
     expect(Object.keys(item.discriminator.mapping).sort()).toEqual(
-      [...QUANTITIES].sort(),
+      [...EVALUATE_QUANTITIES].sort(),
     );
     const water = doc.components.schemas.WaterHeatItem as {
       additionalProperties: unknown;
