@@ -7,22 +7,12 @@ import { and, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { sites } from "~/db/schema";
 import { sitePlantMonths } from "./plant-months.server";
-import { plantKindLabels, type PlantKind } from "./plant-roles";
+import { plantKindLabels } from "./plant-roles";
 import { plantFaultText } from "./plant-words";
 import { listPlants, type PlantRow } from "./plants.server";
+import type { PlantFault } from "./plant-fault";
 
-export interface PlantFault {
-  plantId: string;
-  plantName: string;
-  kind: PlantKind;
-  kindLabel: string;
-  siteName: string;
-  /** YYYY-MM */
-  month: string;
-  /** Codes of the plant's meters, one of which reads wrongly. */
-  meterCodes: string[];
-  text: string;
-}
+export type { PlantFault };
 
 async function siteNames(organizationId: string, ids: string[]) {
   if (ids.length === 0) return new Map<string, string>();
@@ -48,6 +38,15 @@ export async function plantFaults(args: {
   siteId: string | null;
   months: readonly string[];
 }): Promise<PlantFault[]> {
+  return (await plantChecks(args)).faults;
+}
+
+/** How many plants were checked, and the faults found, for a report. */
+export async function plantChecks(args: {
+  organizationId: string;
+  siteId: string | null;
+  months: readonly string[];
+}): Promise<{ plants: number; faults: PlantFault[] }> {
   const plants = await listPlants(args);
   const bySite = groupBySite(plants);
   const names = await siteNames(args.organizationId, [...bySite.keys()]);
@@ -76,8 +75,9 @@ export async function plantFaults(args: {
       }
     }
   }
-  return faults.sort(
+  faults.sort(
     (a, b) =>
       a.month.localeCompare(b.month) || a.plantName.localeCompare(b.plantName),
   );
+  return { plants: plants.length, faults };
 }
