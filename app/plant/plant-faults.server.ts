@@ -81,3 +81,33 @@ export async function plantChecks(args: {
   );
   return { plants: plants.length, faults };
 }
+
+/**
+ * The faults of the last twelve months with data on the plants a meter
+ * serves: shown on the meter's page, since it may be the one reading wrongly.
+ */
+export async function meterPlantFaults(args: {
+  organizationId: string;
+  siteId: string;
+  meterId: string;
+}): Promise<PlantFault[]> {
+  const plants = (await listPlants(args)).filter((p) =>
+    p.meters.some((m) => m.meterId === args.meterId),
+  );
+  if (plants.length === 0) return [];
+  const months = await sitePlantMonths({ ...args, plants });
+  return plants.flatMap((plant) =>
+    (months.get(plant.id) ?? []).flatMap((m) =>
+      m.faults.map((check) => ({
+        plantId: plant.id,
+        plantName: plant.name,
+        kind: plant.kind,
+        kindLabel: plantKindLabels[plant.kind],
+        siteName: "",
+        month: m.month,
+        meterCodes: plant.meters.map((l) => l.code),
+        text: plantFaultText(plant.kind, check),
+      })),
+    ),
+  );
+}
