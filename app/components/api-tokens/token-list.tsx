@@ -1,0 +1,162 @@
+import { useEffect, useRef } from "react";
+import { Form, Link } from "react-router";
+import { roleLabels, type Role } from "~/auth/permissions";
+import { RelativeTime } from "~/components/relative-time";
+import { Badge, Button, buttonClass, EmptyState } from "~/components/ui";
+import { dateTimeUtc, dayUtc } from "~/lib/format";
+
+export interface TokenRow {
+  id: string;
+  name: string;
+  role: Role;
+  tokenPrefix: string;
+  createdByName: string | null;
+  createdAt: string;
+  expiresAt: string | null;
+  lastUsedAt: string | null;
+  revokedAt: string | null;
+}
+
+type TokenState = "active" | "expired" | "revoked";
+
+function stateOf(token: TokenRow, now: string): TokenState {
+  if (token.revokedAt) return "revoked";
+  if (token.expiresAt && token.expiresAt <= now) return "expired";
+  return "active";
+}
+
+function StateBadge({ state }: { state: TokenState }) {
+  if (state === "revoked") return <Badge tone="danger">Revoked</Badge>;
+  if (state === "expired") return <Badge tone="copper">Expired</Badge>;
+  return <Badge tone="spruce">Active</Badge>;
+}
+
+/** The second step of revoking: which tool is cut off, and when it last called. */
+function ConfirmRevoke({ token, now }: { token: TokenRow; now: string }) {
+  const heading = useRef<HTMLHeadingElement>(null);
+  // Arriving by the Revoke… link, keyboard and screen-reader users land on
+  // the question rather than at the top of the page.
+  useEffect(() => heading.current?.focus(), []);
+  return (
+    <Form
+      method="post"
+      preventScrollReset
+      aria-labelledby={`revoke-${token.id}`}
+      className="mt-3 flex flex-col gap-3 rounded-lg border border-danger-600/30 bg-danger-50 p-4"
+    >
+      <input type="hidden" name="intent" value="revoke" />
+      <input type="hidden" name="tokenId" value={token.id} />
+      <input type="hidden" name="confirm" value="yes" />
+      <h3
+        id={`revoke-${token.id}`}
+        ref={heading}
+        tabIndex={-1}
+        className="font-semibold outline-none"
+      >
+        Revoke {token.name}?
+      </h3>
+      <p>
+        {token.lastUsedAt ? (
+          <>
+            It was last used <RelativeTime at={token.lastUsedAt} now={now} /> (
+            {dateTimeUtc(token.lastUsedAt)}).
+          </>
+        ) : (
+          "It has never been used."
+        )}{" "}
+        The token ({token.tokenPrefix}…) is refused from the moment you confirm;
+        whatever uses it needs a new token. This cannot be undone.
+      </p>
+      <div className="flex flex-wrap gap-3">
+        <Button type="submit" variant="danger">
+          Revoke {token.name}
+        </Button>
+        <Link to="." preventScrollReset className={buttonClass("secondary")}>
+          Cancel
+        </Link>
+      </div>
+    </Form>
+  );
+}
+
+function TokenFacts({ token, now }: { token: TokenRow; now: string }) {
+  return (
+    <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3 text-sm text-ink-muted">
+      <dt>Created</dt>
+      <dd>
+        {dayUtc(token.createdAt)} by {token.createdByName ?? "a former member"}
+      </dd>
+      <dt>Last used</dt>
+      <dd>
+        {token.lastUsedAt ? (
+          <RelativeTime at={token.lastUsedAt} now={now} />
+        ) : (
+          "Never"
+        )}
+      </dd>
+      <dt>Expires</dt>
+      <dd>{token.expiresAt ? dayUtc(token.expiresAt) : "Never"}</dd>
+    </dl>
+  );
+}
+
+/** Every token of the organisation, newest first, with its state. */
+export function TokenList({
+  tokens,
+  confirming,
+  now,
+}: {
+  tokens: TokenRow[];
+  confirming: string | null;
+  now: string;
+}) {
+  if (tokens.length === 0)
+    return (
+      <div className="mt-3">
+        <EmptyState title="No API tokens yet">
+          Create one above for a script or a reporting tool.
+        </EmptyState>
+      </div>
+    );
+  return (
+    <ul className="mt-2 divide-y divide-line">
+      {tokens.map((token) => {
+        const state = stateOf(token, now);
+        return (
+          <li key={token.id} className="py-3" data-testid="api-token-row">
+            <div className="flex flex-wrap items-start justify-between gap-3">
+              <div>
+                <p className="font-semibold">
+                  {token.name}{" "}
+                  <span className="font-normal text-ink-muted">
+                    · {roleLabels[token.role]}
+                  </span>
+                </p>
+                <p className="font-mono text-sm text-ink-muted">
+                  {token.tokenPrefix}…
+                </p>
+                <TokenFacts token={token} now={now} />
+              </div>
+              <div className="flex items-center gap-4">
+                <StateBadge state={state} />
+                {state !== "active" || confirming === token.id ? null : (
+                  <Link
+                    to={`?revoke=${token.id}`}
+                    preventScrollReset
+                    className={buttonClass("danger")}
+                    aria-label={`Revoke ${token.name}…`}
+                  >
+                    Revoke…
+                  </Link>
+                )}
+              </div>
+            </div>
+            {confirming === token.id ? (
+              <ConfirmRevoke token={token} now={now} />
+            ) : null}
+          </li>
+        );
+      })}
+    </ul>
+  );
+}
