@@ -60,6 +60,7 @@ export async function ingestReadings(
         reason: `readings received (${request.source})`,
         gatewayId: request.gatewayId ?? null,
         actorUserId: request.userId ?? null,
+        actorTokenId: request.apiTokenId ?? null,
       },
     );
     await client.query(

@@ -187,6 +187,11 @@ describe("API tokens", () => {
       actorTokenId: row.id,
     });
 
+    // March is closed, so the readings become an adjusting entry, audited
+    // under the token too.
+    await db
+      .insert(schema.monthCloses)
+      .values({ organizationId: org.org.id, month: "2026-03-01" });
     const posted = await token.postJson(`${api(org.org.id)}/readings`, {
       readings: [0, 1].map((h) => ({
         meter: org.meters.register.code,
@@ -214,6 +219,22 @@ describe("API tokens", () => {
       source: "api_token",
       apiTokenId: row.id,
       userId: null,
+    });
+
+    const adjusted = await db
+      .select()
+      .from(schema.auditLog)
+      .where(
+        and(
+          eq(schema.auditLog.organizationId, org.org.id),
+          eq(schema.auditLog.action, "ledger.adjusted"),
+        ),
+      );
+    expect(adjusted).toHaveLength(1);
+    expect(adjusted[0]).toMatchObject({
+      actorUserId: null,
+      actorGatewayId: null,
+      actorTokenId: row.id,
     });
 
     // The trail, read with an auditor token, shows the token as who acted.
