@@ -1,8 +1,8 @@
-import { useEffect, useRef } from "react";
-import { Form, Link } from "react-router";
+import { Link } from "react-router";
 import { roleLabels, type Role } from "~/auth/permissions";
+import { ConfirmRevoke } from "~/components/confirm-revoke";
 import { RelativeTime } from "~/components/relative-time";
-import { Badge, Button, buttonClass, EmptyState } from "~/components/ui";
+import { Badge, buttonClass, EmptyState } from "~/components/ui";
 import { dateTimeUtc, dayUtc } from "~/lib/format";
 
 export interface TokenRow {
@@ -32,50 +32,24 @@ function StateBadge({ state }: { state: TokenState }) {
 }
 
 /** The second step of revoking: which tool is cut off, and when it last called. */
-function ConfirmRevoke({ token, now }: { token: TokenRow; now: string }) {
-  const heading = useRef<HTMLHeadingElement>(null);
-  // Arriving by the Revoke… link, keyboard and screen-reader users land on
-  // the question rather than at the top of the page.
-  useEffect(() => heading.current?.focus(), []);
+function ConfirmRevokeToken({ token, now }: { token: TokenRow; now: string }) {
   return (
-    <Form
-      method="post"
-      preventScrollReset
-      aria-labelledby={`revoke-${token.id}`}
-      className="mt-3 flex flex-col gap-3 rounded-lg border border-danger-600/30 bg-danger-50 p-4"
+    <ConfirmRevoke
+      id={token.id}
+      name={token.name}
+      fields={{ tokenId: token.id }}
     >
-      <input type="hidden" name="intent" value="revoke" />
-      <input type="hidden" name="tokenId" value={token.id} />
-      <input type="hidden" name="confirm" value="yes" />
-      <h3
-        id={`revoke-${token.id}`}
-        ref={heading}
-        tabIndex={-1}
-        className="font-semibold outline-none"
-      >
-        Revoke {token.name}?
-      </h3>
-      <p>
-        {token.lastUsedAt ? (
-          <>
-            It was last used <RelativeTime at={token.lastUsedAt} now={now} /> (
-            {dateTimeUtc(token.lastUsedAt)}).
-          </>
-        ) : (
-          "It has never been used."
-        )}{" "}
-        The token ({token.tokenPrefix}…) is refused from the moment you confirm;
-        whatever uses it needs a new token. This cannot be undone.
-      </p>
-      <div className="flex flex-wrap gap-3">
-        <Button type="submit" variant="danger">
-          Revoke {token.name}
-        </Button>
-        <Link to="." preventScrollReset className={buttonClass("secondary")}>
-          Cancel
-        </Link>
-      </div>
-    </Form>
+      {token.lastUsedAt ? (
+        <>
+          It was last used <RelativeTime at={token.lastUsedAt} now={now} /> (
+          {dateTimeUtc(token.lastUsedAt)}).
+        </>
+      ) : (
+        "It has never been used."
+      )}{" "}
+      The token ({token.tokenPrefix}…) is refused from the moment you confirm;
+      whatever uses it needs a new token. This cannot be undone.
+    </ConfirmRevoke>
   );
 }
 
@@ -152,7 +126,7 @@ export function TokenList({
               </div>
             </div>
             {confirming === token.id ? (
-              <ConfirmRevoke token={token} now={now} />
+              <ConfirmRevokeToken token={token} now={now} />
             ) : null}
           </li>
         );
