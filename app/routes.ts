@@ -33,6 +33,7 @@ export default [
       route("audit", "routes/audit.tsx"),
       route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),
+      route("api-tokens", "routes/api-tokens.tsx"),
       route("reports", "routes/reports.tsx"),
       route("reports/verify", "routes/reports-verify.tsx"),
       route("reports/:reportId/pdf", "routes/report-pdf.ts"),

@@ -191,12 +191,49 @@ export const gateways = pgTable(
 );
 
 /**
+ * Organisation API tokens for integrations and reporting tools
+ * (app/auth/api-tokens.server.ts). A token acts with its role, never as a
+ * person; only its SHA-256 hash is stored, the secret is shown once. Its role
+ * is limited to the two a tool needs (read-only, or running the estate).
+ */
+export const apiTokens = pgTable(
+  "api_tokens",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    name: text("name").notNull(),
+    role: roleEnum("role").notNull(),
+    tokenHash: text("token_hash").notNull(),
+    tokenPrefix: text("token_prefix").notNull(),
+    createdByUserId: text("created_by_user_id").references(() => users.id, {
+      onDelete: "set null",
+    }),
+    createdAt: createdAt(),
+    /** Null: the token never expires (the owner chose so). */
+    expiresAt: timestamp("expires_at", { withTimezone: true }),
+    lastUsedAt: timestamp("last_used_at", { withTimezone: true }),
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("api_tokens_token_hash_unique").on(t.tokenHash),
+    check(
+      "api_tokens_role_check",
+      sql`${t.role} in ('auditor', 'energy_manager')`,
+    ),
+  ],
+);
+
+/**
  * Who changed what, when, why, and the values before and after, for every
  * change inside an organisation (the Audit trail page). Written in the same
  * transaction as the change (app/audit/record-audit.server.ts). `site_id` and
  * `meter_id` say where the change applies, for filtering; a change made by a
- * gateway (late readings) names it in `actor_gateway_id`, one made by Stripe
- * or by Joulebook itself has neither actor.
+ * gateway (late readings) names it in `actor_gateway_id`, one made over the
+ * API with an organisation token in `actor_token_id`, one made by Stripe or
+ * by Joulebook itself has no actor.
  */
 export const auditLog = pgTable(
   "audit_log",
@@ -209,6 +246,8 @@ export const auditLog = pgTable(
       onDelete: "set null",
     }),
     actorGatewayId: uuid("actor_gateway_id"),
+    /** A change made over the API with an organisation API token. */
+    actorTokenId: uuid("actor_token_id"),
     action: text("action").notNull(),
     subject: text("subject").notNull(),
     siteId: uuid("site_id"),
@@ -354,6 +393,8 @@ export const ingestBatches = pgTable(
     source: text("source").notNull(),
     gatewayId: uuid("gateway_id"),
     userId: text("user_id"),
+    /** The organisation API token that posted the batch, if one did. */
+    apiTokenId: uuid("api_token_id"),
     receivedAt: timestamp("received_at", { withTimezone: true })
       .notNull()
       .defaultNow(),

@@ -144,7 +144,9 @@ function writeMeter<T>(work: (tx: Transaction) => Promise<T>): Promise<T> {
 
 export async function createMeter(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   siteId: string;
   input: MeterInput;
 }) {
@@ -165,6 +167,7 @@ export async function createMeter(args: {
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
+      actorTokenId: args.actorTokenId,
       action: "meter.created",
       subject: meter.id,
       siteId: args.siteId,
@@ -180,7 +183,9 @@ export async function createMeter(args: {
 
 export async function updateMeter(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   meterId: string;
   siteId: string;
   input: MeterInput;
@@ -210,6 +215,7 @@ export async function updateMeter(args: {
       await recordAudit(tx, {
         organizationId: args.organizationId,
         actorUserId: args.actorUserId,
+        actorTokenId: args.actorTokenId,
         action: "meter.updated",
         subject: args.meterId,
         siteId: after.siteId,
@@ -222,7 +228,9 @@ export async function updateMeter(args: {
 
 export async function retireMeter(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   meterId: string;
   removedAt: Date;
   reason?: string;
@@ -239,6 +247,7 @@ export async function retireMeter(args: {
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
+      actorTokenId: args.actorTokenId,
       action: "meter.retired",
       subject: args.meterId,
       siteId: before.siteId,
@@ -264,7 +273,9 @@ export async function retireMeter(args: {
  */
 export async function replaceMeter(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   meterId: string;
   code: string;
   serial: string;
@@ -307,6 +318,7 @@ export async function replaceMeter(args: {
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
+      actorTokenId: args.actorTokenId,
       action: "meter.replaced",
       subject: args.meterId,
       siteId: old.siteId,

@@ -212,6 +212,22 @@ describe("the document is valid OpenAPI 3.1", () => {
     }
   });
 
+  it("organisation routes take an API token or a session; gateway routes a gateway key", () => {
+    const raw = doc as unknown as {
+      components: { securitySchemes: Record<string, { scheme?: string }> };
+      paths: Record<string, Record<string, { security?: unknown }>>;
+    };
+    expect(raw.components.securitySchemes.apiToken).toMatchObject({
+      type: "http",
+      scheme: "bearer",
+    });
+    expect(raw.paths["/orgs/{orgId}/sites"].post.security).toEqual([
+      { apiToken: [] },
+      { session: [] },
+    ]);
+    expect(raw.paths["/readings"].post.security).toEqual([{ gatewayKey: [] }]);
+  });
+
   it("carries no $schema or $id inside the components", () => {
     for (const component of Object.values(doc.components.schemas)) {
       expect(component).not.toHaveProperty("$schema");
