@@ -3,7 +3,10 @@
  * boundary and balance diagrams and the report PDF take them from here, so a
  * carrier looks the same wherever it appears. Copper for heat and a clear
  * blue for cooling follow app/app.css; steam is a violet and electricity an
- * ochre. Plain module.
+ * ochre. The fuels take the hues left between them: a teal for natural gas,
+ * a raspberry for LPG, an umber for gas oil, an olive for kerosene, a leaf
+ * green for biomass and a plum for hydrogen, each at least ΔE 20 (CIE 1976)
+ * from every other carrier's (carrier-colours.test.ts). Plain module.
  *
  * - `chart`: bars, lines, arrows and the badge's swatch; at least 4.5:1
  *   against white and against `tint`.
@@ -22,6 +25,12 @@ export const carrierColours: Record<Carrier, CarrierColour> = {
   cooling: { chart: "#255f9e", tint: "#eaf2fb", ink: "#1c4c80" },
   steam: { chart: "#6a4a9c", tint: "#f1ecf8", ink: "#55397f" },
   electricity: { chart: "#7a5d00", tint: "#f8f2da", ink: "#5c4600" },
+  natural_gas: { chart: "#0b6c7c", tint: "#e6f4f6", ink: "#08525e" },
+  lpg: { chart: "#ad2f5a", tint: "#fbecf1", ink: "#8c2448" },
+  gas_oil: { chart: "#6b5846", tint: "#f3efea", ink: "#52422f" },
+  kerosene: { chart: "#5a6a12", tint: "#f1f4e0", ink: "#445010" },
+  biomass: { chart: "#2f7a34", tint: "#ebf5ea", ink: "#235c27" },
+  hydrogen: { chart: "#94308c", tint: "#f8ebf6", ink: "#742570" },
 };
 
 /** A carrier's chart colour. */

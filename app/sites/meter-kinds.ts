@@ -23,7 +23,20 @@ export const quantityLabels: Record<Quantity, string> = {
 };
 
 /** The energy carriers, in the order forms, filters and the ledger list them. */
-export const carriers = ["heat", "cooling", "steam", "electricity"] as const;
+export const carriers = [
+  "heat",
+  "cooling",
+  "steam",
+  "electricity",
+  // Fuels, named as app/plant/fuels.ts names them so that a meter's carrier
+  // tells a plant which fuel it burns (fuelOfCarrier).
+  "natural_gas",
+  "gas_oil",
+  "kerosene",
+  "lpg",
+  "biomass",
+  "hydrogen",
+] as const;
 export type Carrier = (typeof carriers)[number];
 
 export const carrierLabels: Record<Carrier, string> = {
@@ -31,17 +44,30 @@ export const carrierLabels: Record<Carrier, string> = {
   cooling: "Cooling",
   steam: "Steam",
   electricity: "Electricity",
+  natural_gas: "Natural gas",
+  gas_oil: "Gas oil",
+  kerosene: "Kerosene",
+  lpg: "LPG",
+  biomass: "Biomass",
+  hydrogen: "Hydrogen",
 };
 
 /**
  * The order of the report's carrier tables and the balance diagram: the
- * thermal carriers from hot to cold, then electricity.
+ * thermal carriers from hot to cold, then electricity, then the fuels (the
+ * gases, the liquids, the solid, hydrogen last).
  */
 export const carrierReportOrder: readonly Carrier[] = [
   "heat",
   "steam",
   "cooling",
   "electricity",
+  "natural_gas",
+  "lpg",
+  "gas_oil",
+  "kerosene",
+  "biomass",
+  "hydrogen",
 ];
 
 /** Which carriers a quantity can account for. */

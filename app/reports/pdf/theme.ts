@@ -4,6 +4,7 @@
  * cooling. Sizes are PDF points (1/72 in).
  */
 import { carrierColour } from "~/sites/carrier-colours";
+import { carriers } from "~/sites/meter-kinds";
 import type { Carrier } from "../data/types";
 
 export const colours = {
@@ -29,12 +30,9 @@ export const colours = {
 } as const;
 
 /** The carriers' colours, the app's own (app/sites/carrier-colours.ts). */
-export const carrierColours: Record<Carrier, string> = {
-  heat: carrierColour("heat"),
-  cooling: carrierColour("cooling"),
-  steam: carrierColour("steam"),
-  electricity: carrierColour("electricity"),
-};
+export const carrierColours = Object.fromEntries(
+  carriers.map((c) => [c, carrierColour(c)]),
+) as Record<Carrier, string>;
 
 /** A4 portrait, with room above and below for the running header and footer. */
 export const page = {
