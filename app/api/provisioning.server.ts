@@ -86,6 +86,7 @@ function meterAnswer(meter: Omit<MeterRow, "siteName" | "timeZone">): ApiMeter {
     // Every meter is hourly until meters get a resolution (issue #14).
     interval_minutes: 60,
     parent_meter_id: meter.parentMeterId,
+    position: meter.position,
     serial: meter.serial,
     multiplier: Number(meter.multiplier),
     rollover_kwh: num(meter.rolloverKwh),
@@ -174,6 +175,7 @@ function meterInput(
     carrier: field(body.carrier),
     orientation: field(body.orientation),
     parentMeterId: field(body.parent_meter_id),
+    position: body.position ?? "boundary",
     serial: body.serial ?? "",
     multiplier: field(body.multiplier),
     rolloverKwh: field(body.rollover_kwh),

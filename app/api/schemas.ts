@@ -20,6 +20,7 @@ import { intervalSchema } from "~/ingest/interval-schema";
 import { carrier } from "~/lib/wire-schemas";
 import {
   carriers,
+  meterPositions,
   orientations,
   quantities,
   sensorPositions,
@@ -282,6 +283,13 @@ const meterSettingsShape = {
   orientation: z.enum(orientations),
   interval_minutes: intervalMinutes.optional(),
   parent_meter_id: z.guid().nullable().optional(),
+  position: z
+    .enum(meterPositions)
+    .optional()
+    .describe(
+      "boundary (default): counted as delivered or exported; internal: a " +
+        "plant's input or output inside the site, kept out of every total",
+    ),
   serial: z.string().optional(),
   multiplier: z.number().optional(),
   rollover_kwh: decimalOrNull.optional(),
@@ -324,6 +332,7 @@ export const meterSchema = z.strictObject({
   orientation: z.enum(orientations),
   interval_minutes: z.literal(60),
   parent_meter_id: z.guid().nullable(),
+  position: z.enum(meterPositions),
   serial: z.string(),
   multiplier: z.number(),
   rollover_kwh: z.number().nullable(),

@@ -136,6 +136,13 @@ const FIELDS: Record<string, { label: string; format?: Format }> = {
     format: fromTable({ import: "Import (+)", export: "Export (−)" }),
   },
   parentMeterId: { label: "Parent meter", format: meterCode },
+  position: {
+    label: "Position",
+    format: fromTable({
+      boundary: "On the boundary",
+      internal: "Inside the boundary",
+    }),
+  },
   multiplier: { label: "Multiplier", format: decimal },
   rolloverKwh: { label: "Roll-over point", format: energy },
   sensorAt: {

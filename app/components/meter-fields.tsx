@@ -14,6 +14,7 @@ export interface MeterDefaults {
   carrier?: string;
   orientation?: string;
   parentMeterId?: string | null;
+  position?: string;
   serial?: string;
   multiplier?: string;
   rolloverKwh?: string | null;
@@ -100,6 +101,19 @@ export function MeterFields({
             {p.code} — {p.name}
           </option>
         ))}
+      </SelectField>
+      <SelectField
+        label="Position"
+        name="position"
+        defaultValue={defaults.position ?? "boundary"}
+        error={errors.position}
+      >
+        <option value="boundary">
+          On the boundary: counted as delivered or exported
+        </option>
+        <option value="internal">
+          Inside the boundary: a plant&apos;s input or output, not counted
+        </option>
       </SelectField>
       <Field
         label="Serial number"

@@ -25,6 +25,7 @@ import { intervalQualities } from "../ingest/series";
 import { plantKinds, plantMeterRoles } from "../plant/plant-roles";
 import {
   carriers,
+  meterPositions,
   orientations,
   quantities,
   sensorPositions,
@@ -278,6 +279,7 @@ export const quantityEnum = pgEnum("meter_quantity", quantities);
 export const carrierEnum = pgEnum("energy_carrier", carriers);
 export const orientationEnum = pgEnum("boundary_orientation", orientations);
 export const sensorPositionEnum = pgEnum("sensor_position", sensorPositions);
+export const meterPositionEnum = pgEnum("meter_position", meterPositions);
 export const intervalQualityEnum = pgEnum(
   "interval_quality",
   intervalQualities,
@@ -322,6 +324,8 @@ export const meters = pgTable(
     carrier: carrierEnum("carrier").notNull(),
     orientation: orientationEnum("orientation").notNull(),
     parentMeterId: uuid("parent_meter_id"),
+    /** On the boundary (counted as delivered or exported) or inside it. */
+    position: meterPositionEnum("position").notNull().default("boundary"),
     serial: text("serial").notNull().default(""),
     multiplier: numeric("multiplier", { precision: 12, scale: 4 })
       .notNull()

@@ -20,6 +20,16 @@
 import { z } from "zod";
 
 /**
+ * Fuel quantities: what a gas meter, an oil tank or a hydrogen meter gives.
+ * Meters measure them and readings carry them like the others.
+ */
+export const FUEL_QUANTITIES = [
+  "gas_volume",
+  "liquid_fuel",
+  "hydrogen",
+] as const;
+
+/**
  * What a meter can measure (the database enum takes its values from here,
  * through app/sites/meter-kinds.ts) and what a reading may carry.
  */
@@ -30,20 +40,11 @@ export const QUANTITIES = [
   "electric_work",
   "electric_register",
   "heat_register",
-] as const;
-
-/**
- * Fuel quantities: evaluate items only for now. They join QUANTITIES (and so
- * meters and readings) when the fuel carriers do, which takes a migration.
- */
-export const FUEL_QUANTITIES = [
-  "gas_volume",
-  "liquid_fuel",
-  "hydrogen",
+  ...FUEL_QUANTITIES,
 ] as const;
 
 /** Every quantity POST /api/v1/energy/evaluate accepts. */
-export const EVALUATE_QUANTITIES = [...QUANTITIES, ...FUEL_QUANTITIES] as const;
+export const EVALUATE_QUANTITIES = QUANTITIES;
 
 function describeInput(input: unknown): string {
   if (typeof input === "number") {

@@ -20,6 +20,9 @@ export const quantityLabels: Record<Quantity, string> = {
   electric_work: "Electrical work (volts, amps, power factor)",
   electric_register: "Electricity register (cumulative kWh)",
   heat_register: "Heat register (cumulative kWh)",
+  gas_volume: "Gas meter (volume, calorific value)",
+  liquid_fuel: "Liquid fuel (litres or tank stock, density, calorific value)",
+  hydrogen: "Hydrogen (mass or normal volume)",
 };
 
 /** The energy carriers, in the order forms, filters and the ledger list them. */
@@ -78,11 +81,49 @@ export const carriersFor: Record<Quantity, readonly Carrier[]> = {
   electric_work: ["electricity"],
   electric_register: ["electricity"],
   heat_register: ["heat", "cooling"],
+  // Natural gas only: LPG vapour's CV (about 95 MJ/m³) lies outside the
+  // 10-60 MJ/m³ the quantity accepts, so LPG is metered as a liquid, and
+  // hydrogen has its own quantity with its heat of reaction built in.
+  // Biomass has no quantity yet (no meter measures it): a plant's biomass
+  // stays a carrier its fuel role names, until a mass quantity is added.
+  gas_volume: ["natural_gas"],
+  liquid_fuel: ["gas_oil", "kerosene", "lpg"],
+  hydrogen: ["hydrogen"],
 };
+
+/** Fuels: a site buys them, never exports them, so their meters import. */
+export const fuelCarriers: readonly Carrier[] = [
+  "natural_gas",
+  "gas_oil",
+  "kerosene",
+  "lpg",
+  "biomass",
+  "hydrogen",
+];
+
+export function isFuelCarrier(carrier: Carrier): boolean {
+  return fuelCarriers.includes(carrier);
+}
 
 /** Which way a meter faces: energy delivered to the site, or exported. */
 export const orientations = ["import", "export"] as const;
 export type Orientation = (typeof orientations)[number];
+
+/**
+ * Where a meter sits: on the site's boundary (what the site buys or sells:
+ * its energy is delivered or exported), or inside it, on a plant's input or
+ * output (a boiler's heat meter once its gas meter is on the boundary).
+ * Internal meters keep their readings and feed the plant page, but no total
+ * of delivered or exported energy counts them, or a boiler's heat would be
+ * counted beside the gas it was made from.
+ */
+export const meterPositions = ["boundary", "internal"] as const;
+export type MeterPosition = (typeof meterPositions)[number];
+
+export const meterPositionLabels: Record<MeterPosition, string> = {
+  boundary: "On the boundary",
+  internal: "Inside the boundary",
+};
 
 /** Which pipe a heat meter's flow sensor sits in. */
 export const sensorPositions = ["flow", "return"] as const;

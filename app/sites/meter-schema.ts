@@ -3,6 +3,8 @@ import { optionalIdField } from "~/lib/ids";
 import {
   carriers,
   carriersFor,
+  isFuelCarrier,
+  meterPositions,
   orientations,
   quantities,
   sensorPositions,
@@ -73,6 +75,9 @@ export const meterFormSchema = z
       error: "Choose import or export.",
     }),
     parentMeterId: optionalIdField("Choose a parent meter from the list."),
+    position: z.enum(meterPositions, {
+      error: "Choose on the boundary or inside it.",
+    }),
     serial: z.string().trim().max(64, "Use at most 64 characters."),
     multiplier: decimal("Multiplier", 0.0001, 100_000).transform((v) => v ?? 1),
     rolloverKwh: decimal("Roll-over point", 1, 1e12),
@@ -95,6 +100,14 @@ export const meterFormSchema = z
         code: "custom",
         path: ["carrier"],
         message: `A ${v.quantity.replace("_", " ")} meter accounts for ${carriersFor[v.quantity].join(" or ")}.`,
+      });
+    }
+    if (isFuelCarrier(v.carrier) && v.orientation !== "import") {
+      ctx.addIssue({
+        code: "custom",
+        path: ["orientation"],
+        message:
+          "A fuel meter imports: a site buys fuel, it does not export it.",
       });
     }
     const rating = [
