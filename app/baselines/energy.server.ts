@@ -50,6 +50,7 @@ export async function siteMonthlyEnergy(args: {
         eq(meters.siteId, args.siteId),
         eq(meters.carrier, args.carrier),
         isNull(meters.parentMeterId),
+        eq(meters.position, "boundary"),
         between(
           monthlyRollups.month,
           firstDayOf(args.from),
@@ -92,6 +93,7 @@ export async function siteCarriers(args: {
         eq(meters.organizationId, args.organizationId),
         eq(meters.siteId, args.siteId),
         isNull(meters.parentMeterId),
+        eq(meters.position, "boundary"),
         eq(meters.orientation, "import"),
       ),
     )

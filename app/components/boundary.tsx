@@ -8,7 +8,7 @@
 import { Link } from "react-router";
 import { carrierColour } from "~/sites/carrier-colours";
 import { formatEnergy } from "~/lib/format";
-import type { Carrier, Orientation } from "~/sites/meter-kinds";
+import type { Carrier, MeterPosition, Orientation } from "~/sites/meter-kinds";
 
 export interface BoundaryMeter {
   id: string;
@@ -17,6 +17,8 @@ export interface BoundaryMeter {
   carrier: Carrier;
   orientation: Orientation;
   parentMeterId: string | null;
+  /** Internal meters (a plant's inputs and outputs) sit inside the box. */
+  position: MeterPosition;
   retired: boolean;
   energyKwh30d: number | null;
 }
@@ -195,14 +197,15 @@ export function Boundary({
         </text>
         {rows.map(({ meter, depth }, i) => {
           const y = 46 + i * ROW;
-          if (depth > 0)
+          // An internal meter crosses no boundary: no arrow, inside the box.
+          if (depth > 0 || meter.position === "internal")
             return (
               <SubMeter
                 key={meter.id}
                 meter={meter}
                 y={y}
                 orgId={orgId}
-                depth={depth - 1}
+                depth={Math.max(depth - 1, 0)}
               />
             );
           return (
@@ -221,7 +224,8 @@ export function Boundary({
         Thermodynamic view: arrows in are import meters, arrows out export
         meters; figures are heat and work into the site (+) or out of it (−), so
         a chilled-water import reads − (cooling delivered is heat leaving the
-        site). Sub-meters sit inside the boundary under their parent. Figures:
+        site). Sub-meters sit inside the boundary under their parent, and so do
+        meters inside the boundary (a plant&apos;s inputs and outputs). Figures:
         the last 30 days. Faded: retired meters.
       </figcaption>
     </figure>

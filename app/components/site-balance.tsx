@@ -244,6 +244,39 @@ function MonthPicker({ months, month }: { months: string[]; month: string }) {
   );
 }
 
+/**
+ * Meters inside the boundary (a plant's fuel in, heat or power out): their
+ * month in a group of their own, outside the diagram and the totals, which
+ * already hold the same energy as it crossed the boundary.
+ */
+function InsideTheBoundary({ meters }: { meters: SiteBalance["meters"] }) {
+  const internal = meters.filter((m) => m.position === "internal");
+  if (internal.length === 0) return null;
+  return (
+    <div data-inside-boundary>
+      <h3 className="font-semibold">
+        Inside the boundary: plant inputs and outputs
+      </h3>
+      <ul className="mt-2 space-y-1 text-sm">
+        {internal.map((m) => (
+          <li key={m.id}>
+            <CarrierBadge carrier={m.carrier} />{" "}
+            <span className="font-mono">{m.code}</span> {m.name}:{" "}
+            <span className="tabular-nums">
+              {formatDecimal(m.energyKwh, 0)} kWh
+            </span>
+          </li>
+        ))}
+      </ul>
+      <p className="mt-2 text-sm text-ink-muted">
+        Not counted as delivered or exported: this energy already crossed the
+        boundary through the site&apos;s own meters (the fuel a boiler burns,
+        say). The plant page sets outputs against inputs.
+      </p>
+    </div>
+  );
+}
+
 export function SiteBalanceView({
   balance,
   months,
@@ -316,6 +349,7 @@ export function SiteBalanceView({
           </ul>
         </Notice>
       ) : null}
+      <InsideTheBoundary meters={balance.meters} />
       {balance.parents.length > 0 ? (
         <div>
           <h3 className="font-semibold">Sub-metering</h3>

@@ -22,6 +22,7 @@ function meter(
     carrier: "heat",
     orientation: "import",
     parentMeterId: null,
+    position: "boundary",
     retired: false,
     energyKwh,
     estimatedKwh: "0",

@@ -23,6 +23,7 @@ import {
   carrierLabels,
   carrierReportOrder,
   type Carrier,
+  type MeterPosition,
   type Orientation,
 } from "~/sites/meter-kinds";
 
@@ -33,6 +34,8 @@ export interface BalanceMeter {
   carrier: Carrier;
   orientation: Orientation;
   parentMeterId: string | null;
+  /** Inside the boundary: drawn apart, never as energy crossing it. */
+  position: MeterPosition;
   retired: boolean;
   /** Signed energy of the month, kWh (decimal string), into the site positive. */
   energyKwh: string;
@@ -331,8 +334,11 @@ export function balanceDiagram(
     }
   };
 
+  // Internal meters (a plant's inputs and outputs) measure energy already
+  // counted at the boundary: drawn as crossing it, a boiler's heat would
+  // stand beside the gas it was made from.
   const roots = balance.meters
-    .filter((m) => m.parentMeterId === null)
+    .filter((m) => m.parentMeterId === null && m.position === "boundary")
     .sort(
       (a, b) =>
         carrierReportOrder.indexOf(a.carrier) -

@@ -51,7 +51,7 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
          left join closes co on co.site_id is null and co.month = r.month
         where r.organization_id = $1
           and r.month between to_date($2, 'YYYY-MM') and to_date($3, 'YYYY-MM')
-          and m.parent_meter_id is null
+          and m.parent_meter_id is null and m.position = 'boundary'
           and ($4::uuid is null or s.id = $4::uuid)
           and ($5::text is null or m.carrier::text = $5)
      ), adj as (

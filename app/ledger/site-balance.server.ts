@@ -45,7 +45,7 @@ export async function siteBalance({
     };
   }>(
     `with site_meters as (
-       select m.id, m.code, m.name, m.carrier, m.orientation, m.parent_meter_id, m.removed_at,
+       select m.id, m.code, m.name, m.carrier, m.orientation, m.parent_meter_id, m.position, m.removed_at,
               r.energy_kwh, r.estimated_kwh
          from meters m
          left join monthly_rollups r
@@ -54,7 +54,7 @@ export async function siteBalance({
         where m.organization_id = $1 and m.site_id = $2
      ), present as (
        -- Meters with a rollup this month, and parents whose sub-meters have one.
-       select x.id, x.code, x.name, x.carrier, x.orientation, x.parent_meter_id, x.removed_at,
+       select x.id, x.code, x.name, x.carrier, x.orientation, x.parent_meter_id, x.position, x.removed_at,
               coalesce(x.energy_kwh, 0) as energy_kwh, coalesce(x.estimated_kwh, 0) as estimated_kwh
          from site_meters x
         where x.energy_kwh is not null
@@ -71,14 +71,14 @@ export async function siteBalance({
               coalesce(sum(${deliveredSignSql("carrier")} * energy_kwh) filter (where orientation = 'export'), 0) as exports_kwh,
               sum(${deliveredSignSql("carrier")} * energy_kwh) as net_kwh,
               sum(energy_kwh) as into_site_kwh
-         from present where parent_meter_id is null
+         from present where parent_meter_id is null and position = 'boundary'
         group by carrier
      )
      select json_build_object(
        'month', $3::text,
        'meters', coalesce((select json_agg(json_build_object(
            'id', id, 'code', code, 'name', name, 'carrier', carrier, 'orientation', orientation,
-           'parentMeterId', parent_meter_id, 'retired', removed_at is not null,
+           'parentMeterId', parent_meter_id, 'position', position, 'retired', removed_at is not null,
            'energyKwh', energy_kwh::text, 'estimatedKwh', estimated_kwh::text)
            order by parent_meter_id nulls first, code) from present), '[]'::json),
        'parents', coalesce((select json_agg(json_build_object(

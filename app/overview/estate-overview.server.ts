@@ -85,6 +85,7 @@ export async function siteDrift(
       and(
         siteOfMeter,
         isNull(meters.parentMeterId),
+        eq(meters.position, "boundary"),
         eq(meters.orientation, "import"),
       ),
     )
@@ -295,6 +296,7 @@ export async function monthlyByCarrier(
       and(
         eq(monthlyRollups.organizationId, organizationId),
         isNull(meters.parentMeterId),
+        eq(meters.position, "boundary"),
         between(monthlyRollups.month, firstDayOf(from), firstDayOf(to)),
       ),
     )

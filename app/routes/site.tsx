@@ -244,6 +244,15 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
                               (sub-meter)
                             </span>
                           ) : null}
+                          {m.position === "internal" ? (
+                            <span
+                              className="text-sm text-ink-muted"
+                              data-inside-boundary
+                            >
+                              {" "}
+                              (inside the boundary)
+                            </span>
+                          ) : null}
                           {m.removedAt ? (
                             <>
                               {" "}
