@@ -11,6 +11,13 @@ describe("the delivered view's sign", () => {
       cooling: -1,
       steam: 1,
       electricity: 1,
+      // Fuels are bought: delivered energy, into the site.
+      natural_gas: 1,
+      gas_oil: 1,
+      kerosene: 1,
+      lpg: 1,
+      biomass: 1,
+      hydrogen: 1,
     });
   });
 

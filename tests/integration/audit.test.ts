@@ -95,6 +95,7 @@ const exportMeterFields = (org: MeteredOrg, name: string) => ({
   carrier: "electricity",
   orientation: "export",
   parentMeterId: "",
+  position: "boundary",
   serial: "",
   multiplier: "",
   rolloverKwh: "",

@@ -12,6 +12,7 @@ export function meterFormFields(
     carrier: "electricity",
     orientation: "import",
     parentMeterId: "",
+    position: "boundary",
     serial: "",
     multiplier: "",
     rolloverKwh: "",
