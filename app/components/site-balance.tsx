@@ -10,7 +10,7 @@ import { useMemo } from "react";
 import { Form, Link, useNavigate } from "react-router";
 import { Sankey, Tooltip, type SankeyNodeProps as NodeProps } from "recharts";
 import { flowLabel } from "~/components/boundary";
-import { formatPercent, monthLong } from "~/lib/format";
+import { formatKwh, formatPercent, monthLong } from "~/lib/format";
 import { useHydrated } from "~/lib/use-hydrated";
 import { useWidth } from "~/lib/use-width";
 import {
@@ -30,6 +30,7 @@ import {
 } from "~/ledger/balance";
 import { carrierColour } from "~/sites/carrier-colours";
 import { CarrierBadge } from "~/components/carrier-badge";
+import type { PlantLoss } from "~/plant/conversion-loss";
 
 const HEIGHT = 440;
 const MIN_WIDTH = 760;
@@ -249,9 +250,15 @@ function MonthPicker({ months, month }: { months: string[]; month: string }) {
  * month in a group of their own, outside the diagram and the totals, which
  * already hold the same energy as it crossed the boundary.
  */
-function InsideTheBoundary({ meters }: { meters: SiteBalance["meters"] }) {
+function InsideTheBoundary({
+  meters,
+  plantLosses,
+}: {
+  meters: SiteBalance["meters"];
+  plantLosses: readonly PlantLoss[];
+}) {
   const internal = meters.filter((m) => m.position === "internal");
-  if (internal.length === 0) return null;
+  if (internal.length === 0 && plantLosses.length === 0) return null;
   return (
     <div data-inside-boundary>
       <h3 className="font-semibold">
@@ -268,10 +275,31 @@ function InsideTheBoundary({ meters }: { meters: SiteBalance["meters"] }) {
           </li>
         ))}
       </ul>
+      {plantLosses.length > 0 ? (
+        <ul className="mt-2 space-y-1 text-sm" data-conversion-losses>
+          {plantLosses.map((p) => (
+            <li key={p.plantId}>
+              {p.name}: fuel in {formatKwh(p.fuelInKwh)} − out{" "}
+              {formatKwh(p.outputsKwh)} ={" "}
+              <span className="font-semibold tabular-nums">
+                conversion loss {formatKwh(p.lossKwh)}
+              </span>
+              {p.fault ? (
+                <>
+                  {" "}
+                  <Badge tone="danger">Metering fault</Badge>
+                </>
+              ) : null}
+            </li>
+          ))}
+        </ul>
+      ) : null}
       <p className="mt-2 text-sm text-ink-muted">
         Not counted as delivered or exported: this energy already crossed the
         boundary through the site&apos;s own meters (the fuel a boiler burns,
-        say). The plant page sets outputs against inputs.
+        say). A plant&apos;s conversion loss is its fuel less its heat and
+        electricity; a month beyond the laws is a meter&apos;s fault, not a
+        loss. The plant page sets outputs against inputs.
       </p>
     </div>
   );
@@ -279,10 +307,12 @@ function InsideTheBoundary({ meters }: { meters: SiteBalance["meters"] }) {
 
 export function SiteBalanceView({
   balance,
+  plantLosses = [],
   months,
   siteName,
 }: {
   balance: SiteBalance | null;
+  plantLosses?: readonly PlantLoss[];
   months: string[];
   siteName: string;
 }) {
@@ -349,7 +379,7 @@ export function SiteBalanceView({
           </ul>
         </Notice>
       ) : null}
-      <InsideTheBoundary meters={balance.meters} />
+      <InsideTheBoundary meters={balance.meters} plantLosses={plantLosses} />
       {balance.parents.length > 0 ? (
         <div>
           <h3 className="font-semibold">Sub-metering</h3>

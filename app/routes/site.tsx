@@ -27,6 +27,7 @@ import { parseForm } from "~/lib/forms";
 import { siteEnergySince } from "~/sites/meter-energy.server";
 import { listSiteMeters } from "~/sites/meters.server";
 import { carrierLabels } from "~/sites/meter-kinds";
+import { plantLossesOfMonth } from "~/plant/plant-losses.server";
 import { siteFormSchema } from "~/sites/site-schema";
 import { DuplicateNameError, getSite, updateSite } from "~/sites/sites.server";
 import type { Route } from "./+types/site";
@@ -56,13 +57,13 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   // The energy balance of ?month=YYYY-MM, else of the newest month with data.
   const asked = new URL(request.url).searchParams.get("month") ?? "";
   const month = MONTH_PATTERN.test(asked) ? asked : (months[0] ?? null);
-  const balance = month
-    ? await siteBalance({
-        organizationId: organization.id,
-        siteId: site.id,
-        month,
-      })
-    : null;
+  const scope = { organizationId: organization.id, siteId: site.id };
+  const [balance, plantLosses] = month
+    ? await Promise.all([
+        siteBalance({ ...scope, month }),
+        plantLossesOfMonth({ ...scope, month }),
+      ])
+    : [null, []];
   return {
     organization,
     site,
@@ -72,6 +73,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     })),
     canManage: can(role, "sites.manage"),
     balance,
+    plantLosses,
     balanceMonths: months,
   };
 }
@@ -170,6 +172,7 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
           </h2>
           <SiteBalanceView
             balance={loaderData.balance}
+            plantLosses={loaderData.plantLosses}
             months={loaderData.balanceMonths}
             siteName={site.name}
           />

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { optionalIdField } from "~/lib/ids";
 import {
+  carrierLabels,
   carriers,
   carriersFor,
   isFuelCarrier,
@@ -8,6 +9,7 @@ import {
   orientations,
   quantities,
   sensorPositions,
+  type Carrier,
 } from "./meter-kinds";
 
 const decimal = (label: string, min: number, max: number) =>
@@ -49,6 +51,10 @@ const dateField = (label: string) =>
       }
       return d;
     });
+
+/** A carrier as a sentence names it: "natural gas", "heat", but "LPG". */
+const carrierName = (carrier: Carrier) =>
+  carrierLabels[carrier].replace(/^[A-Z][a-z]/, (s) => s.toLowerCase());
 
 export const meterCodeField = z
   .string()
@@ -99,7 +105,7 @@ export const meterFormSchema = z
       ctx.addIssue({
         code: "custom",
         path: ["carrier"],
-        message: `A ${v.quantity.replace("_", " ")} meter accounts for ${carriersFor[v.quantity].join(" or ")}.`,
+        message: `A ${v.quantity.replace("_", " ")} meter accounts for ${carriersFor[v.quantity].map(carrierName).join(" or ")}.`,
       });
     }
     if (isFuelCarrier(v.carrier) && v.orientation !== "import") {

@@ -155,6 +155,9 @@ describe("fuel meters", () => {
       }),
     );
     expect(oilByVolume.status).toBe(400);
+    expect(await oilByVolume.text()).toContain(
+      "A gas volume meter accounts for natural gas.",
+    );
     const [{ n }] = await db
       .select({ n: sql<number>`count(*)::int` })
       .from(schema.meters)
@@ -336,5 +339,28 @@ describe("a heat meter inside the boundary", () => {
     expect(row("2026-09")).toContain("Within the laws");
     expect(row("2026-10")).toMatch(/10,?500/);
     expect(row("2026-10")).toContain("Metering fault");
+  });
+
+  it("gives the site's balance each boiler month's conversion loss, fuel in − heat out", async () => {
+    const losses = async (month: string) => {
+      const html = await (
+        await auditor.get(`/o/${org.org.id}/sites/${org.siteId}?month=${month}`)
+      ).text();
+      const start = html.indexOf("data-conversion-losses");
+      expect(start, month).toBeGreaterThan(-1);
+      // React separates adjacent text with empty comments.
+      return html
+        .slice(start, html.indexOf("</ul>", start))
+        .replace(/<!-- -->/g, "");
+    };
+    // 10,000 − 8,800 = 1,200 kWh lost in September.
+    expect(await losses("2026-09")).toContain(
+      "Boiler B1: fuel in 10,000 kWh − out 8,800 kWh",
+    );
+    expect(await losses("2026-09")).toMatch(/conversion loss 1,200 kWh/);
+    // October's over-reading heat meter: a negative "loss", shown as a fault.
+    const october = await losses("2026-10");
+    expect(october).toMatch(/conversion loss [−-]500 kWh/);
+    expect(october).toContain("Metering fault");
   });
 });
