@@ -21,6 +21,8 @@ const QUANTITIES: unknown[] = [
   "steam_heat",
   "electric_register",
   "heat_register",
+  "gas_volume",
+  "hydrogen",
   "WATER_HEAT",
   "gas",
   7,

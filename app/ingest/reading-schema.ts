@@ -8,6 +8,9 @@ import { isStorableText, storableText } from "../lib/storable-text";
 import {
   QUANTITIES,
   electricWorkItemSchema,
+  gasVolumeItemSchema,
+  hydrogenItemSchema,
+  liquidFuelItemSchema,
   sensibleHeatItemSchema,
   steamHeatItemSchema,
   waterHeatItemSchema,
@@ -116,6 +119,10 @@ export const wellFormedReadingSchema = z
     steamHeatItemSchema.extend(intervalReadingFields),
     sensibleHeatItemSchema.extend(intervalReadingFields),
     electricWorkItemSchema.extend(intervalReadingFields),
+    // Fuels: a gas meter's volume, an oil tank's litres or stock, hydrogen.
+    gasVolumeItemSchema.extend(intervalReadingFields),
+    liquidFuelItemSchema.extend(intervalReadingFields),
+    hydrogenItemSchema.extend(intervalReadingFields),
     intervalEnergySchema,
     registerSchema,
   ])

@@ -257,6 +257,19 @@ describe("the document is valid OpenAPI 3.1", () => {
       ]),
     );
   });
+
+  it("offers a reading of every quantity a meter measures, fuels included", () => {
+    type Variant = {
+      properties: { quantity: { const?: string; enum?: string[] } };
+    };
+    const reading = doc.components.schemas.Reading as { oneOf: Variant[] };
+    const offered = reading.oneOf.flatMap(
+      (v) => v.properties.quantity.enum ?? [v.properties.quantity.const!],
+    );
+    expect(offered).toEqual(
+      expect.arrayContaining(["gas_volume", "liquid_fuel", "hydrogen"]),
+    );
+  });
 });
 
 describe("examples fit the schemas", () => {
