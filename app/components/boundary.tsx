@@ -8,7 +8,12 @@
 import { Link } from "react-router";
 import { carrierColour } from "~/sites/carrier-colours";
 import { formatEnergy } from "~/lib/format";
-import type { Carrier, MeterPosition, Orientation } from "~/sites/meter-kinds";
+import {
+  carrierInText,
+  type Carrier,
+  type MeterPosition,
+  type Orientation,
+} from "~/sites/meter-kinds";
 
 export interface BoundaryMeter {
   id: string;
@@ -81,7 +86,7 @@ function Arrow({
           fontSize="13"
           fontWeight={600}
         >
-          {meter.code} · {meter.carrier}
+          {meter.code} · {carrierInText(meter.carrier)}
         </text>
         <text x={labelX} y={y + 22} fill="#1a222d" fontSize="13">
           {flowLabel(meter.energyKwh30d)}

@@ -55,6 +55,11 @@ export const carrierLabels: Record<Carrier, string> = {
   hydrogen: "Hydrogen",
 };
 
+/** A carrier as a sentence names it: "natural gas", "heat", but "LPG". */
+export function carrierInText(carrier: Carrier): string {
+  return carrierLabels[carrier].replace(/^[A-Z][a-z]/, (s) => s.toLowerCase());
+}
+
 /**
  * The order of the report's carrier tables and the balance diagram: the
  * thermal carriers from hot to cold, then electricity, then the fuels (the

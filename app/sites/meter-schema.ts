@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { optionalIdField } from "~/lib/ids";
 import {
-  carrierLabels,
+  carrierInText,
   carriers,
   carriersFor,
   isFuelCarrier,
@@ -9,7 +9,6 @@ import {
   orientations,
   quantities,
   sensorPositions,
-  type Carrier,
 } from "./meter-kinds";
 
 const decimal = (label: string, min: number, max: number) =>
@@ -51,10 +50,6 @@ const dateField = (label: string) =>
       }
       return d;
     });
-
-/** A carrier as a sentence names it: "natural gas", "heat", but "LPG". */
-const carrierName = (carrier: Carrier) =>
-  carrierLabels[carrier].replace(/^[A-Z][a-z]/, (s) => s.toLowerCase());
 
 export const meterCodeField = z
   .string()
@@ -105,7 +100,7 @@ export const meterFormSchema = z
       ctx.addIssue({
         code: "custom",
         path: ["carrier"],
-        message: `A ${v.quantity.replace("_", " ")} meter accounts for ${carriersFor[v.quantity].map(carrierName).join(" or ")}.`,
+        message: `A ${v.quantity.replace("_", " ")} meter accounts for ${carriersFor[v.quantity].map(carrierInText).join(" or ")}.`,
       });
     }
     if (isFuelCarrier(v.carrier) && v.orientation !== "import") {
