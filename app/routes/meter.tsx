@@ -167,6 +167,7 @@ export default function Meter({
           <>
             {quantityLabels[meter.quantity]} · {carrierLabels[meter.carrier]} ·{" "}
             {meter.orientation === "import" ? "import (+)" : "export (−)"} ·{" "}
+            {meter.position === "internal" ? "inside the boundary · " : null}
             <Link
               className="font-semibold text-spruce-700 underline"
               to={`${base}/sites/${meter.siteId}`}

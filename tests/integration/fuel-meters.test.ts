@@ -311,6 +311,12 @@ describe("a heat meter inside the boundary", () => {
     expect(html.slice(row, html.indexOf("</tr>", row))).toContain(
       "(inside the boundary)",
     );
+    const meterPage = await (
+      await auditor.get(`/o/${org.org.id}/meters/${org.meters.water.id}`)
+    ).text();
+    expect(meterPage.replace(/<!-- -->/g, "")).toContain(
+      "inside the boundary · ",
+    );
   });
 
   it("serves a boiler on the gas meter, whose over-reading month is flagged above 100 % gross", async () => {
