@@ -22,8 +22,10 @@ const START = "2026-04-14T00:00:00Z";
 const END = "2026-04-14T01:00:00Z";
 
 /** Per meter kind: what a row gives, and its fields after meter and quantity with example values. */
-const ROWS: Record<Quantity, { words: string; fields: Record<string, string> }> =
-  {
+const ROWS: Record<
+  Quantity,
+  { words: string; fields: Record<string, string> }
+> = {
   water_heat: {
     words:
       "Heat meter on water: the volume through the meter in an interval, flow and return temperatures, and the pressure (or the meter's default).",

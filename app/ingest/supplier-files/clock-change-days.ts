@@ -3,11 +3,7 @@
  * words beside the preview: a half-hourly day then has 46 or 50 half-hours,
  * not 48, and a person comparing the count with their file needs to know why.
  */
-import {
-  clockShift,
-  formatWallDate,
-  intervalWord,
-} from "./layout-common";
+import { clockShift, formatWallDate, intervalWord } from "./layout-common";
 import { ZoneClock } from "./zone-clock";
 
 const DAY_MS = 86_400_000;

@@ -133,7 +133,8 @@ export function fitToMeters(
       };
       partials.set(key, partial);
     }
-    partial.partsSeen |= 1 << ((start - intervalStart) / (fileMinutes * MINUTE_MS));
+    partial.partsSeen |=
+      1 << ((start - intervalStart) / (fileMinutes * MINUTE_MS));
     partial.kwh += reading.energy_kwh;
   });
 
