@@ -87,7 +87,11 @@ export function ReadingsUpload({
           onChange={(e) => void choose(e.target.files?.[0])}
         />
       </div>
-      {file === "reading" ? <p role="status">Reading the file…</p> : null}
+      {file === "reading" ? (
+        <p role="status">
+          Reading the file… a year of data for many meters takes some seconds.
+        </p>
+      ) : null}
       {file !== null && file !== "reading" && file.kind === "error" ? (
         <Notice tone="error">{file.message}</Notice>
       ) : null}

@@ -51,12 +51,13 @@ function readTable(
   });
   const fit = fitToMeters(parsed, meters, columnsOf(choice, table.header));
   if (parsed.readings.length === 0) return fit;
-  let first = Infinity;
-  let last = -Infinity;
+  // The parser writes every instant with toISOString, so text order is time
+  // order: comparing text spares 876,000 Date.parse calls on a year's file.
+  let first = parsed.readings[0].start;
+  let last = first;
   for (const r of parsed.readings) {
-    const t = Date.parse(r.start);
-    if (t < first) first = t;
-    if (t > last) last = t;
+    if (r.start < first) first = r.start;
+    if (r.start > last) last = r.start;
   }
   const fileMinutes =
     (Date.parse(parsed.readings[0].end) -
@@ -65,7 +66,12 @@ function readTable(
   return {
     ...fit,
     notes: [
-      ...clockChangeNotes(first, last, choice.timeZone, fileMinutes),
+      ...clockChangeNotes(
+        Date.parse(first),
+        Date.parse(last),
+        choice.timeZone,
+        fileMinutes,
+      ),
       ...fit.notes,
     ],
   };
