@@ -6,11 +6,13 @@
  * A file with a bad value stores nothing until "store the good rows only".
  */
 import { and, eq, sql } from "drizzle-orm";
+import ExcelJS from "exceljs";
 import type { Page } from "playwright-core";
 import { describe, expect, inject, it } from "vitest";
 import { chromiumForFile, signInPage } from "../support/browser";
 import { db, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
+import { intervalHeadings } from "../../app/ingest/supplier-files/templates";
 import { wideSupplierFile } from "../support/wide-supplier-file";
 
 const baseUrl = inject("baseUrl");
@@ -39,11 +41,13 @@ async function openUpload(org: MeteredOrg): Promise<Page> {
   return page;
 }
 
-async function chooseFile(page: Page, name: string, csv: string) {
+async function chooseFile(page: Page, name: string, csv: string | Buffer) {
   await page.getByLabel("File of readings (CSV or Excel .xlsx)").setInputFiles({
     name,
-    mimeType: "text/csv",
-    buffer: Buffer.from(csv),
+    mimeType: name.endsWith(".xlsx")
+      ? "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet"
+      : "text/csv",
+    buffer: typeof csv === "string" ? Buffer.from(csv) : csv,
   });
 }
 
@@ -166,6 +170,44 @@ describe("uploading a supplier's one-row-per-day file", () => {
       .getByText(`Finished: ${goodReadings} of ${goodReadings} readings sent`)
       .waitFor();
     expect((await storedIntervals(meter.id)).count).toBe(goodReadings);
+    await page.close();
+  });
+
+  it("reads an Excel workbook in the browser: date cells, number cells, one meter chosen for the file", async () => {
+    const org = await createMeteredOrg();
+    const meter = org.meters.water;
+    const workbook = new ExcelJS.Workbook();
+    const sheet = workbook.addWorksheet("Usage");
+    sheet.addRow(["Date", ...intervalHeadings(MINUTES)]);
+    const days = [Date.UTC(2026, 10, 9), Date.UTC(2026, 10, 10)];
+    for (const day of days)
+      sheet.addRow([
+        new Date(day),
+        ...Array.from({ length: PER_DAY }, (_, k) => 1 + k / 4),
+      ]);
+    const buffer = Buffer.from(await workbook.xlsx.writeBuffer());
+    const page = await openUpload(org);
+
+    await chooseFile(page, "usage.xlsx", buffer);
+    await page.getByLabel("Meter").selectOption(`meter:${meter.code}`);
+    const readings = days.length * PER_DAY;
+    await expect
+      .poll(() => page.getByTestId("readings-count").textContent())
+      .toMatch(new RegExp(`^${readings} readings`));
+    await page
+      .getByRole("button", { name: `Upload ${readings} readings` })
+      .click();
+    await page
+      .getByText(`Finished: ${readings} of ${readings} readings sent`)
+      .waitFor();
+    const perDayCenti = Array.from(
+      { length: PER_DAY },
+      (_, k) => 100 + 25 * k,
+    ).reduce((a, b) => a + b);
+    expect(await storedIntervals(meter.id)).toEqual({
+      count: readings,
+      centiKwh: days.length * perDayCenti,
+    });
     await page.close();
   });
 });
