@@ -41,6 +41,15 @@ function apiFieldReadings(fileName: string, table: Table): LoadedFile {
 }
 
 export async function loadFile(file: File): Promise<LoadedFile> {
+  try {
+    return await readTableOf(file);
+  } catch {
+    // A file removed or unreadable after it was chosen: said, never a crash.
+    return { kind: "error", message: `${file.name} could not be read.` };
+  }
+}
+
+async function readTableOf(file: File): Promise<LoadedFile> {
   let table: Table | null;
   if (isWorkbook(file)) {
     const read = await readXlsx(await file.arrayBuffer());

@@ -6,12 +6,13 @@
  * readings, through the same API and checks as a gateway's.
  */
 import { useState } from "react";
+import { isRegisterQuantity } from "~/ingest/reading-schema";
 import type { UploadTally } from "~/ingest/upload-tally";
 import { Button, Notice } from "../ui";
 import { ApiFieldsPreview } from "./api-fields-preview";
 import { loadFile, type LoadedFile } from "./load-file";
-import { sendReadings } from "./send-readings";
-import { SupplierFileStep, type ReadingsToSend } from "./supplier-file-step";
+import { sendReadings, type ReadingsToSend } from "./send-readings";
+import { SupplierFileStep } from "./supplier-file-step";
 import { TemplatesCard } from "./templates-card";
 import type { PageMeter } from "./upload-meter";
 import { UploadProgress } from "./upload-progress";
@@ -36,12 +37,7 @@ export function ReadingsUpload({
     setFile(await loadFile(chosen));
   }
 
-  async function send({
-    readings,
-    readingRows,
-  }:
-    | ReadingsToSend
-    | { readings: readonly unknown[]; readingRows: readonly number[] }) {
+  async function send({ readings, readingRows }: ReadingsToSend) {
     const result = await sendReadings({
       orgId,
       readings,
@@ -57,11 +53,9 @@ export function ReadingsUpload({
     setInputKey((k) => k + 1);
   }
 
+  // The interval templates' example rows use two of the organisation's own meters.
   const codes = meters
-    .filter(
-      (m) =>
-        m.quantity !== "electric_register" && m.quantity !== "heat_register",
-    )
+    .filter((m) => !isRegisterQuantity(m.quantity))
     .map((m) => m.code);
   return (
     <div className="flex flex-col gap-4">

@@ -24,12 +24,18 @@ async function postChunk(
   return body as ChunkAnswer;
 }
 
-export async function sendReadings(args: {
-  orgId: string;
+/** Readings to send, each with the file row it came from (readingRows[i] for readings[i]). */
+export interface ReadingsToSend {
   readings: readonly unknown[];
   readingRows: readonly number[];
-  onTally: (tally: UploadTally) => void;
-}): Promise<{ tally: UploadTally; failed?: string }> {
+}
+
+export async function sendReadings(
+  args: ReadingsToSend & {
+    orgId: string;
+    onTally: (tally: UploadTally) => void;
+  },
+): Promise<{ tally: UploadTally; failed?: string }> {
   const { orgId, readings, readingRows, onTally } = args;
   let tally = emptyTally(readings.length);
   onTally(tally);

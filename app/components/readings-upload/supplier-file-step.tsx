@@ -7,24 +7,17 @@ import {
   type FitResult,
 } from "~/ingest/supplier-files/fit-to-meters";
 import { parseSupplierFile } from "~/ingest/supplier-files/parse-supplier-file";
-import type {
-  IntervalEnergyReading,
-  Table,
-} from "~/ingest/supplier-files/types";
+import type { Table } from "~/ingest/supplier-files/types";
 import { formatCount } from "~/lib/format";
 import { Button, Notice } from "../ui";
 import { initialMapping } from "./mapping-defaults";
 import { MappingStep, type MappingChoice } from "./mapping-step";
 import { ParsePreview } from "./parse-preview";
+import type { ReadingsToSend } from "./send-readings";
 import type { PageMeter } from "./upload-meter";
 
 /** More refusals than this and the mapping is wrong, not the rows: the list stops, the count goes on. */
 const MAX_ERRORS = 20_000;
-
-export interface ReadingsToSend {
-  readings: readonly IntervalEnergyReading[];
-  readingRows: readonly number[];
-}
 
 function columnsOf(choice: MappingChoice, header: readonly string[]) {
   const { mapping } = choice;
@@ -99,7 +92,6 @@ export function SupplierFileStep({
   meters: readonly PageMeter[];
   onSend: (send: ReadingsToSend) => void;
 }) {
-  const intervalMeters = meters;
   const timeZones = [...new Set(meters.map((m) => m.timeZone))].sort();
   const [choice, setChoice] = useState<MappingChoice>(() => {
     const fallback = meters[0];
@@ -118,8 +110,8 @@ export function SupplierFileStep({
     return zone ? { ...start, timeZone: zone } : start;
   });
   const fit = useMemo(
-    () => readTable(table, choice, intervalMeters),
-    [table, choice, intervalMeters],
+    () => readTable(table, choice, meters),
+    [table, choice, meters],
   );
   const complete = fit.errorCount === fit.errors.length;
   const good = useMemo(
