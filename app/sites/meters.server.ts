@@ -55,7 +55,7 @@ export async function listAllMeters({
   organizationId: string;
 }) {
   return db
-    .select({ ...meterColumns, siteName: sites.name })
+    .select({ ...meterColumns, siteName: sites.name, timeZone: sites.timeZone })
     .from(meters)
     .innerJoin(sites, siteOfMeter)
     .where(eq(meters.organizationId, organizationId))
