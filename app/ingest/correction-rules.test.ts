@@ -12,7 +12,7 @@ import { expectedSign } from "./validate";
 const at = (h: number) => new Date(Date.UTC(2026, 2, 10, h));
 const measured = (values: number[]): HourlyPoint[] =>
   values.map((energyKwh, h) => ({
-    hourStart: at(h),
+    intervalStart: at(h),
     energyKwh,
     quality: "measured",
   }));

@@ -82,10 +82,10 @@ export function spikeJump(
   meter: CorrectedMeter,
   energyKwh: number,
   history: readonly HourlyPoint[],
-  hourStart: Date,
+  intervalStart: Date,
 ): Jump | null {
   const others = history.filter(
-    (p) => p.hourStart.getTime() !== hourStart.getTime(),
+    (p) => p.intervalStart.getTime() !== intervalStart.getTime(),
   );
   const typical = typicalHourlyValue(others);
   if (typical === null || !isSpike(energyKwh, typical, meter.spikeFactor))

@@ -61,10 +61,10 @@ export async function windowFor(
     before: Date | null;
     after: Date | null;
   }>(
-    `select (select max(hour_start) from intervals where organization_id = $1 and meter_id = $2
-               and hour_start < $3 and quality in ('measured', 'edited')) as before,
-            (select min(hour_start) from intervals where organization_id = $1 and meter_id = $2
-               and hour_start > $4 and quality in ('measured', 'edited')) as after`,
+    `select (select max(interval_start) from intervals where organization_id = $1 and meter_id = $2
+               and interval_start < $3 and quality in ('measured', 'edited')) as before,
+            (select min(interval_start) from intervals where organization_id = $1 and meter_id = $2
+               and interval_start > $4 and quality in ('measured', 'edited')) as after`,
     [organizationId, meterId, from, to],
   );
   const start = new Date(
@@ -81,25 +81,25 @@ export async function loadSeries(
   db: Pool | PoolClient = pool,
 ): Promise<HourlyPoint[]> {
   const { rows } = await db.query<{
-    hour_start: Date;
+    interval_start: Date;
     energy_kwh: string;
     quality: Quality;
     estimate_method: string | null;
   }>(
-    `select hour_start, energy_kwh, quality, estimate_method from intervals
-      where organization_id = $1 and meter_id = $2 and hour_start >= $3 and hour_start <= $4
-      order by hour_start`,
+    `select interval_start, energy_kwh, quality, estimate_method from intervals
+      where organization_id = $1 and meter_id = $2 and interval_start >= $3 and interval_start <= $4
+      order by interval_start`,
     [organizationId, meterId, start, end],
   );
   return rows.map((r) => ({
-    hourStart: r.hour_start,
+    intervalStart: r.interval_start,
     energyKwh: Number(r.energy_kwh),
     quality: r.quality,
     registerSpread: r.estimate_method === "register_spread",
   }));
 }
 
-type Estimate = { hourStart: Date; energyKwh: number; method: string };
+type Estimate = { intervalStart: Date; energyKwh: number; method: string };
 
 /**
  * Estimates go only where nothing known is stored (a measurement may have
@@ -113,7 +113,7 @@ async function storeEstimates(
 ): Promise<void> {
   if (estimates.length === 0) return;
   // A long gap has many hours: no spread into Math.min.
-  const times = estimates.map((e) => e.hourStart.getTime());
+  const times = estimates.map((e) => e.intervalStart.getTime());
   const first = new Date(times.reduce((a, b) => Math.min(a, b)));
   const last = new Date(times.reduce((a, b) => Math.max(a, b)));
   // Raw SQL: the same interval and rollup writes as ingest, which
@@ -125,7 +125,7 @@ async function storeEstimates(
               from unnest($3::timestamptz[], $4::numeric[], $5::text[]) as p(h, k, em)`,
       params: [
         meterId,
-        estimates.map((e) => e.hourStart),
+        estimates.map((e) => e.intervalStart),
         estimates.map((e) => e.energyKwh.toFixed(6)),
         estimates.map((e) => e.method),
       ],
@@ -192,7 +192,7 @@ async function flagHours(
         eq(intervals.organizationId, organizationId),
         eq(intervals.meterId, meterId),
         // One array parameter, however many hours a long gap flags.
-        sql`${intervals.hourStart} = any(${sql.param(points.map((p) => p.hourStart))}::timestamptz[])`,
+        sql`${intervals.intervalStart} = any(${sql.param(points.map((p) => p.intervalStart))}::timestamptz[])`,
         not(arrayContains(intervals.flags, [flag])),
       ),
     );

@@ -18,7 +18,7 @@ export interface EstimateOptions {
 }
 
 export interface Estimate {
-  hourStart: Date;
+  intervalStart: Date;
   energyKwh: number;
   method: "linear" | "profile";
 }
@@ -56,7 +56,7 @@ function resolve(options: EstimateOptions): Resolved {
 function anchorsOf(series: readonly HourlyPoint[]): Anchor[] {
   const byHour = new Map<number, number>();
   for (const p of knownPoints(series)) {
-    byHour.set(floorToHour(p.hourStart).getTime(), p.energyKwh);
+    byHour.set(floorToHour(p.intervalStart).getTime(), p.energyKwh);
   }
   return [...byHour.entries()]
     .sort((a, b) => a[0] - b[0])
@@ -107,7 +107,7 @@ function fillShort(a: Anchor, b: Anchor, n: number): Estimate[] {
   const out: Estimate[] = [];
   for (let k = 1; k <= n; k++) {
     out.push({
-      hourStart: new Date(a.t + k * HOUR_MS),
+      intervalStart: new Date(a.t + k * HOUR_MS),
       energyKwh: interpolate(a.value, b.value, k, n),
       method: "linear",
     });
@@ -139,11 +139,11 @@ function fillLong(
     out.push(
       value === undefined
         ? {
-            hourStart: new Date(t),
+            intervalStart: new Date(t),
             energyKwh: interpolate(a.value, b.value, k, n),
             method: "linear",
           }
-        : { hourStart: new Date(t), energyKwh: value, method: "profile" },
+        : { intervalStart: new Date(t), energyKwh: value, method: "profile" },
     );
   }
   return out;

@@ -44,7 +44,7 @@ function split(r: PreparedReading) {
     Number(r.uncertaintyKwh ?? 0),
   );
   return energy.map((p, i) => ({
-    hour: p.hourStart.getTime(),
+    hour: p.intervalStart.getTime(),
     energy: Number(p.energyKwh.toFixed(6)),
     band: Number(band[i].energyKwh.toFixed(6)),
   }));

@@ -51,7 +51,7 @@ export function piecesOf(r: PreparedReading): HourPiece[] {
     Number(r.uncertaintyKwh ?? 0),
   );
   return energy.map((p, i) => ({
-    hour: p.hourStart.getTime(),
+    hour: p.intervalStart.getTime(),
     energy: p.energyKwh.toFixed(6),
     band: band[i].energyKwh.toFixed(6),
   }));

@@ -4,7 +4,7 @@ import {
   HOUR_MS,
   addHours,
   floorToHour,
-  hourStartsBetween,
+  intervalStartsBetween,
   hoursBetween,
   nextFloat,
   splitAcrossHours,
@@ -45,7 +45,7 @@ describe("floorToHour and hoursBetween", () => {
   });
 
   it("lists the hour starts overlapping [from, to)", () => {
-    const hours = hourStartsBetween(
+    const hours = intervalStartsBetween(
       t("2026-01-01T00:30:00Z"),
       t("2026-01-01T03:00:00Z"),
     );
@@ -66,7 +66,7 @@ describe("splitAcrossHours", () => {
       3.7,
     );
     expect(pieces).toEqual([
-      { hourStart: t("2026-01-01T10:00:00Z"), energyKwh: 3.7 },
+      { intervalStart: t("2026-01-01T10:00:00Z"), energyKwh: 3.7 },
     ]);
   });
 
@@ -86,7 +86,7 @@ describe("splitAcrossHours", () => {
       t("2026-01-01T12:00:00Z"),
       30,
     );
-    expect(pieces.map((p) => p.hourStart.toISOString())).toEqual([
+    expect(pieces.map((p) => p.intervalStart.toISOString())).toEqual([
       "2026-01-01T10:00:00.000Z",
       "2026-01-01T11:00:00.000Z",
     ]);
@@ -145,13 +145,13 @@ describe("splitAcrossHours", () => {
           // + 0 folds −0 into 0: the sum of pieces starts from +0.
           expect(sumInOrder(pieces) + 0).toBe(energy + 0);
           // One piece per overlapped hour, consecutive, none outside.
-          expect(pieces[0].hourStart).toEqual(floorToHour(start));
+          expect(pieces[0].intervalStart).toEqual(floorToHour(start));
           for (let i = 1; i < pieces.length; i++) {
             expect(
-              hoursBetween(pieces[i - 1].hourStart, pieces[i].hourStart),
+              hoursBetween(pieces[i - 1].intervalStart, pieces[i].intervalStart),
             ).toBe(1);
           }
-          expect(pieces.at(-1)!.hourStart.getTime()).toBeLessThan(
+          expect(pieces.at(-1)!.intervalStart.getTime()).toBeLessThan(
             end.getTime(),
           );
         },
@@ -200,13 +200,13 @@ describe("sumByHour", () => {
     const h0 = t("2026-01-01T00:00:00Z");
     expect(
       sumByHour([
-        { hourStart: h1, energyKwh: 1 },
-        { hourStart: h0, energyKwh: 2 },
-        { hourStart: h1, energyKwh: 3 },
+        { intervalStart: h1, energyKwh: 1 },
+        { intervalStart: h0, energyKwh: 2 },
+        { intervalStart: h1, energyKwh: 3 },
       ]),
     ).toEqual([
-      { hourStart: h0, energyKwh: 2 },
-      { hourStart: h1, energyKwh: 4 },
+      { intervalStart: h0, energyKwh: 2 },
+      { intervalStart: h1, energyKwh: 4 },
     ]);
   });
 });

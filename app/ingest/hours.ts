@@ -6,7 +6,7 @@
 export const HOUR_MS = 3_600_000;
 
 export interface HourPiece {
-  hourStart: Date;
+  intervalStart: Date;
   energyKwh: number;
 }
 
@@ -24,7 +24,7 @@ export function addHours(d: Date, hours: number): Date {
 }
 
 /** The starts of the UTC hours that overlap [from, to), in order. */
-export function hourStartsBetween(from: Date, to: Date): Date[] {
+export function intervalStartsBetween(from: Date, to: Date): Date[] {
   const out: Date[] = [];
   for (let t = floorToHour(from).getTime(); t < to.getTime(); t += HOUR_MS) {
     out.push(new Date(t));
@@ -62,7 +62,7 @@ export function splitAcrossHours(
   }
   const s = start.getTime();
   const e = end.getTime();
-  const hours = hourStartsBetween(start, end);
+  const hours = intervalStartsBetween(start, end);
   const grain = ulp(energyKwh);
   const pieces: HourPiece[] = [];
   let sum = 0;
@@ -70,11 +70,11 @@ export function splitAcrossHours(
     const h = hours[i].getTime();
     const overlap = Math.min(e, h + HOUR_MS) - Math.max(s, h);
     const piece = snap((energyKwh * overlap) / (e - s), grain);
-    pieces.push({ hourStart: hours[i], energyKwh: piece });
+    pieces.push({ intervalStart: hours[i], energyKwh: piece });
     sum += piece;
   }
   pieces.push({
-    hourStart: hours[hours.length - 1],
+    intervalStart: hours[hours.length - 1],
     energyKwh: energyKwh - sum,
   });
   return pieces;
@@ -112,10 +112,10 @@ export function nextFloat(x: number, direction: 1 | -1): number {
 export function sumByHour(pieces: readonly HourPiece[]): HourPiece[] {
   const byHour = new Map<number, number>();
   for (const p of pieces) {
-    const t = p.hourStart.getTime();
+    const t = p.intervalStart.getTime();
     byHour.set(t, (byHour.get(t) ?? 0) + p.energyKwh);
   }
   return [...byHour.entries()]
     .sort((a, b) => a[0] - b[0])
-    .map(([t, energyKwh]) => ({ hourStart: new Date(t), energyKwh }));
+    .map(([t, energyKwh]) => ({ intervalStart: new Date(t), energyKwh }));
 }

@@ -7,7 +7,7 @@ import { z } from "zod";
 
 export const editSchema = z.strictObject({
   intent: z.literal("edit"),
-  hourStart: z.iso.datetime({
+  intervalStart: z.iso.datetime({
     offset: true,
     error: "Choose an hour in the table.",
   }),
@@ -42,7 +42,7 @@ export const editSchema = z.strictObject({
 
 export type EditAnswer = {
   errors: Record<string, string>;
-  saved: { hourStart: string; flags: string[] } | null;
+  saved: { intervalStart: string; flags: string[] } | null;
   /** The value to confirm, when it lies far outside the meter's history. */
-  confirm: { hourStart: string; energyKwh: string } | null;
+  confirm: { intervalStart: string; energyKwh: string } | null;
 };

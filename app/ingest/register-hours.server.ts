@@ -102,7 +102,7 @@ function hoursFromDeltas(
   for (const d of deltas) {
     const spread = d.to.getTime() - d.from.getTime() > HOUR_MS;
     for (const piece of splitAcrossHours(d.from, d.to, d.energyKwh * sign)) {
-      const t = piece.hourStart.getTime();
+      const t = piece.intervalStart.getTime();
       if (t < from.getTime() || t >= to.getTime()) continue;
       const hour = hours.get(t) ?? {
         energy: 0,

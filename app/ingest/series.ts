@@ -1,5 +1,5 @@
 // The hourly series of one meter, as the ingest modules pass it around.
-// Hours are UTC: an interval's hourStart is the start of its UTC hour.
+// Hours are UTC: an interval's intervalStart is the start of its UTC hour.
 
 /** How an hour's energy came to be: read, estimated, edited, or not at all. */
 export const intervalQualities = [
@@ -11,7 +11,7 @@ export const intervalQualities = [
 export type Quality = (typeof intervalQualities)[number];
 
 export interface HourlyPoint {
-  hourStart: Date;
+  intervalStart: Date;
   energyKwh: number;
   quality: Quality;
   /**
@@ -34,5 +34,5 @@ export function isKnown(point: HourlyPoint): boolean {
 export function knownPoints(series: readonly HourlyPoint[]): HourlyPoint[] {
   return series
     .filter(isKnown)
-    .sort((a, b) => a.hourStart.getTime() - b.hourStart.getTime());
+    .sort((a, b) => a.intervalStart.getTime() - b.intervalStart.getTime());
 }

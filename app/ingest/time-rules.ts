@@ -59,18 +59,18 @@ export function installedError(
 }
 
 /**
- * The rules for correcting the hour starting at `hourStart`: a whole UTC
+ * The rules for correcting the hour starting at `intervalStart`: a whole UTC
  * hour, at a time a reading would be taken, in the meter's life. Checked
  * against the hour's start, as ingest checks a reading's start.
  */
 export function correctionHourError(
   meter: InstalledPeriod,
-  hourStart: Date,
+  intervalStart: Date,
   now: Date,
 ): string | null {
-  const timeError = instantError("hour", hourStart, now);
+  const timeError = instantError("hour", intervalStart, now);
   if (timeError) return timeError;
-  if (floorToHour(hourStart).getTime() !== hourStart.getTime())
+  if (floorToHour(intervalStart).getTime() !== intervalStart.getTime())
     return "hour: must start on the hour";
-  return installedError(meter, hourStart);
+  return installedError(meter, intervalStart);
 }

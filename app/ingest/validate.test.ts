@@ -16,7 +16,7 @@ const at = (h: number) => new Date(Date.UTC(2026, 0, 1, h));
 function series(values: (number | null)[], quality: Quality = "measured") {
   const out: HourlyPoint[] = [];
   values.forEach((v, h) => {
-    if (v !== null) out.push({ hourStart: at(h), energyKwh: v, quality });
+    if (v !== null) out.push({ intervalStart: at(h), energyKwh: v, quality });
   });
   return out;
 }
@@ -31,8 +31,8 @@ describe("typicalHourlyValue", () => {
   it("ignores estimated and edited hours, and is null with no data", () => {
     const s = [
       ...series([10]),
-      { hourStart: at(1), energyKwh: 1000, quality: "estimated" as const },
-      { hourStart: at(2), energyKwh: 1000, quality: "edited" as const },
+      { intervalStart: at(1), energyKwh: 1000, quality: "estimated" as const },
+      { intervalStart: at(2), energyKwh: 1000, quality: "edited" as const },
     ];
     expect(typicalHourlyValue(s)).toBe(10);
     expect(typicalHourlyValue(series([0, 0]))).toBeNull();
@@ -59,7 +59,7 @@ describe("detectSpikes", () => {
   it("checks only measured hours", () => {
     const s = [
       ...series([3, 3, 3]),
-      { hourStart: at(5), energyKwh: 999, quality: "edited" as const },
+      { intervalStart: at(5), energyKwh: 999, quality: "edited" as const },
     ];
     expect(detectSpikes(s)).toEqual([]);
   });
@@ -68,13 +68,13 @@ describe("detectSpikes", () => {
     // A register read 10,000 units too high, spread over a 4-hour gap:
     // each spread hour is far above 10 × the typical 3 kWh.
     const spread = (h: number, kwh: number): HourlyPoint => ({
-      hourStart: at(h),
+      intervalStart: at(h),
       energyKwh: kwh,
       quality: "estimated",
       registerSpread: true,
     });
     const s = [...series([3, 3, 3]), spread(3, 2500), spread(4, 2500)];
-    expect(detectSpikes(s).map((p) => p.hourStart)).toEqual([at(3), at(4)]);
+    expect(detectSpikes(s).map((p) => p.intervalStart)).toEqual([at(3), at(4)]);
     // A plausible spread is not a spike; profile estimates are never checked.
     expect(detectSpikes([...series([3, 3, 3]), spread(3, 4)])).toEqual([]);
     const profiled = { ...spread(3, 2500), registerSpread: false };
@@ -119,10 +119,10 @@ describe("findGaps", () => {
 
   it("counts missing and estimated hours as gaps, edited as data", () => {
     const s: HourlyPoint[] = [
-      { hourStart: at(0), energyKwh: 1, quality: "measured" },
-      { hourStart: at(1), energyKwh: 0, quality: "missing" },
-      { hourStart: at(2), energyKwh: 1, quality: "estimated" },
-      { hourStart: at(3), energyKwh: 1, quality: "edited" },
+      { intervalStart: at(0), energyKwh: 1, quality: "measured" },
+      { intervalStart: at(1), energyKwh: 0, quality: "missing" },
+      { intervalStart: at(2), energyKwh: 1, quality: "estimated" },
+      { intervalStart: at(3), energyKwh: 1, quality: "edited" },
     ];
     expect(findGaps(s, at(0), at(4))).toEqual([
       { start: at(1), hours: 2, edge: null },

@@ -119,7 +119,7 @@ export function findGaps(
   to: Date,
 ): Gap[] {
   const known = new Set(
-    series.filter(isKnown).map((p) => floorToHour(p.hourStart).getTime()),
+    series.filter(isKnown).map((p) => floorToHour(p.intervalStart).getTime()),
   );
   const gaps: Gap[] = [];
   let runStart: number | null = null;

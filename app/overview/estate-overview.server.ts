@@ -184,7 +184,7 @@ export async function silentMeters(
   now = new Date(),
 ): Promise<SilentMeter[]> {
   const last = db
-    .select({ hourStart: intervals.hourStart })
+    .select({ intervalStart: intervals.intervalStart })
     .from(intervals)
     .where(
       and(
@@ -193,7 +193,7 @@ export async function silentMeters(
         eq(intervals.quality, "measured"),
       ),
     )
-    .orderBy(desc(intervals.hourStart))
+    .orderBy(desc(intervals.intervalStart))
     .limit(1)
     .as("last");
   const at = sql`${now}::timestamptz`;
@@ -205,10 +205,10 @@ export async function silentMeters(
       site_name: sites.name,
       last_hour: sql<
         string | null
-      >`to_char(${last.hourStart} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`,
+      >`to_char(${last.intervalStart} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`,
       silent_hours: sql<
         number | null
-      >`floor(extract(epoch from (${at} - ${last.hourStart})) / 3600)::int`,
+      >`floor(extract(epoch from (${at} - ${last.intervalStart})) / 3600)::int`,
     })
     .from(meters)
     .innerJoin(sites, siteOfMeter)
@@ -218,12 +218,12 @@ export async function silentMeters(
         eq(meters.organizationId, organizationId),
         isNull(meters.removedAt),
         or(
-          isNull(last.hourStart),
-          lt(last.hourStart, sql`${at} - make_interval(hours => ${hours})`),
+          isNull(last.intervalStart),
+          lt(last.intervalStart, sql`${at} - make_interval(hours => ${hours})`),
         ),
       ),
     )
-    .orderBy(sql`${last.hourStart} nulls first`, meters.code);
+    .orderBy(sql`${last.intervalStart} nulls first`, meters.code);
   return rows;
 }
 
@@ -236,10 +236,10 @@ export async function completeness(
   const inWindow = and(
     eq(intervals.organizationId, organizationId),
     gte(
-      intervals.hourStart,
+      intervals.intervalStart,
       sql`${now}::timestamptz - make_interval(days => ${days})`,
     ),
-    lt(intervals.hourStart, now),
+    lt(intervals.intervalStart, now),
   );
   const [measured, estimated, installed] = await Promise.all([
     db.$count(

@@ -15,7 +15,11 @@ import {
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
 import { dayUtc } from "~/lib/format";
-import { carrierLabels, quantityLabels } from "~/sites/meter-kinds";
+import {
+  carrierLabels,
+  quantityLabels,
+  resolutionLabel,
+} from "~/sites/meter-kinds";
 import {
   meterFormSchema,
   replaceSchema,
@@ -25,6 +29,7 @@ import {
   getMeter,
   listSiteMeters,
   MeterRuleError,
+  ResolutionFixedError,
   replaceMeter,
   retireMeter,
   updateMeter,
@@ -123,6 +128,8 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   } catch (error) {
     if (error instanceof DuplicateNameError)
       return fail(intent, { code: error.message }, 409);
+    if (error instanceof ResolutionFixedError)
+      return fail(intent, { intervalMinutes: error.message }, 409);
     if (error instanceof MeterRuleError)
       return fail(intent, { parentMeterId: error.message });
     throw error;
@@ -309,6 +316,7 @@ export default function Meter({
                 ],
                 ["Sensor", meter.sensorAt ?? "—"],
                 ["Installed", dayUtc(meter.installedAt)],
+                ["Resolution", resolutionLabel(meter.intervalMinutes)],
                 ["Spike factor", meter.spikeFactor],
               ].map(([k, v]) => (
                 <div key={k}>

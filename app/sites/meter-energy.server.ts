@@ -17,7 +17,7 @@ export async function siteEnergySince(args: {
       and(
         eq(intervals.organizationId, args.organizationId),
         eq(meters.siteId, args.siteId),
-        gte(intervals.hourStart, args.since),
+        gte(intervals.intervalStart, args.since),
       ),
     )
     .groupBy(intervals.meterId);

@@ -29,7 +29,7 @@ async function postHeat(org: MeteredOrg) {
 }
 
 const panel = (page: Page) =>
-  page.getByRole("region", { name: "Correct an hour" });
+  page.getByRole("region", { name: "Correct an interval" });
 
 describe("correcting an hour on the meter's readings page", () => {
   it("shows the new value after saving, and asks before storing a jump far outside the meter's history", async () => {

@@ -48,22 +48,22 @@ export async function meterHourCounts(args: {
          join sites s on s.organization_id = m.organization_id and s.id = m.site_id
         where m.organization_id = $1 and ($4::uuid is null or s.id = $4::uuid)
      ), hours as (
-       select l.id, i.hour_start, i.quality::text as quality,
+       select l.id, i.interval_start, i.quality::text as quality,
               case when i.quality = 'measured'
-                   then i.hour_start - lag(i.hour_start) over (
-                          partition by l.id, i.quality = 'measured' order by i.hour_start)
+                   then i.interval_start - lag(i.interval_start) over (
+                          partition by l.id, i.quality = 'measured' order by i.interval_start)
               end as step
          from live l
          join intervals i on i.organization_id = $1 and i.meter_id = l.id
-          and i.hour_start >= l.t0 and i.hour_start < l.t1
+          and i.interval_start >= l.t0 and i.interval_start < l.t1
         where l.t1 > l.t0
      ), counts as (
        select id,
               count(*) filter (where quality = 'measured')::int as measured,
               count(*) filter (where quality = 'estimated')::int as estimated,
               count(*) filter (where quality = 'edited')::int as edited,
-              min(hour_start) filter (where quality = 'measured') as first_measured,
-              max(hour_start) filter (where quality = 'measured') as last_measured,
+              min(interval_start) filter (where quality = 'measured') as first_measured,
+              max(interval_start) filter (where quality = 'measured') as last_measured,
               max(extract(epoch from step) / 3600 - 1)::float8 as longest_gap
          from hours group by id
      ), conflicts as (

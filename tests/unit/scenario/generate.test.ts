@@ -270,7 +270,7 @@ describe("scenario events", () => {
 
   it("shows the long school gap to the ingest checks, and it is estimable", () => {
     const series: HourlyPoint[] = byMeter.get("NP-HX1")!.map((r) => ({
-      hourStart: new Date(startOf(r)),
+      intervalStart: new Date(startOf(r)),
       // Stand-in energy (volume) is enough to check placement here.
       energyKwh: r.quantity === "water_heat" ? r.volume_m3 : 0,
       quality: "measured",
