@@ -470,7 +470,9 @@ export const intervals = pgTable(
       .notNull()
       .defaultNow(),
   },
-  (t) => [primaryKey({ columns: [t.organizationId, t.meterId, t.intervalStart] })],
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId, t.intervalStart] }),
+  ],
 );
 
 export type Quantity = (typeof quantityEnum.enumValues)[number];

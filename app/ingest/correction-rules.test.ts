@@ -6,11 +6,11 @@ import {
   wrongSignError,
   type CorrectedMeter,
 } from "./correction-rules";
-import type { HourlyPoint } from "./series";
+import type { IntervalPoint } from "./series";
 import { expectedSign } from "./validate";
 
 const at = (h: number) => new Date(Date.UTC(2026, 2, 10, h));
-const measured = (values: number[]): HourlyPoint[] =>
+const measured = (values: number[]): IntervalPoint[] =>
   values.map((energyKwh, h) => ({
     intervalStart: at(h),
     energyKwh,

@@ -8,11 +8,11 @@
  * Pure: the page shows the same words the write path answers with.
  */
 import { formatHourKwh, formatNumber } from "~/lib/format";
-import type { HourlyPoint } from "./series";
+import type { IntervalPoint } from "./series";
 import {
   expectedSign,
   isSpike,
-  typicalHourlyValue,
+  typicalIntervalValue,
   type MeterBoundary,
 } from "./validate";
 
@@ -81,13 +81,13 @@ export function wrongSignError(
 export function spikeJump(
   meter: CorrectedMeter,
   energyKwh: number,
-  history: readonly HourlyPoint[],
+  history: readonly IntervalPoint[],
   intervalStart: Date,
 ): Jump | null {
   const others = history.filter(
     (p) => p.intervalStart.getTime() !== intervalStart.getTime(),
   );
-  const typical = typicalHourlyValue(others);
+  const typical = typicalIntervalValue(others);
   if (typical === null || !isSpike(energyKwh, typical, meter.spikeFactor))
     return null;
   return {

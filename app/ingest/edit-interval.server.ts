@@ -17,7 +17,7 @@ import {
 } from "./correction-rules";
 import { loadSeries, windowFor } from "./estimate-meter.server";
 import { ensurePartitions } from "./partitions.server";
-import { correctionHourError, type InstalledPeriod } from "./time-rules";
+import { correctionIntervalError, type InstalledPeriod } from "./time-rules";
 import { writeIntervals } from "./write-intervals.server";
 
 /**
@@ -45,7 +45,7 @@ function writeEdit(
   });
 }
 
-/** The meter's hours around `intervalStart`, as ingest's spike check sees them. */
+/** The meter's intervals around `intervalStart`, as ingest's spike check sees them. */
 async function historyAround(
   client: PoolClient,
   organizationId: string,
@@ -74,7 +74,8 @@ export type EditOutcome =
     };
 
 /**
- * A person's correction of one hour: the value becomes `edited`, keeps its
+ * A person's correction of one interval (at the meter's resolution): the
+ * value becomes `edited`, keeps its
  * link to the raw readings, and the old value, new value and reason go to the
  * audit log in the same transaction as the month's rollup (and, for a closed
  * month, its adjusting entry). Refused, with nothing written:
@@ -89,7 +90,8 @@ export type EditOutcome =
 export async function editInterval(args: {
   organizationId: string;
   actorUserId: string;
-  meter: InstalledPeriod & CorrectedMeter & { id: string };
+  meter: InstalledPeriod &
+    CorrectedMeter & { id: string; intervalMinutes: number };
   intervalStart: Date;
   energyKwh: number;
   reason: string;
@@ -97,7 +99,7 @@ export async function editInterval(args: {
   confirmedSpike?: boolean;
   now?: Date;
 }): Promise<EditOutcome> {
-  const refused = correctionHourError(
+  const refused = correctionIntervalError(
     args.meter,
     args.intervalStart,
     args.now ?? new Date(),
@@ -114,7 +116,12 @@ export async function editInterval(args: {
       args.meter.id,
       args.intervalStart,
     );
-    const jump = spikeJump(args.meter, args.energyKwh, history, args.intervalStart);
+    const jump = spikeJump(
+      args.meter,
+      args.energyKwh,
+      history,
+      args.intervalStart,
+    );
     // Nothing written yet: returning commits an empty transaction.
     if (jump && !args.confirmedSpike)
       return {

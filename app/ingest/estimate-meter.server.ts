@@ -6,9 +6,10 @@ import { intervals, meters, sites } from "~/db/schema";
 import { withTransaction } from "~/db/transaction.server";
 import { applyRollupDeltas } from "~/ledger/refresh-rollups.server";
 import { estimateGaps } from "./estimate";
+import { stepMsOf } from "./hours";
 import { ensurePartitions } from "./partitions.server";
 import { detectNegative, detectSpikes, expectedSign } from "./validate";
-import type { HourlyPoint, Quality } from "./series";
+import type { IntervalPoint, Quality } from "./series";
 import { writeIntervals } from "./write-intervals.server";
 import type { Orientation } from "~/sites/meter-kinds";
 
@@ -18,6 +19,7 @@ const PROFILE_WEEKS = 8;
 
 interface MeterFacts {
   timeZone: string;
+  intervalMinutes: number;
   spikeFactor: number;
   orientation: Orientation;
   carrier: string;
@@ -30,6 +32,7 @@ async function meterFacts(
   const [facts] = await db
     .select({
       timeZone: sites.timeZone,
+      intervalMinutes: meters.intervalMinutes,
       spikeFactor: meters.spikeFactor,
       orientation: meters.orientation,
       carrier: meters.carrier,
@@ -79,7 +82,7 @@ export async function loadSeries(
   start: Date,
   end: Date,
   db: Pool | PoolClient = pool,
-): Promise<HourlyPoint[]> {
+): Promise<IntervalPoint[]> {
   const { rows } = await db.query<{
     interval_start: Date;
     energy_kwh: string;
@@ -144,8 +147,9 @@ async function storeEstimates(
 }
 
 /**
- * Fills the meter's gaps around a changed range with marked estimates and
- * flags spikes and wrong-sign hours. Measured and edited hours are never
+ * Fills the meter's gaps around a changed range with marked estimates, at
+ * the meter's resolution, and flags spikes (against its typical interval)
+ * and wrong-sign intervals. Measured and edited hours are never
  * overwritten; a later measurement replaces an estimate (store-readings).
  */
 export async function estimateMeter(
@@ -159,6 +163,7 @@ export async function estimateMeter(
   const { start, end } = await windowFor(organizationId, meterId, from, to);
   const series = await loadSeries(organizationId, meterId, start, end);
   const estimates = estimateGaps(series, {
+    stepMs: stepMsOf(facts),
     timeZone: facts.timeZone,
     profileWeeks: PROFILE_WEEKS,
   });
@@ -181,7 +186,7 @@ async function flagHours(
   organizationId: string,
   meterId: string,
   flag: string,
-  points: HourlyPoint[],
+  points: IntervalPoint[],
 ) {
   if (points.length === 0) return;
   await db

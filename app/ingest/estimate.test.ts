@@ -2,7 +2,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { estimateGaps, interpolate } from "./estimate";
 import { HOUR_MS } from "./hours";
-import type { HourlyPoint, Quality } from "./series";
+import type { IntervalPoint, Quality } from "./series";
 
 // Check values are arithmetic on the definitions in estimate.ts: straight
 // lines between the neighbouring known hours, and the mean per weekday ×
@@ -12,7 +12,7 @@ const MONDAY = Date.UTC(2026, 0, 5);
 const at = (h: number) => new Date(MONDAY + h * HOUR_MS);
 
 function series(values: (number | null)[], quality: Quality = "measured") {
-  const out: HourlyPoint[] = [];
+  const out: IntervalPoint[] = [];
   values.forEach((v, h) => {
     if (v !== null) out.push({ intervalStart: at(h), energyKwh: v, quality });
   });
@@ -37,7 +37,7 @@ describe("estimateGaps: short gaps", () => {
   });
 
   it("treats hours marked missing like absent hours", () => {
-    const s: HourlyPoint[] = [
+    const s: IntervalPoint[] = [
       { intervalStart: at(0), energyKwh: 1, quality: "measured" },
       { intervalStart: at(1), energyKwh: 0, quality: "missing" },
       { intervalStart: at(2), energyKwh: 3, quality: "measured" },
@@ -48,7 +48,7 @@ describe("estimateGaps: short gaps", () => {
   });
 
   it("re-estimates old estimates, never measured or edited hours", () => {
-    const s: HourlyPoint[] = [
+    const s: IntervalPoint[] = [
       { intervalStart: at(0), energyKwh: 1, quality: "measured" },
       { intervalStart: at(1), energyKwh: 99, quality: "estimated" },
       { intervalStart: at(2), energyKwh: 5, quality: "edited" },
@@ -62,7 +62,7 @@ describe("estimateGaps: short gaps", () => {
   });
 
   it("leaves hours before the first and after the last known hour", () => {
-    const s: HourlyPoint[] = [
+    const s: IntervalPoint[] = [
       { intervalStart: at(0), energyKwh: 0, quality: "missing" },
       ...series([null, 4, null, 6]),
       { intervalStart: at(4), energyKwh: 0, quality: "missing" },
@@ -159,7 +159,7 @@ describe("estimateGaps: long gaps", () => {
     // Two weeks in July where 10 kWh flows at 09:00 London time (08:00 UTC),
     // then a 30-hour gap: the estimate is 10 at 08:00 UTC, not 09:00 UTC.
     const start = Date.UTC(2026, 6, 6); // Monday 6 July 2026
-    const s: HourlyPoint[] = [];
+    const s: IntervalPoint[] = [];
     for (let h = 0; h < 3 * 168; h++) {
       if (h > 2 * 168 && h < 2 * 168 + 31) continue;
       const t = new Date(start + h * HOUR_MS);
@@ -201,10 +201,14 @@ const cell = fc.record({
 });
 
 function seriesOf(cells: { value: number; quality: Quality | "absent" }[]) {
-  const out: HourlyPoint[] = [];
+  const out: IntervalPoint[] = [];
   cells.forEach((c, h) => {
     if (c.quality !== "absent") {
-      out.push({ intervalStart: at(h), energyKwh: c.value, quality: c.quality });
+      out.push({
+        intervalStart: at(h),
+        energyKwh: c.value,
+        quality: c.quality,
+      });
     }
   });
   return out;
@@ -223,7 +227,9 @@ describe("estimateGaps: properties", () => {
             )
             .filter((h) => h >= 0);
           const e = estimateGaps(seriesOf(cells), { shortGapMaxHours });
-          const got = e.map((x) => (x.intervalStart.getTime() - MONDAY) / HOUR_MS);
+          const got = e.map(
+            (x) => (x.intervalStart.getTime() - MONDAY) / HOUR_MS,
+          );
           const expected: number[] = [];
           if (known.length > 0) {
             const knownSet = new Set(known);

@@ -56,7 +56,9 @@ export async function action({ request, params, context }: Route.ActionArgs) {
       );
     if (error instanceof ResolutionFixedError)
       return data(
-        { errors: { intervalMinutes: error.message } as Record<string, string> },
+        {
+          errors: { intervalMinutes: error.message } as Record<string, string>,
+        },
         { status: 409 },
       );
     if (error instanceof MeterRuleError)

@@ -80,7 +80,9 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (!edit.ok)
     return refusal({
       errors: { [edit.field]: edit.reason },
-      confirm: edit.jump ? { intervalStart, energyKwh: String(energyKwh) } : null,
+      confirm: edit.jump
+        ? { intervalStart, energyKwh: String(energyKwh) }
+        : null,
     });
   return data<EditAnswer>({
     errors: {},
