@@ -227,7 +227,11 @@ export async function silentMeters(
   return rows;
 }
 
-/** Share of the last `days` days' hours that were measured, over installed meters. */
+/**
+ * Share of the last `days` days' intervals that were measured, over
+ * installed meters, each expected at its own resolution (48 a day for a
+ * half-hourly meter).
+ */
 export async function completeness(
   organizationId: string,
   days: number,
@@ -241,18 +245,25 @@ export async function completeness(
     ),
     lt(intervals.intervalStart, now),
   );
-  const [measured, estimated, installed] = await Promise.all([
+  const [measured, estimated, [installed]] = await Promise.all([
     db.$count(
       intervals,
       and(inWindow, inArray(intervals.quality, ["measured", "edited"])),
     ),
     db.$count(intervals, and(inWindow, eq(intervals.quality, "estimated"))),
-    db.$count(
-      meters,
-      and(eq(meters.organizationId, organizationId), isNull(meters.removedAt)),
-    ),
+    db
+      .select({
+        perDay: sql<number>`coalesce(sum(1440 / ${meters.intervalMinutes}), 0)::int`,
+      })
+      .from(meters)
+      .where(
+        and(
+          eq(meters.organizationId, organizationId),
+          isNull(meters.removedAt),
+        ),
+      ),
   ]);
-  const expected = installed * days * 24;
+  const expected = installed.perDay * days;
   return {
     measuredShare: expected ? measured / expected : 0,
     estimatedShare: expected ? estimated / expected : 0,

@@ -3,7 +3,7 @@ import { meterOfInterval } from "~/db/conditions.server";
 import { db } from "~/db/client.server";
 import { intervals, meters } from "~/db/schema";
 
-/** Signed energy per meter of one site since a time, from the hourly intervals. */
+/** Signed energy per meter of one site since a time, from its intervals (at any resolution: a sum). */
 export async function siteEnergySince(args: {
   organizationId: string;
   siteId: string;
