@@ -12,7 +12,7 @@ function ofMeter(args: { organizationId: string; meterId: string }) {
 
 // The API's instant: UTC, to the second, with its Z.
 const isoUtc = (instant: ReturnType<typeof sql>) =>
-  sql<string>`to_char(${instant} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`;
+  sql<string>`to_char((${instant}) at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`;
 
 /**
  * One meter's intervals in [from, to) at its own resolution, oldest first;

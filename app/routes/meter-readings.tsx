@@ -120,7 +120,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
   const intervals = page?.intervals ?? [];
   const selected = intervals.find((i) => i.start === selectedHour) ?? null;
   // The charts read in hours; the table keeps the meter's own intervals.
-  const hours = useMemo(() => hourlyTotals(intervals), [intervals]);
+  const hours = useMemo(() => hourlyTotals(page?.intervals ?? []), [page]);
   return (
     <>
       <PageHeader

@@ -76,12 +76,15 @@ export const meterFormSchema = z
       error: "Choose import or export.",
     }),
     parentMeterId: optionalIdField("Choose a parent meter from the list."),
+    // Left out or empty (an API body without it): the default, hourly.
     intervalMinutes: z
-      .enum(intervalResolutions.map(String) as ["15", "30", "60"], {
+      .enum(["", ...(intervalResolutions.map(String) as ["15", "30", "60"])], {
         error: "Choose 15, 30 or 60 minutes per interval.",
       })
-      .default(String(DEFAULT_INTERVAL_MINUTES) as "60")
-      .transform((v) => Number(v) as IntervalMinutes),
+      .default("")
+      .transform(
+        (v) => Number(v || DEFAULT_INTERVAL_MINUTES) as IntervalMinutes,
+      ),
     serial: z.string().trim().max(64, "Use at most 64 characters."),
     multiplier: decimal("Multiplier", 0.0001, 100_000).transform((v) => v ?? 1),
     rolloverKwh: decimal("Roll-over point", 1, 1e12),

@@ -23,7 +23,12 @@ type Answer = {
   conflicts: { index: number; reason: string }[];
 };
 type IntervalAnswer = {
-  intervals: { interval_start: string; energy_kwh: string; quality: string }[];
+  intervals: {
+    start: string;
+    end: string;
+    energy_kwh: string;
+    quality: string;
+  }[];
 };
 type LedgerAnswer = {
   rows: {
@@ -142,7 +147,7 @@ describe("interval_energy readings over the API", () => {
       const page = (await response.json()) as IntervalAnswer;
       expect(page.intervals).toHaveLength(48);
       page.intervals.forEach((interval, i) => {
-        expect(Date.parse(interval.interval_start)).toBe(
+        expect(Date.parse(interval.start)).toBe(
           FIRST_HOUR + i * HOUR_MS,
         );
         expect(interval.quality).toBe("measured");
