@@ -33,7 +33,7 @@ export interface CorrectedMeter extends MeterBoundary {
 
 /** How far a corrected value lies from the meter's history. */
 export interface Jump {
-  typicalHourKwh: number;
+  typicalIntervalKwh: number;
   timesTypical: number;
   spikeFactor: number;
 }
@@ -91,7 +91,7 @@ export function spikeJump(
   if (typical === null || !isSpike(energyKwh, typical, meter.spikeFactor))
     return null;
   return {
-    typicalHourKwh: typical,
+    typicalIntervalKwh: typical,
     timesTypical: Math.abs(energyKwh) / typical,
     spikeFactor: meter.spikeFactor,
   };
@@ -105,12 +105,12 @@ function formatTimes(times: number): string {
 export function jumpMessage(energyKwh: number, jump: Jump): string {
   return (
     `${formatHourKwh(energyKwh)} kWh is ${formatTimes(jump.timesTypical)} × this meter's ` +
-    `typical hour of ${formatHourKwh(jump.typicalHourKwh, 1)} kWh; hours above ` +
+    `typical interval of ${formatHourKwh(jump.typicalIntervalKwh, 1)} kWh; intervals above ` +
     `${formatTimes(jump.spikeFactor)} × are flagged as spikes. Confirm the value to save it.`
   );
 }
 
 /** The confirmation's own words: it names the value it stands behind. */
 export function confirmLabel(energyKwh: number): string {
-  return `Yes, ${formatHourKwh(energyKwh)} kWh is right: save it and flag the hour as a confirmed spike`;
+  return `Yes, ${formatHourKwh(energyKwh)} kWh is right: save it and flag the interval as a confirmed spike`;
 }

@@ -172,7 +172,7 @@ export async function editInterval(args: {
 function auditedJump(jump: Jump) {
   return {
     confirmed: true,
-    typicalHourKwh: jump.typicalHourKwh.toFixed(6),
+    typicalIntervalKwh: jump.typicalIntervalKwh.toFixed(6),
     timesTypical: Number(jump.timesTypical.toFixed(1)),
     spikeFactor: jump.spikeFactor,
   };

@@ -1,5 +1,5 @@
 /**
- * The form that corrects one hour of a meter: what it posts and what the
+ * The form that corrects one interval of a meter: what it posts and what the
  * action answers. Plain module: the route's action parses with it, the
  * Readings page's edit panel reads the answer.
  */
@@ -9,7 +9,7 @@ export const editSchema = z.strictObject({
   intent: z.literal("edit"),
   intervalStart: z.iso.datetime({
     offset: true,
-    error: "Choose an hour in the table.",
+    error: "Choose an interval in the table.",
   }),
   energyKwh: z
     .string()

@@ -57,7 +57,7 @@ export function detectSpikes(
 
 /**
  * The one spike rule, for ingest's flags and for a person's correction
- * alike: |value| above factor × the meter's typical hour.
+ * alike: |value| above factor × the meter's typical interval.
  */
 export function isSpike(
   energyKwh: number,

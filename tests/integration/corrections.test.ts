@@ -216,7 +216,7 @@ describe("a correction far outside the meter's history", () => {
     expect(response.status).toBe(400);
     // The panel is drawn in the browser: the answer is in the page's data.
     expect(await response.text()).toContain(
-      `1,000,000,000 kWh is ${en(1e9 / typical)} × this meter's typical hour of ${en(typical, 1)} kWh; hours above 10 × are flagged as spikes.`,
+      `1,000,000,000 kWh is ${en(1e9 / typical)} × this meter's typical interval of ${en(typical, 1)} kWh; intervals above 10 × are flagged as spikes.`,
     );
 
     // A confirmation given for another value does not count for this one.
@@ -264,7 +264,7 @@ describe("a correction far outside the meter's history", () => {
       reason: "Checked against the register photo",
       confirmedSpike: {
         confirmed: true,
-        typicalHourKwh: typical.toFixed(6),
+        typicalIntervalKwh: typical.toFixed(6),
         timesTypical: Number((1e9 / typical).toFixed(1)),
         spikeFactor: 10,
       },

@@ -32,7 +32,7 @@ export function EditPanel({
   if (!selected)
     return (
       <p className="text-ink-muted">
-        Select an hour in the table to correct it.
+        Select an interval in the table to correct it.
       </p>
     );
   // An answer is about the hour it was posted for, not the one selected since.
