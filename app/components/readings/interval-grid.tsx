@@ -63,6 +63,7 @@ export function IntervalGrid({
   const columns = useMemo<ColDef<Interval>[]>(() => {
     const all: ColDef<Interval>[] = [
       {
+        // The meter's own intervals, so one can be selected and corrected.
         headerName: `Start (${timeZone})`,
         field: "start",
         valueFormatter: (p) => hourLabel(p.value),

@@ -19,7 +19,8 @@ import { localParts } from "~/ingest/local-time";
 import type { Interval } from "./use-intervals";
 
 /**
- * Hourly energy over the range: actual hours in the carrier's colours (as on
+ * Hourly energy over the range (a finer meter's intervals summed per hour by
+ * hourlyTotals): actual hours in the carrier's colours (as on
  * every chart), estimated and corrected hours in the caution colour the interval
  * grid gives them.
  */
