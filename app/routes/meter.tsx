@@ -166,6 +166,7 @@ export default function Meter({
           <>
             {quantityLabels[meter.quantity]} · {carrierLabels[meter.carrier]} ·{" "}
             {meter.orientation === "import" ? "import (+)" : "export (−)"} ·{" "}
+            {resolutionLabel(meter.intervalMinutes)} ·{" "}
             <Link
               className="font-semibold text-spruce-700 underline"
               to={`${base}/sites/${meter.siteId}`}
