@@ -240,6 +240,49 @@ describe("a half-hourly meter over the JSON API (issue #14)", () => {
     ]);
   });
 
+  it("a half-hourly register meter's reads become half-hours", async () => {
+    const registerCode = `HR-${Date.now().toString(36)}`;
+    const response = await owner.postJson(api("/meters"), {
+      site_id: siteId,
+      code: registerCode,
+      name: "Half-hourly register",
+      quantity: "electric_register",
+      carrier: "electricity",
+      orientation: "import",
+      interval_minutes: 30,
+      installed_at: "2026-01-01",
+    });
+    expect(response.status).toBe(201);
+    const registerId = ((await response.json()) as { id: string }).id;
+    const read = (time: string, kwh: number) => ({
+      meter: registerCode,
+      quantity: "electric_register",
+      time,
+      register_kwh: kwh,
+    });
+    const answer = await postReadings([
+      read("2026-08-03T10:00:00Z", 100),
+      read("2026-08-03T10:30:00Z", 101.25),
+      read("2026-08-03T11:30:00Z", 104.25),
+    ]);
+    expect(answer.accepted).toBe(3);
+    await estimationSettled(orgId);
+    const page = await intervals(
+      registerId,
+      "2026-08-03T10:00:00Z",
+      "2026-08-03T12:00:00Z",
+    );
+    // One read to the next half-hour is measured; over an hour, the advance
+    // is spread evenly over its two half-hours.
+    expect(
+      page.intervals.map((i) => [i.start, micro(i.energy_kwh), i.quality]),
+    ).toEqual([
+      ["2026-08-03T10:00:00Z", 1_250_000n, "measured"],
+      ["2026-08-03T10:30:00Z", 1_500_000n, "estimated"],
+      ["2026-08-03T11:00:00Z", 1_500_000n, "estimated"],
+    ]);
+  });
+
   it("a meter's resolution can change before it has data, and not after", async () => {
     const fresh = await createMeter(`NEW-${Date.now().toString(36)}`, 60);
     const changed = await owner.request(api(`/meters/${fresh}`), {
