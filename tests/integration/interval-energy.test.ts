@@ -147,9 +147,7 @@ describe("interval_energy readings over the API", () => {
       const page = (await response.json()) as IntervalAnswer;
       expect(page.intervals).toHaveLength(48);
       page.intervals.forEach((interval, i) => {
-        expect(Date.parse(interval.start)).toBe(
-          FIRST_HOUR + i * HOUR_MS,
-        );
+        expect(Date.parse(interval.start)).toBe(FIRST_HOUR + i * HOUR_MS);
         expect(interval.quality).toBe("measured");
         const sent = micro(kwhOf(i, base).toFixed(6));
         expect(micro(interval.energy_kwh)).toBe(sign * sent);
