@@ -502,6 +502,11 @@ export const monthlyRollups = pgTable(
       precision: 24,
       scale: 6,
     }).notNull(),
+    /**
+     * Intervals stored in the month, and how many are estimated: hours for
+     * an hourly meter, half-hours for a half-hourly one (the names predate
+     * meters' resolution; the energies are sums and exact at any).
+     */
     hours: integer("hours").notNull(),
     estimatedHours: integer("estimated_hours").notNull(),
     updatedAt: timestamp("updated_at", { withTimezone: true })
