@@ -1,6 +1,8 @@
 /**
- * Writes hourly intervals and reports exactly how each site-local month of
- * each meter changed, for the monthly rollups (applyRollupDeltas).
+ * Writes intervals (at any meter's resolution; "hour" below is any
+ * interval) and reports exactly how each site-local month of each meter
+ * changed, for the monthly rollups (applyRollupDeltas): sums, so exact for
+ * 15- and 30-minute intervals as for hours.
  *
  * PostgreSQL 15 cannot return a row's old values from an upsert, so a write
  * is two statements:
