@@ -8,6 +8,7 @@ export interface AlertPreferences {
   silentMeter: boolean;
   residual: boolean;
   monthReady: boolean;
+  plantFault: boolean;
   silentHours: number;
 }
 
@@ -20,6 +21,7 @@ const preferenceColumns = {
   silentMeter: alertSettings.silentMeter,
   residual: alertSettings.residual,
   monthReady: alertSettings.monthReady,
+  plantFault: alertSettings.plantFault,
   silentHours: alertSettings.silentHours,
 };
 
@@ -44,6 +46,7 @@ export async function alertPreferences(
       silentMeter: byDefault,
       residual: byDefault,
       monthReady: byDefault,
+      plantFault: byDefault,
       silentHours: NO_DATA_AFTER_HOURS,
     }
   );
@@ -58,6 +61,7 @@ export async function saveAlertPreferences(
     silentMeter: p.silentMeter,
     residual: p.residual,
     monthReady: p.monthReady,
+    plantFault: p.plantFault,
     silentHours: p.silentHours,
   };
   await db

@@ -5,8 +5,10 @@ import { meters, monthCloses, monthlyRollups, sites } from "~/db/schema";
 import { monthKey } from "~/lib/months";
 import { residualFlag } from "~/ledger/balance";
 import { silentMeters } from "~/overview/estate-overview.server";
+import { plantFaults } from "~/plant/plant-faults.server";
 
-export type AlertKind = "silent_meter" | "residual" | "month_ready";
+export type AlertKind =
+  "silent_meter" | "residual" | "month_ready" | "plant_fault";
 
 /** One condition that holds now, keyed so that it is reported once. */
 export interface Condition {
@@ -141,4 +143,27 @@ export async function monthReadyConditions(
         "The month has ended; closing it locks its figures, and later corrections become adjusting entries.",
     },
   ];
+}
+
+/**
+ * Plant whose last month broke a law (app/plant/): one alert per plant and
+ * month, naming the plant's meters, one of which reads wrongly.
+ */
+export async function plantFaultConditions(
+  organizationId: string,
+  now: Date,
+): Promise<Condition[]> {
+  const month = previousMonth(now);
+  const faults = await plantFaults({
+    organizationId,
+    siteId: null,
+    months: [month],
+  });
+  return faults.map((f) => ({
+    kind: "plant_fault",
+    subject: `${f.plantId}:${f.month}`,
+    site: f.siteName,
+    title: `Metering fault at ${f.plantName} (${f.siteName}), ${f.month}`,
+    detail: `${f.text} Meters: ${f.meterCodes.join(", ")}.`,
+  }));
 }

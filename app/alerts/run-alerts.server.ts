@@ -14,6 +14,7 @@ import { NO_DATA_AFTER_HOURS } from "./no-data";
 import { alertDigestEmail, type DigestSection } from "./digest-email.server";
 import {
   monthReadyConditions,
+  plantFaultConditions,
   residualConditions,
   silentMeterConditions,
   type AlertKind,
@@ -40,6 +41,7 @@ async function recipients(
       silentMeter: alertSettings.silentMeter,
       residual: alertSettings.residual,
       monthReady: alertSettings.monthReady,
+      plantFault: alertSettings.plantFault,
       silentHours: alertSettings.silentHours,
     })
     .from(memberships)
@@ -58,6 +60,7 @@ async function recipients(
     if (r.silentMeter ?? byDefault) kinds.add("silent_meter");
     if (r.residual ?? byDefault) kinds.add("residual");
     if (r.monthReady ?? byDefault) kinds.add("month_ready");
+    if (r.plantFault ?? byDefault) kinds.add("plant_fault");
     return { userId: r.userId, email: r.email, name: r.name, kinds };
   });
   const hours = rows
@@ -91,6 +94,7 @@ async function checkOrganization(
     ...(await silentMeterConditions(organizationId, silentHours, now)),
     ...(await residualConditions(organizationId, now)),
     ...(await monthReadyConditions(organizationId, now)),
+    ...(await plantFaultConditions(organizationId, now)),
   ];
   const openEvents = and(
     eq(alertEvents.organizationId, organizationId),

@@ -66,7 +66,7 @@ function security(access: Access): Record<string, string[]>[] {
     case "gatewayOrSession":
       return [{ gatewayKey: [] }, { session: [] }];
     case "member":
-      return [{ session: [] }];
+      return [{ apiToken: [] }, { session: [] }];
   }
 }
 
@@ -81,11 +81,17 @@ function impliedReplies(route: ApiRoute): Record<number, Reply> {
     replies[401] = errorReply("No valid gateway key or session");
   }
   if (access.kind === "member") {
-    replies[401] = errorReply("Not signed in");
+    replies[401] = errorReply(
+      "Not signed in, or an API token that is unknown, revoked or expired (`invalid_token`)",
+    );
     if (roles.some((role) => !can(role, access.permission))) {
-      replies[403] = errorReply("The member's role does not allow this");
+      replies[403] = errorReply(
+        "The member's (or the API token's) role does not allow this",
+      );
     }
-    replies[404] = errorReply("Not a member of this organisation");
+    replies[404] = errorReply(
+      "Not a member of this organisation (also a token of another organisation)",
+    );
   }
   if (body?.kind === "json") {
     replies[400] = errorReply(
@@ -182,7 +188,7 @@ export function openApiDocument(routes: readonly ApiRoute[]) {
       description: DESCRIPTION,
     },
     servers: [{ url: "/api/v1" }],
-    security: [{ gatewayKey: [] }, { session: [] }],
+    security: [{ gatewayKey: [] }, { apiToken: [] }, { session: [] }],
     paths,
     components: {
       securitySchemes: {
@@ -190,7 +196,13 @@ export function openApiDocument(routes: readonly ApiRoute[]) {
           type: "http",
           scheme: "bearer",
           description:
-            "A gateway's API key, shown once when the gateway is created.",
+            "A gateway's API key (`jbgw_…`), shown once when the gateway is created. Posts readings only.",
+        },
+        apiToken: {
+          type: "http",
+          scheme: "bearer",
+          description:
+            "An organisation API token (`jbtk_…`), made by an owner on the API tokens page and shown once. It acts with its role (auditor: read-only; energy manager) on `/orgs/{orgId}/…` of its own organisation only; elsewhere it is answered as a non-member (404). A revoked or expired token gets 401 `invalid_token`.",
         },
         session: { type: "apiKey", in: "cookie", name: "jb_session" },
       },

@@ -5,6 +5,8 @@
  * permission table, as pages do.
  */
 import type { NextFunction, Request, Response } from "express";
+import { isApiTokenSecret } from "~/auth/api-token-keys.server";
+import { authenticateApiToken } from "~/auth/api-token.server";
 import {
   authenticateGateway,
   type GatewayPrincipal,
@@ -21,6 +23,21 @@ export interface UserPrincipal {
 
 export type ApiPrincipal = GatewayPrincipal | UserPrincipal;
 
+/**
+ * The caller of a member route: a signed-in member (userId), or an
+ * organisation API token acting with its own role (tokenId, userId null).
+ * Handlers record `userId`/`tokenId` as the audit entry's actor.
+ */
+export type MemberCaller = {
+  organizationId: string;
+  role: Role;
+} & ({ userId: string; tokenId: null } | { userId: null; tokenId: string });
+
+/** The audit actor of a member route's caller, for the domain's writes. */
+export function auditActorOf(member: MemberCaller) {
+  return { actorUserId: member.userId, actorTokenId: member.tokenId };
+}
+
 declare module "express-serve-static-core" {
   interface Locals {
     /** The signed-in person, once resolved (null: nobody is signed in). */
@@ -28,7 +45,7 @@ declare module "express-serve-static-core" {
     /** Who called a gateway route: a gateway's key or a signed-in person. */
     principal?: ApiPrincipal;
     /** Who called a member route, and for which organisation. */
-    member?: { userId: string; organizationId: string; role: Role };
+    member?: MemberCaller;
   }
 }
 
@@ -88,32 +105,98 @@ export function requirePrincipal(options: { allowSession: boolean }) {
   };
 }
 
+/** What a caller outside `:orgId` gets, token or person: nothing about it. */
+const sendNotAMember = (res: Response) =>
+  sendError(res, 404, "not_found", "No such organisation.");
+
 /**
- * Session-authenticated routes under /orgs/:orgId: the signed-in person must
- * be a member (else 404, as for pages) whose role has the permission (else
- * 403).
+ * The caller an `Authorization: Bearer` secret stands for on a member route:
+ * an organisation API token, or a 401 that says why not. A token belongs to
+ * one organisation; for any other it answers exactly as for a non-member.
+ */
+async function tokenCaller(
+  secret: string,
+  orgId: string,
+  res: Response,
+): Promise<MemberCaller | null> {
+  if (!isApiTokenSecret(secret)) {
+    sendError(
+      res,
+      401,
+      "invalid_token",
+      "Organisation routes take an API token (jbtk_…) or a signed-in session; gateway keys only post readings.",
+    );
+    return null;
+  }
+  const check = await authenticateApiToken(secret);
+  if (!check.ok) {
+    sendError(res, 401, "invalid_token", check.message);
+    return null;
+  }
+  if (check.token.organizationId !== orgId) {
+    sendNotAMember(res);
+    return null;
+  }
+  return {
+    organizationId: check.token.organizationId,
+    role: check.token.role,
+    userId: null,
+    tokenId: check.token.tokenId,
+  };
+}
+
+/** The signed-in member of `orgId`, or the 401/404 answer already sent. */
+async function sessionCaller(
+  req: Request,
+  res: Response,
+  orgId: string,
+): Promise<MemberCaller | null> {
+  const person = await signedInPerson(req, res);
+  if (!person) {
+    sendError(
+      res,
+      401,
+      "unauthenticated",
+      "Sign in first, or send an API token as `Authorization: Bearer <token>`.",
+    );
+    return null;
+  }
+  const membership = await person.membershipOf(orgId);
+  if (!membership) {
+    sendNotAMember(res);
+    return null;
+  }
+  return {
+    organizationId: membership.organization.id,
+    role: membership.role,
+    userId: person.user.id,
+    tokenId: null,
+  };
+}
+
+/**
+ * Routes under /orgs/:orgId: the caller is an organisation API token
+ * (Authorization: Bearer jbtk_…) or a signed-in person; either must belong
+ * to the organisation (else 404, as for pages) and its role must have the
+ * permission (else 403), by the same `can(role, permission)`.
  */
 export function requireOrgMember(permission: Permission) {
   return async (req: Request, res: Response, next: NextFunction) => {
     try {
-      const person = await signedInPerson(req, res);
-      if (!person)
-        return sendError(res, 401, "unauthenticated", "Sign in first.");
-      const membership = await person.membershipOf(String(req.params.orgId));
-      if (!membership)
-        return sendError(res, 404, "not_found", "No such organisation.");
-      if (!can(membership.role, permission))
+      const orgId = String(req.params.orgId);
+      const secret = bearerToken(req.get("authorization"));
+      const member = secret
+        ? await tokenCaller(secret, orgId, res)
+        : await sessionCaller(req, res, orgId);
+      if (!member) return;
+      if (!can(member.role, permission))
         return sendError(
           res,
           403,
           "forbidden",
           "Your role does not allow this.",
         );
-      res.locals.member = {
-        userId: person.user.id,
-        organizationId: membership.organization.id,
-        role: membership.role,
-      };
+      res.locals.member = member;
       next();
     } catch (error) {
       next(error);

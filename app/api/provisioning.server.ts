@@ -33,6 +33,7 @@ import {
   listSites,
   updateSite,
 } from "~/sites/sites.server";
+import { auditActorOf } from "./principal.server";
 import { sendError, sendValidationError, zodIssues } from "./respond.server";
 import {
   meterArchiveBodySchema,
@@ -233,11 +234,11 @@ export const postSite = handled(async (req, res) => {
   if (!body.success) return sendValidationError(res, body.error);
   const input = siteInput(res, body.data);
   if (!input) return;
-  const { organizationId, userId } = memberOf(res);
+  const { organizationId } = memberOf(res);
   try {
     const siteId = await createSite({
       organizationId,
-      actorUserId: userId,
+      ...auditActorOf(memberOf(res)),
       input,
     });
     const site = await getSite({ organizationId, siteId });
@@ -255,11 +256,11 @@ export const patchSite = handled(async (req, res) => {
   if (!site) return noSuchSite(res);
   const input = siteInput(res, { ...siteBodyOf(site), ...body.data });
   if (!input) return;
-  const { organizationId, userId } = memberOf(res);
+  const { organizationId } = memberOf(res);
   try {
     await updateSite({
       organizationId,
-      actorUserId: userId,
+      ...auditActorOf(memberOf(res)),
       siteId: site.id,
       input,
     });
@@ -272,8 +273,12 @@ export const patchSite = handled(async (req, res) => {
 export const postSiteArchive = handled(async (req, res) => {
   const site = await findSite(req, res);
   if (!site) return noSuchSite(res);
-  const { organizationId, userId } = memberOf(res);
-  await archiveSite({ organizationId, actorUserId: userId, siteId: site.id });
+  const { organizationId } = memberOf(res);
+  await archiveSite({
+    organizationId,
+    ...auditActorOf(memberOf(res)),
+    siteId: site.id,
+  });
   res.json(siteAnswer((await getSite({ organizationId, siteId: site.id }))!));
 });
 
@@ -308,7 +313,7 @@ export const getOneMeter = handled(async (req, res) => {
 export const postMeter = handled(async (req, res) => {
   const body = meterCreateBodySchema.safeParse(req.body);
   if (!body.success) return sendValidationError(res, body.error);
-  const { organizationId, userId } = memberOf(res);
+  const { organizationId } = memberOf(res);
   const site = await getSite({ organizationId, siteId: body.data.site_id });
   if (!site || site.archivedAt)
     return sendError(res, 400, "invalid_body", "No such site in use here.", [
@@ -319,7 +324,7 @@ export const postMeter = handled(async (req, res) => {
   try {
     const meterId = await createMeter({
       organizationId,
-      actorUserId: userId,
+      ...auditActorOf(memberOf(res)),
       siteId: site.id,
       input,
     });
@@ -340,11 +345,11 @@ export const patchMeter = handled(async (req, res) => {
   const { site_id: _site, ...stored } = meterAnswer(meter);
   const input = meterInput(res, { ...stored, ...body.data });
   if (!input) return;
-  const { organizationId, userId } = memberOf(res);
+  const { organizationId } = memberOf(res);
   try {
     await updateMeter({
       organizationId,
-      actorUserId: userId,
+      ...auditActorOf(memberOf(res)),
       meterId: meter.id,
       siteId: meter.siteId,
       input,
@@ -376,10 +381,10 @@ export const postMeterArchive = handled(async (req, res) => {
     removedAt: body.data.removed_at ?? new Date().toISOString(),
   });
   if (!form) return;
-  const { organizationId, userId } = memberOf(res);
+  const { organizationId } = memberOf(res);
   await retireMeter({
     organizationId,
-    actorUserId: userId,
+    ...auditActorOf(memberOf(res)),
     meterId: meter.id,
     removedAt: form.removedAt!,
     reason: form.reason,

@@ -12,6 +12,7 @@ import {
 } from "~/reports/report-request";
 import { listReports, reportFile } from "~/reports/reports.server";
 import { verifyUploadedReport } from "~/reports/verify-upload.server";
+import { auditActorOf } from "./principal.server";
 import { sendError, sendValidationError } from "./respond.server";
 import type { z } from "zod";
 import type { reportListSchema, reportQueuedSchema } from "./schemas";
@@ -43,10 +44,10 @@ export const postReport = handle(async (req, res) => {
   const resolved = resolveReportRequest(parsed.data);
   if (!resolved.ok)
     return sendError(res, 400, "invalid_period", resolved.reason);
-  const { organizationId, userId } = member(res);
+  const { organizationId } = member(res);
   const outcome = await queueReport({
     organizationId,
-    actorUserId: userId,
+    ...auditActorOf(member(res)),
     siteId: resolved.siteId,
     period: resolved.period,
   });

@@ -205,7 +205,7 @@ export const auditEntrySchema = z.strictObject({
   kind: z.string().nullable(),
   kind_label: z.string().nullable(),
   actor: z.strictObject({
-    type: z.enum(["person", "gateway", "system"]),
+    type: z.enum(["person", "gateway", "token", "system"]),
     id: z.string().nullable(),
     name: z.string(),
   }),

@@ -19,6 +19,7 @@ import {
 import { alias } from "drizzle-orm/pg-core";
 import { db } from "~/db/client.server";
 import {
+  apiTokens,
   auditLog,
   gateways,
   invitations,
@@ -68,7 +69,7 @@ export interface AuditEntryView {
   kind: AuditKind | null;
   kind_label: string | null;
   actor: {
-    type: "person" | "gateway" | "system";
+    type: "person" | "gateway" | "token" | "system";
     id: string | null;
     name: string;
   };
@@ -96,6 +97,8 @@ interface Row {
   actor_name: string | null;
   actor_gateway_id: string | null;
   gateway_name: string | null;
+  actor_token_id: string | null;
+  token_name: string | null;
   site_id: string | null;
   site_name: string | null;
   time_zone: string | null;
@@ -105,6 +108,7 @@ interface Row {
   member_name: string | null;
   member_email: string | null;
   subject_gateway_name: string | null;
+  subject_token_name: string | null;
   invitation_email: string | null;
 }
 
@@ -181,6 +185,7 @@ function filterConditions(
 
 const subjectMember = alias(users, "su");
 const subjectGateway = alias(gateways, "sg");
+const subjectToken = alias(apiTokens, "st");
 
 /** Entries newest first, with the names they refer to. */
 function entries(
@@ -203,6 +208,8 @@ function entries(
       actor_name: users.name,
       actor_gateway_id: auditLog.actorGatewayId,
       gateway_name: gateways.name,
+      actor_token_id: auditLog.actorTokenId,
+      token_name: apiTokens.name,
       site_id: sites.id,
       site_name: sites.name,
       time_zone: sites.timeZone,
@@ -212,6 +219,7 @@ function entries(
       member_name: subjectMember.name,
       member_email: subjectMember.email,
       subject_gateway_name: subjectGateway.name,
+      subject_token_name: subjectToken.name,
       invitation_email: invitations.email,
     })
     .from(auditLog)
@@ -221,6 +229,13 @@ function entries(
       and(
         eq(gateways.organizationId, auditLog.organizationId),
         eq(gateways.id, auditLog.actorGatewayId),
+      ),
+    )
+    .leftJoin(
+      apiTokens,
+      and(
+        eq(apiTokens.organizationId, auditLog.organizationId),
+        eq(apiTokens.id, auditLog.actorTokenId),
       ),
     )
     .leftJoin(
@@ -250,6 +265,14 @@ function entries(
         like(auditLog.action, "gateway.%"),
         eq(subjectGateway.organizationId, auditLog.organizationId),
         sql`${subjectGateway.id}::text = ${auditLog.subject}`,
+      ),
+    )
+    .leftJoin(
+      subjectToken,
+      and(
+        like(auditLog.action, "api_token.%"),
+        eq(subjectToken.organizationId, auditLog.organizationId),
+        sql`${subjectToken.id}::text = ${auditLog.subject}`,
       ),
     )
     .leftJoin(
@@ -299,6 +322,8 @@ function subjectText(row: Row): string {
       return row.site_name ?? "";
     case "gateway":
       return row.subject_gateway_name ?? text(after.name);
+    case "api_token":
+      return row.subject_token_name ?? text(after.name);
     case "member":
       return row.member_name
         ? `${row.member_name} (${row.member_email})`
@@ -335,6 +360,12 @@ function actorOf(row: Row): AuditEntryView["actor"] {
       type: "gateway",
       id: row.actor_gateway_id,
       name: `Gateway ${row.gateway_name ?? "(removed)"}`,
+    };
+  if (row.actor_token_id)
+    return {
+      type: "token",
+      id: row.actor_token_id,
+      name: `API token ${row.token_name ?? "(removed)"}`,
     };
   const fromStripe = row.reason?.startsWith("Stripe event") ?? false;
   return {

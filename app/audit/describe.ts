@@ -159,6 +159,7 @@ const FIELDS: Record<string, { label: string; format?: Format }> = {
   degreeDayBaseC: { label: "Degree-day base (°C)", format: decimal },
   address: { label: "Address" },
   keyPrefix: { label: "Key starts with" },
+  expiresAt: { label: "Expires", format: instant },
   status: {
     label: "Subscription status",
     format: fromTable({

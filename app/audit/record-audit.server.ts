@@ -4,8 +4,8 @@ import { auditLog } from "~/db/schema";
 import type { AuditAction } from "./kinds";
 
 /**
- * One change for the audit trail: who (a person, a gateway, or neither for
- * Stripe and Joulebook itself), what and where, why, and the values before
+ * One change for the audit trail: who (a person, a gateway, an API token, or
+ * none for Stripe and Joulebook itself), what and where, why, and the values before
  * and after. Only the fields that changed go into before/after, each under
  * a name app/audit/describe.ts knows how to show.
  */
@@ -13,6 +13,8 @@ export interface AuditEntry {
   organizationId: string;
   actorUserId: string | null;
   actorGatewayId?: string | null;
+  /** An organisation API token that made the change over the API. */
+  actorTokenId?: string | null;
   action: AuditAction;
   /** The id of what changed (a meter, a member, a month …). */
   subject: string;
@@ -30,6 +32,7 @@ function row(entry: AuditEntry) {
     organizationId: entry.organizationId,
     actorUserId: entry.actorUserId,
     actorGatewayId: entry.actorGatewayId ?? null,
+    actorTokenId: entry.actorTokenId ?? null,
     action: entry.action,
     subject: entry.subject,
     siteId: entry.siteId ?? null,
@@ -56,13 +59,14 @@ export async function recordAuditWith(
 ): Promise<void> {
   const r = row(entry);
   await client.query(
-    `insert into audit_log (organization_id, actor_user_id, actor_gateway_id, action, subject,
-                            site_id, meter_id, reason, before, after, details)
-     values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11)`,
+    `insert into audit_log (organization_id, actor_user_id, actor_gateway_id, actor_token_id, action,
+                            subject, site_id, meter_id, reason, before, after, details)
+     values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12)`,
     [
       r.organizationId,
       r.actorUserId,
       r.actorGatewayId,
+      r.actorTokenId,
       r.action,
       r.subject,
       r.siteId,

@@ -43,6 +43,8 @@ export const permissions = {
   "reports.download": everyone,
   "reports.verify": ["owner", "auditor"],
   "audit.view": ["owner", "auditor"],
+  /** Organisation API tokens act for the whole organisation: owners only. */
+  "tokens.manage": ["owner"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof permissions;
@@ -50,6 +52,17 @@ export type Permission = keyof typeof permissions;
 export function can(role: Role, permission: Permission): boolean {
   return (permissions[permission] as readonly Role[]).includes(role);
 }
+
+/**
+ * The roles an organisation API token may carry: read-only like an auditor,
+ * or running the estate like an energy manager. Owner and finance tokens are
+ * not offered: a script has no business managing members or billing.
+ */
+export const tokenRoles = [
+  "auditor",
+  "energy_manager",
+] as const satisfies readonly Role[];
+export type TokenRole = (typeof tokenRoles)[number];
 
 export function isRole(value: unknown): value is Role {
   return (

@@ -43,6 +43,7 @@ const areas: Area[] = [
   { label: "Billing", path: "/billing", permission: "billing.view" },
   { label: "Members", path: "/members", permission: "members.view" },
   { label: "Audit trail", path: "/audit", permission: "audit.view" },
+  { label: "API tokens", path: "/api-tokens", permission: "tokens.manage" },
 ];
 
 function navClass({ isActive }: { isActive: boolean }) {

@@ -23,6 +23,7 @@ import {
 import { NO_DATA_AFTER_HOURS } from "../alerts/no-data";
 import { roles } from "../auth/permissions";
 import { intervalQualities } from "../ingest/series";
+import { plantKinds, plantMeterRoles } from "../plant/plant-roles";
 import {
   carriers,
   DEFAULT_INTERVAL_MINUTES,
@@ -193,12 +194,49 @@ export const gateways = pgTable(
 );
 
 /**
+ * Organisation API tokens for integrations and reporting tools
+ * (app/auth/api-tokens.server.ts). A token acts with its role, never as a
+ * person; only its SHA-256 hash is stored, the secret is shown once. Its role
+ * is limited to the two a tool needs (read-only, or running the estate).
+ */
+export const apiTokens = pgTable(
+  "api_tokens",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    name: text("name").notNull(),
+    role: roleEnum("role").notNull(),
+    tokenHash: text("token_hash").notNull(),
+    tokenPrefix: text("token_prefix").notNull(),
+    createdByUserId: text("created_by_user_id").references(() => users.id, {
+      onDelete: "set null",
+    }),
+    createdAt: createdAt(),
+    /** Null: the token never expires (the owner chose so). */
+    expiresAt: timestamp("expires_at", { withTimezone: true }),
+    lastUsedAt: timestamp("last_used_at", { withTimezone: true }),
+    revokedAt: timestamp("revoked_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("api_tokens_token_hash_unique").on(t.tokenHash),
+    check(
+      "api_tokens_role_check",
+      sql`${t.role} in ('auditor', 'energy_manager')`,
+    ),
+  ],
+);
+
+/**
  * Who changed what, when, why, and the values before and after, for every
  * change inside an organisation (the Audit trail page). Written in the same
  * transaction as the change (app/audit/record-audit.server.ts). `site_id` and
  * `meter_id` say where the change applies, for filtering; a change made by a
- * gateway (late readings) names it in `actor_gateway_id`, one made by Stripe
- * or by Joulebook itself has neither actor.
+ * gateway (late readings) names it in `actor_gateway_id`, one made over the
+ * API with an organisation token in `actor_token_id`, one made by Stripe or
+ * by Joulebook itself has no actor.
  */
 export const auditLog = pgTable(
   "audit_log",
@@ -211,6 +249,8 @@ export const auditLog = pgTable(
       onDelete: "set null",
     }),
     actorGatewayId: uuid("actor_gateway_id"),
+    /** A change made over the API with an organisation API token. */
+    actorTokenId: uuid("actor_token_id"),
     action: text("action").notNull(),
     subject: text("subject").notNull(),
     siteId: uuid("site_id"),
@@ -370,6 +410,8 @@ export const ingestBatches = pgTable(
     source: text("source").notNull(),
     gatewayId: uuid("gateway_id"),
     userId: text("user_id"),
+    /** The organisation API token that posted the batch, if one did. */
+    apiTokenId: uuid("api_token_id"),
     receivedAt: timestamp("received_at", { withTimezone: true })
       .notNull()
       .defaultNow(),
@@ -646,6 +688,73 @@ export const baselines = pgTable(
 );
 
 // ---------------------------------------------------------------------------
+// Plant inside a site's boundary (boiler, CHP, heat pump, chiller, fuel
+// cell): a sub-system with the meters on its inputs and outputs, judged each
+// month against the first and second laws (app/plant/).
+// ---------------------------------------------------------------------------
+
+export const plantKindEnum = pgEnum("plant_kind", plantKinds);
+export const plantMeterRoleEnum = pgEnum("plant_meter_role", plantMeterRoles);
+
+export const plants = pgTable(
+  "plants",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: uuid("id").notNull().defaultRandom(),
+    siteId: uuid("site_id").notNull(),
+    kind: plantKindEnum("kind").notNull(),
+    name: text("name").notNull(),
+    /** The calorific-value basis its fuel meters' kWh are stated on. */
+    fuelCvBasis: text("fuel_cv_basis").notNull().default("gross"),
+    /** Design water temperatures: the Carnot and exergy figures use them. */
+    heatFlowC: numeric("heat_flow_c", { precision: 5, scale: 1 }),
+    heatReturnC: numeric("heat_return_c", { precision: 5, scale: 1 }),
+    chilledFlowC: numeric("chilled_flow_c", { precision: 5, scale: 1 }),
+    chilledReturnC: numeric("chilled_return_c", { precision: 5, scale: 1 }),
+    createdAt: createdAt(),
+    archivedAt: timestamp("archived_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("plants_name_unique").on(
+      t.organizationId,
+      t.siteId,
+      sql`lower(${t.name})`,
+    ),
+    foreignKey({
+      columns: [t.organizationId, t.siteId],
+      foreignColumns: [sites.organizationId, sites.id],
+    }).onDelete("cascade"),
+    check(
+      "plants_fuel_cv_basis_check",
+      sql`${t.fuelCvBasis} in ('gross', 'net')`,
+    ),
+  ],
+);
+
+/** Which meter measures which of a plant's inputs or outputs. */
+export const plantMeters = pgTable(
+  "plant_meters",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    plantId: uuid("plant_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    role: plantMeterRoleEnum("role").notNull(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.plantId, t.meterId] }),
+    foreignKey({
+      columns: [t.organizationId, t.plantId],
+      foreignColumns: [plants.organizationId, plants.id],
+    }).onDelete("cascade"),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
+  ],
+);
+
+// ---------------------------------------------------------------------------
 // Alerts: what each person wants by e-mail, and which conditions are open
 // (one open alert per condition, so a condition is mailed once until it clears).
 // ---------------------------------------------------------------------------
@@ -662,6 +771,8 @@ export const alertSettings = pgTable(
     silentMeter: boolean("silent_meter").notNull(),
     residual: boolean("residual").notNull(),
     monthReady: boolean("month_ready").notNull(),
+    /** A plant's month broke a law: a meter on it reads wrongly. */
+    plantFault: boolean("plant_fault").notNull().default(true),
     silentHours: integer("silent_hours").notNull().default(NO_DATA_AFTER_HOURS),
   },
   (t) => [primaryKey({ columns: [t.organizationId, t.userId] })],

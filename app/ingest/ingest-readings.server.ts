@@ -12,9 +12,11 @@ import { afterIngest } from "./after-ingest.server";
 
 export interface IngestRequest {
   organizationId: string;
-  source: "api" | "csv" | "seed";
+  /** api: a gateway; csv: a person's upload; api_token: an integration's token. */
+  source: "api" | "csv" | "api_token" | "seed";
   gatewayId?: string | null;
   userId?: string | null;
+  apiTokenId?: string | null;
   readings: readonly unknown[];
   now?: Date;
 }
@@ -58,17 +60,19 @@ export async function ingestReadings(
         reason: `readings received (${request.source})`,
         gatewayId: request.gatewayId ?? null,
         actorUserId: request.userId ?? null,
+        actorTokenId: request.apiTokenId ?? null,
       },
     );
     await client.query(
-      `insert into ingest_batches (organization_id, id, source, gateway_id, user_id, accepted, repeats, rejected, conflicts)
-       values ($1, $2, $3, $4, $5, $6, $7, $8, $9)`,
+      `insert into ingest_batches (organization_id, id, source, gateway_id, user_id, api_token_id, accepted, repeats, rejected, conflicts)
+       values ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10)`,
       [
         organizationId,
         batchId,
         request.source,
         request.gatewayId ?? null,
         request.userId ?? null,
+        request.apiTokenId ?? null,
         stored.accepted,
         stored.repeats,
         rejected.length,

@@ -9,6 +9,8 @@ export interface ChangeAttribution {
   reason: string;
   actorUserId?: string | null;
   gatewayId?: string | null;
+  /** The organisation API token that posted the readings, named in the audit entry. */
+  actorTokenId?: string | null;
 }
 
 /**
@@ -78,9 +80,9 @@ export async function applyRollupDeltas(
                          and (c.site_id is null or c.site_id = m.site_id))
        returning id, meter_id, month, delta_kwh
      ), audited as (
-       insert into audit_log (organization_id, actor_user_id, actor_gateway_id, action, subject,
-                              site_id, meter_id, reason, before, after, details)
-       select $1, $11, $12, 'ledger.adjusted', a.id::text, m.site_id, a.meter_id, $10,
+       insert into audit_log (organization_id, actor_user_id, actor_gateway_id, actor_token_id, action,
+                              subject, site_id, meter_id, reason, before, after, details)
+       select $1, $11, $12, $13::uuid, 'ledger.adjusted', a.id::text, m.site_id, a.meter_id, $10,
               jsonb_build_object('energyKwh', (u.energy_kwh - a.delta_kwh)::text),
               jsonb_build_object('energyKwh', u.energy_kwh::text),
               jsonb_build_object('month', to_char(a.month, 'YYYY-MM'), 'deltaKwh', a.delta_kwh::text,
@@ -104,6 +106,7 @@ export async function applyRollupDeltas(
       change.reason,
       change.actorUserId ?? null,
       change.gatewayId ?? null,
+      change.actorTokenId ?? null,
     ],
   });
   return rows[0]?.adjustments ?? 0;

@@ -62,3 +62,20 @@ export function requirePositive(field: string, value: number): number {
   }
   return value;
 }
+
+// A value inside a closed range; the reason names the range with its unit.
+export function requireInRange(
+  field: string,
+  value: number,
+  range: { min: number; max: number },
+  unit: string,
+): number {
+  requireFinite(field, value);
+  if (value < range.min || value > range.max) {
+    throw new PhysicsRangeError(
+      `${value} ${unit} is outside ${range.min} ${unit} to ${range.max} ${unit}`,
+      field,
+    );
+  }
+  return value;
+}

@@ -11,9 +11,18 @@
 // qp_m3_per_h (the flow sensor's permanent flow rate) and flow_m3_per_h (the
 // flow rate in the interval; derived as volume / duration when absent). When
 // meter_class is given the result carries the meter's MPE as a ± band.
+//
+// Fuels, hydrogen and exergy (design.md, December 2026): the items
+// gas_volume, liquid_fuel and hydrogen, and water_heat's ambient_temp_c.
+// Physical and meter ranges (CV, gas temperature, density, ambient) are
+// checked by the physics modules, whose reasons name the field and the range.
 
 import { z } from "zod";
 
+/**
+ * What a meter can measure (the database enum takes its values from here,
+ * through app/sites/meter-kinds.ts) and what a reading may carry.
+ */
 export const QUANTITIES = [
   "water_heat",
   "steam_heat",
@@ -22,6 +31,19 @@ export const QUANTITIES = [
   "electric_register",
   "heat_register",
 ] as const;
+
+/**
+ * Fuel quantities: evaluate items only for now. They join QUANTITIES (and so
+ * meters and readings) when the fuel carriers do, which takes a migration.
+ */
+export const FUEL_QUANTITIES = [
+  "gas_volume",
+  "liquid_fuel",
+  "hydrogen",
+] as const;
+
+/** Every quantity POST /api/v1/energy/evaluate accepts. */
+export const EVALUATE_QUANTITIES = [...QUANTITIES, ...FUEL_QUANTITIES] as const;
 
 function describeInput(input: unknown): string {
   if (typeof input === "number") {
@@ -101,6 +123,11 @@ export const waterHeatItemSchema = z
     qp_m3_per_h: num("Flow sensor's permanent flow qp, m³/h")
       .positive()
       .optional(),
+    ambient_temp_c: num(
+      "Dead-state (ambient) temperature T₀ for details.exergy_kwh, °C: " +
+        "-50 to 50 °C, below the flow temperature for heating, above it " +
+        "for chilled water",
+    ).optional(),
   })
   .describe(
     "Heat carried by water: exactly one of pressure_bar_abs and " +
@@ -176,6 +203,85 @@ export const heatRegisterItemSchema = z.strictObject({
   ...registerFields,
 });
 
+const cvBasis = z
+  .enum(["gross", "net"])
+  .optional()
+  .describe("Basis of the CV: gross (higher, default) or net (lower)");
+
+export const gasVolumeItemSchema = z
+  .strictObject({
+    quantity: z.literal("gas_volume"),
+    ...timing,
+    volume_m3: num("Metered volume at line conditions, m³").min(0).optional(),
+    volume_ft3: num(
+      "Metered volume at line conditions, ft³ (1 ft³ = 0.028316846592 m³)",
+    )
+      .min(0)
+      .optional(),
+    calorific_value_mj_m3: num(
+      "CV at 15 °C and 1013.25 mbar (EN ISO 13443), MJ/m³: 10 to 60",
+    ),
+    cv_basis: cvBasis,
+    correction_factor: num(
+      "Volume correction to 15 °C and 1013.25 mbar, as stated by the supplier",
+    ).optional(),
+    gas_temp_c: num("Gas temperature at the meter, °C: -20 to 60").optional(),
+    gas_pressure_mbar_g: num(
+      "Gas pressure at the meter, mbar gauge: 0 to 5000",
+    ).optional(),
+    atmospheric_pressure_mbar: num(
+      "Atmospheric pressure, mbar: 700 to 1100, default 1013.25",
+    ).optional(),
+  })
+  .describe(
+    "Natural gas: exactly one of volume_m3 and volume_ft3; the volume is " +
+      "corrected by correction_factor, or from gas_temp_c with " +
+      "gas_pressure_mbar_g (ideal gas), or taken as already at 15 °C and " +
+      "1013.25 mbar. energy_kwh = V × correction × CV / 3.6.",
+  );
+
+export const liquidFuelItemSchema = z
+  .strictObject({
+    quantity: z.literal("liquid_fuel"),
+    ...timing,
+    volume_l: num("Volume consumed, litres").min(0).optional(),
+    opening_stock_l: num("Stock in the tank at the start, litres")
+      .min(0)
+      .optional(),
+    deliveries_l: num("Deliveries between the two stock readings, litres")
+      .min(0)
+      .optional(),
+    closing_stock_l: num("Stock in the tank at the end, litres")
+      .min(0)
+      .optional(),
+    density_kg_l: num("Density, kg/l: 0.5 to 1.1"),
+    calorific_value_mj_kg: num("CV, MJ/kg: 20 to 55"),
+    cv_basis: cvBasis,
+  })
+  .describe(
+    "Liquid fuel: volume_l, or opening_stock_l + deliveries_l − " +
+      "closing_stock_l (all three). energy_kwh = L × ρ × CV / 3.6.",
+  );
+
+export const hydrogenItemSchema = z
+  .strictObject({
+    quantity: z.literal("hydrogen"),
+    ...timing,
+    mass_kg: num("Hydrogen, kg").min(0).optional(),
+    volume_nm3: num("Hydrogen at 0 °C and 101.325 kPa, m³").min(0).optional(),
+    basis: z
+      .enum(["gross", "net"])
+      .optional()
+      .describe(
+        "gross (default, liquid water formed, 285.830 kJ/mol) or net " +
+          "(vapour, 241.826 kJ/mol)",
+      ),
+  })
+  .describe(
+    "Hydrogen: exactly one of mass_kg and volume_nm3; details.max_work_kwh " +
+      "is the most electrical work a fuel cell can get from it (|ΔG|).",
+  );
+
 export const evaluateItemSchema = z.discriminatedUnion("quantity", [
   waterHeatItemSchema,
   steamHeatItemSchema,
@@ -183,6 +289,9 @@ export const evaluateItemSchema = z.discriminatedUnion("quantity", [
   electricWorkItemSchema,
   electricRegisterItemSchema,
   heatRegisterItemSchema,
+  gasVolumeItemSchema,
+  liquidFuelItemSchema,
+  hydrogenItemSchema,
 ]);
 
 export type EvaluateItem = z.infer<typeof evaluateItemSchema>;
@@ -242,6 +351,9 @@ export const evaluateComponents = {
   ElectricWorkItem: electricWorkItemSchema,
   ElectricRegisterItem: electricRegisterItemSchema,
   HeatRegisterItem: heatRegisterItemSchema,
+  GasVolumeItem: gasVolumeItemSchema,
+  LiquidFuelItem: liquidFuelItemSchema,
+  HydrogenItem: hydrogenItemSchema,
   EvaluateItem: evaluateItemSchema,
   EvaluateRequest: wellFormedEvaluateRequestSchema,
   EvaluateSuccess: evaluateSuccessSchema,

@@ -108,7 +108,7 @@ describe("strict parsing", () => {
   });
 
   it("rejects an unknown quantity and a non-object item", () => {
-    expect(errorOf(evaluateItem({ quantity: "gas_volume" }))).toMatch(
+    expect(errorOf(evaluateItem({ quantity: "coal_mass" }))).toMatch(
       /^quantity: must be one of water_heat, steam_heat/,
     );
     expect(errorOf(evaluateItem(null))).toMatch(/^item: .*expected object/);

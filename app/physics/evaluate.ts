@@ -8,12 +8,18 @@
 import type { z } from "zod";
 import { differenceRegister, electricWork } from "./electric";
 import { PhysicsError, PhysicsInputError } from "./errors";
-import { evaluateItemSchema, QUANTITIES } from "./evaluate-schema";
+import { EVALUATE_QUANTITIES, evaluateItemSchema } from "./evaluate-schema";
 import type { EvaluateItem, EvaluateResult } from "./evaluate-schema";
+import { CUBIC_METRES_PER_CUBIC_FOOT, gasVolumeEnergy } from "./gas-volume";
+import type { LineConditions } from "./gas-volume";
+import { hydrogenEnergy } from "./hydrogen";
+import { liquidFuelEnergy } from "./liquid-fuel";
+import type { StockBalance } from "./liquid-fuel";
 import { sensibleHeatKj } from "./sensible-heat";
 import { steamHeat } from "./steam";
 import { mpeBand } from "./uncertainty";
 import { convertEnergy } from "./units";
+import { waterExergyKj } from "./water-exergy";
 import { waterHeat } from "./water-heat";
 import type { WaterHeatResult } from "./water-heat";
 import { absolutePressureBar } from "./water-properties";
@@ -55,6 +61,19 @@ const API_FIELD: Record<string, string> = {
   flowM3PerH: "flow_m3_per_h",
   qpM3PerH: "qp_m3_per_h",
   meterClass: "meter_class",
+  ambientTempC: "ambient_temp_c",
+  calorificValueMjM3: "calorific_value_mj_m3",
+  correctionFactor: "correction_factor",
+  gasTempC: "gas_temp_c",
+  gasPressureMbarG: "gas_pressure_mbar_g",
+  atmosphericPressureMbar: "atmospheric_pressure_mbar",
+  volumeL: "volume_l",
+  openingStockL: "opening_stock_l",
+  deliveriesL: "deliveries_l",
+  closingStockL: "closing_stock_l",
+  densityKgL: "density_kg_l",
+  calorificValueMjKg: "calorific_value_mj_kg",
+  volumeNm3: "volume_nm3",
 };
 
 function fail(error: string): EvaluateResult {
@@ -123,7 +142,7 @@ function issueText(issue: z.core.$ZodIssue): string {
     return issue.keys.map((k) => `${k}: unknown field`).join("; ");
   }
   if (issue.code === "invalid_union" && issue.path.join(".") === "quantity") {
-    return `quantity: must be one of ${QUANTITIES.join(", ")}`;
+    return `quantity: must be one of ${EVALUATE_QUANTITIES.join(", ")}`;
   }
   if (issue.path.length === 0) return `item: ${issue.message}`;
   return `${issue.path.join(".")}: ${issue.message}`;
@@ -284,6 +303,7 @@ function evaluateWaterHeat(item: ItemOf<"water_heat">): EvaluateResult {
   }
   // Before the MPE band, which would otherwise meet the overflow first.
   if (!Number.isFinite(r.energyKj)) return overflow(item, ["volume_m3"]);
+  const exergy = exergyDetails(item, r);
   return successKj(item, ["volume_m3"], r.energyKj, "iapws-if97/water-heat", {
     pressure_bar_abs: p.pressureBarAbs,
     sensor_at: item.sensor_at,
@@ -293,7 +313,179 @@ function evaluateWaterHeat(item: ItemOf<"water_heat">): EvaluateResult {
     return_enthalpy_kj_per_kg: r.returnEnthalpyKjPerKg,
     k_factor_kwh_per_m3_k: r.kFactorKwhPerM3K,
     ...mpeDetails(item, r.energyKj, seconds),
+    ...exergy,
   });
+}
+
+// Exergy beside the energy when the item gives the dead state (water-exergy.ts
+// explains the sign and the rule on the ambient).
+function exergyDetails(
+  item: ItemOf<"water_heat">,
+  r: WaterHeatResult,
+): Details {
+  if (item.ambient_temp_c === undefined) return {};
+  const kj = waterExergyKj({
+    massKg: r.massKg,
+    flowTempC: item.flow_temp_c,
+    returnTempC: item.return_temp_c,
+    flowEnthalpyKjPerKg: r.flowEnthalpyKjPerKg,
+    returnEnthalpyKjPerKg: r.returnEnthalpyKjPerKg,
+    flowEntropyKjPerKgK: r.flowEntropyKjPerKgK,
+    returnEntropyKjPerKgK: r.returnEntropyKjPerKgK,
+    ambientTempC: item.ambient_temp_c,
+  });
+  return {
+    ambient_temp_c: item.ambient_temp_c,
+    flow_entropy_kj_per_kg_k: r.flowEntropyKjPerKgK,
+    return_entropy_kj_per_kg_k: r.returnEntropyKjPerKgK,
+    exergy_kwh: convertEnergy(kj, "kJ", "kWh"),
+  };
+}
+
+// Exactly one of two fields that name the same amount in different units.
+function oneOf<K extends string>(
+  item: Partial<Record<K, number>>,
+  first: K,
+  second: K,
+): K {
+  const hasFirst = item[first] !== undefined;
+  const hasSecond = item[second] !== undefined;
+  if (hasFirst && hasSecond) {
+    throw new PhysicsInputError(`give ${first} or ${second}, not both`, second);
+  }
+  if (!hasFirst && !hasSecond) {
+    throw new PhysicsInputError(`is required (or ${second})`, first);
+  }
+  return hasFirst ? first : second;
+}
+
+// The line conditions, when given: temperature and gauge pressure go
+// together; the atmospheric pressure only refines them.
+function gasLine(item: ItemOf<"gas_volume">): LineConditions | undefined {
+  const t = item.gas_temp_c;
+  const p = item.gas_pressure_mbar_g;
+  if (t === undefined && p === undefined) {
+    if (item.atmospheric_pressure_mbar !== undefined) {
+      throw new PhysicsInputError(
+        "needs gas_temp_c and gas_pressure_mbar_g as well",
+        "atmospheric_pressure_mbar",
+      );
+    }
+    return undefined;
+  }
+  if (t === undefined || p === undefined) {
+    const [missing, given] =
+      t === undefined
+        ? ["gas_temp_c", "gas_pressure_mbar_g"]
+        : ["gas_pressure_mbar_g", "gas_temp_c"];
+    throw new PhysicsInputError(`is required with ${given}`, missing);
+  }
+  return {
+    gasTempC: t,
+    gasPressureMbarG: p,
+    atmosphericPressureMbar: item.atmospheric_pressure_mbar,
+  };
+}
+
+function evaluateGasVolume(item: ItemOf<"gas_volume">): EvaluateResult {
+  durationSeconds(item);
+  const volumeField = oneOf(item, "volume_m3", "volume_ft3");
+  const volumeM3 =
+    volumeField === "volume_m3"
+      ? item.volume_m3!
+      : item.volume_ft3! * CUBIC_METRES_PER_CUBIC_FOOT;
+  let r;
+  try {
+    r = gasVolumeEnergy({
+      volumeM3,
+      calorificValueMjM3: item.calorific_value_mj_m3,
+      correctionFactor: item.correction_factor,
+      line: gasLine(item),
+    });
+  } catch (e) {
+    if (e instanceof PhysicsError)
+      return physicsFailure(e, { volumeM3: volumeField });
+    throw e;
+  }
+  const scale = [volumeField, "calorific_value_mj_m3", "correction_factor"];
+  return success(item, scale, r.energyKwh, "ideal-gas/gas-volume", {
+    volume_m3: volumeM3,
+    correction_factor: r.correctionFactor,
+    volume_at_reference_m3: r.volumeAtReferenceM3,
+    calorific_value_mj_m3: item.calorific_value_mj_m3,
+    cv_basis: item.cv_basis ?? "gross",
+  });
+}
+
+function stockOf(item: ItemOf<"liquid_fuel">): StockBalance | undefined {
+  const fields = [
+    "opening_stock_l",
+    "deliveries_l",
+    "closing_stock_l",
+  ] as const;
+  const given = fields.filter((f) => item[f] !== undefined);
+  if (given.length === 0) return undefined;
+  const missing = fields.find((f) => item[f] === undefined);
+  if (missing !== undefined) {
+    throw new PhysicsInputError(
+      "is required with the other stock fields (opening_stock_l, " +
+        "deliveries_l, closing_stock_l)",
+      missing,
+    );
+  }
+  return {
+    openingStockL: item.opening_stock_l!,
+    deliveriesL: item.deliveries_l!,
+    closingStockL: item.closing_stock_l!,
+  };
+}
+
+function evaluateLiquidFuel(item: ItemOf<"liquid_fuel">): EvaluateResult {
+  durationSeconds(item);
+  const stock = stockOf(item);
+  const r = liquidFuelEnergy({
+    volumeL: item.volume_l,
+    stock,
+    densityKgL: item.density_kg_l,
+    calorificValueMjKg: item.calorific_value_mj_kg,
+  });
+  const scale = [
+    "volume_l",
+    "opening_stock_l",
+    "deliveries_l",
+    "calorific_value_mj_kg",
+  ];
+  return success(item, scale, r.energyKwh, "declared-cv/liquid-fuel", {
+    consumption_from: stock === undefined ? "volume" : "stock_balance",
+    volume_l: r.volumeL,
+    mass_kg: r.massKg,
+    density_kg_l: item.density_kg_l,
+    calorific_value_mj_kg: item.calorific_value_mj_kg,
+    cv_basis: item.cv_basis ?? "gross",
+  });
+}
+
+function evaluateHydrogen(item: ItemOf<"hydrogen">): EvaluateResult {
+  durationSeconds(item);
+  const r = hydrogenEnergy({
+    massKg: item.mass_kg,
+    volumeNm3: item.volume_nm3,
+    basis: item.basis ?? "gross",
+  });
+  return success(
+    item,
+    ["mass_kg", "volume_nm3"],
+    r.energyKwh,
+    "codata/hydrogen",
+    {
+      basis: item.basis ?? "gross",
+      amount_mol: r.moles,
+      mass_kg: r.massKg,
+      heating_value_kj_per_mol: r.heatingValueKjMol,
+      gibbs_energy_kj_per_mol: r.gibbsEnergyKjMol,
+      max_work_kwh: r.maxWorkKwh,
+    },
+  );
 }
 
 function evaluateSteamHeat(item: ItemOf<"steam_heat">): EvaluateResult {
@@ -408,6 +600,12 @@ function evaluateParsed(item: EvaluateItem): EvaluateResult {
     case "electric_register":
     case "heat_register":
       return evaluateRegister(item);
+    case "gas_volume":
+      return evaluateGasVolume(item);
+    case "liquid_fuel":
+      return evaluateLiquidFuel(item);
+    case "hydrogen":
+      return evaluateHydrogen(item);
   }
 }
 

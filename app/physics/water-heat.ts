@@ -24,6 +24,9 @@ export interface WaterHeatResult {
   densityAtSensorKgPerM3: number;
   flowEnthalpyKjPerKg: number;
   returnEnthalpyKjPerKg: number;
+  /** IF97 region 1 entropies, for the exergy (water-exergy.ts). */
+  flowEntropyKjPerKgK: number;
+  returnEntropyKjPerKgK: number;
   /** EN 1434 heat coefficient k; null when flow and return are equal. */
   kFactorKwhPerM3K: number | null;
 }
@@ -46,6 +49,8 @@ export function waterHeat(input: WaterHeatInput): WaterHeatResult {
     densityAtSensorKgPerM3: rho,
     flowEnthalpyKjPerKg: flow.enthalpyKjPerKg,
     returnEnthalpyKjPerKg: ret.enthalpyKjPerKg,
+    flowEntropyKjPerKgK: flow.entropyKjPerKgK,
+    returnEntropyKjPerKgK: ret.entropyKjPerKgK,
     kFactorKwhPerM3K: kFactor(rho, dh, input.flowTempC - input.returnTempC),
   };
 }

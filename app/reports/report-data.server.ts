@@ -26,6 +26,7 @@ import {
 } from "./data/ledger-tables";
 import { meterPeriodEnergy } from "./data/meter-energy.server";
 import { methodFacts } from "./data/method-facts";
+import { plantChecks } from "~/plant/plant-faults.server";
 import { siteBalanceOf, type MeterPeriodEnergy } from "./data/period-balance";
 import {
   activeCloses,
@@ -114,7 +115,7 @@ export async function loadReportData(
 ): Promise<ReportData> {
   const { organizationId, siteId, period } = input;
   const months = monthKeys(period);
-  const [name, sites, closes, ledger, meters, adjustments, counts] =
+  const [name, sites, closes, ledger, meters, adjustments, counts, plants] =
     await Promise.all([
       organizationName(organizationId),
       scopeSites(organizationId, siteId),
@@ -133,6 +134,7 @@ export async function loadReportData(
         period,
         generatedAt: input.generatedAt,
       }),
+      plantChecks({ organizationId, siteId, months }),
     ]);
   // Archived sites appear only when the period has ledger entries for them.
   const listed = sites.filter(
@@ -177,6 +179,7 @@ export async function loadReportData(
     ),
     adjustments,
     dataQuality: dataQuality(counts),
+    plantChecks: plants,
     method: methodFacts(listed),
     cautions: [...CAUTIONS],
   };

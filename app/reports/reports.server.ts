@@ -56,7 +56,9 @@ type RequestOutcome =
  */
 export async function requestReport(input: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   siteId: string | null;
   period: ReportPeriod;
 }): Promise<RequestOutcome> {
@@ -96,6 +98,7 @@ export async function requestReport(input: {
     await recordAudit(tx, {
       organizationId: input.organizationId,
       actorUserId: input.actorUserId,
+      actorTokenId: input.actorTokenId,
       action: "report.requested",
       subject: row.id,
       siteId: input.siteId,

@@ -1,8 +1,8 @@
-import { useEffect, useRef } from "react";
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
 import { notFound } from "~/auth/membership.server";
 import { requirePermission } from "~/auth/page-access.server";
+import { ConfirmRevoke } from "~/components/confirm-revoke";
 import { RelativeTime } from "~/components/relative-time";
 import {
   Badge,
@@ -94,51 +94,31 @@ export async function action({ request, context }: Route.ActionArgs) {
 type GatewayRow = Route.ComponentProps["loaderData"]["gateways"][number];
 
 /** The second step of revoking: what is cut off, and since when it was heard. */
-function ConfirmRevoke({ gateway, now }: { gateway: GatewayRow; now: string }) {
-  const heading = useRef<HTMLHeadingElement>(null);
-  // Arriving here by the Revoke… link, keyboard and screen-reader users land
-  // on the question rather than at the top of the page.
-  useEffect(() => heading.current?.focus(), []);
+function ConfirmRevokeGateway({
+  gateway,
+  now,
+}: {
+  gateway: GatewayRow;
+  now: string;
+}) {
   return (
-    <Form
-      method="post"
-      preventScrollReset
-      aria-labelledby={`revoke-${gateway.id}`}
-      className="mt-3 flex flex-col gap-3 rounded-lg border border-danger-600/30 bg-danger-50 p-4"
+    <ConfirmRevoke
+      id={gateway.id}
+      name={gateway.name}
+      fields={{ gatewayId: gateway.id }}
     >
-      <input type="hidden" name="intent" value="revoke" />
-      <input type="hidden" name="gatewayId" value={gateway.id} />
-      <input type="hidden" name="confirm" value="yes" />
-      <h3
-        id={`revoke-${gateway.id}`}
-        ref={heading}
-        tabIndex={-1}
-        className="font-semibold outline-none"
-      >
-        Revoke {gateway.name}?
-      </h3>
-      <p>
-        {gateway.lastSeenAt ? (
-          <>
-            It was last seen <RelativeTime at={gateway.lastSeenAt} now={now} />{" "}
-            ({dateTimeUtc(gateway.lastSeenAt)}).
-          </>
-        ) : (
-          "It has never posted a reading."
-        )}{" "}
-        Its key ({gateway.keyPrefix}…) is refused from the moment you confirm:
-        the readings it sends are turned away until it is set up as a new
-        gateway with a new key. This cannot be undone.
-      </p>
-      <div className="flex flex-wrap gap-3">
-        <Button type="submit" variant="danger">
-          Revoke {gateway.name}
-        </Button>
-        <Link to="." preventScrollReset className={buttonClass("secondary")}>
-          Cancel
-        </Link>
-      </div>
-    </Form>
+      {gateway.lastSeenAt ? (
+        <>
+          It was last seen <RelativeTime at={gateway.lastSeenAt} now={now} /> (
+          {dateTimeUtc(gateway.lastSeenAt)}).
+        </>
+      ) : (
+        "It has never posted a reading."
+      )}{" "}
+      Its key ({gateway.keyPrefix}…) is refused from the moment you confirm: the
+      readings it sends are turned away until it is set up as a new gateway with
+      a new key. This cannot be undone.
+    </ConfirmRevoke>
   );
 }
 
@@ -248,7 +228,7 @@ export default function Gateways({
                     </div>
                   </div>
                   {loaderData.confirming === g.id ? (
-                    <ConfirmRevoke gateway={g} now={loaderData.now} />
+                    <ConfirmRevokeGateway gateway={g} now={loaderData.now} />
                   ) : null}
                 </li>
               ))}

@@ -5,6 +5,8 @@ import { can } from "~/auth/permissions";
 import { MeterFields } from "~/components/meter-fields";
 import { MeterLastReading } from "~/components/meter-last-reading";
 import { lastReadingOf } from "~/ingest/last-reading.server";
+import { MeterPlantFaults } from "~/components/plant/meter-plant-faults";
+import { meterPlantFaults } from "~/plant/plant-faults.server";
 import {
   Badge,
   Button,
@@ -48,13 +50,19 @@ export async function loader({ params, context }: Route.LoaderArgs) {
     meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
-  const [siblings, last] = await Promise.all([
+  const [siblings, last, plantFaults] = await Promise.all([
     listSiteMeters({ organizationId: organization.id, siteId: meter.siteId }),
     lastReadingOf({ organizationId: organization.id, meterId: meter.id }),
+    meterPlantFaults({
+      organizationId: organization.id,
+      siteId: meter.siteId,
+      meterId: meter.id,
+    }),
   ]);
   return {
     organization,
     meter,
+    plantFaults,
     last: {
       at: last.at?.toISOString() ?? null,
       registerKwh: last.registerKwh,
@@ -188,6 +196,10 @@ export default function Meter({
         {result?.message ? (
           <Notice tone="success">{result.message}</Notice>
         ) : null}
+        <MeterPlantFaults
+          faults={loaderData.plantFaults}
+          plantsLink={`/o/${organization.id}/sites/${meter.siteId}/plant`}
+        />
         <MeterLastReading last={last} timeZone={meter.timeZone} />
         {meter.removedAt ? (
           <Notice tone="caution" title="Retired">

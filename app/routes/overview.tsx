@@ -73,6 +73,7 @@ const alertSchema = z.strictObject({
   silentMeter: checkbox,
   residual: checkbox,
   monthReady: checkbox,
+  plantFault: checkbox,
   silentHours: z.coerce
     .number({ error: "Enter a number of hours." })
     .int("Enter whole hours.")

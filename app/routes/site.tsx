@@ -10,6 +10,7 @@ import { SiteFields } from "~/components/site-fields";
 import {
   Badge,
   Button,
+  buttonClass,
   Card,
   EmptyState,
   Notice,
@@ -121,14 +122,22 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
           .filter(Boolean)
           .join(" · ")}
         actions={
-          canManage ? (
+          <>
             <Link
-              to={`${base}/sites/${site.id}/meters/new`}
-              className="inline-flex min-h-10 items-center rounded-lg bg-spruce-700 px-4 font-semibold text-white hover:bg-spruce-800"
+              to={`${base}/sites/${site.id}/plant`}
+              className={buttonClass("secondary")}
             >
-              Add a meter
+              Plant and its checks
             </Link>
-          ) : null
+            {canManage ? (
+              <Link
+                to={`${base}/sites/${site.id}/meters/new`}
+                className={buttonClass()}
+              >
+                Add a meter
+              </Link>
+            ) : null}
+          </>
         }
       />
       <div className="flex flex-col gap-6">

@@ -56,7 +56,7 @@ export async function listAllMeters({
   organizationId: string;
 }) {
   return db
-    .select({ ...meterColumns, siteName: sites.name })
+    .select({ ...meterColumns, siteName: sites.name, timeZone: sites.timeZone })
     .from(meters)
     .innerJoin(sites, siteOfMeter)
     .where(eq(meters.organizationId, organizationId))
@@ -176,7 +176,9 @@ function writeMeter<T>(work: (tx: Transaction) => Promise<T>): Promise<T> {
 
 export async function createMeter(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   siteId: string;
   input: MeterInput;
 }) {
@@ -197,6 +199,7 @@ export async function createMeter(args: {
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
+      actorTokenId: args.actorTokenId,
       action: "meter.created",
       subject: meter.id,
       siteId: args.siteId,
@@ -212,7 +215,9 @@ export async function createMeter(args: {
 
 export async function updateMeter(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   meterId: string;
   siteId: string;
   input: MeterInput;
@@ -249,6 +254,7 @@ export async function updateMeter(args: {
       await recordAudit(tx, {
         organizationId: args.organizationId,
         actorUserId: args.actorUserId,
+        actorTokenId: args.actorTokenId,
         action: "meter.updated",
         subject: args.meterId,
         siteId: after.siteId,
@@ -261,7 +267,9 @@ export async function updateMeter(args: {
 
 export async function retireMeter(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   meterId: string;
   removedAt: Date;
   reason?: string;
@@ -278,6 +286,7 @@ export async function retireMeter(args: {
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
+      actorTokenId: args.actorTokenId,
       action: "meter.retired",
       subject: args.meterId,
       siteId: before.siteId,
@@ -303,7 +312,9 @@ export async function retireMeter(args: {
  */
 export async function replaceMeter(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   meterId: string;
   code: string;
   serial: string;
@@ -347,6 +358,7 @@ export async function replaceMeter(args: {
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
+      actorTokenId: args.actorTokenId,
       action: "meter.replaced",
       subject: args.meterId,
       siteId: old.siteId,

@@ -68,7 +68,9 @@ function detailsOf(site: { id: string } & Record<string, unknown>) {
 
 export async function createSite(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   input: SiteInput;
 }) {
   try {
@@ -87,6 +89,7 @@ export async function createSite(args: {
       await recordAudit(tx, {
         organizationId: args.organizationId,
         actorUserId: args.actorUserId,
+        actorTokenId: args.actorTokenId,
         action: "site.created",
         subject: site.id,
         siteId: site.id,
@@ -103,7 +106,9 @@ export async function createSite(args: {
 
 export async function updateSite(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   siteId: string;
   input: SiteInput;
 }) {
@@ -135,6 +140,7 @@ export async function updateSite(args: {
         await recordAudit(tx, {
           organizationId: args.organizationId,
           actorUserId: args.actorUserId,
+          actorTokenId: args.actorTokenId,
           action: "site.updated",
           subject: args.siteId,
           siteId: args.siteId,
@@ -156,7 +162,9 @@ export async function updateSite(args: {
  */
 export async function archiveSite(args: {
   organizationId: string;
-  actorUserId: string;
+  // The person who acts, or null with the API token that does (actorTokenId).
+  actorUserId: string | null;
+  actorTokenId?: string | null;
   siteId: string;
   reason?: string;
 }) {
@@ -180,6 +188,7 @@ export async function archiveSite(args: {
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
+      actorTokenId: args.actorTokenId,
       action: "site.archived",
       subject: args.siteId,
       siteId: args.siteId,

@@ -13,7 +13,10 @@ import { describe, expect, it } from "vitest";
 import {
   electricRegisterItemSchema,
   electricWorkItemSchema,
+  gasVolumeItemSchema,
   heatRegisterItemSchema,
+  hydrogenItemSchema,
+  liquidFuelItemSchema,
   sensibleHeatItemSchema,
   steamHeatItemSchema,
   waterHeatItemSchema,
@@ -118,6 +121,18 @@ const ELECTRIC_REGISTER: Item = {
   register_end_kwh: 48_200,
 };
 const HEAT_REGISTER: Item = { ...ELECTRIC_REGISTER, quantity: "heat_register" };
+const GAS: Item = {
+  quantity: "gas_volume",
+  volume_m3: 1000,
+  calorific_value_mj_m3: 39.2,
+};
+const OIL: Item = {
+  quantity: "liquid_fuel",
+  volume_l: 1000,
+  density_kg_l: 0.845,
+  calorific_value_mj_kg: 45.6,
+};
+const HYDROGEN: Item = { quantity: "hydrogen", mass_kg: 10 };
 
 const INTERVAL = {
   start: "2026-03-01T00:00:00Z",
@@ -147,6 +162,7 @@ const QUANTITY_CASES: Record<string, QuantityCase> = {
       delta_theta_min_k: 3,
       flow_m3_per_h: 1,
       qp_m3_per_h: 1.5,
+      ambient_temp_c: 5,
     },
     schemaKeys: Object.keys(waterHeatItemSchema.shape),
     required: {
@@ -237,6 +253,53 @@ const QUANTITY_CASES: Record<string, QuantityCase> = {
       quantity: named("quantity"),
       register_start_kwh: named("register_start_kwh"),
       register_end_kwh: named("register_end_kwh"),
+    },
+  },
+  gas_volume: {
+    valid: GAS,
+    allFields: {
+      ...GAS,
+      ...INTERVAL,
+      volume_ft3: 35_000,
+      cv_basis: "gross",
+      correction_factor: 1.02264,
+      gas_temp_c: 10,
+      gas_pressure_mbar_g: 21,
+      atmospheric_pressure_mbar: 1005,
+    },
+    schemaKeys: Object.keys(gasVolumeItemSchema.shape),
+    required: {
+      quantity: named("quantity"),
+      volume_m3: /^volume_m3: is required \(or volume_ft3\)$/,
+      calorific_value_mj_m3: named("calorific_value_mj_m3"),
+    },
+  },
+  liquid_fuel: {
+    valid: OIL,
+    allFields: {
+      ...OIL,
+      ...INTERVAL,
+      opening_stock_l: 5000,
+      deliveries_l: 2000,
+      closing_stock_l: 6000,
+      cv_basis: "net",
+    },
+    schemaKeys: Object.keys(liquidFuelItemSchema.shape),
+    required: {
+      quantity: named("quantity"),
+      volume_l:
+        /^volume_l: is required, or opening_stock_l, deliveries_l and closing_stock_l$/,
+      density_kg_l: named("density_kg_l"),
+      calorific_value_mj_kg: named("calorific_value_mj_kg"),
+    },
+  },
+  hydrogen: {
+    valid: HYDROGEN,
+    allFields: { ...HYDROGEN, ...INTERVAL, volume_nm3: 100, basis: "net" },
+    schemaKeys: Object.keys(hydrogenItemSchema.shape),
+    required: {
+      quantity: named("quantity"),
+      mass_kg: /^mass_kg: is required, or volume_nm3$/,
     },
   },
 };
@@ -362,7 +425,7 @@ describe("POST /api/v1/energy/evaluate: item shape", () => {
 
   it("an unknown quantity, or an item that is not an object, fails alone", async () => {
     const results = await evaluate([
-      { ...WATER, quantity: "gas_volume" },
+      { ...WATER, quantity: "coal_mass" },
       "water_heat",
       null,
       42,
@@ -444,6 +507,86 @@ describe("POST /api/v1/energy/evaluate: physics with named sources", () => {
     expect(r.details.active_power_w).toBeCloseTo(20_296.17, 2);
     expect(r.energy_kwh).toBeCloseTo(20.2962, 4);
     expect(r.details.voltage_basis).toBe("line_to_line");
+  });
+});
+
+// Sources (references.md §9): the ideal-gas law [computed]; CODATA key values
+// and HHV 141.79, |ΔG| 117.64 MJ/kg [computed there]; python3-iapws for the
+// exergy (app/physics/water-exergy.test.ts gives the script).
+describe("POST /api/v1/energy/evaluate: fuels, hydrogen and exergy", () => {
+  it("answers each new quantity, and a refused item alone in the batch", async () => {
+    const [
+      gas,
+      gasFt3,
+      oil,
+      stock,
+      hydrogen,
+      heating,
+      chilled,
+      badCv,
+      badStock,
+      badAmbient,
+      coldGas,
+    ] = await evaluate([
+      {
+        ...GAS,
+        gas_temp_c: 9,
+        gas_pressure_mbar_g: 21,
+        atmospheric_pressure_mbar: 1000,
+      },
+      { ...without(GAS, "volume_m3"), volume_ft3: 10_000, cv_basis: "net" },
+      OIL,
+      {
+        ...without(OIL, "volume_l"),
+        opening_stock_l: 4100,
+        deliveries_l: 5000,
+        closing_stock_l: 8100,
+      },
+      HYDROGEN,
+      { ...WATER, ambient_temp_c: 5 },
+      { ...WATER, flow_temp_c: 7, return_temp_c: 12, ambient_temp_c: 25 },
+      { ...GAS, calorific_value_mj_m3: 61 },
+      {
+        ...without(OIL, "volume_l"),
+        opening_stock_l: 1000,
+        deliveries_l: 0,
+        closing_stock_l: 1200,
+      },
+      { ...WATER, ambient_temp_c: 76 },
+      { ...GAS, gas_temp_c: -21, gas_pressure_mbar_g: 21 },
+    ]);
+    // Ideal gas: n = pV/(RT) at 9 °C and 1021 mbar, back to 15 °C, 1013.25 mbar.
+    const moles = (102_100 * 1000) / (8.314462618 * 282.15);
+    const vRef = (moles * 8.314462618 * 288.15) / 101_325;
+    expect(okOf(gas).energy_kwh).toBeCloseTo((vRef * 39.2) / 3.6, 6);
+    expect(okOf(gas).details.correction_factor).toBeCloseTo(vRef / 1000, 12);
+    expect(okOf(gasFt3).details.volume_m3).toBeCloseTo(283.16846592, 9);
+    expect(okOf(gasFt3).details.cv_basis).toBe("net");
+    expect(okOf(oil).energy_kwh).toBeCloseTo((845 * 45.6) / 3.6, 6);
+    expect(okOf(stock).energy_kwh).toBe(okOf(oil).energy_kwh);
+    expect((okOf(hydrogen).energy_kwh * 3.6) / 10).toBeCloseTo(141.79, 2);
+    expect(
+      ((okOf(hydrogen).details.max_work_kwh as number) * 3.6) / 10,
+    ).toBeCloseTo(117.64, 2);
+    const heatingOk = okOf(heating);
+    expect(heatingOk.details.exergy_kwh).toBeCloseTo(
+      (4.963370272 * (heatingOk.details.mass_kg as number)) / 1000,
+      6,
+    );
+    expect(okOf(chilled).energy_kwh).toBeLessThan(0);
+    expect(okOf(chilled).details.exergy_kwh).toBeGreaterThan(0);
+    expect(errorOf(badCv)).toBe(
+      "calorific_value_mj_m3: 61 MJ/m³ is outside 10 MJ/m³ to 60 MJ/m³",
+    );
+    expect(errorOf(badStock)).toMatch(
+      /^opening_stock_l \+ deliveries_l − closing_stock_l = -200 l is negative/,
+    );
+    expect(errorOf(badAmbient)).toMatch(
+      /^ambient_temp_c: 76 °C is outside -50 °C to 50 °C$/,
+    );
+    expect(errorOf(coldGas)).toBe(
+      "gas_temp_c: -21 °C is outside -20 °C to 60 °C",
+    );
   });
 });
 

@@ -18,7 +18,7 @@ import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 applyAppTestEnv();
 // After the environment is set: the app's modules read it when they load.
 const { apiRouter } = await import("../../app/api/router.server");
-const { QUANTITIES, evaluateItemSchema } =
+const { EVALUATE_QUANTITIES, evaluateItemSchema } =
   await import("../../app/physics/evaluate-schema");
 
 afterAll(() => pool.end());
@@ -212,6 +212,22 @@ describe("the document is valid OpenAPI 3.1", () => {
     }
   });
 
+  it("organisation routes take an API token or a session; gateway routes a gateway key", () => {
+    const raw = doc as unknown as {
+      components: { securitySchemes: Record<string, { scheme?: string }> };
+      paths: Record<string, Record<string, { security?: unknown }>>;
+    };
+    expect(raw.components.securitySchemes.apiToken).toMatchObject({
+      type: "http",
+      scheme: "bearer",
+    });
+    expect(raw.paths["/orgs/{orgId}/sites"].post.security).toEqual([
+      { apiToken: [] },
+      { session: [] },
+    ]);
+    expect(raw.paths["/readings"].post.security).toEqual([{ gatewayKey: [] }]);
+  });
+
   it("carries no $schema or $id inside the components", () => {
     for (const component of Object.values(doc.components.schemas)) {
       expect(component).not.toHaveProperty("$schema");
@@ -225,7 +241,7 @@ describe("the document is valid OpenAPI 3.1", () => {
     };
     expect(item.discriminator.propertyName).toBe("quantity");
     expect(Object.keys(item.discriminator.mapping).sort()).toEqual(
-      [...QUANTITIES].sort(),
+      [...EVALUATE_QUANTITIES].sort(),
     );
     const water = doc.components.schemas.WaterHeatItem as {
       additionalProperties: unknown;

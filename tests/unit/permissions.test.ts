@@ -4,6 +4,7 @@ import {
   isRole,
   permissions,
   roles,
+  tokenRoles,
   wouldRemoveLastOwner,
 } from "../../app/auth/permissions";
 
@@ -64,6 +65,21 @@ describe("role rules (design.md, Users and roles)", () => {
       "members.manage",
     ] as const) {
       expect(can("auditor", p), p).toBe(false);
+    }
+  });
+
+  it("only owners create and revoke organisation API tokens", () => {
+    for (const role of roles) {
+      expect(can(role, "tokens.manage"), role).toBe(role === "owner");
+    }
+  });
+
+  it("a token carries a read-only or a managing role, never owner or finance", () => {
+    expect([...tokenRoles].sort()).toEqual(["auditor", "energy_manager"]);
+    for (const role of tokenRoles) {
+      expect(can(role, "tokens.manage"), role).toBe(false);
+      expect(can(role, "members.manage"), role).toBe(false);
+      expect(can(role, "billing.manage"), role).toBe(false);
     }
   });
 

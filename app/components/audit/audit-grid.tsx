@@ -61,7 +61,7 @@ function WhoCell({ data }: ICellRendererParams<AuditEntry>) {
       {data.actor.type === "person" ? (
         data.actor.name
       ) : (
-        <Badge tone={data.actor.type === "gateway" ? "frost" : undefined}>
+        <Badge tone={data.actor.type === "system" ? undefined : "frost"}>
           {data.actor.name}
         </Badge>
       )}

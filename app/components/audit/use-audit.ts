@@ -9,7 +9,7 @@ export interface AuditEntry {
   kind: string | null;
   kind_label: string | null;
   actor: {
-    type: "person" | "gateway" | "system";
+    type: "person" | "gateway" | "token" | "system";
     id: string | null;
     name: string;
   };

@@ -21,6 +21,11 @@ export function AlertSettings({
       alerts.residual,
     ],
     ["monthReady", "Last month is ready to close", alerts.monthReady],
+    [
+      "plantFault",
+      "A plant's month is beyond what the laws allow (a metering fault)",
+      alerts.plantFault,
+    ],
   ] as const;
   return (
     <SectionCard headingId="alerts-heading" title="Your alert e-mails">

@@ -8,6 +8,7 @@
  * carriers; only the site's energy balance carries the signed thermodynamic
  * view (into the site positive), and says so.
  */
+import type { PlantFault } from "~/plant/plant-fault";
 import type { ResidualFlag } from "~/ledger/balance";
 import type { Carrier, Orientation } from "~/sites/meter-kinds";
 import type { ReportPeriod } from "../periods";
@@ -253,6 +254,8 @@ export interface ReportData {
   sites: SiteReport[];
   adjustments: AdjustmentEntry[];
   dataQuality: DataQuality;
+  /** Plant in scope, checked month by month against the laws (app/plant/). */
+  plantChecks: { plants: number; faults: PlantFault[] };
   method: MethodFacts;
   cautions: string[];
 }

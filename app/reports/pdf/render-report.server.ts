@@ -30,6 +30,7 @@ import {
   type ContentsEntry,
 } from "./sections/cover";
 import { drawDataQuality } from "./sections/data-quality";
+import { drawPlantChecks } from "./sections/plant-checks";
 import { drawMethod } from "./sections/method";
 import { drawSite } from "./sections/site";
 import { drawSummary } from "./sections/summary";
@@ -144,7 +145,10 @@ export async function drawReport(
   }
   section("Adjusting entries", 1, () => drawAdjustments(doc, data));
   await step(onProgress, 0.85, "Adjusting entries");
-  section("Data quality", 1, () => drawDataQuality(doc, data));
+  section("Data quality", 1, () => {
+    drawDataQuality(doc, data);
+    drawPlantChecks(doc, data);
+  });
   await step(onProgress, 0.9, "Data quality");
   section("Method notes", 1, () => drawMethod(doc, data));
   // The cautions follow the method notes on the same page when they fit.

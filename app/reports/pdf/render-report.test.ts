@@ -201,6 +201,23 @@ function report(sites: SiteReport[]): ReportData {
       conflicts: 0,
       openConflicts: 0,
     },
+    plantChecks: sites.length
+      ? {
+          plants: 2,
+          faults: [
+            {
+              plantId: "p1",
+              plantName: "Boiler house Ω",
+              kind: "boiler",
+              kindLabel: "Boiler",
+              siteName: sites[0].name,
+              month: "2025-02",
+              meterCodes: ["G-1", "H-1"],
+              text: "Metering fault: Efficiency (gross CV) 104.0 %, above the limit of 100.0 %.",
+            },
+          ],
+        }
+      : { plants: 0, faults: [] },
     method: methodFacts(
       sites.map((s) => ({ name: s.name, degreeDayBaseC: s.degreeDayBaseC })),
     ),
