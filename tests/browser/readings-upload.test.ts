@@ -186,7 +186,7 @@ describe("uploading a supplier's one-row-per-day file", () => {
 
   it("reads an Excel workbook in the browser: date cells, number cells, one meter chosen for the file", async () => {
     const org = await createMeteredOrg();
-    const meter = org.meters.water;
+    const meter = await withResolution(org.meters.water, MINUTES);
     const workbook = new ExcelJS.Workbook();
     const sheet = workbook.addWorksheet("Usage");
     sheet.addRow(["Date", ...intervalHeadings(MINUTES)]);
