@@ -259,13 +259,13 @@ async function createFixture(pool: pg.Pool): Promise<Fixture> {
 }
 
 /** Hour h of meter m: a heating circuit, 1–3 m³ an hour, 65–80 °C flow. */
-function reading(code: string, m: number, hourStart: number, h: number) {
+function reading(code: string, m: number, intervalStart: number, h: number) {
   const n = h * METERS + m;
   return {
     meter: code,
     quantity: "water_heat",
-    start: new Date(hourStart).toISOString(),
-    end: new Date(hourStart + HOUR_MS).toISOString(),
+    start: new Date(intervalStart).toISOString(),
+    end: new Date(intervalStart + HOUR_MS).toISOString(),
     volume_m3: 1 + ((n * 7919) % 2000) / 1000,
     flow_temp_c: 65 + ((n * 31) % 16),
     return_temp_c: 40 + ((n * 17) % 11),

@@ -11,9 +11,8 @@
 //           posted one after another to POST /api/v1/orgs/:orgId/readings,
 //           each stored and committed before its answer
 //
-// Meters record hours today, so the page adds each hour's two half-hours up
-// and sends 438,000 readings. When meters can be half-hourly, create them so
-// (METER_MINUTES = 30) and the 876,000 half-hours go as they are.
+// The meters are half-hourly (METER_MINUTES = 30), so the 876,000 half-hours
+// go as they are; with 60 the page adds each hour's two half-hours up.
 //
 // Database: as the readings bench (DATABASE_URL, else the managed cluster's
 // joulebook_bench). The bench's organisation is deleted at the end.
@@ -34,8 +33,8 @@ import {
 
 const METERS = 50;
 const FILE_MINUTES = 30;
-/** The meters' resolution; 60 until meters have another (see above). */
-const METER_MINUTES = 60;
+/** The meters' resolution (see above). */
+const METER_MINUTES = 30;
 const PASSWORD = "bench-upload-password";
 const TIMEOUT_MS = 30 * 60_000;
 
@@ -75,10 +74,10 @@ async function createFixture(pool: pg.Pool): Promise<Fixture> {
   );
   await pool.query(
     `insert into meters (organization_id, site_id, code, name, quantity, carrier, orientation,
-                         sensor_at, default_pressure_bar_abs, installed_at)
-     select $1, $2, c, 'Bench heat meter ' || c, 'water_heat', 'heat', 'import', 'return', 6, '2020-01-01T00:00:00Z'
+                         sensor_at, default_pressure_bar_abs, installed_at, interval_minutes)
+     select $1, $2, c, 'Bench heat meter ' || c, 'water_heat', 'heat', 'import', 'return', 6, '2020-01-01T00:00:00Z', $4
        from unnest($3::text[]) as u(c)`,
-    [org.id, site.id, codes],
+    [org.id, site.id, codes, METER_MINUTES],
   );
   return { organizationId: org.id, email, codes };
 }

@@ -19,14 +19,25 @@ const baseUrl = inject("baseUrl");
 const chromium = chromiumForFile();
 
 /**
- * The meters' resolution: hourly today. For half-hourly meters set 30 (and
- * create the meter with that resolution): the file then has 48 columns and
- * 50 values on 25 October, and the counts below follow.
+ * The meters' resolution, and the file's: half-hourly, the usual supplier
+ * data. The file has 48 columns a day and 50 values on 25 October.
  */
-const MINUTES = 60;
+const MINUTES = 30;
 const PER_DAY = 1440 / MINUTES;
-/** 24–26 October 2026: the middle day has 25 hours in London (01:00–02:00 BST and GMT). */
+/** 24–26 October 2026: the middle day has 25 hours (50 half-hours) in London (01:00–02:00 BST and GMT). */
 const DAYS = { firstDay: "2026-10-24", days: 3 };
+
+/** A meter with no data yet set to record `minutes`-long intervals. */
+async function withResolution<M extends { id: string }>(
+  meter: M,
+  minutes: number,
+): Promise<M> {
+  await db
+    .update(schema.meters)
+    .set({ intervalMinutes: minutes })
+    .where(eq(schema.meters.id, meter.id));
+  return meter;
+}
 
 async function openUpload(org: MeteredOrg): Promise<Page> {
   const owner = org.org.members[0];
@@ -70,13 +81,13 @@ async function storedIntervals(meterId: string) {
 describe("uploading a supplier's one-row-per-day file", () => {
   it("stores each interval across the October clock change, and a repeat changes nothing", async () => {
     const org = await createMeteredOrg();
-    const meter = org.meters.water;
+    const meter = await withResolution(org.meters.water, MINUTES);
     const file = wideSupplierFile({
       meterCodes: [meter.code],
       minutes: MINUTES,
       ...DAYS,
     });
-    // 24 + 25 + 24 hours: the file's middle row runs one value past its header.
+    // 48 + 50 + 48 half-hours: the file's middle row runs two values past its header.
     expect(file.values).toBe(3 * PER_DAY + 60 / MINUTES);
     const page = await openUpload(org);
 
@@ -131,7 +142,7 @@ describe("uploading a supplier's one-row-per-day file", () => {
 
   it("lists a bad value by row, column and reason and stores nothing until the good rows only are chosen", async () => {
     const org = await createMeteredOrg();
-    const meter = org.meters.water;
+    const meter = await withResolution(org.meters.water, MINUTES);
     const file = wideSupplierFile({
       meterCodes: [meter.code],
       minutes: MINUTES,
@@ -141,7 +152,7 @@ describe("uploading a supplier's one-row-per-day file", () => {
     // Row 3 (the second day) gets a value that is not a number at 05:00.
     const lines = file.csv.split("\n");
     const cells = lines[2].split(",");
-    cells[2 + 5] = "n/a";
+    cells[2 + (5 * 60) / MINUTES] = "n/a";
     lines[2] = cells.join(",");
     const page = await openUpload(org);
 
@@ -175,7 +186,7 @@ describe("uploading a supplier's one-row-per-day file", () => {
 
   it("reads an Excel workbook in the browser: date cells, number cells, one meter chosen for the file", async () => {
     const org = await createMeteredOrg();
-    const meter = org.meters.water;
+    const meter = await withResolution(org.meters.water, MINUTES);
     const workbook = new ExcelJS.Workbook();
     const sheet = workbook.addWorksheet("Usage");
     sheet.addRow(["Date", ...intervalHeadings(MINUTES)]);
