@@ -85,7 +85,7 @@ async function growIntervals(
   const step = 500;
   for (let h = startHour; h < hoursPerMeter; h += step) {
     await pool.query(
-      `insert into intervals (organization_id, meter_id, hour_start, energy_kwh, quality)
+      `insert into intervals (organization_id, meter_id, interval_start, energy_kwh, quality)
        select $1, m.id, to_timestamp($2 / 1000.0) + (k || ' hour')::interval, round((random() * 10)::numeric, 6), 'measured'
          from meters m cross join generate_series($3::int, $4::int) k
         where m.organization_id = $1`,

@@ -127,7 +127,7 @@ export async function benchDatabaseUrl(): Promise<{
   return { url, origin: `managed cluster, database ${BENCH_DATABASE}` };
 }
 
-function ensureBuild(): void {
+export function ensureBuild(): void {
   if (existsSync(path.join(ROOT, "build/server/index.js"))) return;
   console.log("no production build: running npx react-router build");
   const built = spawnSync("npx", ["react-router", "build"], {
@@ -149,7 +149,7 @@ async function freePort(): Promise<number> {
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-async function startServer(
+export async function startServer(
   databaseUrl: string,
 ): Promise<{ child: ChildProcess; baseUrl: string }> {
   const port = await freePort();
@@ -189,7 +189,7 @@ async function startServer(
   throw new Error("server did not become healthy within 60 s");
 }
 
-async function stopServer(child: ChildProcess): Promise<void> {
+export async function stopServer(child: ChildProcess): Promise<void> {
   if (child.exitCode !== null || child.signalCode !== null) return;
   const exited = new Promise((r) => child.once("exit", r));
   child.kill("SIGTERM");
@@ -259,13 +259,13 @@ async function createFixture(pool: pg.Pool): Promise<Fixture> {
 }
 
 /** Hour h of meter m: a heating circuit, 1–3 m³ an hour, 65–80 °C flow. */
-function reading(code: string, m: number, hourStart: number, h: number) {
+function reading(code: string, m: number, intervalStart: number, h: number) {
   const n = h * METERS + m;
   return {
     meter: code,
     quantity: "water_heat",
-    start: new Date(hourStart).toISOString(),
-    end: new Date(hourStart + HOUR_MS).toISOString(),
+    start: new Date(intervalStart).toISOString(),
+    end: new Date(intervalStart + HOUR_MS).toISOString(),
     volume_m3: 1 + ((n * 7919) % 2000) / 1000,
     flow_temp_c: 65 + ((n * 31) % 16),
     return_temp_c: 40 + ((n * 17) % 11),

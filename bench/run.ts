@@ -7,6 +7,7 @@ import { benchLedger } from "./ledger.bench";
 import { benchReadings } from "./readings.bench";
 import { benchReports } from "./reports.bench";
 import { benchSupplierFiles } from "./supplier-files.bench";
+import { benchUpload } from "./upload.bench";
 
 const BENCHES: Record<string, () => Promise<void>> = {
   physics: benchPhysics,
@@ -14,6 +15,7 @@ const BENCHES: Record<string, () => Promise<void>> = {
   ledger: benchLedger,
   reports: benchReports,
   "supplier-files": benchSupplierFiles,
+  upload: benchUpload,
 };
 
 const asked = process.argv.slice(2);

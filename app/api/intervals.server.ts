@@ -8,7 +8,7 @@ import { getMeter } from "~/sites/meters.server";
 import { sendError, sendValidationError } from "./respond.server";
 import { intervalsQuerySchema, type IntervalPage } from "./schemas";
 
-/** At most a quarter of hourly rows per request keeps pages and memory small. */
+/** At most a quarter's rows per request keeps pages and memory small. */
 const MAX_RANGE_MS = 93 * 86_400_000;
 
 const rangeSchema = intervalsQuerySchema.transform((q) => ({
@@ -33,7 +33,10 @@ export async function getIntervals(
     if (!parsed.success) return sendValidationError(res, parsed.error);
     const latest = await latestIntervalHour({ organizationId, meterId });
     const to =
-      parsed.data.to ?? new Date((latest ?? new Date()).getTime() + 3_600_000);
+      parsed.data.to ??
+      new Date(
+        (latest ?? new Date()).getTime() + meter.intervalMinutes * 60_000,
+      );
     const from = parsed.data.from ?? new Date(to.getTime() - 7 * 86_400_000);
     if (to <= from)
       return sendError(res, 400, "invalid_range", "to must be after from.");
@@ -58,6 +61,7 @@ export async function getIntervals(
         name: meter.name,
         carrier: meter.carrier,
         orientation: meter.orientation,
+        interval_minutes: meter.intervalMinutes,
         time_zone: meter.timeZone,
       },
       from: from.toISOString(),

@@ -45,7 +45,7 @@ const badSite = errorReply(
   "Not valid: the issues name the fields, in the Sites page's words",
 );
 const badMeter = errorReply(
-  "Not valid: the issues name the fields, in the meter page's words (interval_minutes other than 60 is refused for now)",
+  "Not valid: the issues name the fields, in the meter page's words (interval_minutes is 15, 30 or 60)",
 );
 
 const siteExample = {
@@ -60,7 +60,7 @@ const meterExample = {
   quantity: "electric_register",
   carrier: "electricity",
   orientation: "import",
-  interval_minutes: 60,
+  interval_minutes: 30,
   installed_at: "2026-01-01",
 };
 
@@ -162,7 +162,7 @@ export function provisioningRoutes(): ApiRoute[] {
       path: "/orgs/:orgId/meters",
       summary: "Add a meter to a site (owners and energy managers)",
       description:
-        "The meter page's rules: a code unique in the organisation (409), a carrier that fits the quantity, the EN 1434 band whole or not at all, the sensor pipe for water heat meters, a parent on the same site. Only hourly meters for now: interval_minutes 15 or 30 is refused. Recorded in the audit trail.",
+        "The meter page's rules: a code unique in the organisation (409), a carrier that fits the quantity, the EN 1434 band whole or not at all, the sensor pipe for water heat meters, a parent on the same site. interval_minutes 15, 30 or 60 (the default). Recorded in the audit trail.",
       access: write,
       params: orgPathSchema,
       body: {
@@ -195,6 +195,8 @@ export function provisioningRoutes(): ApiRoute[] {
       method: "patch",
       path: "/orgs/:orgId/meters/:meterId",
       summary: "Change a meter's settings (the fields sent; not its site)",
+      description:
+        "interval_minutes can change only while the meter has no intervals; after that the change is refused with 409 `resolution_fixed`.",
       access: write,
       params: meterPathSchema,
       body: {
@@ -209,7 +211,9 @@ export function provisioningRoutes(): ApiRoute[] {
         400: badMeter,
         403: refused,
         404: errorReply("No such meter here"),
-        409: errorReply("Another meter in this organisation uses this code"),
+        409: errorReply(
+          "Another meter in this organisation uses this code, or a change of interval_minutes on a meter that already has intervals (`resolution_fixed`)",
+        ),
       },
     },
     {

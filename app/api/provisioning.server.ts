@@ -20,6 +20,7 @@ import {
   listAllMeters,
   listSiteMeters,
   MeterRuleError,
+  ResolutionFixedError,
   retireMeter,
   updateMeter,
 } from "~/sites/meters.server";
@@ -83,8 +84,7 @@ function meterAnswer(meter: Omit<MeterRow, "siteName" | "timeZone">): ApiMeter {
     quantity: meter.quantity,
     carrier: meter.carrier,
     orientation: meter.orientation,
-    // Every meter is hourly until meters get a resolution (issue #14).
-    interval_minutes: 60,
+    interval_minutes: meter.intervalMinutes as ApiMeter["interval_minutes"],
     parent_meter_id: meter.parentMeterId,
     position: meter.position,
     serial: meter.serial,
@@ -174,6 +174,7 @@ function meterInput(
     quantity: body.quantity,
     carrier: field(body.carrier),
     orientation: field(body.orientation),
+    intervalMinutes: field(body.interval_minutes),
     parentMeterId: field(body.parent_meter_id),
     position: body.position ?? "boundary",
     serial: body.serial ?? "",
@@ -196,6 +197,10 @@ function meterInput(
 function sendRuleError(res: Response, error: unknown): void {
   if (error instanceof DuplicateNameError)
     return sendError(res, 409, "duplicate", error.message);
+  if (error instanceof ResolutionFixedError)
+    return sendError(res, 409, "resolution_fixed", error.message, [
+      { path: "interval_minutes", message: error.message },
+    ]);
   if (error instanceof MeterRuleError)
     return sendError(res, 400, "invalid_body", error.message, [
       { path: "parent_meter_id", message: error.message },

@@ -21,6 +21,7 @@ import { carrier } from "~/lib/wire-schemas";
 import {
   carriers,
   meterPositions,
+  isIntervalMinutes,
   orientations,
   quantities,
   sensorPositions,
@@ -121,6 +122,10 @@ export const intervalPageSchema = z.strictObject({
     name: z.string(),
     carrier,
     orientation: z.enum(orientations),
+    interval_minutes: z
+      .number()
+      .int()
+      .describe("Minutes per interval: 15, 30 or 60"),
     time_zone: z.string(),
   }),
   from: z.iso.datetime(),
@@ -263,17 +268,15 @@ export const siteSchema = z.strictObject({
 export type ApiSite = z.output<typeof siteSchema>;
 export const siteListSchema = z.strictObject({ sites: z.array(siteSchema) });
 
-/**
- * Only hourly meters exist until meters get a resolution column (issue #14);
- * 15 and 30 are refused with a reason rather than silently stored as 60.
- */
+/** A meter's resolution: 15, 30 or 60 minutes per interval. */
 const intervalMinutes = z
   .number()
-  .refine((v) => v === 60, {
-    message:
-      "Half-hourly and quarter-hourly meters are not available yet; send 60 or leave interval_minutes out.",
+  .refine(isIntervalMinutes, {
+    message: "interval_minutes must be 15, 30 or 60.",
   })
-  .describe("Only 60 for now");
+  .describe(
+    "Minutes per interval: 15, 30 or 60 (60 if left out); fixed once the meter has intervals",
+  );
 
 const meterSettingsShape = {
   code: z.string().describe("What gateways put in a reading's `meter`"),
@@ -330,7 +333,7 @@ export const meterSchema = z.strictObject({
   quantity: z.enum(quantities),
   carrier: z.enum(carriers),
   orientation: z.enum(orientations),
-  interval_minutes: z.literal(60),
+  interval_minutes: z.union([z.literal(15), z.literal(30), z.literal(60)]),
   parent_meter_id: z.guid().nullable(),
   position: z.enum(meterPositions),
   serial: z.string(),

@@ -1,7 +1,10 @@
 import {
   carrierLabels,
   carriers,
+  DEFAULT_INTERVAL_MINUTES,
+  intervalResolutions,
   quantities,
+  resolutionLabel,
   quantityLabels,
 } from "~/sites/meter-kinds";
 import { Field, SelectField } from "./ui";
@@ -13,6 +16,7 @@ export interface MeterDefaults {
   quantity?: string;
   carrier?: string;
   orientation?: string;
+  intervalMinutes?: number;
   parentMeterId?: string | null;
   position?: string;
   serial?: string;
@@ -88,6 +92,20 @@ export function MeterFields({
         <option value="export">
           Export: measures what leaves the site (sign flipped)
         </option>
+      </SelectField>
+      <SelectField
+        label="Resolution (fixed once the meter has data)"
+        name="intervalMinutes"
+        defaultValue={String(
+          defaults.intervalMinutes ?? DEFAULT_INTERVAL_MINUTES,
+        )}
+        error={errors.intervalMinutes}
+      >
+        {intervalResolutions.map((minutes) => (
+          <option key={minutes} value={minutes}>
+            {resolutionLabel(minutes)}
+          </option>
+        ))}
       </SelectField>
       <SelectField
         label="Parent meter (sub-metering)"
@@ -166,7 +184,7 @@ export function MeterFields({
         label="Spike factor"
         name="spikeFactor"
         inputMode="decimal"
-        hint="An hour above this multiple of the typical hour is flagged"
+        hint="An interval above this multiple of the typical interval is flagged"
         defaultValue={defaults.spikeFactor ?? "10"}
         error={errors.spikeFactor}
       />

@@ -13,6 +13,7 @@ import {
   pgEnum,
   pgTable,
   primaryKey,
+  smallint,
   text,
   timestamp,
   uniqueIndex,
@@ -26,6 +27,8 @@ import { plantKinds, plantMeterRoles } from "../plant/plant-roles";
 import {
   carriers,
   meterPositions,
+  DEFAULT_INTERVAL_MINUTES,
+  intervalResolutions,
   orientations,
   quantities,
   sensorPositions,
@@ -336,7 +339,15 @@ export const meters = pgTable(
       precision: 6,
       scale: 3,
     }),
-    /** An hour above this multiple of the meter's typical value is a spike. */
+    /**
+     * Minutes per interval (15, 30 or 60): its intervals start on multiples
+     * of it in UTC, and one interval ends this long after it starts. Fixed
+     * once the meter has intervals (app/sites/meter-resolution.server.ts).
+     */
+    intervalMinutes: smallint("interval_minutes")
+      .notNull()
+      .default(DEFAULT_INTERVAL_MINUTES),
+    /** An interval above this multiple of the meter's typical value is a spike. */
     spikeFactor: numeric("spike_factor", { precision: 6, scale: 2 })
       .notNull()
       .default("10"),
@@ -352,6 +363,10 @@ export const meters = pgTable(
   (t) => [
     primaryKey({ columns: [t.organizationId, t.id] }),
     uniqueIndex("meters_code_unique").on(t.organizationId, t.code),
+    check(
+      "meters_interval_minutes_check",
+      sql`${t.intervalMinutes} in (${sql.raw(intervalResolutions.join(", "))})`,
+    ),
     index("meters_site_idx").on(t.organizationId, t.siteId),
     foreignKey({
       columns: [t.organizationId, t.siteId],
@@ -369,12 +384,14 @@ export const meters = pgTable(
 );
 
 // ---------------------------------------------------------------------------
-// Readings as received, and the hourly intervals derived from them.
+// Readings as received, and the intervals derived from them, at each meter's
+// resolution (meters.interval_minutes: an interval's end is interval_start
+// plus its meter's interval_minutes).
 //
 // Not expressible in Drizzle, so written by hand in the migrations, and true
 // of the database all the same:
 //  - raw_readings and intervals are PARTITION BY RANGE on their time
-//    (reading_time, hour_start), one partition per UTC month named
+//    (reading_time, interval_start), one partition per UTC month named
 //    `<table>_YYYY_MM`, created on demand by the SQL function
 //    ensure_month_partitions(from, to) under advisory lock 20261201
 //    (drizzle/0001_sites_meters_readings.sql; app/ingest/partitions.server.ts;
@@ -465,13 +482,13 @@ export const readingConflicts = pgTable(
   ],
 );
 
-/** Partitioned by month of hour_start; intervals_meter_fk (see above). */
+/** Partitioned by month of interval_start; intervals_meter_fk (see above). */
 export const intervals = pgTable(
   "intervals",
   {
     organizationId: uuid("organization_id").notNull(),
     meterId: uuid("meter_id").notNull(),
-    hourStart: timestamp("hour_start", {
+    intervalStart: timestamp("interval_start", {
       withTimezone: true,
       mode: "date",
     }).notNull(),
@@ -499,7 +516,9 @@ export const intervals = pgTable(
       .notNull()
       .defaultNow(),
   },
-  (t) => [primaryKey({ columns: [t.organizationId, t.meterId, t.hourStart] })],
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId, t.intervalStart] }),
+  ],
 );
 
 export type Quantity = (typeof quantityEnum.enumValues)[number];
@@ -529,6 +548,11 @@ export const monthlyRollups = pgTable(
       precision: 24,
       scale: 6,
     }).notNull(),
+    /**
+     * Intervals stored in the month, and how many are estimated: hours for
+     * an hourly meter, half-hours for a half-hourly one (the names predate
+     * meters' resolution; the energies are sums and exact at any).
+     */
     hours: integer("hours").notNull(),
     estimatedHours: integer("estimated_hours").notNull(),
     updatedAt: timestamp("updated_at", { withTimezone: true })

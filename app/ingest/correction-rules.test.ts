@@ -6,13 +6,13 @@ import {
   wrongSignError,
   type CorrectedMeter,
 } from "./correction-rules";
-import type { HourlyPoint } from "./series";
+import type { IntervalPoint } from "./series";
 import { expectedSign } from "./validate";
 
 const at = (h: number) => new Date(Date.UTC(2026, 2, 10, h));
-const measured = (values: number[]): HourlyPoint[] =>
+const measured = (values: number[]): IntervalPoint[] =>
   values.map((energyKwh, h) => ({
-    hourStart: at(h),
+    intervalStart: at(h),
     energyKwh,
     quality: "measured",
   }));
@@ -69,14 +69,14 @@ describe("wrongSignError", () => {
 });
 
 describe("spikeJump", () => {
-  // Hour 3 (900 kWh) is the one corrected. The typical hour of the others:
+  // Hour 3 (900 kWh) is the one corrected. The typical interval of the others:
   // median of 3, 4, 5 = 4 kWh; the limit is 10 × 4 = 40 kWh.
   const history = measured([3, 4, 5, 900]);
 
   it("is null up to the spike factor × the typical hour, as ingest's rule", () => {
     expect(spikeJump(heatIn, 40, history, at(3))).toBeNull();
     expect(spikeJump(heatIn, 40.001, history, at(3))).toMatchObject({
-      typicalHourKwh: 4,
+      typicalIntervalKwh: 4,
       spikeFactor: 10,
     });
   });
@@ -84,7 +84,7 @@ describe("spikeJump", () => {
   it("leaves out the hour being corrected: its old value is being replaced", () => {
     // With the 900 kWh hour counted, the median would be (4 + 5) / 2.
     expect(spikeJump(heatIn, 1e9, history, at(3))).toEqual({
-      typicalHourKwh: 4,
+      typicalIntervalKwh: 4,
       timesTypical: 250_000_000,
       spikeFactor: 10,
     });
@@ -98,7 +98,7 @@ describe("spikeJump", () => {
   it("names the jump in the message", () => {
     const jump = spikeJump(heatIn, 1e9, history, at(3))!;
     expect(jumpMessage(1e9, jump)).toBe(
-      "1,000,000,000 kWh is 250,000,000 × this meter's typical hour of 4.0 kWh; hours above 10 × are flagged as spikes. Confirm the value to save it.",
+      "1,000,000,000 kWh is 250,000,000 × this meter's typical interval of 4.0 kWh; intervals above 10 × are flagged as spikes. Confirm the value to save it.",
     );
     const small = spikeJump(heatIn, 45, history, at(3))!;
     expect(jumpMessage(45, small)).toMatch(/^45 kWh is 11\.3 × /);

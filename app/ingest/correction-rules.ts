@@ -8,11 +8,11 @@
  * Pure: the page shows the same words the write path answers with.
  */
 import { formatHourKwh, formatNumber } from "~/lib/format";
-import type { HourlyPoint } from "./series";
+import type { IntervalPoint } from "./series";
 import {
   expectedSign,
   isSpike,
-  typicalHourlyValue,
+  typicalIntervalValue,
   type MeterBoundary,
 } from "./validate";
 
@@ -33,7 +33,7 @@ export interface CorrectedMeter extends MeterBoundary {
 
 /** How far a corrected value lies from the meter's history. */
 export interface Jump {
-  typicalHourKwh: number;
+  typicalIntervalKwh: number;
   timesTypical: number;
   spikeFactor: number;
 }
@@ -81,17 +81,17 @@ export function wrongSignError(
 export function spikeJump(
   meter: CorrectedMeter,
   energyKwh: number,
-  history: readonly HourlyPoint[],
-  hourStart: Date,
+  history: readonly IntervalPoint[],
+  intervalStart: Date,
 ): Jump | null {
   const others = history.filter(
-    (p) => p.hourStart.getTime() !== hourStart.getTime(),
+    (p) => p.intervalStart.getTime() !== intervalStart.getTime(),
   );
-  const typical = typicalHourlyValue(others);
+  const typical = typicalIntervalValue(others);
   if (typical === null || !isSpike(energyKwh, typical, meter.spikeFactor))
     return null;
   return {
-    typicalHourKwh: typical,
+    typicalIntervalKwh: typical,
     timesTypical: Math.abs(energyKwh) / typical,
     spikeFactor: meter.spikeFactor,
   };
@@ -105,12 +105,12 @@ function formatTimes(times: number): string {
 export function jumpMessage(energyKwh: number, jump: Jump): string {
   return (
     `${formatHourKwh(energyKwh)} kWh is ${formatTimes(jump.timesTypical)} × this meter's ` +
-    `typical hour of ${formatHourKwh(jump.typicalHourKwh, 1)} kWh; hours above ` +
+    `typical interval of ${formatHourKwh(jump.typicalIntervalKwh, 1)} kWh; intervals above ` +
     `${formatTimes(jump.spikeFactor)} × are flagged as spikes. Confirm the value to save it.`
   );
 }
 
 /** The confirmation's own words: it names the value it stands behind. */
 export function confirmLabel(energyKwh: number): string {
-  return `Yes, ${formatHourKwh(energyKwh)} kWh is right: save it and flag the hour as a confirmed spike`;
+  return `Yes, ${formatHourKwh(energyKwh)} kWh is right: save it and flag the interval as a confirmed spike`;
 }

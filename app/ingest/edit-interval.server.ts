@@ -17,7 +17,7 @@ import {
 } from "./correction-rules";
 import { loadSeries, windowFor } from "./estimate-meter.server";
 import { ensurePartitions } from "./partitions.server";
-import { correctionHourError, type InstalledPeriod } from "./time-rules";
+import { correctionIntervalError, type InstalledPeriod } from "./time-rules";
 import { writeIntervals } from "./write-intervals.server";
 
 /**
@@ -27,7 +27,7 @@ import { writeIntervals } from "./write-intervals.server";
  */
 function writeEdit(
   client: PoolClient,
-  args: { organizationId: string; meterId: string; hourStart: Date },
+  args: { organizationId: string; meterId: string; intervalStart: Date },
   energyKwh: string,
   flags: string[],
 ): Promise<RollupDelta[]> {
@@ -35,28 +35,28 @@ function writeEdit(
     // vf: the value flags to drop; in the input, as the claim also sees $6.
     input: `select $2::uuid as m, $3::timestamptz as h, $4::numeric as k,
                    $5::text[] as f, $6::text[] as vf`,
-    params: [args.meterId, args.hourStart, energyKwh, flags, VALUE_FLAGS],
+    params: [args.meterId, args.intervalStart, energyKwh, flags, VALUE_FLAGS],
     insertColumns: "energy_kwh, quality, flags",
     insertValues: "u.k, 'edited', u.f",
     update: `energy_kwh = u.k, quality = 'edited', estimate_method = null,
       flags = array(select flag from unnest(i.flags) as flag where flag <> all(u.vf)) || u.f`,
-    from: args.hourStart,
-    to: args.hourStart,
+    from: args.intervalStart,
+    to: args.intervalStart,
   });
 }
 
-/** The meter's hours around `hourStart`, as ingest's spike check sees them. */
+/** The meter's intervals around `intervalStart`, as ingest's spike check sees them. */
 async function historyAround(
   client: PoolClient,
   organizationId: string,
   meterId: string,
-  hourStart: Date,
+  intervalStart: Date,
 ) {
   const { start, end } = await windowFor(
     organizationId,
     meterId,
-    hourStart,
-    hourStart,
+    intervalStart,
+    intervalStart,
     client,
   );
   return loadSeries(organizationId, meterId, start, end, client);
@@ -67,14 +67,15 @@ export type EditOutcome =
   | {
       ok: false;
       /** The form field the reason belongs beside. */
-      field: "hourStart" | "energyKwh";
+      field: "intervalStart" | "energyKwh";
       reason: string;
       /** Set when the value may be saved once the person confirms the jump. */
       jump?: Jump;
     };
 
 /**
- * A person's correction of one hour: the value becomes `edited`, keeps its
+ * A person's correction of one interval (at the meter's resolution): the
+ * value becomes `edited`, keeps its
  * link to the raw readings, and the old value, new value and reason go to the
  * audit log in the same transaction as the month's rollup (and, for a closed
  * month, its adjusting entry). Refused, with nothing written:
@@ -89,20 +90,21 @@ export type EditOutcome =
 export async function editInterval(args: {
   organizationId: string;
   actorUserId: string;
-  meter: InstalledPeriod & CorrectedMeter & { id: string };
-  hourStart: Date;
+  meter: InstalledPeriod &
+    CorrectedMeter & { id: string; intervalMinutes: number };
+  intervalStart: Date;
   energyKwh: number;
   reason: string;
   /** The person confirmed this very value after being shown its jump. */
   confirmedSpike?: boolean;
   now?: Date;
 }): Promise<EditOutcome> {
-  const refused = correctionHourError(
+  const refused = correctionIntervalError(
     args.meter,
-    args.hourStart,
+    args.intervalStart,
     args.now ?? new Date(),
   );
-  if (refused) return { ok: false, field: "hourStart", reason: refused };
+  if (refused) return { ok: false, field: "intervalStart", reason: refused };
   const wrongSign = wrongSignError(args.meter, args.energyKwh);
   if (wrongSign) return { ok: false, field: "energyKwh", reason: wrongSign };
   // Raw SQL on a pg client: the interval and rollup writes ingest shares,
@@ -112,9 +114,14 @@ export async function editInterval(args: {
       client,
       args.organizationId,
       args.meter.id,
-      args.hourStart,
+      args.intervalStart,
     );
-    const jump = spikeJump(args.meter, args.energyKwh, history, args.hourStart);
+    const jump = spikeJump(
+      args.meter,
+      args.energyKwh,
+      history,
+      args.intervalStart,
+    );
     // Nothing written yet: returning commits an empty transaction.
     if (jump && !args.confirmedSpike)
       return {
@@ -124,25 +131,25 @@ export async function editInterval(args: {
         jump,
       };
     const flags = jump ? [CONFIRMED_SPIKE_FLAG] : [];
-    await ensurePartitions(client, args.hourStart, args.hourStart);
+    await ensurePartitions(client, args.intervalStart, args.intervalStart);
     const before = await client.query<{ energy_kwh: string; quality: string }>(
       `select energy_kwh::text, quality from intervals
-        where organization_id = $1 and meter_id = $2 and hour_start = $3 for update`,
-      [args.organizationId, args.meter.id, args.hourStart],
+        where organization_id = $1 and meter_id = $2 and interval_start = $3 for update`,
+      [args.organizationId, args.meter.id, args.intervalStart],
     );
     const previous = before.rows[0] ?? null;
     const energyKwh = args.energyKwh.toFixed(6);
     const hour = {
       organizationId: args.organizationId,
       meterId: args.meter.id,
-      hourStart: args.hourStart,
+      intervalStart: args.intervalStart,
     };
     const deltas = await writeEdit(client, hour, energyKwh, flags);
     await recordAuditWith(client, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
       action: "interval.edited",
-      subject: `${args.meter.id}@${args.hourStart.toISOString()}`,
+      subject: `${args.meter.id}@${args.intervalStart.toISOString()}`,
       details: {
         from: previous
           ? { energyKwh: previous.energy_kwh, quality: previous.quality }
@@ -165,7 +172,7 @@ export async function editInterval(args: {
 function auditedJump(jump: Jump) {
   return {
     confirmed: true,
-    typicalHourKwh: jump.typicalHourKwh.toFixed(6),
+    typicalIntervalKwh: jump.typicalIntervalKwh.toFixed(6),
     timesTypical: Number(jump.timesTypical.toFixed(1)),
     spikeFactor: jump.spikeFactor,
   };

@@ -6,9 +6,10 @@ import { intervals, meters, sites } from "~/db/schema";
 import { withTransaction } from "~/db/transaction.server";
 import { applyRollupDeltas } from "~/ledger/refresh-rollups.server";
 import { estimateGaps } from "./estimate";
+import { stepMsOf } from "./hours";
 import { ensurePartitions } from "./partitions.server";
 import { detectNegative, detectSpikes, expectedSign } from "./validate";
-import type { HourlyPoint, Quality } from "./series";
+import type { IntervalPoint, Quality } from "./series";
 import { writeIntervals } from "./write-intervals.server";
 import type { Orientation } from "~/sites/meter-kinds";
 
@@ -18,6 +19,7 @@ const PROFILE_WEEKS = 8;
 
 interface MeterFacts {
   timeZone: string;
+  intervalMinutes: number;
   spikeFactor: number;
   orientation: Orientation;
   carrier: string;
@@ -30,6 +32,7 @@ async function meterFacts(
   const [facts] = await db
     .select({
       timeZone: sites.timeZone,
+      intervalMinutes: meters.intervalMinutes,
       spikeFactor: meters.spikeFactor,
       orientation: meters.orientation,
       carrier: meters.carrier,
@@ -61,10 +64,10 @@ export async function windowFor(
     before: Date | null;
     after: Date | null;
   }>(
-    `select (select max(hour_start) from intervals where organization_id = $1 and meter_id = $2
-               and hour_start < $3 and quality in ('measured', 'edited')) as before,
-            (select min(hour_start) from intervals where organization_id = $1 and meter_id = $2
-               and hour_start > $4 and quality in ('measured', 'edited')) as after`,
+    `select (select max(interval_start) from intervals where organization_id = $1 and meter_id = $2
+               and interval_start < $3 and quality in ('measured', 'edited')) as before,
+            (select min(interval_start) from intervals where organization_id = $1 and meter_id = $2
+               and interval_start > $4 and quality in ('measured', 'edited')) as after`,
     [organizationId, meterId, from, to],
   );
   const start = new Date(
@@ -79,27 +82,27 @@ export async function loadSeries(
   start: Date,
   end: Date,
   db: Pool | PoolClient = pool,
-): Promise<HourlyPoint[]> {
+): Promise<IntervalPoint[]> {
   const { rows } = await db.query<{
-    hour_start: Date;
+    interval_start: Date;
     energy_kwh: string;
     quality: Quality;
     estimate_method: string | null;
   }>(
-    `select hour_start, energy_kwh, quality, estimate_method from intervals
-      where organization_id = $1 and meter_id = $2 and hour_start >= $3 and hour_start <= $4
-      order by hour_start`,
+    `select interval_start, energy_kwh, quality, estimate_method from intervals
+      where organization_id = $1 and meter_id = $2 and interval_start >= $3 and interval_start <= $4
+      order by interval_start`,
     [organizationId, meterId, start, end],
   );
   return rows.map((r) => ({
-    hourStart: r.hour_start,
+    intervalStart: r.interval_start,
     energyKwh: Number(r.energy_kwh),
     quality: r.quality,
     registerSpread: r.estimate_method === "register_spread",
   }));
 }
 
-type Estimate = { hourStart: Date; energyKwh: number; method: string };
+type Estimate = { intervalStart: Date; energyKwh: number; method: string };
 
 /**
  * Estimates go only where nothing known is stored (a measurement may have
@@ -113,7 +116,7 @@ async function storeEstimates(
 ): Promise<void> {
   if (estimates.length === 0) return;
   // A long gap has many hours: no spread into Math.min.
-  const times = estimates.map((e) => e.hourStart.getTime());
+  const times = estimates.map((e) => e.intervalStart.getTime());
   const first = new Date(times.reduce((a, b) => Math.min(a, b)));
   const last = new Date(times.reduce((a, b) => Math.max(a, b)));
   // Raw SQL: the same interval and rollup writes as ingest, which
@@ -125,7 +128,7 @@ async function storeEstimates(
               from unnest($3::timestamptz[], $4::numeric[], $5::text[]) as p(h, k, em)`,
       params: [
         meterId,
-        estimates.map((e) => e.hourStart),
+        estimates.map((e) => e.intervalStart),
         estimates.map((e) => e.energyKwh.toFixed(6)),
         estimates.map((e) => e.method),
       ],
@@ -144,8 +147,9 @@ async function storeEstimates(
 }
 
 /**
- * Fills the meter's gaps around a changed range with marked estimates and
- * flags spikes and wrong-sign hours. Measured and edited hours are never
+ * Fills the meter's gaps around a changed range with marked estimates, at
+ * the meter's resolution, and flags spikes (against its typical interval)
+ * and wrong-sign intervals. Measured and edited hours are never
  * overwritten; a later measurement replaces an estimate (store-readings).
  */
 export async function estimateMeter(
@@ -159,6 +163,7 @@ export async function estimateMeter(
   const { start, end } = await windowFor(organizationId, meterId, from, to);
   const series = await loadSeries(organizationId, meterId, start, end);
   const estimates = estimateGaps(series, {
+    stepMs: stepMsOf(facts),
     timeZone: facts.timeZone,
     profileWeeks: PROFILE_WEEKS,
   });
@@ -181,7 +186,7 @@ async function flagHours(
   organizationId: string,
   meterId: string,
   flag: string,
-  points: HourlyPoint[],
+  points: IntervalPoint[],
 ) {
   if (points.length === 0) return;
   await db
@@ -192,7 +197,7 @@ async function flagHours(
         eq(intervals.organizationId, organizationId),
         eq(intervals.meterId, meterId),
         // One array parameter, however many hours a long gap flags.
-        sql`${intervals.hourStart} = any(${sql.param(points.map((p) => p.hourStart))}::timestamptz[])`,
+        sql`${intervals.intervalStart} = any(${sql.param(points.map((p) => p.intervalStart))}::timestamptz[])`,
         not(arrayContains(intervals.flags, [flag])),
       ),
     );

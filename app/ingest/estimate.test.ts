@@ -2,7 +2,7 @@ import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { estimateGaps, interpolate } from "./estimate";
 import { HOUR_MS } from "./hours";
-import type { HourlyPoint, Quality } from "./series";
+import type { IntervalPoint, Quality } from "./series";
 
 // Check values are arithmetic on the definitions in estimate.ts: straight
 // lines between the neighbouring known hours, and the mean per weekday ×
@@ -12,9 +12,9 @@ const MONDAY = Date.UTC(2026, 0, 5);
 const at = (h: number) => new Date(MONDAY + h * HOUR_MS);
 
 function series(values: (number | null)[], quality: Quality = "measured") {
-  const out: HourlyPoint[] = [];
+  const out: IntervalPoint[] = [];
   values.forEach((v, h) => {
-    if (v !== null) out.push({ hourStart: at(h), energyKwh: v, quality });
+    if (v !== null) out.push({ intervalStart: at(h), energyKwh: v, quality });
   });
   return out;
 }
@@ -31,43 +31,43 @@ describe("estimateGaps: short gaps", () => {
   it("fills a short gap linearly between its neighbours", () => {
     const e = estimateGaps(series([10, null, null, 16]));
     expect(e).toEqual([
-      { hourStart: at(1), energyKwh: 12, method: "linear" },
-      { hourStart: at(2), energyKwh: 14, method: "linear" },
+      { intervalStart: at(1), energyKwh: 12, method: "linear" },
+      { intervalStart: at(2), energyKwh: 14, method: "linear" },
     ]);
   });
 
   it("treats hours marked missing like absent hours", () => {
-    const s: HourlyPoint[] = [
-      { hourStart: at(0), energyKwh: 1, quality: "measured" },
-      { hourStart: at(1), energyKwh: 0, quality: "missing" },
-      { hourStart: at(2), energyKwh: 3, quality: "measured" },
+    const s: IntervalPoint[] = [
+      { intervalStart: at(0), energyKwh: 1, quality: "measured" },
+      { intervalStart: at(1), energyKwh: 0, quality: "missing" },
+      { intervalStart: at(2), energyKwh: 3, quality: "measured" },
     ];
     expect(estimateGaps(s)).toEqual([
-      { hourStart: at(1), energyKwh: 2, method: "linear" },
+      { intervalStart: at(1), energyKwh: 2, method: "linear" },
     ]);
   });
 
   it("re-estimates old estimates, never measured or edited hours", () => {
-    const s: HourlyPoint[] = [
-      { hourStart: at(0), energyKwh: 1, quality: "measured" },
-      { hourStart: at(1), energyKwh: 99, quality: "estimated" },
-      { hourStart: at(2), energyKwh: 5, quality: "edited" },
-      { hourStart: at(3), energyKwh: 0, quality: "missing" },
-      { hourStart: at(4), energyKwh: 7, quality: "measured" },
+    const s: IntervalPoint[] = [
+      { intervalStart: at(0), energyKwh: 1, quality: "measured" },
+      { intervalStart: at(1), energyKwh: 99, quality: "estimated" },
+      { intervalStart: at(2), energyKwh: 5, quality: "edited" },
+      { intervalStart: at(3), energyKwh: 0, quality: "missing" },
+      { intervalStart: at(4), energyKwh: 7, quality: "measured" },
     ];
     expect(estimateGaps(s)).toEqual([
-      { hourStart: at(1), energyKwh: 3, method: "linear" },
-      { hourStart: at(3), energyKwh: 6, method: "linear" },
+      { intervalStart: at(1), energyKwh: 3, method: "linear" },
+      { intervalStart: at(3), energyKwh: 6, method: "linear" },
     ]);
   });
 
   it("leaves hours before the first and after the last known hour", () => {
-    const s: HourlyPoint[] = [
-      { hourStart: at(0), energyKwh: 0, quality: "missing" },
+    const s: IntervalPoint[] = [
+      { intervalStart: at(0), energyKwh: 0, quality: "missing" },
       ...series([null, 4, null, 6]),
-      { hourStart: at(4), energyKwh: 0, quality: "missing" },
+      { intervalStart: at(4), energyKwh: 0, quality: "missing" },
     ];
-    expect(estimateGaps(s).map((e) => e.hourStart)).toEqual([at(2)]);
+    expect(estimateGaps(s).map((e) => e.intervalStart)).toEqual([at(2)]);
   });
 
   it("accepts the series in any order", () => {
@@ -94,7 +94,7 @@ describe("estimateGaps: long gaps", () => {
     expect(e).toHaveLength(119);
     expect(e.every((x) => x.method === "profile")).toBe(true);
     for (const x of e) {
-      const h = (x.hourStart.getTime() - MONDAY) / HOUR_MS;
+      const h = (x.intervalStart.getTime() - MONDAY) / HOUR_MS;
       expect(x.energyKwh).toBe(officeValue(h));
     }
   });
@@ -120,19 +120,19 @@ describe("estimateGaps: long gaps", () => {
   it("falls back to all the data when the recent weeks lack the slot", () => {
     // Only Monday 09:00 of week 0 is known before the gap; week 5 has data.
     const s = [
-      { hourStart: at(9), energyKwh: 7, quality: "measured" as const },
+      { intervalStart: at(9), energyKwh: 7, quality: "measured" as const },
       {
-        hourStart: at(3 * 168 + 8),
+        intervalStart: at(3 * 168 + 8),
         energyKwh: 1,
         quality: "measured" as const,
       },
       {
-        hourStart: at(5 * 168 + 9),
+        intervalStart: at(5 * 168 + 9),
         energyKwh: 9,
         quality: "measured" as const,
       },
       {
-        hourStart: at(5 * 168 + 10),
+        intervalStart: at(5 * 168 + 10),
         energyKwh: 1,
         quality: "measured" as const,
       },
@@ -141,16 +141,16 @@ describe("estimateGaps: long gaps", () => {
     // Monday 09:00 of week 4 falls in the long gap between hours 3·168+8 and
     // 5·168+9: no Monday 09:00 in the week before, so all data: (7 + 9) / 2.
     const monday9 = e.find(
-      (x) => x.hourStart.getTime() === at(4 * 168 + 9).getTime(),
+      (x) => x.intervalStart.getTime() === at(4 * 168 + 9).getTime(),
     );
     expect(monday9).toEqual({
-      hourStart: at(4 * 168 + 9),
+      intervalStart: at(4 * 168 + 9),
       energyKwh: 8,
       method: "profile",
     });
     // A slot never seen anywhere falls back to the straight line.
     const other = e.find(
-      (x) => x.hourStart.getTime() === at(4 * 168 + 11).getTime(),
+      (x) => x.intervalStart.getTime() === at(4 * 168 + 11).getTime(),
     );
     expect(other?.method).toBe("linear");
   });
@@ -159,16 +159,16 @@ describe("estimateGaps: long gaps", () => {
     // Two weeks in July where 10 kWh flows at 09:00 London time (08:00 UTC),
     // then a 30-hour gap: the estimate is 10 at 08:00 UTC, not 09:00 UTC.
     const start = Date.UTC(2026, 6, 6); // Monday 6 July 2026
-    const s: HourlyPoint[] = [];
+    const s: IntervalPoint[] = [];
     for (let h = 0; h < 3 * 168; h++) {
       if (h > 2 * 168 && h < 2 * 168 + 31) continue;
       const t = new Date(start + h * HOUR_MS);
       const v = t.getUTCHours() === 8 ? 10 : 1;
-      s.push({ hourStart: t, energyKwh: v, quality: "measured" });
+      s.push({ intervalStart: t, energyKwh: v, quality: "measured" });
     }
     const e = estimateGaps(s, { timeZone: "Europe/London" });
-    const eight = e.find((x) => x.hourStart.getUTCHours() === 8);
-    const nine = e.find((x) => x.hourStart.getUTCHours() === 9);
+    const eight = e.find((x) => x.intervalStart.getUTCHours() === 8);
+    const nine = e.find((x) => x.intervalStart.getUTCHours() === 9);
     expect(eight?.energyKwh).toBe(10);
     expect(nine?.energyKwh).toBe(1);
   });
@@ -201,10 +201,14 @@ const cell = fc.record({
 });
 
 function seriesOf(cells: { value: number; quality: Quality | "absent" }[]) {
-  const out: HourlyPoint[] = [];
+  const out: IntervalPoint[] = [];
   cells.forEach((c, h) => {
     if (c.quality !== "absent") {
-      out.push({ hourStart: at(h), energyKwh: c.value, quality: c.quality });
+      out.push({
+        intervalStart: at(h),
+        energyKwh: c.value,
+        quality: c.quality,
+      });
     }
   });
   return out;
@@ -223,7 +227,9 @@ describe("estimateGaps: properties", () => {
             )
             .filter((h) => h >= 0);
           const e = estimateGaps(seriesOf(cells), { shortGapMaxHours });
-          const got = e.map((x) => (x.hourStart.getTime() - MONDAY) / HOUR_MS);
+          const got = e.map(
+            (x) => (x.intervalStart.getTime() - MONDAY) / HOUR_MS,
+          );
           const expected: number[] = [];
           if (known.length > 0) {
             const knownSet = new Set(known);
@@ -246,14 +252,14 @@ describe("estimateGaps: properties", () => {
         for (const p of s) {
           if (p.quality === "measured" || p.quality === "edited") {
             knownAt.set(
-              (p.hourStart.getTime() - MONDAY) / HOUR_MS,
+              (p.intervalStart.getTime() - MONDAY) / HOUR_MS,
               p.energyKwh,
             );
           }
         }
         const e = estimateGaps(s, { shortGapMaxHours: 1000 });
         for (const x of e) {
-          const h = (x.hourStart.getTime() - MONDAY) / HOUR_MS;
+          const h = (x.intervalStart.getTime() - MONDAY) / HOUR_MS;
           let lo = h - 1;
           while (!knownAt.has(lo)) lo--;
           let hi = h + 1;

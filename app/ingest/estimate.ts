@@ -1,14 +1,18 @@
-// Estimates for the missing hours of one meter's hourly series. Short gaps
-// are bridged in a straight line between the known hours on either side;
-// long gaps take the meter's own weekly shape (weekday × local hour), because
-// a straight line across several days would erase nights and weekends.
+// Estimates for the missing intervals of one meter's series, at the meter's
+// own resolution (15, 30 or 60 minutes: a gap is a run of missing intervals
+// of that length). Short gaps are bridged in a straight line between the
+// known intervals on either side; long gaps take the meter's own weekly
+// shape (weekday × local interval of the day), because a straight line
+// across several days would erase nights and weekends.
 
-import { HOUR_MS, floorToHour } from "./hours";
-import { weekHourSlot } from "./local-time";
+import { HOUR_MS, floorToStep } from "./hours";
+import { weekSlot } from "./local-time";
 import { knownPoints } from "./series";
-import type { HourlyPoint } from "./series";
+import type { IntervalPoint } from "./series";
 
 export interface EstimateOptions {
+  /** The meter's interval length in ms (an hour if left out). */
+  stepMs?: number;
   /** Gaps of at most this many hours are interpolated linearly. */
   shortGapMaxHours?: number;
   /** IANA zone of the site: occupancy follows local time, not UTC. */
@@ -18,7 +22,7 @@ export interface EstimateOptions {
 }
 
 export interface Estimate {
-  hourStart: Date;
+  intervalStart: Date;
   energyKwh: number;
   method: "linear" | "profile";
 }
@@ -31,6 +35,7 @@ interface Anchor {
 }
 
 interface Resolved {
+  stepMs: number;
   shortGapMaxHours: number;
   timeZone: string;
   profileWeeks: number;
@@ -38,6 +43,7 @@ interface Resolved {
 
 function resolve(options: EstimateOptions): Resolved {
   const r = {
+    stepMs: options.stepMs ?? HOUR_MS,
     shortGapMaxHours: options.shortGapMaxHours ?? 6,
     timeZone: options.timeZone ?? "UTC",
     profileWeeks: options.profileWeeks ?? 8,
@@ -45,30 +51,33 @@ function resolve(options: EstimateOptions): Resolved {
   if (!(r.shortGapMaxHours >= 0)) {
     throw new RangeError("shortGapMaxHours must be 0 or more");
   }
+  if (!(r.stepMs > 0) || HOUR_MS % r.stepMs !== 0) {
+    throw new RangeError("stepMs must divide an hour");
+  }
   if (!(r.profileWeeks > 0)) {
     throw new RangeError("profileWeeks must be greater than 0");
   }
   return r;
 }
 
-// One anchor per UTC hour; if a series repeats an hour, the later entry wins
-// (a re-sent reading replaces the earlier one).
-function anchorsOf(series: readonly HourlyPoint[]): Anchor[] {
+// One anchor per interval; if a series repeats an interval, the later entry
+// wins (a re-sent reading replaces the earlier one).
+function anchorsOf(series: readonly IntervalPoint[], stepMs: number): Anchor[] {
   const byHour = new Map<number, number>();
   for (const p of knownPoints(series)) {
-    byHour.set(floorToHour(p.hourStart).getTime(), p.energyKwh);
+    byHour.set(floorToStep(p.intervalStart, stepMs).getTime(), p.energyKwh);
   }
   return [...byHour.entries()]
     .sort((a, b) => a[0] - b[0])
     .map(([t, value]) => ({ t, value }));
 }
 
-/** Straight line between two known hours, at hour k of the n missing ones. */
+/** Straight line between two known intervals, at k of the n missing ones. */
 export function interpolate(a: number, b: number, k: number, n: number) {
   return a + ((b - a) * k) / (n + 1);
 }
 
-/** Weekly profile: mean value per weekday × local hour slot (0–167). */
+/** Weekly profile: mean value per weekday × local interval of the day. */
 class Profiles {
   private slots: number[] | undefined;
 
@@ -80,15 +89,14 @@ class Profiles {
   // Local slots cost an Intl call each: computed once, and only when a long
   // gap needs them.
   private slotOf(i: number): number {
-    this.slots ??= this.anchors.map((a) =>
-      weekHourSlot(new Date(a.t), this.o.timeZone),
-    );
+    this.slots ??= this.anchors.map((a) => this.slotAt(a.t));
     return this.slots[i];
   }
 
   means(fromT: number, toT: number): (number | undefined)[] {
-    const sum = new Array<number>(168).fill(0);
-    const count = new Array<number>(168).fill(0);
+    const slots = (7 * 24 * HOUR_MS) / this.o.stepMs;
+    const sum = new Array<number>(slots).fill(0);
+    const count = new Array<number>(slots).fill(0);
     for (let i = 0; i < this.anchors.length; i++) {
       const t = this.anchors[i].t;
       if (t < fromT || t >= toT) continue;
@@ -99,15 +107,20 @@ class Profiles {
   }
 
   slotAt(t: number): number {
-    return weekHourSlot(new Date(t), this.o.timeZone);
+    return weekSlot(new Date(t), this.o.timeZone, this.o.stepMs / 60_000);
   }
 }
 
-function fillShort(a: Anchor, b: Anchor, n: number): Estimate[] {
+function fillShort(
+  a: Anchor,
+  b: Anchor,
+  n: number,
+  stepMs: number,
+): Estimate[] {
   const out: Estimate[] = [];
   for (let k = 1; k <= n; k++) {
     out.push({
-      hourStart: new Date(a.t + k * HOUR_MS),
+      intervalStart: new Date(a.t + k * stepMs),
       energyKwh: interpolate(a.value, b.value, k, n),
       method: "linear",
     });
@@ -124,12 +137,12 @@ function fillLong(
   profiles: Profiles,
   o: Resolved,
 ): Estimate[] {
-  const gapStart = a.t + HOUR_MS;
+  const gapStart = a.t + o.stepMs;
   const recent = profiles.means(gapStart - o.profileWeeks * WEEK_MS, gapStart);
   let overall: (number | undefined)[] | undefined;
   const out: Estimate[] = [];
   for (let k = 1; k <= n; k++) {
-    const t = a.t + k * HOUR_MS;
+    const t = a.t + k * o.stepMs;
     const slot = profiles.slotAt(t);
     let value = recent[slot];
     if (value === undefined) {
@@ -139,40 +152,43 @@ function fillLong(
     out.push(
       value === undefined
         ? {
-            hourStart: new Date(t),
+            intervalStart: new Date(t),
             energyKwh: interpolate(a.value, b.value, k, n),
             method: "linear",
           }
-        : { hourStart: new Date(t), energyKwh: value, method: "profile" },
+        : { intervalStart: new Date(t), energyKwh: value, method: "profile" },
     );
   }
   return out;
 }
 
 /**
- * Estimates every hour strictly between the first and the last known hour
- * (measured or edited) that has no known value. Known hours are never
- * estimated over; hours after the last known hour are left alone, since a
- * silent meter may yet send them. Known hours also anchor the straight lines
- * and make up the profile: an edited value is a person's correction of a
- * measurement and is the better number for that hour.
+ * Estimates every interval strictly between the first and the last known
+ * one (measured or edited) that has no known value, at the meter's
+ * resolution (`stepMs`). Known intervals are never estimated over; intervals
+ * after the last known one are left alone, since a silent meter may yet
+ * send them. Known intervals also anchor the straight lines and make up the
+ * profile: an edited value is a person's correction of a measurement and is
+ * the better number for that interval. A short gap is one of at most
+ * `shortGapMaxHours` hours, whatever the resolution.
  */
 export function estimateGaps(
-  series: readonly HourlyPoint[],
+  series: readonly IntervalPoint[],
   options: EstimateOptions = {},
 ): Estimate[] {
   const o = resolve(options);
-  const anchors = anchorsOf(series);
+  const anchors = anchorsOf(series, o.stepMs);
+  const shortGapMax = Math.floor((o.shortGapMaxHours * HOUR_MS) / o.stepMs);
   const profiles = new Profiles(anchors, o);
   const out: Estimate[] = [];
   for (let i = 1; i < anchors.length; i++) {
     const a = anchors[i - 1];
     const b = anchors[i];
-    const n = Math.round((b.t - a.t) / HOUR_MS) - 1;
+    const n = Math.round((b.t - a.t) / o.stepMs) - 1;
     if (n < 1) continue;
     const filled =
-      n <= o.shortGapMaxHours
-        ? fillShort(a, b, n)
+      n <= shortGapMax
+        ? fillShort(a, b, n, o.stepMs)
         : fillLong(a, b, n, profiles, o);
     // A loop, not push(...filled): a gap of months would exceed the
     // engine's argument limit.

@@ -4,11 +4,11 @@ import {
   HOUR_MS,
   addHours,
   floorToHour,
-  hourStartsBetween,
+  intervalStartsBetween,
   hoursBetween,
   nextFloat,
-  splitAcrossHours,
-  sumByHour,
+  splitAcrossIntervals,
+  sumByInterval,
   ulp,
 } from "./hours";
 
@@ -45,7 +45,7 @@ describe("floorToHour and hoursBetween", () => {
   });
 
   it("lists the hour starts overlapping [from, to)", () => {
-    const hours = hourStartsBetween(
+    const hours = intervalStartsBetween(
       t("2026-01-01T00:30:00Z"),
       t("2026-01-01T03:00:00Z"),
     );
@@ -58,20 +58,20 @@ describe("floorToHour and hoursBetween", () => {
   });
 });
 
-describe("splitAcrossHours", () => {
+describe("splitAcrossIntervals", () => {
   it("gives a reading inside one hour wholly to that hour", () => {
-    const pieces = splitAcrossHours(
+    const pieces = splitAcrossIntervals(
       t("2026-01-01T10:05:00Z"),
       t("2026-01-01T10:20:00Z"),
       3.7,
     );
     expect(pieces).toEqual([
-      { hourStart: t("2026-01-01T10:00:00Z"), energyKwh: 3.7 },
+      { intervalStart: t("2026-01-01T10:00:00Z"), energyKwh: 3.7 },
     ]);
   });
 
   it("keeps an hourly reading in its own hour (end on the boundary)", () => {
-    const pieces = splitAcrossHours(
+    const pieces = splitAcrossIntervals(
       t("2026-01-01T10:00:00Z"),
       t("2026-01-01T11:00:00Z"),
       5,
@@ -81,12 +81,12 @@ describe("splitAcrossHours", () => {
 
   it("splits pro rata by time: 90 min of 30 kWh → 10 + 20", () => {
     // 10:30–12:00 = 90 min: 30 min in hour 10 (1/3), 60 min in hour 11.
-    const pieces = splitAcrossHours(
+    const pieces = splitAcrossIntervals(
       t("2026-01-01T10:30:00Z"),
       t("2026-01-01T12:00:00Z"),
       30,
     );
-    expect(pieces.map((p) => p.hourStart.toISOString())).toEqual([
+    expect(pieces.map((p) => p.intervalStart.toISOString())).toEqual([
       "2026-01-01T10:00:00.000Z",
       "2026-01-01T11:00:00.000Z",
     ]);
@@ -95,7 +95,7 @@ describe("splitAcrossHours", () => {
   });
 
   it("splits negative energy (chilled water) with the same sign", () => {
-    const pieces = splitAcrossHours(
+    const pieces = splitAcrossIntervals(
       t("2026-07-01T00:00:00Z"),
       t("2026-07-01T04:00:00Z"),
       -8,
@@ -107,7 +107,7 @@ describe("splitAcrossHours", () => {
     // 7347.29 kWh over 00:30–01:54: 30/84 and 54/84 of it. Found by search:
     // the unsnapped pieces 2624.032142857143 + (7347.29 − that) add up to
     // 7347.290000000001 in floating point.
-    const pieces = splitAcrossHours(
+    const pieces = splitAcrossIntervals(
       t("2026-01-01T00:30:00Z"),
       t("2026-01-01T01:54:00Z"),
       7347.29,
@@ -118,13 +118,15 @@ describe("splitAcrossHours", () => {
 
   it("throws on a zero-length or reversed reading", () => {
     const a = t("2026-01-01T10:00:00Z");
-    expect(() => splitAcrossHours(a, a, 1)).toThrow(RangeError);
-    expect(() => splitAcrossHours(addHours(a, 1), a, 1)).toThrow(/after/);
+    expect(() => splitAcrossIntervals(a, a, 1)).toThrow(RangeError);
+    expect(() => splitAcrossIntervals(addHours(a, 1), a, 1)).toThrow(/after/);
   });
 
   it("throws on a non-finite energy", () => {
     const a = t("2026-01-01T10:00:00Z");
-    expect(() => splitAcrossHours(a, addHours(a, 1), NaN)).toThrow(RangeError);
+    expect(() => splitAcrossIntervals(a, addHours(a, 1), NaN)).toThrow(
+      RangeError,
+    );
   });
 
   it("property: the pieces, added in order, equal the input exactly", () => {
@@ -141,17 +143,20 @@ describe("splitAcrossHours", () => {
         (offset, length, energy) => {
           const start = new Date(base + offset);
           const end = new Date(base + offset + length);
-          const pieces = splitAcrossHours(start, end, energy);
+          const pieces = splitAcrossIntervals(start, end, energy);
           // + 0 folds −0 into 0: the sum of pieces starts from +0.
           expect(sumInOrder(pieces) + 0).toBe(energy + 0);
           // One piece per overlapped hour, consecutive, none outside.
-          expect(pieces[0].hourStart).toEqual(floorToHour(start));
+          expect(pieces[0].intervalStart).toEqual(floorToHour(start));
           for (let i = 1; i < pieces.length; i++) {
             expect(
-              hoursBetween(pieces[i - 1].hourStart, pieces[i].hourStart),
+              hoursBetween(
+                pieces[i - 1].intervalStart,
+                pieces[i].intervalStart,
+              ),
             ).toBe(1);
           }
-          expect(pieces.at(-1)!.hourStart.getTime()).toBeLessThan(
+          expect(pieces.at(-1)!.intervalStart.getTime()).toBeLessThan(
             end.getTime(),
           );
         },
@@ -168,7 +173,7 @@ describe("splitAcrossHours", () => {
         (length, energy) => {
           const start = t("2026-05-05T05:17:00Z");
           const end = new Date(start.getTime() + length);
-          for (const p of splitAcrossHours(start, end, energy)) {
+          for (const p of splitAcrossIntervals(start, end, energy)) {
             expect(p.energyKwh).toBeGreaterThanOrEqual(0);
           }
         },
@@ -194,19 +199,19 @@ describe("nextFloat", () => {
   });
 });
 
-describe("sumByHour", () => {
+describe("sumByInterval", () => {
   it("adds pieces of the same hour and sorts by hour", () => {
     const h1 = t("2026-01-01T01:00:00Z");
     const h0 = t("2026-01-01T00:00:00Z");
     expect(
-      sumByHour([
-        { hourStart: h1, energyKwh: 1 },
-        { hourStart: h0, energyKwh: 2 },
-        { hourStart: h1, energyKwh: 3 },
+      sumByInterval([
+        { intervalStart: h1, energyKwh: 1 },
+        { intervalStart: h0, energyKwh: 2 },
+        { intervalStart: h1, energyKwh: 3 },
       ]),
     ).toEqual([
-      { hourStart: h0, energyKwh: 2 },
-      { hourStart: h1, energyKwh: 4 },
+      { intervalStart: h0, energyKwh: 2 },
+      { intervalStart: h1, energyKwh: 4 },
     ]);
   });
 });

@@ -1,17 +1,28 @@
-// Hour arithmetic on UTC hours, and the split of a reading's energy into the
-// hours it covers. UTC hours have no daylight-saving folds, so an hourly
-// interval is always 3 600 000 ms long; local time matters only for
-// profiles and reports (see local-time.ts).
+// Arithmetic on a meter's UTC intervals (15, 30 or 60 minutes: `stepMs`,
+// an hour unless said), and the split of a reading's energy into the
+// intervals it covers. UTC has no daylight-saving folds, so an interval is
+// always exactly its length and starts on a multiple of it; local time
+// matters only for profiles and reports (see local-time.ts).
 
 export const HOUR_MS = 3_600_000;
 
-export interface HourPiece {
-  hourStart: Date;
+/** A meter's interval length in ms, from its interval_minutes. */
+export function stepMsOf(meter: { intervalMinutes: number }): number {
+  return meter.intervalMinutes * 60_000;
+}
+
+export interface IntervalPiece {
+  intervalStart: Date;
   energyKwh: number;
 }
 
+/** The start of the interval of length `stepMs` that holds `d`. */
+export function floorToStep(d: Date, stepMs: number): Date {
+  return new Date(Math.floor(d.getTime() / stepMs) * stepMs);
+}
+
 export function floorToHour(d: Date): Date {
-  return new Date(Math.floor(d.getTime() / HOUR_MS) * HOUR_MS);
+  return floorToStep(d, HOUR_MS);
 }
 
 /** (b − a) in hours; fractional and signed, like b − a itself. */
@@ -23,10 +34,18 @@ export function addHours(d: Date, hours: number): Date {
   return new Date(d.getTime() + hours * HOUR_MS);
 }
 
-/** The starts of the UTC hours that overlap [from, to), in order. */
-export function hourStartsBetween(from: Date, to: Date): Date[] {
+/** The starts of the intervals that overlap [from, to), in order. */
+export function intervalStartsBetween(
+  from: Date,
+  to: Date,
+  stepMs = HOUR_MS,
+): Date[] {
   const out: Date[] = [];
-  for (let t = floorToHour(from).getTime(); t < to.getTime(); t += HOUR_MS) {
+  for (
+    let t = floorToStep(from, stepMs).getTime();
+    t < to.getTime();
+    t += stepMs
+  ) {
     out.push(new Date(t));
   }
   return out;
@@ -39,42 +58,43 @@ function requireInterval(start: Date, end: Date): void {
   if (end.getTime() <= start.getTime()) {
     throw new RangeError(
       `end ${end.toISOString()} must be after start ${start.toISOString()}: ` +
-        `a reading without duration cannot be placed in an hour`,
+        `a reading without duration cannot be placed in an interval`,
     );
   }
 }
 
 /**
- * Splits a reading's energy over the UTC hours it covers, pro rata by time
- * (the meter cannot tell when inside the interval the energy flowed, so an
- * even rate is the least-assuming choice). A reading inside one hour goes
- * wholly to that hour. The last piece takes the rounding remainder, so that
- * adding the pieces in order gives back the input exactly.
+ * Splits a reading's energy over the intervals of `stepMs` it covers, pro
+ * rata by time (the meter cannot tell when inside the reading the energy
+ * flowed, so an even rate is the least-assuming choice). A reading inside
+ * one interval goes wholly to it. The last piece takes the rounding
+ * remainder, so that adding the pieces in order gives back the input exactly.
  */
-export function splitAcrossHours(
+export function splitAcrossIntervals(
   start: Date,
   end: Date,
   energyKwh: number,
-): HourPiece[] {
+  stepMs = HOUR_MS,
+): IntervalPiece[] {
   requireInterval(start, end);
   if (!Number.isFinite(energyKwh)) {
     throw new RangeError(`energy must be a finite number, got ${energyKwh}`);
   }
   const s = start.getTime();
   const e = end.getTime();
-  const hours = hourStartsBetween(start, end);
+  const hours = intervalStartsBetween(start, end, stepMs);
   const grain = ulp(energyKwh);
-  const pieces: HourPiece[] = [];
+  const pieces: IntervalPiece[] = [];
   let sum = 0;
   for (let i = 0; i < hours.length - 1; i++) {
     const h = hours[i].getTime();
-    const overlap = Math.min(e, h + HOUR_MS) - Math.max(s, h);
+    const overlap = Math.min(e, h + stepMs) - Math.max(s, h);
     const piece = snap((energyKwh * overlap) / (e - s), grain);
-    pieces.push({ hourStart: hours[i], energyKwh: piece });
+    pieces.push({ intervalStart: hours[i], energyKwh: piece });
     sum += piece;
   }
   pieces.push({
-    hourStart: hours[hours.length - 1],
+    intervalStart: hours[hours.length - 1],
     energyKwh: energyKwh - sum,
   });
   return pieces;
@@ -108,14 +128,16 @@ export function nextFloat(x: number, direction: 1 | -1): number {
   return scratch.getFloat64(0);
 }
 
-/** Adds pieces that fall in the same hour; the result is sorted by hour. */
-export function sumByHour(pieces: readonly HourPiece[]): HourPiece[] {
+/** Adds pieces that fall in the same interval; the result is sorted by start. */
+export function sumByInterval(
+  pieces: readonly IntervalPiece[],
+): IntervalPiece[] {
   const byHour = new Map<number, number>();
   for (const p of pieces) {
-    const t = p.hourStart.getTime();
+    const t = p.intervalStart.getTime();
     byHour.set(t, (byHour.get(t) ?? 0) + p.energyKwh);
   }
   return [...byHour.entries()]
     .sort((a, b) => a[0] - b[0])
-    .map(([t, energyKwh]) => ({ hourStart: new Date(t), energyKwh }));
+    .map(([t, energyKwh]) => ({ intervalStart: new Date(t), energyKwh }));
 }

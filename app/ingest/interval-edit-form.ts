@@ -1,5 +1,5 @@
 /**
- * The form that corrects one hour of a meter: what it posts and what the
+ * The form that corrects one interval of a meter: what it posts and what the
  * action answers. Plain module: the route's action parses with it, the
  * Readings page's edit panel reads the answer.
  */
@@ -7,9 +7,9 @@ import { z } from "zod";
 
 export const editSchema = z.strictObject({
   intent: z.literal("edit"),
-  hourStart: z.iso.datetime({
+  intervalStart: z.iso.datetime({
     offset: true,
-    error: "Choose an hour in the table.",
+    error: "Choose an interval in the table.",
   }),
   energyKwh: z
     .string()
@@ -42,7 +42,7 @@ export const editSchema = z.strictObject({
 
 export type EditAnswer = {
   errors: Record<string, string>;
-  saved: { hourStart: string; flags: string[] } | null;
+  saved: { intervalStart: string; flags: string[] } | null;
   /** The value to confirm, when it lies far outside the meter's history. */
-  confirm: { hourStart: string; energyKwh: string } | null;
+  confirm: { intervalStart: string; energyKwh: string } | null;
 };

@@ -8,12 +8,9 @@ import { isRegisterQuantity } from "./reading-schema";
 
 export const INTERVAL_ENERGY = "interval_energy";
 
-/**
- * A meter's interval length. Every meter records hours today; when meters
- * get a resolution column (15, 30 or 60 minutes) this reads it.
- */
-export function resolutionMinutes(_meter: object): number {
-  return 60;
+/** A meter's interval length: its resolution column (15, 30 or 60 minutes). */
+export function resolutionMinutes(meter: { intervalMinutes: number }): number {
+  return meter.intervalMinutes;
 }
 
 function utcClock(at: Date): string {

@@ -1,7 +1,7 @@
 import { and, eq, gte, lt, max, sql } from "drizzle-orm";
 import type { Interval } from "./interval-schema";
 import { db } from "~/db/client.server";
-import { intervals } from "~/db/schema";
+import { intervals, meters } from "~/db/schema";
 
 function ofMeter(args: { organizationId: string; meterId: string }) {
   return and(
@@ -10,7 +10,14 @@ function ofMeter(args: { organizationId: string; meterId: string }) {
   );
 }
 
-/** One meter's hourly intervals in [from, to), oldest first. */
+// The API's instant: UTC, to the second, with its Z.
+const isoUtc = (instant: ReturnType<typeof sql>) =>
+  sql<string>`to_char((${instant}) at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`;
+
+/**
+ * One meter's intervals in [from, to) at its own resolution, oldest first;
+ * each ends its meter's interval_minutes after it starts.
+ */
 export async function listIntervals(args: {
   organizationId: string;
   meterId: string;
@@ -19,8 +26,10 @@ export async function listIntervals(args: {
 }): Promise<Interval[]> {
   return db
     .select({
-      // The API's instant: UTC, to the second, with its Z.
-      hour_start: sql<string>`to_char(${intervals.hourStart} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`,
+      start: isoUtc(sql`${intervals.intervalStart}`),
+      end: isoUtc(
+        sql`${intervals.intervalStart} + ${meters.intervalMinutes} * interval '1 minute'`,
+      ),
       energy_kwh: intervals.energyKwh,
       quality: intervals.quality,
       flags: intervals.flags,
@@ -28,14 +37,21 @@ export async function listIntervals(args: {
       source_count: sql<number>`cardinality(${intervals.sourceReadingTimes})`,
     })
     .from(intervals)
+    .innerJoin(
+      meters,
+      and(
+        eq(meters.organizationId, intervals.organizationId),
+        eq(meters.id, intervals.meterId),
+      ),
+    )
     .where(
       and(
         ofMeter(args),
-        gte(intervals.hourStart, args.from),
-        lt(intervals.hourStart, args.to),
+        gte(intervals.intervalStart, args.from),
+        lt(intervals.intervalStart, args.to),
       ),
     )
-    .orderBy(intervals.hourStart);
+    .orderBy(intervals.intervalStart);
 }
 
 export async function latestIntervalHour(args: {
@@ -43,7 +59,7 @@ export async function latestIntervalHour(args: {
   meterId: string;
 }): Promise<Date | null> {
   const [row] = await db
-    .select({ latest: max(intervals.hourStart) })
+    .select({ latest: max(intervals.intervalStart) })
     .from(intervals)
     .where(ofMeter(args));
   return row?.latest ?? null;

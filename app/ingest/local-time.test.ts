@@ -16,6 +16,7 @@ describe("localParts", () => {
       day: 5,
       weekday: 1,
       hour: 8,
+      minute: 0,
     });
   });
 

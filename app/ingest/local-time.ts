@@ -12,6 +12,8 @@ export interface LocalParts {
   weekday: number;
   /** 0–23 */
   hour: number;
+  /** 0–59 (zones such as Asia/Kolkata are offset by half an hour). */
+  minute: number;
 }
 
 const WEEKDAY: Record<string, number> = {
@@ -39,6 +41,7 @@ function formatterFor(timeZone: string): Intl.DateTimeFormat {
       day: "numeric",
       weekday: "short",
       hour: "numeric",
+      minute: "numeric",
       hourCycle: "h23",
     });
     formatters.set(timeZone, f);
@@ -57,7 +60,22 @@ export function localParts(d: Date, timeZone: string): LocalParts {
     day: Number(fields.day),
     weekday: WEEKDAY[fields.weekday],
     hour: Number(fields.hour),
+    minute: Number(fields.minute),
   };
+}
+
+/**
+ * The slot of a weekly profile for intervals of `minutes`: (weekday − 1) ×
+ * intervals per day + the local interval of the day. For hours, 0–167; for
+ * half-hours, 0–335. On a daylight-saving day the local clock repeats or
+ * skips an hour, and so do these slots, as the site's own week does.
+ */
+export function weekSlot(d: Date, timeZone: string, minutes = 60): number {
+  const p = localParts(d, timeZone);
+  const perDay = (24 * 60) / minutes;
+  return (
+    (p.weekday - 1) * perDay + Math.floor((p.hour * 60 + p.minute) / minutes)
+  );
 }
 
 /** 0–167: (weekday − 1) × 24 + hour, the slot of a weekly profile. */

@@ -17,6 +17,7 @@ export async function findMetersByCode(
       quantity: meters.quantity,
       carrier: meters.carrier,
       orientation: meters.orientation,
+      intervalMinutes: meters.intervalMinutes,
       multiplier: meters.multiplier,
       rolloverKwh: meters.rolloverKwh,
       sensorAt: meters.sensorAt,

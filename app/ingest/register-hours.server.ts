@@ -1,11 +1,12 @@
 /**
- * Register reads → hours. A register read changes the deltas on both sides
- * of it, so the hours between its neighbours are recomputed from all reads
- * that touch them (late reads included) and replaced, not added.
+ * Register reads → the meter's intervals (15, 30 or 60 minutes). A register
+ * read changes the deltas on both sides of it, so the intervals between its
+ * neighbours are recomputed from all reads that touch them (late reads
+ * included) and replaced, not added.
  */
 import type { PoolClient } from "pg";
 import type { RollupDelta } from "~/ledger/refresh-rollups.server";
-import { splitAcrossHours, floorToHour, HOUR_MS } from "./hours";
+import { floorToStep, splitAcrossIntervals, stepMsOf } from "./hours";
 import { siteSign, type PreparedReading } from "./prepare-readings.server";
 import { registerDeltas } from "./register-series";
 import { writeIntervals } from "./write-intervals.server";
@@ -90,7 +91,7 @@ async function readsAround(
   }));
 }
 
-/** The recomputed hours in [from, to), keyed by hour start (ms). */
+/** The recomputed intervals in [from, to), keyed by interval start (ms). */
 function hoursFromDeltas(
   meter: Meter,
   deltas: ReturnType<typeof registerDeltas>,
@@ -98,11 +99,18 @@ function hoursFromDeltas(
   to: Date,
 ): Map<number, RegisterHour> {
   const sign = siteSign(meter);
+  const stepMs = stepMsOf(meter);
   const hours = new Map<number, RegisterHour>();
   for (const d of deltas) {
-    const spread = d.to.getTime() - d.from.getTime() > HOUR_MS;
-    for (const piece of splitAcrossHours(d.from, d.to, d.energyKwh * sign)) {
-      const t = piece.hourStart.getTime();
+    const spread = d.to.getTime() - d.from.getTime() > stepMs;
+    const pieces = splitAcrossIntervals(
+      d.from,
+      d.to,
+      d.energyKwh * sign,
+      stepMs,
+    );
+    for (const piece of pieces) {
+      const t = piece.intervalStart.getTime();
       if (t < from.getTime() || t >= to.getTime()) continue;
       const hour = hours.get(t) ?? {
         energy: 0,
@@ -113,8 +121,8 @@ function hoursFromDeltas(
       hour.energy += piece.energyKwh;
       hour.spread ||= spread;
       hour.sources.push(d.to);
-      if (d.flag && floorToHour(new Date(d.to.getTime() - 1)).getTime() === t)
-        hour.flags.add(d.flag);
+      const last = floorToStep(new Date(d.to.getTime() - 1), stepMs);
+      if (d.flag && last.getTime() === t) hour.flags.add(d.flag);
       hours.set(t, hour);
     }
   }
@@ -138,8 +146,8 @@ function replaceHours(
       meter.id,
       entries.map(([t]) => new Date(t).toISOString()),
       entries.map(([, h]) => h.energy.toFixed(6)),
-      // A delta over several hours is spread evenly: the total is measured,
-      // its split between the hours is an estimate.
+      // A delta over several intervals is spread evenly: the total is
+      // measured, its split between the intervals is an estimate.
       entries.map(([, h]) => (h.spread ? "estimated" : "measured")),
       entries.map(([, h]) => [...h.flags].join(",")),
       entries.map(([, h]) => (h.spread ? "register_spread" : null)),
@@ -178,8 +186,11 @@ export async function recomputeRegisterSpan(
     lo,
     hi,
   );
-  const from = floorToHour(bounds.prev ?? lo);
-  const to = new Date(floorToHour(bounds.next ?? hi).getTime() + HOUR_MS);
+  const stepMs = stepMsOf(span.meter);
+  const from = floorToStep(bounds.prev ?? lo, stepMs);
+  const to = new Date(
+    floorToStep(bounds.next ?? hi, stepMs).getTime() + stepMs,
+  );
   const reads = await readsAround(
     client,
     organizationId,

@@ -1,7 +1,8 @@
-// The hourly series of one meter, as the ingest modules pass it around.
-// Hours are UTC: an interval's hourStart is the start of its UTC hour.
+// The series of one meter's intervals (15, 30 or 60 minutes, its
+// resolution), as the ingest modules pass it around. An interval's
+// intervalStart is a UTC instant on a multiple of its length.
 
-/** How an hour's energy came to be: read, estimated, edited, or not at all. */
+/** How an interval's energy came to be: read, estimated, edited, or not at all. */
 export const intervalQualities = [
   "measured",
   "estimated",
@@ -10,8 +11,8 @@ export const intervalQualities = [
 ] as const;
 export type Quality = (typeof intervalQualities)[number];
 
-export interface HourlyPoint {
-  hourStart: Date;
+export interface IntervalPoint {
+  intervalStart: Date;
   energyKwh: number;
   quality: Quality;
   /**
@@ -26,13 +27,13 @@ export interface HourlyPoint {
  * edited it to. Estimates and missing hours are not known values, so they are
  * never used to estimate other hours and never count as data in a gap check.
  */
-export function isKnown(point: HourlyPoint): boolean {
+export function isKnown(point: IntervalPoint): boolean {
   return point.quality === "measured" || point.quality === "edited";
 }
 
 /** The known points, sorted by hour (the input may come in any order). */
-export function knownPoints(series: readonly HourlyPoint[]): HourlyPoint[] {
+export function knownPoints(series: readonly IntervalPoint[]): IntervalPoint[] {
   return series
     .filter(isKnown)
-    .sort((a, b) => a.hourStart.getTime() - b.hourStart.getTime());
+    .sort((a, b) => a.intervalStart.getTime() - b.intervalStart.getTime());
 }

@@ -15,7 +15,7 @@ import {
   type ChangeAttribution,
   type RollupDelta,
 } from "~/ledger/refresh-rollups.server";
-import { hourPieces } from "./hour-pieces";
+import { intervalPieces } from "./interval-pieces";
 import { named } from "./named-statement.server";
 import { ensurePartitions } from "./partitions.server";
 import type { PreparedReading, Rejection } from "./prepare-readings.server";
@@ -148,22 +148,22 @@ const PIECES = `unnest($2::uuid[], $3::timestamptz[], $4::numeric[], $5::timesta
                 as p(m, h, k, t, x)`;
 
 /**
- * Interval readings add into their hours. An estimate is replaced by what was
- * measured; a human edit stands, flagged that data arrived after it.
+ * Interval readings add into their meter's intervals. An estimate is replaced
+ * by what was measured; a human edit stands, flagged that data arrived after it.
  */
 function addIntervalReadings(
   client: PoolClient,
   organizationId: string,
   rows: PreparedReading[],
 ): Promise<RollupDelta[]> {
-  const p = hourPieces(rows);
+  const p = intervalPieces(rows);
   return writeIntervals(client, organizationId, {
-    // Hours shared by several readings are summed first; usually each hour
+    // Intervals shared by several readings are summed first; usually each
     // has one reading and the grouping would only cost time.
     input: p.shared
       ? `select m, h, sum(k) as k, sum(x) as x, array_agg(t order by t) as ts from ${PIECES} group by m, h`
       : `select m, h, k, x, array[t] as ts from ${PIECES}`,
-    params: [p.meterIds, p.hours, p.energies, p.readingTimes, p.bands],
+    params: [p.meterIds, p.starts, p.energies, p.readingTimes, p.bands],
     insertColumns: "energy_kwh, uncertainty_kwh, quality, source_reading_times",
     insertValues: "u.k, u.x, 'measured', u.ts",
     update: `energy_kwh = case

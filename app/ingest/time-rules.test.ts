@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import {
-  correctionHourError,
+  correctionIntervalError,
   installedError,
   instantError,
 } from "./time-rules";
@@ -10,10 +10,12 @@ const meter = {
   code: "W-1",
   installedAt: new Date("2020-01-01T00:00:00Z"),
   removedAt: new Date("2026-03-13T00:00:00Z"),
+  intervalMinutes: 60,
 };
-const hour = (iso: string) => correctionHourError(meter, new Date(iso), NOW);
+const hour = (iso: string) =>
+  correctionIntervalError(meter, new Date(iso), NOW);
 
-describe("correctionHourError: the ingest rules for one hour", () => {
+describe("correctionIntervalError: the ingest rules for one hour", () => {
   it("accepts a whole hour in the meter's life, its first and last included", () => {
     expect(hour("2026-03-11T08:00:00Z")).toBeNull();
     expect(hour("2020-01-01T00:00:00Z")).toBeNull();
@@ -31,13 +33,14 @@ describe("correctionHourError: the ingest rules for one hour", () => {
 
   it("refuses the future, 9999, year 0 and invalid dates with ingest's words", () => {
     const alive = { ...meter, removedAt: null };
-    const at = (iso: string) => correctionHourError(alive, new Date(iso), NOW);
-    expect(at("2031-01-01T00:00:00Z")).toBe("hour: is in the future");
-    expect(at("9999-12-31T23:00:00Z")).toBe("hour: is in the future");
+    const at = (iso: string) =>
+      correctionIntervalError(alive, new Date(iso), NOW);
+    expect(at("2031-01-01T00:00:00Z")).toBe("interval: is in the future");
+    expect(at("9999-12-31T23:00:00Z")).toBe("interval: is in the future");
     expect(at("0000-01-01T00:00:00Z")).toBe(
-      "hour: before 1990-01-01 is not accepted",
+      "interval: before 1990-01-01 is not accepted",
     );
-    expect(at("nonsense")).toBe("hour: is not a valid time");
+    expect(at("nonsense")).toBe("interval: is not a valid time");
     // Ten minutes of clock skew, as for a gateway's reading.
     expect(at("2026-06-01T12:00:00Z")).toBeNull();
     expect(instantError("start", new Date("2026-06-01T12:10:01Z"), NOW)).toBe(
@@ -46,6 +49,22 @@ describe("correctionHourError: the ingest rules for one hour", () => {
   });
 
   it("refuses a time that is not the start of an hour", () => {
-    expect(hour("2026-03-11T08:30:00Z")).toBe("hour: must start on the hour");
+    expect(hour("2026-03-11T08:30:00Z")).toBe(
+      "interval: must start on the hour",
+    );
+  });
+
+  it("takes a half-hourly meter's half-hours, and nothing in between", () => {
+    const halfHourly = { ...meter, intervalMinutes: 30 };
+    const at = (iso: string) =>
+      correctionIntervalError(halfHourly, new Date(iso), NOW);
+    expect(at("2026-03-11T08:30:00Z")).toBeNull();
+    expect(at("2026-03-11T08:15:00Z")).toBe(
+      "interval: must start on a multiple of 30 minutes",
+    );
+    const quarterly = { ...meter, intervalMinutes: 15 };
+    expect(
+      correctionIntervalError(quarterly, new Date("2026-03-11T08:45:00Z"), NOW),
+    ).toBeNull();
   });
 });

@@ -1,9 +1,9 @@
 /**
  * When a meter's energy may be recorded. A gateway's reading and a person's
- * correction of one hour pass the same rules, so an hour that ingest would
- * refuse cannot be written by an edit either (docs/ingest.md, "Rules").
+ * correction of one interval pass the same rules, so an interval that ingest
+ * would refuse cannot be written by an edit either (docs/ingest.md, "Rules").
  */
-import { floorToHour } from "./hours";
+import { floorToStep, stepMsOf } from "./hours";
 
 export const EARLIEST_READING = new Date("1990-01-01T00:00:00Z");
 /** Gateway clocks drift; a reading this far ahead of ours is still taken. */
@@ -59,18 +59,22 @@ export function installedError(
 }
 
 /**
- * The rules for correcting the hour starting at `hourStart`: a whole UTC
- * hour, at a time a reading would be taken, in the meter's life. Checked
- * against the hour's start, as ingest checks a reading's start.
+ * The rules for correcting the interval starting at `intervalStart`: one of
+ * the meter's intervals (on a multiple of its interval_minutes in UTC), at a
+ * time a reading would be taken, in the meter's life. Checked against the
+ * interval's start, as ingest checks a reading's start.
  */
-export function correctionHourError(
-  meter: InstalledPeriod,
-  hourStart: Date,
+export function correctionIntervalError(
+  meter: InstalledPeriod & { intervalMinutes: number },
+  intervalStart: Date,
   now: Date,
 ): string | null {
-  const timeError = instantError("hour", hourStart, now);
+  const timeError = instantError("interval", intervalStart, now);
   if (timeError) return timeError;
-  if (floorToHour(hourStart).getTime() !== hourStart.getTime())
-    return "hour: must start on the hour";
-  return installedError(meter, hourStart);
+  const start = floorToStep(intervalStart, stepMsOf(meter));
+  if (start.getTime() !== intervalStart.getTime())
+    return meter.intervalMinutes === 60
+      ? "interval: must start on the hour"
+      : `interval: must start on a multiple of ${meter.intervalMinutes} minutes`;
+  return installedError(meter, intervalStart);
 }

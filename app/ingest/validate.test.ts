@@ -1,10 +1,10 @@
 import { describe, expect, it } from "vitest";
-import type { HourlyPoint, Quality } from "./series";
+import type { IntervalPoint, Quality } from "./series";
 import {
   detectNegative,
   detectSpikes,
   findGaps,
-  typicalHourlyValue,
+  typicalIntervalValue,
 } from "./validate";
 
 // Check values are arithmetic on the definitions in validate.ts (median of
@@ -14,29 +14,29 @@ import {
 const at = (h: number) => new Date(Date.UTC(2026, 0, 1, h));
 
 function series(values: (number | null)[], quality: Quality = "measured") {
-  const out: HourlyPoint[] = [];
+  const out: IntervalPoint[] = [];
   values.forEach((v, h) => {
-    if (v !== null) out.push({ hourStart: at(h), energyKwh: v, quality });
+    if (v !== null) out.push({ intervalStart: at(h), energyKwh: v, quality });
   });
   return out;
 }
 
-describe("typicalHourlyValue", () => {
+describe("typicalIntervalValue", () => {
   it("is the median of |measured|, zeros left out", () => {
     // |−4|, 2, 6, 8 → sorted 2, 4, 6, 8 → median (4 + 6) / 2 = 5.
-    expect(typicalHourlyValue(series([0, -4, 2, 0, 6, 8]))).toBe(5);
-    expect(typicalHourlyValue(series([3, 1, 2]))).toBe(2);
+    expect(typicalIntervalValue(series([0, -4, 2, 0, 6, 8]))).toBe(5);
+    expect(typicalIntervalValue(series([3, 1, 2]))).toBe(2);
   });
 
   it("ignores estimated and edited hours, and is null with no data", () => {
     const s = [
       ...series([10]),
-      { hourStart: at(1), energyKwh: 1000, quality: "estimated" as const },
-      { hourStart: at(2), energyKwh: 1000, quality: "edited" as const },
+      { intervalStart: at(1), energyKwh: 1000, quality: "estimated" as const },
+      { intervalStart: at(2), energyKwh: 1000, quality: "edited" as const },
     ];
-    expect(typicalHourlyValue(s)).toBe(10);
-    expect(typicalHourlyValue(series([0, 0]))).toBeNull();
-    expect(typicalHourlyValue([])).toBeNull();
+    expect(typicalIntervalValue(s)).toBe(10);
+    expect(typicalIntervalValue(series([0, 0]))).toBeNull();
+    expect(typicalIntervalValue([])).toBeNull();
   });
 });
 
@@ -44,7 +44,7 @@ describe("detectSpikes", () => {
   it("flags |value| above factor × typical (default 10)", () => {
     // Sorted 4 5 5 6 51 60 → median (5 + 6) / 2 = 5.5.
     const s = series([4, 5, 5, 6, 60, 51]);
-    expect(typicalHourlyValue(s)).toBe(5.5);
+    expect(typicalIntervalValue(s)).toBe(5.5);
     // Limit 55: only 60 is above it.
     expect(detectSpikes(s).map((p) => p.energyKwh)).toEqual([60]);
     // Factor 5 → limit 27.5: 60 and 51.
@@ -59,7 +59,7 @@ describe("detectSpikes", () => {
   it("checks only measured hours", () => {
     const s = [
       ...series([3, 3, 3]),
-      { hourStart: at(5), energyKwh: 999, quality: "edited" as const },
+      { intervalStart: at(5), energyKwh: 999, quality: "edited" as const },
     ];
     expect(detectSpikes(s)).toEqual([]);
   });
@@ -67,14 +67,14 @@ describe("detectSpikes", () => {
   it("also checks hours that share out a register's advance across a gap", () => {
     // A register read 10,000 units too high, spread over a 4-hour gap:
     // each spread hour is far above 10 × the typical 3 kWh.
-    const spread = (h: number, kwh: number): HourlyPoint => ({
-      hourStart: at(h),
+    const spread = (h: number, kwh: number): IntervalPoint => ({
+      intervalStart: at(h),
       energyKwh: kwh,
       quality: "estimated",
       registerSpread: true,
     });
     const s = [...series([3, 3, 3]), spread(3, 2500), spread(4, 2500)];
-    expect(detectSpikes(s).map((p) => p.hourStart)).toEqual([at(3), at(4)]);
+    expect(detectSpikes(s).map((p) => p.intervalStart)).toEqual([at(3), at(4)]);
     // A plausible spread is not a spike; profile estimates are never checked.
     expect(detectSpikes([...series([3, 3, 3]), spread(3, 4)])).toEqual([]);
     const profiled = { ...spread(3, 2500), registerSpread: false };
@@ -118,11 +118,11 @@ describe("findGaps", () => {
   });
 
   it("counts missing and estimated hours as gaps, edited as data", () => {
-    const s: HourlyPoint[] = [
-      { hourStart: at(0), energyKwh: 1, quality: "measured" },
-      { hourStart: at(1), energyKwh: 0, quality: "missing" },
-      { hourStart: at(2), energyKwh: 1, quality: "estimated" },
-      { hourStart: at(3), energyKwh: 1, quality: "edited" },
+    const s: IntervalPoint[] = [
+      { intervalStart: at(0), energyKwh: 1, quality: "measured" },
+      { intervalStart: at(1), energyKwh: 0, quality: "missing" },
+      { intervalStart: at(2), energyKwh: 1, quality: "estimated" },
+      { intervalStart: at(3), energyKwh: 1, quality: "edited" },
     ];
     expect(findGaps(s, at(0), at(4))).toEqual([
       { start: at(1), hours: 2, edge: null },

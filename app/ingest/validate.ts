@@ -1,10 +1,11 @@
-// Plausibility checks over the hourly series of one meter. They flag; they
-// never change a value: what to do with a flagged hour is the energy
-// manager's decision (edit it, or accept it).
+// Plausibility checks over the series of one meter's intervals, at its own
+// resolution: a spike is judged against the meter's typical interval, not an
+// hour. They flag; they never change a value: what to do with a flagged
+// interval is the energy manager's decision (edit it, or accept it).
 
-import { HOUR_MS, floorToHour } from "./hours";
+import { HOUR_MS, floorToStep } from "./hours";
 import { isKnown } from "./series";
-import type { HourlyPoint } from "./series";
+import type { IntervalPoint } from "./series";
 import type { Orientation } from "~/sites/meter-kinds";
 
 export const DEFAULT_SPIKE_FACTOR = 10;
@@ -16,15 +17,15 @@ function median(sorted: readonly number[]): number {
 }
 
 /**
- * The typical size of a measured hour: the median of |value| over measured
- * hours, zeros left out. Zeros are left out because many meters are idle for
+ * The typical size of a measured interval: the median of |value| over
+ * measured intervals, zeros left out. Zeros are left out because many meters are idle for
  * most hours (solar export at night, school heating in summer): with them the
  * median would be 0 and every working hour would look like a spike. The
  * median rather than the mean, so that the spikes being looked for do not
  * raise the yardstick. Null when no measured hour is non-zero.
  */
-export function typicalHourlyValue(
-  series: readonly HourlyPoint[],
+export function typicalIntervalValue(
+  series: readonly IntervalPoint[],
 ): number | null {
   const values = series
     .filter((p) => p.quality === "measured" && p.energyKwh !== 0)
@@ -41,11 +42,11 @@ export function typicalHourlyValue(
  * a wrong multiplier) shows up there first.
  */
 export function detectSpikes(
-  series: readonly HourlyPoint[],
+  series: readonly IntervalPoint[],
   factor = DEFAULT_SPIKE_FACTOR,
-): HourlyPoint[] {
+): IntervalPoint[] {
   if (!(factor > 0)) throw new RangeError("factor must be greater than 0");
-  const typical = typicalHourlyValue(series);
+  const typical = typicalIntervalValue(series);
   if (typical === null) return [];
   return series.filter(
     (p) =>
@@ -56,7 +57,7 @@ export function detectSpikes(
 
 /**
  * The one spike rule, for ingest's flags and for a person's correction
- * alike: |value| above factor × the meter's typical hour.
+ * alike: |value| above factor × the meter's typical interval.
  */
 export function isSpike(
   energyKwh: number,
@@ -90,9 +91,9 @@ export function expectedSign(meter: MeterBoundary): 1 | -1 {
  * flip). Zero is never wrong.
  */
 export function detectNegative(
-  series: readonly HourlyPoint[],
+  series: readonly IntervalPoint[],
   expectedSign: 1 | -1 = 1,
-): HourlyPoint[] {
+): IntervalPoint[] {
   return series.filter(
     (p) => p.quality === "measured" && p.energyKwh * expectedSign < 0,
   );
@@ -109,23 +110,27 @@ export interface Gap {
 }
 
 /**
- * Runs of UTC hours in [from, to) without a known value (measured or
- * edited). Hours absent from the series count as missing, and so do
- * estimated hours: an estimate fills a gap, it does not close it.
+ * Runs of intervals of `stepMs` (the meter's resolution) in [from, to)
+ * without a known value (measured or edited). Intervals absent from the
+ * series count as missing, and so do estimated ones: an estimate fills a
+ * gap, it does not close it. A gap's length is said in hours all the same.
  */
 export function findGaps(
-  series: readonly HourlyPoint[],
+  series: readonly IntervalPoint[],
   from: Date,
   to: Date,
+  stepMs = HOUR_MS,
 ): Gap[] {
   const known = new Set(
-    series.filter(isKnown).map((p) => floorToHour(p.hourStart).getTime()),
+    series
+      .filter(isKnown)
+      .map((p) => floorToStep(p.intervalStart, stepMs).getTime()),
   );
   const gaps: Gap[] = [];
   let runStart: number | null = null;
   let seenKnown = false;
   const end = to.getTime();
-  for (let t = floorToHour(from).getTime(); t < end; t += HOUR_MS) {
+  for (let t = floorToStep(from, stepMs).getTime(); t < end; t += stepMs) {
     if (!known.has(t)) {
       runStart ??= t;
       continue;

@@ -1,6 +1,8 @@
 /**
- * Writes hourly intervals and reports exactly how each site-local month of
- * each meter changed, for the monthly rollups (applyRollupDeltas).
+ * Writes intervals (at any meter's resolution; "hour" below is any
+ * interval) and reports exactly how each site-local month of each meter
+ * changed, for the monthly rollups (applyRollupDeltas): sums, so exact for
+ * 15- and 30-minute intervals as for hours.
  *
  * PostgreSQL 15 cannot return a row's old values from an upsert, so a write
  * is two statements:
@@ -73,7 +75,7 @@ function sumByMonth(from: string, to: string): string {
            sum(d.energy)::text as energy_kwh, sum(d.estimated)::text as estimated_kwh,
            sum(d.uncertainty)::text as uncertainty_kwh, sum(d.hours)::int as hours,
            sum(d.estimated_hours)::int as estimated_hours, sum(d.marked)::int as marked
-      from d join months on months.meter_id = d.meter_id and d.hour_start >= months.lo and d.hour_start < months.hi
+      from d join months on months.meter_id = d.meter_id and d.interval_start >= months.lo and d.interval_start < months.hi
      group by months.meter_id, months.month`;
 }
 
@@ -91,15 +93,15 @@ function claimSql(write: IntervalWrite): string {
   const { from, to } = rangeParams(write);
   return `with u as (${write.input}),
     claimed as (
-      insert into intervals as i (organization_id, meter_id, hour_start, ${write.insertColumns})
+      insert into intervals as i (organization_id, meter_id, interval_start, ${write.insertColumns})
       select $1, u.m, u.h, ${write.insertValues} from u order by u.m, u.h
-      on conflict (organization_id, meter_id, hour_start) do update set updated_at = ${MARK}
+      on conflict (organization_id, meter_id, interval_start) do update set updated_at = ${MARK}
       ${write.keep ? `where not (${write.keep})` : ""}
-      returning i.meter_id, i.hour_start, i.energy_kwh, i.uncertainty_kwh, i.quality,
+      returning i.meter_id, i.interval_start, i.energy_kwh, i.uncertainty_kwh, i.quality,
                 i.updated_at = ${MARK} as marked
     ), d as (
       -- A marked hour changes in apply; here it only counts.
-      select meter_id, hour_start,
+      select meter_id, interval_start,
              case when marked then 0 else energy_kwh end as energy,
              case when not marked and quality = 'estimated' then energy_kwh else 0 end as estimated,
              case when marked then 0 else uncertainty_kwh end as uncertainty,
@@ -112,18 +114,18 @@ function claimSql(write: IntervalWrite): string {
 
 function applySql(write: IntervalWrite): string {
   const { from, to } = rangeParams(write);
-  const marked = `i.organization_id = $1 and i.meter_id = u.m and i.hour_start = u.h
-     and i.updated_at = ${MARK} and i.hour_start >= ${from} and i.hour_start <= ${to}`;
+  const marked = `i.organization_id = $1 and i.meter_id = u.m and i.interval_start = u.h
+     and i.updated_at = ${MARK} and i.interval_start >= ${from} and i.interval_start <= ${to}`;
   return `with u as (${write.input}),
     old as (
-      select i.meter_id, i.hour_start, i.energy_kwh, i.uncertainty_kwh, i.quality
+      select i.meter_id, i.interval_start, i.energy_kwh, i.uncertainty_kwh, i.quality
         from intervals i join u on ${marked}
     ), changed as (
       update intervals i set ${write.update}, updated_at = now()
         from u where ${marked}
-      returning i.meter_id, i.hour_start, i.energy_kwh, i.uncertainty_kwh, i.quality
+      returning i.meter_id, i.interval_start, i.energy_kwh, i.uncertainty_kwh, i.quality
     ), d as (
-      select c.meter_id, c.hour_start,
+      select c.meter_id, c.interval_start,
              c.energy_kwh - o.energy_kwh as energy,
              (case when c.quality = 'estimated' then c.energy_kwh else 0 end)
                - (case when o.quality = 'estimated' then o.energy_kwh else 0 end) as estimated,
@@ -131,7 +133,7 @@ function applySql(write: IntervalWrite): string {
              0 as hours,
              (c.quality = 'estimated')::int - (o.quality = 'estimated')::int as estimated_hours,
              1 as marked
-        from changed c join old o using (meter_id, hour_start)
+        from changed c join old o using (meter_id, interval_start)
     )${sumByMonth(from, to)}`;
 }
 

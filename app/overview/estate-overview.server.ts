@@ -185,7 +185,7 @@ export async function silentMeters(
   now = new Date(),
 ): Promise<SilentMeter[]> {
   const last = db
-    .select({ hourStart: intervals.hourStart })
+    .select({ intervalStart: intervals.intervalStart })
     .from(intervals)
     .where(
       and(
@@ -194,7 +194,7 @@ export async function silentMeters(
         eq(intervals.quality, "measured"),
       ),
     )
-    .orderBy(desc(intervals.hourStart))
+    .orderBy(desc(intervals.intervalStart))
     .limit(1)
     .as("last");
   const at = sql`${now}::timestamptz`;
@@ -206,10 +206,10 @@ export async function silentMeters(
       site_name: sites.name,
       last_hour: sql<
         string | null
-      >`to_char(${last.hourStart} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`,
+      >`to_char(${last.intervalStart} at time zone 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"')`,
       silent_hours: sql<
         number | null
-      >`floor(extract(epoch from (${at} - ${last.hourStart})) / 3600)::int`,
+      >`floor(extract(epoch from (${at} - ${last.intervalStart})) / 3600)::int`,
     })
     .from(meters)
     .innerJoin(sites, siteOfMeter)
@@ -219,16 +219,20 @@ export async function silentMeters(
         eq(meters.organizationId, organizationId),
         isNull(meters.removedAt),
         or(
-          isNull(last.hourStart),
-          lt(last.hourStart, sql`${at} - make_interval(hours => ${hours})`),
+          isNull(last.intervalStart),
+          lt(last.intervalStart, sql`${at} - make_interval(hours => ${hours})`),
         ),
       ),
     )
-    .orderBy(sql`${last.hourStart} nulls first`, meters.code);
+    .orderBy(sql`${last.intervalStart} nulls first`, meters.code);
   return rows;
 }
 
-/** Share of the last `days` days' hours that were measured, over installed meters. */
+/**
+ * Share of the last `days` days' intervals that were measured, over
+ * installed meters, each expected at its own resolution (48 a day for a
+ * half-hourly meter).
+ */
 export async function completeness(
   organizationId: string,
   days: number,
@@ -237,23 +241,30 @@ export async function completeness(
   const inWindow = and(
     eq(intervals.organizationId, organizationId),
     gte(
-      intervals.hourStart,
+      intervals.intervalStart,
       sql`${now}::timestamptz - make_interval(days => ${days})`,
     ),
-    lt(intervals.hourStart, now),
+    lt(intervals.intervalStart, now),
   );
-  const [measured, estimated, installed] = await Promise.all([
+  const [measured, estimated, [installed]] = await Promise.all([
     db.$count(
       intervals,
       and(inWindow, inArray(intervals.quality, ["measured", "edited"])),
     ),
     db.$count(intervals, and(inWindow, eq(intervals.quality, "estimated"))),
-    db.$count(
-      meters,
-      and(eq(meters.organizationId, organizationId), isNull(meters.removedAt)),
-    ),
+    db
+      .select({
+        perDay: sql<number>`coalesce(sum(1440 / ${meters.intervalMinutes}), 0)::int`,
+      })
+      .from(meters)
+      .where(
+        and(
+          eq(meters.organizationId, organizationId),
+          isNull(meters.removedAt),
+        ),
+      ),
   ]);
-  const expected = installed * days * 24;
+  const expected = installed.perDay * days;
   return {
     measuredShare: expected ? measured / expected : 0,
     estimatedShare: expected ? estimated / expected : 0,

@@ -9,6 +9,7 @@ import {
   createMeter,
   listSiteMeters,
   MeterRuleError,
+  ResolutionFixedError,
 } from "~/sites/meters.server";
 import { DuplicateNameError, getSite } from "~/sites/sites.server";
 import type { Route } from "./+types/meter-new";
@@ -51,6 +52,13 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     if (error instanceof DuplicateNameError)
       return data(
         { errors: { code: error.message } as Record<string, string> },
+        { status: 409 },
+      );
+    if (error instanceof ResolutionFixedError)
+      return data(
+        {
+          errors: { intervalMinutes: error.message } as Record<string, string>,
+        },
         { status: 409 },
       );
     if (error instanceof MeterRuleError)

@@ -10,6 +10,7 @@ import { newestReadingsStatus } from "~/components/readings/freshness";
 import { IntervalGrid } from "~/components/readings/interval-grid";
 import { IntervalSummary } from "~/components/readings/interval-summary";
 import { LoadProfile } from "~/components/readings/load-profile";
+import { hourlyTotals } from "~/components/readings/hourly-totals";
 import { useIntervals } from "~/components/readings/use-intervals";
 import { SectionCard } from "~/components/section-card";
 import { Card, EmptyState, Field, PageHeader } from "~/components/ui";
@@ -44,6 +45,7 @@ export async function loader({ params, context }: Route.LoaderArgs) {
       timeZone: meter.timeZone,
       carrier: meter.carrier,
       orientation: meter.orientation,
+      intervalMinutes: meter.intervalMinutes,
     },
     canEdit: can(role, "readings.edit"),
   };
@@ -64,12 +66,12 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (!meter) notFound("No such meter.");
   const form = parseForm(await request.formData(), editSchema);
   if (!form.ok) return refusal({ errors: form.errors });
-  const { hourStart, energyKwh, reason, confirmSpike } = form.data;
+  const { intervalStart, energyKwh, reason, confirmSpike } = form.data;
   const edit = await editInterval({
     organizationId: organization.id,
     actorUserId: user.id,
     meter: { ...meter, spikeFactor: Number(meter.spikeFactor) },
-    hourStart: new Date(hourStart),
+    intervalStart: new Date(intervalStart),
     energyKwh,
     reason,
     confirmedSpike:
@@ -78,14 +80,23 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   if (!edit.ok)
     return refusal({
       errors: { [edit.field]: edit.reason },
-      confirm: edit.jump ? { hourStart, energyKwh: String(energyKwh) } : null,
+      confirm: edit.jump
+        ? { intervalStart, energyKwh: String(energyKwh) }
+        : null,
     });
   return data<EditAnswer>({
     errors: {},
-    saved: { hourStart, flags: edit.flags },
+    saved: { intervalStart, flags: edit.flags },
     confirm: null,
   });
 }
+
+/** What the page's intervals are, by the meter's resolution. */
+const intervalsWord: Record<number, string> = {
+  15: "15-minute intervals",
+  30: "Half-hourly intervals",
+  60: "Hourly intervals",
+};
 
 export default function MeterReadings({ loaderData }: Route.ComponentProps) {
   const { meter, organization, canEdit } = loaderData;
@@ -107,14 +118,16 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
     if (navigation.state === "idle" && mounted) void reload();
   }, [navigation.state, mounted, reload]);
   const intervals = page?.intervals ?? [];
-  const selected = intervals.find((i) => i.hour_start === selectedHour) ?? null;
+  const selected = intervals.find((i) => i.start === selectedHour) ?? null;
+  // The charts read in hours; the table keeps the meter's own intervals.
+  const hours = useMemo(() => hourlyTotals(page?.intervals ?? []), [page]);
   return (
     <>
       <PageHeader
         title={`${meter.code} · ${meter.name}`}
         description={
           <>
-            Hourly intervals at{" "}
+            {intervalsWord[meter.intervalMinutes] ?? "Intervals"} at{" "}
             <Link
               className="font-semibold text-spruce-700 underline"
               to={`/o/${organization.id}/sites/${meter.siteId}`}
@@ -161,7 +174,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
           <>
             <SectionCard headingId="profile-heading" title="Load profile">
               <LoadProfile
-                intervals={intervals}
+                intervals={hours}
                 timeZone={meter.timeZone}
                 carrier={meter.carrier}
               />
@@ -172,7 +185,7 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
                 Outlined cells are estimated or corrected.
               </p>
               <CarpetPlot
-                intervals={intervals}
+                intervals={hours}
                 timeZone={meter.timeZone}
                 carrier={meter.carrier}
               />
@@ -181,11 +194,11 @@ export default function MeterReadings({ loaderData }: Route.ComponentProps) {
               <IntervalGrid
                 intervals={intervals}
                 timeZone={meter.timeZone}
-                onSelect={(row) => setSelectedHour(row?.hour_start ?? null)}
+                onSelect={(row) => setSelectedHour(row?.start ?? null)}
               />
             </SectionCard>
             {canEdit ? (
-              <SectionCard headingId="edit-heading" title="Correct an hour">
+              <SectionCard headingId="edit-heading" title="Correct an interval">
                 <div className="mt-3">
                   <EditPanel
                     selected={selected}

@@ -17,7 +17,11 @@ import {
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
 import { dayUtc } from "~/lib/format";
-import { carrierLabels, quantityLabels } from "~/sites/meter-kinds";
+import {
+  carrierLabels,
+  quantityLabels,
+  resolutionLabel,
+} from "~/sites/meter-kinds";
 import {
   meterFormSchema,
   replaceSchema,
@@ -27,6 +31,7 @@ import {
   getMeter,
   listSiteMeters,
   MeterRuleError,
+  ResolutionFixedError,
   replaceMeter,
   retireMeter,
   updateMeter,
@@ -131,6 +136,8 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   } catch (error) {
     if (error instanceof DuplicateNameError)
       return fail(intent, { code: error.message }, 409);
+    if (error instanceof ResolutionFixedError)
+      return fail(intent, { intervalMinutes: error.message }, 409);
     if (error instanceof MeterRuleError)
       return fail(intent, { parentMeterId: error.message });
     throw error;
@@ -167,6 +174,7 @@ export default function Meter({
           <>
             {quantityLabels[meter.quantity]} · {carrierLabels[meter.carrier]} ·{" "}
             {meter.orientation === "import" ? "import (+)" : "export (−)"} ·{" "}
+            {resolutionLabel(meter.intervalMinutes)} ·{" "}
             {meter.position === "internal" ? "inside the boundary · " : null}
             <Link
               className="font-semibold text-spruce-700 underline"
@@ -322,6 +330,7 @@ export default function Meter({
                 ],
                 ["Sensor", meter.sensorAt ?? "—"],
                 ["Installed", dayUtc(meter.installedAt)],
+                ["Resolution", resolutionLabel(meter.intervalMinutes)],
                 ["Spike factor", meter.spikeFactor],
               ].map(([k, v]) => (
                 <div key={k}>

@@ -2,8 +2,9 @@ import { Link } from "react-router";
 import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { CarrierBadge } from "~/components/carrier-badge";
-import { CsvUpload } from "~/components/csv-upload";
+import { ReadingsUpload } from "~/components/readings-upload/readings-upload";
 import { Badge, Card, EmptyState, PageHeader } from "~/components/ui";
+import { resolutionMinutes } from "~/ingest/interval-energy";
 import { listAllMeters } from "~/sites/meters.server";
 import type { Route } from "./+types/readings";
 
@@ -13,15 +14,26 @@ export const meta: Route.MetaFunction = () => [
 
 export async function loader({ context }: Route.LoaderArgs) {
   const { organization, role } = requirePermission(context, "readings.view");
+  const meters = await listAllMeters({ organizationId: organization.id });
   return {
     organization,
-    meters: await listAllMeters({ organizationId: organization.id }),
+    meters,
+    // What the upload checks a file against: each meter's kind, site clock and resolution.
+    uploadMeters: meters.map((m) => ({
+      id: m.id,
+      code: m.code,
+      name: m.name,
+      quantity: m.quantity,
+      siteName: m.siteName,
+      timeZone: m.timeZone,
+      intervalMinutes: resolutionMinutes(m),
+    })),
     canUpload: can(role, "readings.edit"),
   };
 }
 
 export default function Readings({ loaderData }: Route.ComponentProps) {
-  const { meters, organization, canUpload } = loaderData;
+  const { meters, uploadMeters, organization, canUpload } = loaderData;
   const bySite = new Map<string, typeof meters>();
   for (const m of meters)
     bySite.set(m.siteName, [...(bySite.get(m.siteName) ?? []), m]);
@@ -70,11 +82,12 @@ export default function Readings({ loaderData }: Route.ComponentProps) {
               Upload historical readings
             </h2>
             <p className="mt-1 text-ink-muted">
-              Rows go through the same checks as a gateway's readings; a row
-              already stored counts as a repeat.
+              Readings go through the same checks as a gateway&apos;s; a reading
+              already stored counts as already stored, so sending a file twice
+              changes nothing.
             </p>
             <div className="mt-4">
-              <CsvUpload orgId={organization.id} />
+              <ReadingsUpload orgId={organization.id} meters={uploadMeters} />
             </div>
           </Card>
         ) : null}

@@ -3,7 +3,7 @@ import { meterOfInterval } from "~/db/conditions.server";
 import { db } from "~/db/client.server";
 import { intervals, meters } from "~/db/schema";
 
-/** Signed energy per meter of one site since a time, from the hourly intervals. */
+/** Signed energy per meter of one site since a time, from its intervals (at any resolution: a sum). */
 export async function siteEnergySince(args: {
   organizationId: string;
   siteId: string;
@@ -17,7 +17,7 @@ export async function siteEnergySince(args: {
       and(
         eq(intervals.organizationId, args.organizationId),
         eq(meters.siteId, args.siteId),
-        gte(intervals.hourStart, args.since),
+        gte(intervals.intervalStart, args.since),
       ),
     )
     .groupBy(intervals.meterId);

@@ -139,3 +139,30 @@ export function isCarrier(value: unknown): value is Carrier {
     typeof value === "string" && (carriers as readonly string[]).includes(value)
   );
 }
+
+/**
+ * How long one of a meter's intervals is, in minutes: its intervals start on
+ * multiples of it in UTC. Hourly is the default; suppliers' files are most
+ * often half-hourly.
+ */
+export const intervalResolutions = [15, 30, 60] as const;
+export type IntervalMinutes = (typeof intervalResolutions)[number];
+export const DEFAULT_INTERVAL_MINUTES: IntervalMinutes = 60;
+
+/** A resolution in plain words, as the meter page says it. */
+export const resolutionWords: Record<IntervalMinutes, string> = {
+  15: "Every 15 minutes",
+  30: "Half-hourly",
+  60: "Hourly",
+};
+
+/** Words for a stored resolution; an unknown one is said in minutes. */
+export function resolutionLabel(minutes: number): string {
+  return isIntervalMinutes(minutes)
+    ? resolutionWords[minutes]
+    : `Every ${minutes} minutes`;
+}
+
+export function isIntervalMinutes(value: unknown): value is IntervalMinutes {
+  return (intervalResolutions as readonly unknown[]).includes(value);
+}

@@ -6,9 +6,12 @@ import {
   carriersFor,
   isFuelCarrier,
   meterPositions,
+  DEFAULT_INTERVAL_MINUTES,
+  intervalResolutions,
   orientations,
   quantities,
   sensorPositions,
+  type IntervalMinutes,
 } from "./meter-kinds";
 
 const decimal = (label: string, min: number, max: number) =>
@@ -79,6 +82,15 @@ export const meterFormSchema = z
     position: z.enum(meterPositions, {
       error: "Choose on the boundary or inside it.",
     }),
+    // Left out or empty (an API body without it): the default, hourly.
+    intervalMinutes: z
+      .enum(["", ...(intervalResolutions.map(String) as ["15", "30", "60"])], {
+        error: "Choose 15, 30 or 60 minutes per interval.",
+      })
+      .default("")
+      .transform(
+        (v) => Number(v || DEFAULT_INTERVAL_MINUTES) as IntervalMinutes,
+      ),
     serial: z.string().trim().max(64, "Use at most 64 characters."),
     multiplier: decimal("Multiplier", 0.0001, 100_000).transform((v) => v ?? 1),
     rolloverKwh: decimal("Roll-over point", 1, 1e12),

@@ -1,7 +1,7 @@
 import { and, asc, eq } from "drizzle-orm";
 import { meterKey, siteOfMeter } from "~/db/conditions.server";
 import { db, type Transaction } from "~/db/client.server";
-import { meters, sites } from "~/db/schema";
+import { intervals, meters, sites } from "~/db/schema";
 import { changedFields, recordAudit } from "~/audit/record-audit.server";
 import { afterMeteredChange } from "~/billing/sync-quantity.server";
 import type { MeterInput } from "./meter-schema";
@@ -16,6 +16,7 @@ export const meterColumns = {
   quantity: meters.quantity,
   carrier: meters.carrier,
   orientation: meters.orientation,
+  intervalMinutes: meters.intervalMinutes,
   parentMeterId: meters.parentMeterId,
   position: meters.position,
   serial: meters.serial,
@@ -56,7 +57,7 @@ export async function listAllMeters({
   organizationId: string;
 }) {
   return db
-    .select({ ...meterColumns, siteName: sites.name })
+    .select({ ...meterColumns, siteName: sites.name, timeZone: sites.timeZone })
     .from(meters)
     .innerJoin(sites, siteOfMeter)
     .where(eq(meters.organizationId, organizationId))
@@ -85,6 +86,7 @@ function columnsFrom(input: MeterInput) {
     quantity: input.quantity,
     carrier: input.carrier,
     orientation: input.orientation,
+    intervalMinutes: input.intervalMinutes,
     parentMeterId: input.parentMeterId || null,
     position: input.position,
     serial: input.serial,
@@ -115,6 +117,36 @@ type MeterSettings = {
 };
 
 export class MeterRuleError extends Error {}
+
+/**
+ * A meter's resolution is fixed once it has intervals: they were derived at
+ * the old length, and re-cutting them would change figures already reported.
+ */
+export class ResolutionFixedError extends Error {}
+
+async function assertResolutionChangeable(
+  tx: Transaction,
+  organizationId: string,
+  meterId: string,
+  from: number,
+  to: number,
+) {
+  if (from === to) return;
+  const [stored] = await tx
+    .select({ meterId: intervals.meterId })
+    .from(intervals)
+    .where(
+      and(
+        eq(intervals.organizationId, organizationId),
+        eq(intervals.meterId, meterId),
+      ),
+    )
+    .limit(1);
+  if (stored)
+    throw new ResolutionFixedError(
+      `This meter already has intervals of ${from} minutes; its resolution cannot change to ${to} minutes. Add a new meter for data at the new resolution.`,
+    );
+}
 
 async function assertParentOnSite(
   organizationId: string,
@@ -206,6 +238,13 @@ export async function updateMeter(args: {
       .where(where)
       .for("update");
     if (!before) return false;
+    await assertResolutionChangeable(
+      tx,
+      args.organizationId,
+      args.meterId,
+      before.intervalMinutes,
+      args.input.intervalMinutes,
+    );
     const [after] = await tx
       .update(meters)
       .set(columnsFrom(args.input))
@@ -300,6 +339,7 @@ export async function replaceMeter(args: {
         quantity: old.quantity,
         carrier: old.carrier,
         orientation: old.orientation,
+        intervalMinutes: old.intervalMinutes,
         parentMeterId: old.parentMeterId,
         serial: args.serial,
         multiplier: old.multiplier,

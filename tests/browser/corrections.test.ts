@@ -29,7 +29,7 @@ async function postHeat(org: MeteredOrg) {
 }
 
 const panel = (page: Page) =>
-  page.getByRole("region", { name: "Correct an hour" });
+  page.getByRole("region", { name: "Correct an interval" });
 
 describe("correcting an hour on the meter's readings page", () => {
   it("shows the new value after saving, and asks before storing a jump far outside the meter's history", async () => {
@@ -68,7 +68,7 @@ describe("correcting an hour on the meter's readings page", () => {
     await panel(page).getByLabel("Reason").fill("Register photo shows this");
     await panel(page).getByRole("button", { name: "Save correction" }).click();
     await panel(page)
-      .getByText(/250,000 kWh is [\d,]+ × this meter's typical hour of/)
+      .getByText(/250,000 kWh is [\d,]+ × this meter's typical interval of/)
       .waitFor();
     expect(await panel(page).textContent()).toContain(
       "now 60.5 kWh, corrected by hand",

@@ -117,7 +117,7 @@ describe("on a phone", () => {
       .first();
     await energy.waitFor();
     expect(await onScreen(energy)).toBe(true);
-    const hour = grid.locator('.ag-cell[col-id="hour_start"]').first();
+    const hour = grid.locator('.ag-cell[col-id="start"]').first();
     // Not truncated: the whole hour fits its cell.
     expect(
       await hour.evaluate((cell) => {

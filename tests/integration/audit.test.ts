@@ -275,7 +275,7 @@ describe("what the audit trail records", () => {
           `${orgPage}/meters/${org.meters.register.id}/readings`,
           {
             intent: "edit",
-            hourStart: "2026-02-10T03:00:00Z",
+            intervalStart: "2026-02-10T03:00:00Z",
             energyKwh: "10",
             reason: correctionReason,
           },

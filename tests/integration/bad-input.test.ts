@@ -69,11 +69,11 @@ describe("strings PostgreSQL cannot store fail one reading, not the batch", () =
     expect(answer.rejected[0].reason).toMatch(/^meter: .*NUL/);
     expect(await rawCount(org)).toBe(2);
     const hours = await db
-      .select({ hourStart: schema.intervals.hourStart })
+      .select({ intervalStart: schema.intervals.intervalStart })
       .from(schema.intervals)
       .where(eq(schema.intervals.organizationId, org.org.id))
-      .orderBy(schema.intervals.hourStart);
-    expect(hours.map((h) => h.hourStart.toISOString())).toEqual([
+      .orderBy(schema.intervals.intervalStart);
+    expect(hours.map((h) => h.intervalStart.toISOString())).toEqual([
       "2026-04-01T08:00:00.000Z",
       "2026-04-01T10:00:00.000Z",
     ]);
@@ -251,14 +251,14 @@ describe("corrections follow the time rules of ingest", () => {
       ["0000-01-01T00:00:00Z", /before 1990/],
       ["2026-03-11T08:30:00Z", /on the hour/],
     ];
-    for (const [hourStart, message] of refused) {
+    for (const [intervalStart, message] of refused) {
       const response = await manager.post(page, {
         intent: "edit",
-        hourStart,
+        intervalStart,
         energyKwh: "42",
         reason: "Checked against the site log",
       });
-      expect([hourStart, response.status]).toEqual([hourStart, 400]);
+      expect([intervalStart, response.status]).toEqual([intervalStart, 400]);
       expect(await response.text()).toMatch(message);
     }
     expect(await snapshot(org)).toEqual(before);

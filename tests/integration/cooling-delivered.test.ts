@@ -138,7 +138,7 @@ beforeAll(async () => {
   const { rows } = await pool.query<{ kwh: string; n: number }>(
     `select sum(energy_kwh)::text as kwh, count(*)::int as n from intervals
       where organization_id = $1 and meter_id = $2
-        and hour_start >= $3::date and hour_start < ($3::date + interval '1 month')`,
+        and interval_start >= $3::date and interval_start < ($3::date + interval '1 month')`,
     [org.org.id, cooling.id, `${MONTH}-01`],
   );
   expect(rows[0].n).toBe(3);
@@ -384,7 +384,7 @@ describe("cooling delivered", () => {
       `select sum(i.energy_kwh)::text as kwh from intervals i
          join meters m on m.organization_id = i.organization_id and m.id = i.meter_id
         where i.organization_id = $1 and m.parent_meter_id is null
-          and i.hour_start >= $2::date and i.hour_start < ($2::date + interval '1 month')`,
+          and i.interval_start >= $2::date and i.interval_start < ($2::date + interval '1 month')`,
       [org.org.id, `${MONTH}-01`],
     );
     expect(Number(site.balance.netIntoSiteKwh)).toBeCloseTo(

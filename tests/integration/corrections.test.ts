@@ -55,7 +55,7 @@ const readingsPage = (org: MeteredOrg, meterId: string) =>
 function correct(
   manager: Client,
   org: MeteredOrg,
-  fields: { hourStart: string; energyKwh: string; confirmSpike?: string },
+  fields: { intervalStart: string; energyKwh: string; confirmSpike?: string },
   meterId = org.meters.water.id,
 ) {
   return manager.post(readingsPage(org, meterId), {
@@ -75,7 +75,7 @@ async function hoursOf(org: MeteredOrg, meterId = org.meters.water.id) {
         eq(schema.intervals.meterId, meterId),
       ),
     )
-    .orderBy(asc(schema.intervals.hourStart));
+    .orderBy(asc(schema.intervals.intervalStart));
 }
 
 /** Everything a correction writes: hours, rollups, adjustments, audit log. */
@@ -110,7 +110,7 @@ async function snapshot(org: MeteredOrg) {
 async function typicalHour(org: MeteredOrg, except: string): Promise<number> {
   const values = (await hoursOf(org))
     .filter((h) => h.quality === "measured")
-    .filter((h) => h.hourStart.getTime() !== new Date(except).getTime())
+    .filter((h) => h.intervalStart.getTime() !== new Date(except).getTime())
     .map((h) => Math.abs(Number(h.energyKwh)))
     .sort((a, b) => a - b);
   const mid = Math.floor(values.length / 2);
@@ -155,7 +155,7 @@ describe("a correction of the wrong sign for the meter", () => {
     const before = await snapshot(org);
 
     const imported = await correct(manager, org, {
-      hourStart: "2026-03-10T02:00:00Z",
+      intervalStart: "2026-03-10T02:00:00Z",
       energyKwh: "-500",
     });
     expect(imported.status).toBe(400);
@@ -168,7 +168,7 @@ describe("a correction of the wrong sign for the meter", () => {
     const exported = await correct(
       manager,
       org,
-      { hourStart: "2026-03-10T00:00:00Z", energyKwh: "30" },
+      { intervalStart: "2026-03-10T00:00:00Z", energyKwh: "30" },
       org.meters.export.id,
     );
     expect(exported.status).toBe(400);
@@ -177,7 +177,7 @@ describe("a correction of the wrong sign for the meter", () => {
     );
     // Confirming does not make a wrong sign right.
     const confirmed = await correct(manager, org, {
-      hourStart: "2026-03-10T02:00:00Z",
+      intervalStart: "2026-03-10T02:00:00Z",
       energyKwh: "-500",
       confirmSpike: "-500",
     });
@@ -190,7 +190,7 @@ describe("a correction of the wrong sign for the meter", () => {
         await correct(
           manager,
           org,
-          { hourStart: "2026-03-10T00:00:00Z", energyKwh: "-30" },
+          { intervalStart: "2026-03-10T00:00:00Z", energyKwh: "-30" },
           org.meters.export.id,
         )
       ).status,
@@ -210,18 +210,18 @@ describe("a correction far outside the meter's history", () => {
     const typical = await typicalHour(org, "2026-03-10T05:00:00Z");
 
     const response = await correct(manager, org, {
-      hourStart: "2026-03-10T05:00:00Z",
+      intervalStart: "2026-03-10T05:00:00Z",
       energyKwh: "1000000000",
     });
     expect(response.status).toBe(400);
     // The panel is drawn in the browser: the answer is in the page's data.
     expect(await response.text()).toContain(
-      `1,000,000,000 kWh is ${en(1e9 / typical)} × this meter's typical hour of ${en(typical, 1)} kWh; hours above 10 × are flagged as spikes.`,
+      `1,000,000,000 kWh is ${en(1e9 / typical)} × this meter's typical interval of ${en(typical, 1)} kWh; intervals above 10 × are flagged as spikes.`,
     );
 
     // A confirmation given for another value does not count for this one.
     const otherValue = await correct(manager, org, {
-      hourStart: "2026-03-10T05:00:00Z",
+      intervalStart: "2026-03-10T05:00:00Z",
       energyKwh: "1000000000",
       confirmSpike: "5000",
     });
@@ -233,14 +233,14 @@ describe("a correction far outside the meter's history", () => {
     const { org, manager } = await meteredHeat();
     const typical = await typicalHour(org, "2026-03-10T05:00:00Z");
     const response = await correct(manager, org, {
-      hourStart: "2026-03-10T05:00:00Z",
+      intervalStart: "2026-03-10T05:00:00Z",
       energyKwh: "1000000000",
       confirmSpike: "1000000000",
     });
     expect(response.status).toBe(200);
 
     const hour = (await hoursOf(org)).find(
-      (h) => h.hourStart.toISOString() === "2026-03-10T05:00:00.000Z",
+      (h) => h.intervalStart.toISOString() === "2026-03-10T05:00:00.000Z",
     )!;
     expect([hour.quality, hour.energyKwh, hour.flags]).toEqual([
       "edited",
@@ -264,7 +264,7 @@ describe("a correction far outside the meter's history", () => {
       reason: "Checked against the register photo",
       confirmedSpike: {
         confirmed: true,
-        typicalHourKwh: typical.toFixed(6),
+        typicalIntervalKwh: typical.toFixed(6),
         timesTypical: Number((1e9 / typical).toFixed(1)),
         spikeFactor: 10,
       },
@@ -279,19 +279,19 @@ describe("an ordinary correction", () => {
     await post(org, [water(org, "2026-03-10T06", 200)]);
     const flagsAt6 = async () =>
       (await hoursOf(org)).find(
-        (h) => h.hourStart.toISOString() === "2026-03-10T06:00:00.000Z",
+        (h) => h.intervalStart.toISOString() === "2026-03-10T06:00:00.000Z",
       )?.flags;
     await expect.poll(flagsAt6, { timeout: 10_000 }).toEqual(["spike"]);
 
     const typical = await typicalHour(org, "2026-03-10T06:00:00Z");
     const ordinary = Math.round(typical * 1.1 * 1000) / 1000;
     const response = await correct(manager, org, {
-      hourStart: "2026-03-10T06:00:00Z",
+      intervalStart: "2026-03-10T06:00:00Z",
       energyKwh: String(ordinary),
     });
     expect(response.status).toBe(200);
     const hour = (await hoursOf(org)).find(
-      (h) => h.hourStart.toISOString() === "2026-03-10T06:00:00.000Z",
+      (h) => h.intervalStart.toISOString() === "2026-03-10T06:00:00.000Z",
     )!;
     expect([hour.quality, Number(hour.energyKwh), hour.flags]).toEqual([
       "edited",

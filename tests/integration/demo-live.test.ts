@@ -190,7 +190,7 @@ describe("the live demo gateway", () => {
     const { rows } = await pool.query<{ code: string; measured: number }>(
       `select m.code, count(*) filter (where i.quality = 'measured')::int as measured
          from meters m join intervals i on i.organization_id = m.organization_id and i.meter_id = m.id
-        where m.organization_id = $1 and i.hour_start >= $2 and i.hour_start < $3
+        where m.organization_id = $1 and i.interval_start >= $2 and i.interval_start < $3
         group by m.code`,
       [org.id, SEEDED_FROM, new Date(throughBefore)],
     );

@@ -143,7 +143,7 @@ describe("demo estate months", () => {
       const { rows: months } = await pool.query<MeterMonth>(
         `with hours as (
            select i.meter_id,
-                  date_trunc('month', i.hour_start at time zone s.time_zone)::date as month,
+                  date_trunc('month', i.interval_start at time zone s.time_zone)::date as month,
                   sum(i.energy_kwh) as kwh, count(*)::int as n
              from intervals i
              join meters m on m.organization_id = i.organization_id and m.id = i.meter_id
@@ -208,7 +208,7 @@ describe("demo estate months", () => {
         net_kwh: string;
       }>(
         `select s.id as site_id,
-                to_char(date_trunc('month', i.hour_start at time zone s.time_zone), 'YYYY-MM') as month,
+                to_char(date_trunc('month', i.interval_start at time zone s.time_zone), 'YYYY-MM') as month,
                 m.carrier::text as carrier,
                 coalesce(sum(d.kwh) filter (where m.orientation = 'import'), 0)::text as imports_kwh,
                 coalesce(sum(d.kwh) filter (where m.orientation = 'export'), 0)::text as exports_kwh,

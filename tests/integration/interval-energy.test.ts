@@ -23,7 +23,12 @@ type Answer = {
   conflicts: { index: number; reason: string }[];
 };
 type IntervalAnswer = {
-  intervals: { hour_start: string; energy_kwh: string; quality: string }[];
+  intervals: {
+    start: string;
+    end: string;
+    energy_kwh: string;
+    quality: string;
+  }[];
 };
 type LedgerAnswer = {
   rows: {
@@ -142,7 +147,7 @@ describe("interval_energy readings over the API", () => {
       const page = (await response.json()) as IntervalAnswer;
       expect(page.intervals).toHaveLength(48);
       page.intervals.forEach((interval, i) => {
-        expect(Date.parse(interval.hour_start)).toBe(FIRST_HOUR + i * HOUR_MS);
+        expect(Date.parse(interval.start)).toBe(FIRST_HOUR + i * HOUR_MS);
         expect(interval.quality).toBe("measured");
         const sent = micro(kwhOf(i, base).toFixed(6));
         expect(micro(interval.energy_kwh)).toBe(sign * sent);
@@ -226,7 +231,7 @@ describe("interval_energy readings over the API", () => {
         and(
           eq(schema.intervals.organizationId, org.org.id),
           eq(schema.intervals.meterId, ids[importCode]),
-          eq(schema.intervals.hourStart, new Date(FIRST_HOUR)),
+          eq(schema.intervals.intervalStart, new Date(FIRST_HOUR)),
         ),
       );
     expect(micro(String(hour.energy))).toBe(micro(kwhOf(0, 3.5).toFixed(6)));

@@ -109,7 +109,7 @@ describe("monthly ledger", () => {
       exports: string;
       net: string;
     }>(
-      `select to_char(date_trunc('month', i.hour_start at time zone 'Europe/London'), 'YYYY-MM') as month, m.carrier::text as carrier,
+      `select to_char(date_trunc('month', i.interval_start at time zone 'Europe/London'), 'YYYY-MM') as month, m.carrier::text as carrier,
               coalesce(sum(i.energy_kwh) filter (where m.orientation = 'import'), 0)::text as imports,
               coalesce(sum(i.energy_kwh) filter (where m.orientation = 'export'), 0)::text as exports,
               sum(i.energy_kwh)::text as net

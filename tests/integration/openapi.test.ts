@@ -644,7 +644,7 @@ describe("what the server answers fits the document", () => {
       meters,
       await owner.postJson(api(`${orgPath}/meters`), {
         ...meterBody,
-        interval_minutes: 30,
+        interval_minutes: 20,
       }),
       400,
     );

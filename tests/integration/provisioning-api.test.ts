@@ -314,8 +314,8 @@ describe("provisioning sites and meters over the API", () => {
       [{ ...good, carrier: "heat" }, "carrier"],
       [{ ...good, code: "no spaces" }, "code"],
       [{ ...good, installed_at: "" }, "installed_at"],
-      [{ ...good, interval_minutes: 30 }, "interval_minutes"],
-      [{ ...good, interval_minutes: 15 }, "interval_minutes"],
+      [{ ...good, interval_minutes: 20 }, "interval_minutes"],
+      [{ ...good, interval_minutes: 90 }, "interval_minutes"],
     ];
     for (const [body, path] of badMeters) {
       const response = await manager.postJson(`${base}/meters`, body);
@@ -326,7 +326,7 @@ describe("provisioning sites and meters over the API", () => {
       expect(answer.error.issues.map((i) => i.path)).toContain(path);
       if (path === "interval_minutes")
         expect(answer.error.issues[0].message).toMatch(
-          /Half-hourly and quarter-hourly meters are not available yet/,
+          /interval_minutes must be 15, 30 or 60/,
         );
     }
     const badJson = await manager.postJson(`${base}/sites`, "{not json");

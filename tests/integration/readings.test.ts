@@ -54,7 +54,7 @@ async function intervalsOf(org: MeteredOrg, meterId: string) {
         eq(schema.intervals.meterId, meterId),
       ),
     )
-    .orderBy(schema.intervals.hourStart);
+    .orderBy(schema.intervals.intervalStart);
 }
 
 async function rawCount(org: MeteredOrg) {
@@ -324,7 +324,7 @@ describe("POST /api/v1/readings", () => {
     const estimated = async () =>
       (await intervalsOf(org, org.meters.water.id))
         .filter((h) => h.quality === "estimated")
-        .map((h) => h.hourStart.toISOString());
+        .map((h) => h.intervalStart.toISOString());
     await expect
       .poll(estimated, { timeout: 10_000 })
       .toEqual([
@@ -334,12 +334,12 @@ describe("POST /api/v1/readings", () => {
       ]);
     const byHour = await intervalsOf(org, org.meters.water.id);
     const gapHour = byHour.find(
-      (h) => h.hourStart.toISOString() === "2026-05-04T04:00:00.000Z",
+      (h) => h.intervalStart.toISOString() === "2026-05-04T04:00:00.000Z",
     )!;
     expect(gapHour.estimateMethod).toBe("linear");
     await post(org, { readings: [water(org, "2026-05-04T04", 1)] });
     const after = (await intervalsOf(org, org.meters.water.id)).find(
-      (h) => h.hourStart.toISOString() === "2026-05-04T04:00:00.000Z",
+      (h) => h.intervalStart.toISOString() === "2026-05-04T04:00:00.000Z",
     )!;
     expect(after.quality).toBe("measured");
     expect(Number(after.energyKwh)).toBeCloseTo(
@@ -435,14 +435,14 @@ describe("intervals and uploads for signed-in people", () => {
     const pagePath = `/o/${org.org.id}/meters/${org.meters.water.id}/readings`;
     const noReason = await manager.post(pagePath, {
       intent: "edit",
-      hourStart: "2026-03-11T08:00:00Z",
+      intervalStart: "2026-03-11T08:00:00Z",
       energyKwh: "50",
       reason: "",
     });
     expect(noReason.status).toBe(400);
     const saved = await manager.post(pagePath, {
       intent: "edit",
-      hourStart: "2026-03-11T08:00:00Z",
+      intervalStart: "2026-03-11T08:00:00Z",
       energyKwh: "50",
       reason: "Meter cover open, value checked on site",
     });
@@ -467,7 +467,7 @@ describe("intervals and uploads for signed-in people", () => {
     await auditor.signIn(org.org.members[1].email, org.org.members[1].password);
     const refused = await auditor.post(pagePath, {
       intent: "edit",
-      hourStart: "2026-03-11T08:00:00Z",
+      intervalStart: "2026-03-11T08:00:00Z",
       energyKwh: "1",
       reason: "auditors may not edit",
     });

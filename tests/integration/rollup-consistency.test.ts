@@ -174,7 +174,7 @@ async function postAll(org: MeteredOrg, list: Reading[][], pause = 0) {
 async function mismatches(org: MeteredOrg) {
   const { rows } = await pool.query(
     `with hours as (
-       select i.meter_id, (date_trunc('month', i.hour_start at time zone s.time_zone))::date as month,
+       select i.meter_id, (date_trunc('month', i.interval_start at time zone s.time_zone))::date as month,
               sum(i.energy_kwh) as energy_kwh,
               coalesce(sum(i.energy_kwh) filter (where i.quality = 'estimated'), 0) as estimated_kwh,
               sum(i.uncertainty_kwh) as uncertainty_kwh,
@@ -255,7 +255,7 @@ async function edit(
     `/o/${org.org.id}/meters/${meterId}/readings`,
     {
       intent: "edit",
-      hourStart: iso(T0 + hour * HOUR_MS),
+      intervalStart: iso(T0 + hour * HOUR_MS),
       energyKwh: String(kwh),
       reason: "Checked against the site log",
     },

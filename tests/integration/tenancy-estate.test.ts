@@ -67,7 +67,7 @@ describe("sites, meters, readings and gateways stay inside their organisation", 
       `/o/${larchmere}/meters/${theirs.meters.water.id}/readings`,
       {
         intent: "edit",
-        hourStart: "2026-01-01T00:00:00Z",
+        intervalStart: "2026-01-01T00:00:00Z",
         energyKwh: "1",
         reason: "not ours to edit",
       },

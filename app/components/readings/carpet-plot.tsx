@@ -25,7 +25,7 @@ function cellsOf(
   const days: string[] = [];
   const cells: Cell[] = [];
   for (const i of intervals) {
-    const at = new Date(i.hour_start);
+    const at = new Date(i.start);
     const p = localParts(at, timeZone);
     const key = `${p.year}-${p.month}-${p.day}`;
     if (!dayIndex.has(key)) {

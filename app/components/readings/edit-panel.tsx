@@ -32,25 +32,25 @@ export function EditPanel({
   if (!selected)
     return (
       <p className="text-ink-muted">
-        Select an hour in the table to correct it.
+        Select an interval in the table to correct it.
       </p>
     );
   // An answer is about the hour it was posted for, not the one selected since.
   const forThisHour = actionData?.saved
-    ? actionData.saved.hourStart === selected.hour_start
+    ? actionData.saved.intervalStart === selected.start
     : actionData?.confirm
-      ? actionData.confirm.hourStart === selected.hour_start
+      ? actionData.confirm.intervalStart === selected.start
       : true;
   const answer = forThisHour ? actionData : undefined;
   const errors: Record<string, string | undefined> = answer?.errors ?? {};
-  const label = dateTimeIn(selected.hour_start, timeZone);
+  const label = dateTimeIn(selected.start, timeZone);
   return (
     <Form
       method="post"
       className="flex flex-col gap-4"
       noValidate
       // A saved value remounts the form, so its fields start from the new value.
-      key={`${selected.hour_start}|${selected.energy_kwh}|${selected.quality}`}
+      key={`${selected.start}|${selected.energy_kwh}|${selected.quality}`}
     >
       {answer?.saved ? (
         <Notice tone="success">
@@ -66,14 +66,14 @@ export function EditPanel({
         {qualityWords[selected.quality]}.
       </p>
       <input type="hidden" name="intent" value="edit" />
-      <input type="hidden" name="hourStart" value={selected.hour_start} />
+      <input type="hidden" name="intervalStart" value={selected.start} />
       <Field
         label="Corrected energy (kWh)"
         name="energyKwh"
         inputMode="decimal"
         hint={hint}
         defaultValue={decimalAsTyped(selected.energy_kwh)}
-        error={errors.energyKwh ?? errors.hourStart}
+        error={errors.energyKwh ?? errors.intervalStart}
       />
       {answer?.confirm ? (
         <label className="flex items-start gap-2 font-semibold">

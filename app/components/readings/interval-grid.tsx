@@ -63,8 +63,9 @@ export function IntervalGrid({
   const columns = useMemo<ColDef<Interval>[]>(() => {
     const all: ColDef<Interval>[] = [
       {
-        headerName: `Hour (${timeZone})`,
-        field: "hour_start",
+        // The meter's own intervals, so one can be selected and corrected.
+        headerName: `Start (${timeZone})`,
+        field: "start",
         valueFormatter: (p) => hourLabel(p.value),
         flex: 2,
         sort: "desc",
@@ -131,7 +132,7 @@ export function IntervalGrid({
         theme={gridTheme}
         rowData={intervals}
         columnDefs={columns}
-        getRowId={(p) => p.data.hour_start}
+        getRowId={(p) => p.data.start}
         pagination
         paginationPageSize={100}
         paginationPageSizeSelector={[50, 100, 500]}

@@ -24,20 +24,27 @@ function deliveredOrExported(
     : ["Delivered", deliveredSign(meter.carrier) * net];
 }
 
-/** The hours shown, their delivered or exported total, and how many are estimated, corrected or flagged. */
+/** The intervals shown (at the meter's resolution), their delivered or exported total, and how many are estimated, corrected or flagged. */
 export function IntervalSummary({
   intervals,
   meter,
 }: {
   intervals: Interval[];
-  meter: { carrier: Carrier; orientation: Orientation };
+  meter: {
+    carrier: Carrier;
+    orientation: Orientation;
+    intervalMinutes: number;
+  };
 }) {
   const [totalLabel, total] = deliveredOrExported(intervals, meter);
   const estimated = intervals.filter((i) => i.quality === "estimated").length;
   const edited = intervals.filter((i) => i.quality === "edited").length;
   const flagged = intervals.filter((i) => i.flags.length > 0).length;
   const items = [
-    ["Hours", formatCount(intervals.length)],
+    [
+      meter.intervalMinutes === 60 ? "Hours" : "Intervals",
+      formatCount(intervals.length),
+    ],
     // Tenths, not the ledger's whole kWh: a few hours' worth must still show.
     [totalLabel, `${formatNumber(total, 1)} kWh`],
     [

@@ -19,7 +19,8 @@ import { localParts } from "~/ingest/local-time";
 import type { Interval } from "./use-intervals";
 
 /**
- * Hourly energy over the range: actual hours in the carrier's colours (as on
+ * Hourly energy over the range (a finer meter's intervals summed per hour by
+ * hourlyTotals): actual hours in the carrier's colours (as on
  * every chart), estimated and corrected hours in the caution colour the interval
  * grid gives them.
  */
@@ -37,7 +38,7 @@ export function LoadProfile({
   const data = intervals.map((i) => {
     const v = Number(i.energy_kwh);
     return {
-      t: new Date(i.hour_start).getTime(),
+      t: new Date(i.start).getTime(),
       measured: i.quality === "measured" ? v : null,
       other: i.quality !== "measured" ? v : null,
     };
@@ -105,7 +106,7 @@ export function LoadProfile({
 /** Local midnights, thinned to about ten, so each tick names one day. */
 function midnightTicks(intervals: Interval[], timeZone: string): number[] {
   const midnights = intervals
-    .map((i) => new Date(i.hour_start))
+    .map((i) => new Date(i.start))
     .filter((d) => localParts(d, timeZone).hour === 0)
     .map((d) => d.getTime());
   const step = Math.max(1, Math.ceil(midnights.length / 10));

@@ -1,7 +1,8 @@
 /**
  * Hour counts per meter over a report's period, in one query: each meter's
  * window is the period in its site's time zone, cut to when it was installed
- * and removed and to the time of generation.
+ * and removed and to the time of generation. A meter's intervals count as
+ * their length in hours (a half-hour as 0.5), whatever its resolution.
  */
 import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
@@ -38,7 +39,7 @@ export async function meterHourCounts(args: {
     open_conflicts: number;
   }>(
     `with live as (
-       select m.id, m.code, m.name, m.carrier::text as carrier, m.orientation::text as orientation,
+       select m.id, m.interval_minutes, m.code, m.name, m.carrier::text as carrier, m.orientation::text as orientation,
               m.parent_meter_id is not null as sub_meter, m.removed_at is not null as retired,
               s.name as site_name,
               greatest(($2::date)::timestamp at time zone s.time_zone, m.installed_at) as t0,
@@ -48,23 +49,23 @@ export async function meterHourCounts(args: {
          join sites s on s.organization_id = m.organization_id and s.id = m.site_id
         where m.organization_id = $1 and ($4::uuid is null or s.id = $4::uuid)
      ), hours as (
-       select l.id, i.hour_start, i.quality::text as quality,
+       select l.id, i.interval_start, i.quality::text as quality, l.interval_minutes / 60.0 as length,
               case when i.quality = 'measured'
-                   then i.hour_start - lag(i.hour_start) over (
-                          partition by l.id, i.quality = 'measured' order by i.hour_start)
+                   then i.interval_start - lag(i.interval_start) over (
+                          partition by l.id, i.quality = 'measured' order by i.interval_start)
               end as step
          from live l
          join intervals i on i.organization_id = $1 and i.meter_id = l.id
-          and i.hour_start >= l.t0 and i.hour_start < l.t1
+          and i.interval_start >= l.t0 and i.interval_start < l.t1
         where l.t1 > l.t0
      ), counts as (
        select id,
-              count(*) filter (where quality = 'measured')::int as measured,
-              count(*) filter (where quality = 'estimated')::int as estimated,
-              count(*) filter (where quality = 'edited')::int as edited,
-              min(hour_start) filter (where quality = 'measured') as first_measured,
-              max(hour_start) filter (where quality = 'measured') as last_measured,
-              max(extract(epoch from step) / 3600 - 1)::float8 as longest_gap
+              coalesce(sum(length) filter (where quality = 'measured'), 0)::float8 as measured,
+              coalesce(sum(length) filter (where quality = 'estimated'), 0)::float8 as estimated,
+              coalesce(sum(length) filter (where quality = 'edited'), 0)::float8 as edited,
+              min(interval_start) filter (where quality = 'measured') as first_measured,
+              max(interval_start) filter (where quality = 'measured') as last_measured,
+              max(extract(epoch from step) / 3600 - length)::float8 as longest_gap
          from hours group by id
      ), conflicts as (
        select c.meter_id as id, count(*)::int as conflicts,

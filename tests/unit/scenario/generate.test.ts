@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { estimateGaps } from "../../../app/ingest/estimate";
 import { registerDeltas } from "../../../app/ingest/register-series";
-import type { HourlyPoint } from "../../../app/ingest/series";
+import type { IntervalPoint } from "../../../app/ingest/series";
 import { findGaps } from "../../../app/ingest/validate";
 import {
   generateReadings,
@@ -269,8 +269,8 @@ describe("scenario events", () => {
   });
 
   it("shows the long school gap to the ingest checks, and it is estimable", () => {
-    const series: HourlyPoint[] = byMeter.get("NP-HX1")!.map((r) => ({
-      hourStart: new Date(startOf(r)),
+    const series: IntervalPoint[] = byMeter.get("NP-HX1")!.map((r) => ({
+      intervalStart: new Date(startOf(r)),
       // Stand-in energy (volume) is enough to check placement here.
       energyKwh: r.quantity === "water_heat" ? r.volume_m3 : 0,
       quality: "measured",

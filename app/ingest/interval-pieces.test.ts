@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { HOUR_MS, splitAcrossHours } from "./hours";
-import { hourPieces, piecesOf } from "./hour-pieces";
+import { HOUR_MS, splitAcrossIntervals } from "./hours";
+import { intervalPieces, piecesOf } from "./interval-pieces";
 import type { PreparedReading } from "./prepare-readings.server";
 
 function random(seed: number) {
@@ -14,13 +14,17 @@ function random(seed: number) {
 
 const T0 = Date.parse("2026-03-29T00:00:00Z");
 
-function reading(next: () => number, meterId = "m1"): PreparedReading {
+function reading(
+  next: () => number,
+  meterId = "m1",
+  intervalMinutes = 60,
+): PreparedReading {
   const start = T0 + Math.floor(next() * 48 * 4) * 15 * 60_000;
   const minutes = [15, 30, 45, 60, 90, 120, 185, 300][Math.floor(next() * 8)];
   const energy = (next() - 0.2) * 10 ** Math.floor(next() * 6);
   return {
     index: 0,
-    meter: { id: meterId } as PreparedReading["meter"],
+    meter: { id: meterId, intervalMinutes } as PreparedReading["meter"],
     readingTime: new Date(start),
     endTime: new Date(start + minutes * 60_000),
     payload: {},
@@ -33,18 +37,18 @@ function reading(next: () => number, meterId = "m1"): PreparedReading {
 
 /** What every reading went through before: the split, always. */
 function split(r: PreparedReading) {
-  const energy = splitAcrossHours(
+  const energy = splitAcrossIntervals(
     r.readingTime,
     r.endTime!,
     Number(r.energyKwh),
   );
-  const band = splitAcrossHours(
+  const band = splitAcrossIntervals(
     r.readingTime,
     r.endTime!,
     Number(r.uncertaintyKwh ?? 0),
   );
   return energy.map((p, i) => ({
-    hour: p.hourStart.getTime(),
+    hour: p.intervalStart.getTime(),
     energy: Number(p.energyKwh.toFixed(6)),
     band: Number(band[i].energyKwh.toFixed(6)),
   }));
@@ -56,7 +60,7 @@ describe("hour pieces", () => {
     for (let i = 0; i < 20_000; i++) {
       const r = reading(next);
       const pieces = piecesOf(r).map((p) => ({
-        hour: p.hour,
+        hour: p.start,
         energy: Number(p.energy),
         band: Number(p.band),
       }));
@@ -71,18 +75,18 @@ describe("hour pieces", () => {
         reading(next, next() < 0.5 ? "m1" : "m2"),
       );
       const keys = rows.flatMap((r) =>
-        piecesOf(r).map((p) => `${r.meter.id}|${p.hour}`),
+        piecesOf(r).map((p) => `${r.meter.id}|${p.start}`),
       );
       const shared = new Set(keys).size < keys.length;
       // Never a missed sharing, in any order…
-      if (shared) expect(hourPieces(rows).shared).toBe(true);
+      if (shared) expect(intervalPieces(rows).shared).toBe(true);
       // …and exact for readings in key order, as the store passes them.
       const sorted = [...rows].sort(
         (a, b) =>
           a.meter.id.localeCompare(b.meter.id) ||
           a.readingTime.getTime() - b.readingTime.getTime(),
       );
-      expect(hourPieces(sorted).shared).toBe(shared);
+      expect(intervalPieces(sorted).shared).toBe(shared);
     }
   });
 
@@ -90,8 +94,8 @@ describe("hour pieces", () => {
     const r = reading(random(3));
     r.readingTime = new Date(T0 + 30 * 60_000);
     r.endTime = new Date(T0 + 150 * 60_000);
-    const p = hourPieces([r]);
-    expect(p.hours).toEqual([
+    const p = intervalPieces([r]);
+    expect(p.starts).toEqual([
       "2026-03-29T00:00:00.000Z",
       "2026-03-29T01:00:00.000Z",
       "2026-03-29T02:00:00.000Z",
