@@ -18,7 +18,7 @@
 
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { randomBytes, randomUUID } from "node:crypto";
-import { existsSync, readFileSync, readdirSync } from "node:fs";
+import { existsSync, readFileSync, readdirSync, statSync } from "node:fs";
 import { mkdtemp, rm, writeFile } from "node:fs/promises";
 import { createServer, type AddressInfo } from "node:net";
 import os from "node:os";
@@ -127,14 +127,41 @@ export async function benchDatabaseUrl(): Promise<{
   return { url, origin: `managed cluster, database ${BENCH_DATABASE}` };
 }
 
+/** The newest modification time of the files under `dir` (recursively). */
+function newestChange(dir: string): number {
+  let newest = 0;
+  for (const entry of readdirSync(dir, { withFileTypes: true })) {
+    const full = path.join(dir, entry.name);
+    newest = Math.max(
+      newest,
+      entry.isDirectory() ? newestChange(full) : statSync(full).mtimeMs,
+    );
+  }
+  return newest;
+}
+
+/**
+ * Builds the server when there is no build, or when the app's code changed
+ * after it was made: a stale build would bench yesterday's code (or fail on
+ * today's schema).
+ */
 export function ensureBuild(): void {
-  if (existsSync(path.join(ROOT, "build/server/index.js"))) return;
-  console.log("no production build: running npx react-router build");
-  const built = spawnSync("npx", ["react-router", "build"], {
+  const built = path.join(ROOT, "build/server/index.js");
+  if (
+    existsSync(built) &&
+    statSync(built).mtimeMs >=
+      Math.max(
+        newestChange(path.join(ROOT, "app")),
+        statSync(path.join(ROOT, "server.ts")).mtimeMs,
+      )
+  )
+    return;
+  console.log("no up-to-date production build: running npx react-router build");
+  const build = spawnSync("npx", ["react-router", "build"], {
     cwd: ROOT,
     stdio: "inherit",
   });
-  if (built.status !== 0) throw new Error("react-router build failed");
+  if (build.status !== 0) throw new Error("react-router build failed");
 }
 
 async function freePort(): Promise<number> {
