@@ -48,6 +48,7 @@ for (const [label, viewport] of [
     "gateways",
     "members",
     "audit",
+    "api-tokens",
     "../../outbox",
     "../../account",
   ]) {
@@ -61,6 +62,14 @@ for (const [label, viewport] of [
       fullPage: true,
     });
   }
+  // A site with plant: its page (the boundary and balance) and its Plant page.
+  await page.goto(`${base}${orgPath}/sites`);
+  await page.getByRole("link", { name: "Depot & Laundry" }).first().click();
+  await page.waitForURL(/\/sites\/[0-9a-f-]+$/);
+  await page.screenshot({ path: `${out}/${label}-site.png`, fullPage: true });
+  await page.getByRole("link", { name: "Plant and its checks" }).click();
+  await page.locator(".recharts-line").first().waitFor();
+  await page.screenshot({ path: `${out}/${label}-plant.png`, fullPage: true });
   await page.goto(`${base}/o/00000000-0000-0000-0000-000000000000`);
   await page.screenshot({ path: `${out}/${label}-404.png`, fullPage: true });
   await page.close();
