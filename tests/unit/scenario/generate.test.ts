@@ -195,8 +195,7 @@ function outOfRange(r: GatewayReading): string | null {
   }
   if (r.quantity === "gas_volume") {
     // GB natural gas 37.5–43 MJ/m³ gross (references.md §9, common practice).
-    const ok =
-      r.volume_m3 >= 0 && within(r.calorific_value_mj_m3, 37.5, 43);
+    const ok = r.volume_m3 >= 0 && within(r.calorific_value_mj_m3, 37.5, 43);
     return ok ? null : "gas volume < 0 or CV outside 37.5–43 MJ/m³";
   }
   if (r.quantity === "hydrogen") {
