@@ -6,7 +6,14 @@
  */
 import { and, eq } from "drizzle-orm";
 import { db } from "../app/db/client.server";
-import { meters, organizations, sites, users } from "../app/db/schema";
+import {
+  meters,
+  organizations,
+  plantMeters,
+  plants,
+  sites,
+  users,
+} from "../app/db/schema";
 import { closeMonth } from "../app/ledger/month-close.server";
 import { ingestReadings } from "../app/ingest/ingest-readings.server";
 import { estimationIdle } from "../app/ingest/after-ingest.server";
@@ -15,6 +22,7 @@ import { formatCount } from "../app/lib/format";
 import {
   METERS,
   ORGANIZATION_NAME,
+  PLANTS,
   SCENARIO_PERIOD,
   SITES,
 } from "./scenario/larchmere-estate";
@@ -79,6 +87,7 @@ export async function createEstate(organizationId: string): Promise<boolean> {
           quantity: m.quantity,
           carrier: m.carrier,
           orientation: m.orientation,
+          position: m.position ?? "boundary",
           serial: m.serial,
           multiplier: String(m.multiplier),
           rolloverKwh:
@@ -112,6 +121,27 @@ export async function createEstate(organizationId: string): Promise<boolean> {
             eq(meters.id, meterIds.get(m.code)!),
           ),
         );
+    }
+    for (const p of PLANTS) {
+      const [plant] = await tx
+        .insert(plants)
+        .values({
+          organizationId,
+          siteId: siteIds.get(p.siteName)!,
+          kind: p.kind,
+          name: p.name,
+          heatFlowC: String(p.heatFlowC),
+          heatReturnC: String(p.heatReturnC),
+        })
+        .returning({ id: plants.id });
+      await tx.insert(plantMeters).values(
+        Object.entries(p.meters).map(([role, code]) => ({
+          organizationId,
+          plantId: plant.id,
+          meterId: meterIds.get(code)!,
+          role: role as keyof typeof p.meters,
+        })),
+      );
     }
     return true;
   });

@@ -150,7 +150,7 @@ export const ledgerQuerySchema = z.strictObject({
     .describe("One site; empty or absent: every site"),
   carrier: z
     .enum(["", ...carriers], {
-      error: "carrier: heat, cooling, steam or electricity",
+      error: `carrier: one of ${carriers.join(", ")}`,
     })
     .optional()
     .describe("One carrier; empty or absent: every carrier"),

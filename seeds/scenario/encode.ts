@@ -27,7 +27,22 @@ export interface EnergyHour {
   kwh: number;
 }
 
-export type HourValue = WaterHour | SteamHour | EnergyHour;
+/** Natural gas through a meter in the hour, with the supply's CV and correction. */
+export interface GasHour {
+  kind: "gas";
+  volumeM3: number;
+  cvMjM3: number;
+  correctionFactor: number;
+}
+
+/** Hydrogen used in the hour. */
+export interface HydrogenHour {
+  kind: "hydrogen";
+  massKg: number;
+}
+
+export type HourValue =
+  WaterHour | SteamHour | EnergyHour | GasHour | HydrogenHour;
 
 // ρ·c_p/3600 for water near 50 °C and near 8 °C, kWh/(m³·K): 988 kg/m³ ×
 // 4.18 kJ/(kg·K) and 1000 kg/m³ × 4.19 kJ/(kg·K) (common practice; rounded
@@ -115,6 +130,11 @@ export function steam(
     pressureBarG: round(pressureBarG, 2),
     condensateC: round(condensateC, 1),
   };
+}
+
+/** The heat a water reading was sized for: the inverse of heatingWater. */
+export function heatOf(w: WaterHour): number {
+  return w.volumeM3 * K_HOT * (w.flowC - w.returnC);
 }
 
 export function energy(kwh: number): EnergyHour {

@@ -5,10 +5,17 @@
 
 import { HOUR_MS, hourContext, isoSeconds } from "./clock";
 import type { HourContext } from "./clock";
-import type { HourValue, SteamHour, WaterHour } from "./encode";
+import type {
+  GasHour,
+  HourValue,
+  HydrogenHour,
+  SteamHour,
+  WaterHour,
+} from "./encode";
 import { METERS, SCENARIO_GAPS, SCENARIO_PERIOD } from "./larchmere-estate";
 import type { ScenarioMeter } from "./larchmere-estate";
 import { SITE_MODELS } from "./loads";
+import { PLANT_MODELS } from "./plant-loads";
 
 export type WaterHeatReading = {
   meter: string;
@@ -39,8 +46,30 @@ export type RegisterReading = {
   register_kwh: number;
 };
 
+export type GasVolumeReading = {
+  meter: string;
+  start: string;
+  end: string;
+  quantity: "gas_volume";
+  volume_m3: number;
+  calorific_value_mj_m3: number;
+  correction_factor: number;
+};
+
+export type HydrogenReading = {
+  meter: string;
+  start: string;
+  end: string;
+  quantity: "hydrogen";
+  mass_kg: number;
+};
+
 export type GatewayReading =
-  WaterHeatReading | SteamHeatReading | RegisterReading;
+  | WaterHeatReading
+  | SteamHeatReading
+  | GasVolumeReading
+  | HydrogenReading
+  | RegisterReading;
 
 export interface ScenarioReading {
   meter: string;
@@ -68,6 +97,8 @@ export const REGISTER_START: Record<string, { kwh: number; decimals: number }> =
     "DL-EL1": { kwh: 377_051.2, decimals: 1 },
     "RL-EL1": { kwh: 52_300.0, decimals: 1 },
     "DR-EL1": { kwh: 141_906.4, decimals: 1 },
+    "BH-HPE": { kwh: 12_480.0, decimals: 1 },
+    "LP-FCE": { kwh: 0, decimals: 1 },
   };
 
 class Register {
@@ -159,6 +190,59 @@ function steamReading(
   };
 }
 
+function gasReading(
+  m: ScenarioMeter,
+  c: HourContext,
+  end: string,
+  v: GasHour,
+): GasVolumeReading {
+  return {
+    meter: m.code,
+    start: c.iso,
+    end,
+    quantity: "gas_volume",
+    volume_m3: v.volumeM3,
+    calorific_value_mj_m3: v.cvMjM3,
+    correction_factor: v.correctionFactor,
+  };
+}
+
+function hydrogenReading(
+  m: ScenarioMeter,
+  c: HourContext,
+  end: string,
+  v: HydrogenHour,
+): HydrogenReading {
+  return {
+    meter: m.code,
+    start: c.iso,
+    end,
+    quantity: "hydrogen",
+    mass_kg: v.massKg,
+  };
+}
+
+/** The reading a meter sends for an hour's value. */
+function intervalReading(
+  m: ScenarioMeter,
+  c: HourContext,
+  end: string,
+  v: HourValue,
+): GatewayReading | undefined {
+  switch (v.kind) {
+    case "water":
+      return waterReading(m, c, end, v);
+    case "steam":
+      return steamReading(m, c, end, v);
+    case "gas":
+      return gasReading(m, c, end, v);
+    case "hydrogen":
+      return hydrogenReading(m, c, end, v);
+    default:
+      return undefined;
+  }
+}
+
 function requireRange(range: GenerateRange): void {
   const from = range.from.getTime();
   const to = range.to.getTime();
@@ -188,7 +272,10 @@ const INTERVAL_METERS = METERS.filter(
  * a run can only go forwards.
  */
 export class ScenarioRun {
-  private readonly models = SITE_MODELS.map((s) => s.create());
+  private readonly models = [
+    ...SITE_MODELS.map((s) => s.create()),
+    ...PLANT_MODELS.map((create) => create()),
+  ];
   private readonly registers = new Map(
     REGISTER_METERS.map((m) => [m.code, new Register(m)]),
   );
@@ -267,12 +354,7 @@ export class ScenarioRun {
       if (v === undefined || !activeOver(m, c.t) || this.missing(m.code, c.t)) {
         continue;
       }
-      const reading =
-        v.kind === "water"
-          ? waterReading(m, c, end, v)
-          : v.kind === "steam"
-            ? steamReading(m, c, end, v)
-            : undefined;
+      const reading = intervalReading(m, c, end, v);
       if (reading !== undefined) yield { meter: m.code, reading };
     }
   }

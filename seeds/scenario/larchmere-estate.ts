@@ -5,10 +5,12 @@
 
 import type {
   Carrier,
+  MeterPosition,
   Orientation,
   Quantity,
   SensorPosition,
 } from "../../app/sites/meter-kinds";
+import type { PlantKind, PlantMeterRole } from "../../app/plant/plant-roles";
 
 export interface ScenarioSite {
   name: string;
@@ -25,6 +27,8 @@ export interface ScenarioMeter {
   quantity: Quantity;
   carrier: Carrier;
   orientation: Orientation;
+  /** Inside the boundary (a plant's output): left out of delivered energy. */
+  position?: MeterPosition;
   parentCode?: string;
   serial: string;
   multiplier: number;
@@ -336,6 +340,98 @@ export const METERS: readonly ScenarioMeter[] = [
     defaultPressureBarAbs: 5,
     installedAt: LONG_AGO,
   },
+  // Plant added to the estate (all invented): a gas boiler house at the
+  // depot, a heat pump for the sheltered housing's lounge and hot water,
+  // and a hydrogen fuel-cell CHP at the pool. Their output meters sit
+  // inside the boundaries; the gas, the hydrogen and the heat pump's
+  // electricity cross them.
+  {
+    code: "DL-GS1",
+    name: "Gas supply to the boiler house",
+    siteName: SITE.depot,
+    quantity: "gas_volume",
+    carrier: "natural_gas",
+    orientation: "import",
+    serial: "GM-17-31207",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "DL-HX2",
+    name: "Boiler house heat meter",
+    siteName: SITE.depot,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    position: "internal",
+    serial: "HM-17-31208",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 3,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "BH-HPE",
+    name: "Heat pump electricity",
+    siteName: SITE.housing,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    serial: "EL-23-118402",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "BH-HPH",
+    name: "Heat pump heat meter (lounge and hot water)",
+    siteName: SITE.housing,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    position: "internal",
+    serial: "HM-23-118403",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 3,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "LP-H21",
+    name: "Hydrogen to the fuel cell",
+    siteName: SITE.pool,
+    quantity: "hydrogen",
+    carrier: "hydrogen",
+    orientation: "import",
+    serial: "HY-24-00312",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "LP-FCE",
+    name: "Fuel cell electricity out",
+    siteName: SITE.pool,
+    quantity: "electric_register",
+    carrier: "electricity",
+    orientation: "import",
+    position: "internal",
+    serial: "EL-24-00313",
+    multiplier: 1,
+    installedAt: LONG_AGO,
+  },
+  {
+    code: "LP-FCH",
+    name: "Fuel cell heat recovery",
+    siteName: SITE.pool,
+    quantity: "water_heat",
+    carrier: "heat",
+    orientation: "import",
+    position: "internal",
+    serial: "HM-24-00314",
+    multiplier: 1,
+    sensorAt: "return",
+    defaultPressureBarAbs: 4,
+    installedAt: LONG_AGO,
+  },
   {
     code: "DR-CW1",
     name: "Chilled water to the room coolers",
@@ -361,6 +457,57 @@ export const METERS: readonly ScenarioMeter[] = [
     installedAt: LONG_AGO,
   },
 ];
+
+export interface ScenarioPlant {
+  siteName: string;
+  name: string;
+  kind: PlantKind;
+  meters: Partial<Record<PlantMeterRole, string>>;
+  heatFlowC: number;
+  heatReturnC: number;
+}
+
+export const PLANTS: readonly ScenarioPlant[] = [
+  {
+    siteName: SITE.depot,
+    name: "Boiler house",
+    kind: "boiler",
+    meters: { fuel_in: "DL-GS1", heat_out: "DL-HX2" },
+    heatFlowC: 75,
+    heatReturnC: 60,
+  },
+  {
+    siteName: SITE.housing,
+    name: "Lounge heat pump",
+    kind: "heat_pump",
+    meters: { electricity_in: "BH-HPE", heat_out: "BH-HPH" },
+    heatFlowC: 45,
+    heatReturnC: 40,
+  },
+  {
+    siteName: SITE.pool,
+    name: "Fuel-cell CHP",
+    kind: "fuel_cell",
+    meters: {
+      fuel_in: "LP-H21",
+      electricity_out: "LP-FCE",
+      heat_out: "LP-FCH",
+    },
+    heatFlowC: 60,
+    heatReturnC: 40,
+  },
+];
+
+/**
+ * The planted fault: in this site-local month the boiler house heat meter
+ * over-reads by a fifth (a flow sensor fouled, say), so the boiler shows
+ * above 100 % of its gas's gross energy and the plant check flags it.
+ */
+export const BOILER_FAULT = {
+  meter: "DL-HX2",
+  month: "2026-02",
+  overRead: 1.22,
+} as const;
 
 export interface ScenarioGap {
   meter: string;

@@ -219,7 +219,7 @@ describe("demo estate months", () => {
            -- Delivered view: chilled water's heat flow is cooling delivered.
            cross join lateral (select case when m.carrier = 'cooling' then -i.energy_kwh
                                            else i.energy_kwh end as kwh) d
-          where i.organization_id = $1 and m.parent_meter_id is null
+          where i.organization_id = $1 and m.parent_meter_id is null and m.position = 'boundary'
           group by 1, 2, 3`,
         [org.id],
       );

@@ -193,6 +193,14 @@ function outOfRange(r: GatewayReading): string | null {
       r.condensate_temp_c < 143;
     return ok ? null : "steam outside 3–10 bar g, or condensate too hot";
   }
+  if (r.quantity === "gas_volume") {
+    // GB natural gas 37.5–43 MJ/m³ gross (references.md §9, common practice).
+    const ok = r.volume_m3 >= 0 && within(r.calorific_value_mj_m3, 37.5, 43);
+    return ok ? null : "gas volume < 0 or CV outside 37.5–43 MJ/m³";
+  }
+  if (r.quantity === "hydrogen") {
+    return r.mass_kg >= 0 ? null : "negative hydrogen mass";
+  }
   return r.register_kwh >= 0 ? null : "negative register";
 }
 
