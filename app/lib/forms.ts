@@ -70,3 +70,26 @@ export const nameField = z
   .trim()
   .min(1, "Enter a name.")
   .max(120, "Use at most 120 characters.");
+
+/**
+ * An optional number typed into a form: empty is null, anything else must be
+ * a finite number within [min, max], or the field gets a sentence naming the
+ * range.
+ */
+export const optionalNumberField = (label: string, min: number, max: number) =>
+  z
+    .string()
+    .trim()
+    .max(24)
+    .transform((v, ctx) => {
+      if (v === "") return null;
+      const n = Number(v);
+      if (!Number.isFinite(n) || n < min || n > max) {
+        ctx.addIssue({
+          code: "custom",
+          message: `${label} must be a number from ${min} to ${max}.`,
+        });
+        return z.NEVER;
+      }
+      return n;
+    });

@@ -3,6 +3,7 @@
  * outputs, and its design water temperatures where the laws need them.
  */
 import { z } from "zod";
+import { optionalNumberField } from "~/lib/forms";
 import { optionalIdField } from "~/lib/ids";
 import {
   needsChilledTemperatures,
@@ -14,23 +15,9 @@ import {
   type PlantMeterRole,
 } from "./plant-roles";
 
+/** A temperature in °C, empty for none. */
 const temperature = (label: string, min: number, max: number) =>
-  z
-    .string()
-    .trim()
-    .max(12)
-    .transform((v, ctx) => {
-      if (v === "") return null;
-      const n = Number(v);
-      if (!Number.isFinite(n) || n < min || n > max) {
-        ctx.addIssue({
-          code: "custom",
-          message: `${label} must be a number of °C from ${min} to ${max}.`,
-        });
-        return z.NEVER;
-      }
-      return n;
-    });
+  optionalNumberField(`${label} (°C)`, min, max);
 
 /** The form field that names the meter in a role, e.g. `meter_heat_out`. */
 export const roleField = (role: PlantMeterRole) => `meter_${role}` as const;

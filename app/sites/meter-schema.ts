@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { optionalNumberField as decimal } from "~/lib/forms";
 import { optionalIdField } from "~/lib/ids";
 import {
   carrierInText,
@@ -13,24 +14,6 @@ import {
   sensorPositions,
   type IntervalMinutes,
 } from "./meter-kinds";
-
-const decimal = (label: string, min: number, max: number) =>
-  z
-    .string()
-    .trim()
-    .max(24)
-    .transform((v, ctx) => {
-      if (v === "") return null;
-      const n = Number(v);
-      if (!Number.isFinite(n) || n < min || n > max) {
-        ctx.addIssue({
-          code: "custom",
-          message: `${label} must be a number from ${min} to ${max}.`,
-        });
-        return z.NEVER;
-      }
-      return n;
-    });
 
 const dateField = (label: string) =>
   z

@@ -1,3 +1,4 @@
+import { CHART } from "~/components/chart-colours";
 import {
   Bar,
   BarChart,
@@ -79,19 +80,19 @@ export function CarrierChart({ data }: { data: CarrierMonth[] }) {
           stackOffset="sign"
           margin={{ top: 8, right: 16, bottom: 8, left: 8 }}
         >
-          <CartesianGrid stroke="#dcd6ca" strokeDasharray="3 3" />
-          <XAxis dataKey="month" stroke="#4f5966" />
+          <CartesianGrid stroke={CHART.grid} strokeDasharray="3 3" />
+          <XAxis dataKey="month" stroke={CHART.ink} />
           <YAxis
-            stroke="#4f5966"
+            stroke={CHART.ink}
             width={64}
             label={{
               value: "MWh",
               angle: -90,
               position: "insideLeft",
-              fill: "#4f5966",
+              fill: CHART.ink,
             }}
           />
-          <ReferenceLine y={0} stroke="#4f5966" />
+          <ReferenceLine y={0} stroke={CHART.ink} />
           <Tooltip formatter={(v) => formatMwh(Number(v))} />
           <Legend />
           {series.map((s) => (

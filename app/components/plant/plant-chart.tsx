@@ -9,14 +9,12 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
+import { CHART } from "~/components/chart-colours";
 import { monthShort } from "~/lib/format";
 import type { PlantFigureKey } from "~/plant/plant-performance";
 import { formatPlantFigure, plantFigureLabels } from "~/plant/plant-words";
 
-const INK = "#4f5966";
-const GRID = "#dcd6ca";
-const SPRUCE = "#0f5546";
-const DANGER = "#b3261e";
+const { ink: INK, grid: GRID, spruce: SPRUCE, danger: DANGER } = CHART;
 
 export interface PlantChartMonth {
   month: string;

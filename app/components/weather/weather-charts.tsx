@@ -13,6 +13,7 @@ import {
   XAxis,
   YAxis,
 } from "recharts";
+import { CHART } from "~/components/chart-colours";
 import { carrierColour } from "~/sites/carrier-colours";
 import type { Carrier } from "~/sites/meter-kinds";
 import {
@@ -22,10 +23,7 @@ import {
   monthShort,
 } from "~/lib/format";
 
-const INK = "#4f5966";
-const INK_STRONG = "#1a222d";
-const GRID = "#dcd6ca";
-const SPRUCE = "#0f5546";
+const { ink: INK, inkStrong: INK_STRONG, grid: GRID, spruce: SPRUCE } = CHART;
 
 /**
  * Energy is drawn in its carrier's colour (app/sites/carrier-colours.ts), as
