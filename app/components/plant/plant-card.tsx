@@ -3,7 +3,13 @@ import { BrowserOnly } from "~/components/browser-only";
 import { FigureTable } from "~/components/figure-table";
 import { SectionCard } from "~/components/section-card";
 import { Badge, Button } from "~/components/ui";
-import { formatKwh, formatPercent, monthLong, NO_FIGURE } from "~/lib/format";
+import {
+  DECIMALS,
+  formatNumber,
+  formatPercent,
+  monthLong,
+  NO_FIGURE,
+} from "~/lib/format";
 import type { PlantMonthFigures } from "~/plant/plant-months.server";
 import type { PlantFigureKey } from "~/plant/plant-performance";
 import {
@@ -83,7 +89,7 @@ function MonthRows({ plant }: { plant: PlantView }) {
             <td key={r} className="px-2 py-1 text-right">
               {m.energies[r] === undefined
                 ? "No data"
-                : formatKwh(m.energies[r])}
+                : formatNumber(m.energies[r], DECIMALS.kWh)}
             </td>
           ))}
           {keys.map((k) => (
