@@ -41,7 +41,7 @@ export default function Readings({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader
         title="Readings"
-        description="Hourly intervals per meter: actual, estimated or edited, with the readings they come from."
+        description="Each meter's intervals (hourly, half-hourly or every 15 minutes): actual, estimated or edited, with the readings they come from."
       />
       <div className="flex flex-col gap-6">
         {meters.length === 0 ? (
