@@ -13,7 +13,7 @@ import {
   SelectField,
 } from "~/components/ui";
 import { parseForm } from "~/lib/forms";
-import { isUuid } from "~/lib/ids";
+import { revokeBeingConfirmed } from "~/lib/revoke-confirmation";
 import {
   createTokenSchema,
   DEFAULT_TOKEN_LIFETIME,
@@ -43,11 +43,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
     revokedAt: t.revokedAt?.toISOString() ?? null,
   }));
-  // `?revoke=<id>` is the confirmation step for that (active) token.
-  const revoke = new URL(request.url).searchParams.get("revoke");
-  const confirming = isUuid(revoke)
-    ? (tokens.find((t) => t.id === revoke && !t.revokedAt)?.id ?? null)
-    : null;
+  const confirming = revokeBeingConfirmed(request, tokens);
   return { tokens, confirming, now: new Date().toISOString() };
 }
 

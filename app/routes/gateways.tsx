@@ -20,7 +20,8 @@ import {
   revokeGateway,
 } from "~/gateways/manage-gateways.server";
 import { parseForm } from "~/lib/forms";
-import { idField, isUuid } from "~/lib/ids";
+import { idField } from "~/lib/ids";
+import { revokeBeingConfirmed } from "~/lib/revoke-confirmation";
 import { dateTimeUtc } from "~/lib/format";
 import type { Route } from "./+types/gateways";
 
@@ -51,11 +52,7 @@ const revokeSchema = z.strictObject({
 export async function loader({ request, context }: Route.LoaderArgs) {
   const { organization } = requirePermission(context, "gateways.manage");
   const gateways = await listGateways({ organizationId: organization.id });
-  // `?revoke=<id>` is the confirmation step for that (active) gateway.
-  const revoke = new URL(request.url).searchParams.get("revoke");
-  const confirming = isUuid(revoke)
-    ? (gateways.find((g) => g.id === revoke && !g.revokedAt)?.id ?? null)
-    : null;
+  const confirming = revokeBeingConfirmed(request, gateways);
   return { gateways, confirming, now: new Date().toISOString() };
 }
 
