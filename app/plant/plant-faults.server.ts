@@ -6,7 +6,7 @@
 import { and, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { sites } from "~/db/schema";
-import { sitePlantMonths } from "./plant-months.server";
+import { sitePlantMonths, type PlantMonthFigures } from "./plant-months.server";
 import { plantKindLabels } from "./plant-roles";
 import { plantFaultText } from "./plant-words";
 import { listPlants, type PlantRow } from "./plants.server";
@@ -30,6 +30,26 @@ function groupBySite(plants: PlantRow[]): Map<string, PlantRow[]> {
   for (const p of plants)
     bySite.set(p.siteId, [...(bySite.get(p.siteId) ?? []), p]);
   return bySite;
+}
+
+/** A plant's faults in its judged months, each a PlantFault. */
+function faultsOf(
+  plant: PlantRow,
+  months: readonly PlantMonthFigures[],
+  siteName: string,
+): PlantFault[] {
+  return months.flatMap((m) =>
+    m.faults.map((check) => ({
+      plantId: plant.id,
+      plantName: plant.name,
+      kind: plant.kind,
+      kindLabel: plantKindLabels[plant.kind],
+      siteName,
+      month: m.month,
+      meterCodes: plant.meters.map((l) => l.code),
+      text: plantFaultText(plant.kind, check),
+    })),
+  );
 }
 
 /** Every plant fault in the given months (YYYY-MM), oldest month first. */
@@ -58,22 +78,10 @@ export async function plantChecks(args: {
       plants: sitePlants,
       within: args.months,
     });
-    for (const plant of sitePlants) {
-      for (const m of months.get(plant.id) ?? []) {
-        for (const check of m.faults) {
-          faults.push({
-            plantId: plant.id,
-            plantName: plant.name,
-            kind: plant.kind,
-            kindLabel: plantKindLabels[plant.kind],
-            siteName: names.get(siteId) ?? "",
-            month: m.month,
-            meterCodes: plant.meters.map((l) => l.code),
-            text: plantFaultText(plant.kind, check),
-          });
-        }
-      }
-    }
+    for (const plant of sitePlants)
+      faults.push(
+        ...faultsOf(plant, months.get(plant.id) ?? [], names.get(siteId) ?? ""),
+      );
   }
   faults.sort(
     (a, b) =>
@@ -97,17 +105,6 @@ export async function meterPlantFaults(args: {
   if (plants.length === 0) return [];
   const months = await sitePlantMonths({ ...args, plants });
   return plants.flatMap((plant) =>
-    (months.get(plant.id) ?? []).flatMap((m) =>
-      m.faults.map((check) => ({
-        plantId: plant.id,
-        plantName: plant.name,
-        kind: plant.kind,
-        kindLabel: plantKindLabels[plant.kind],
-        siteName: "",
-        month: m.month,
-        meterCodes: plant.meters.map((l) => l.code),
-        text: plantFaultText(plant.kind, check),
-      })),
-    ),
+    faultsOf(plant, months.get(plant.id) ?? [], ""),
   );
 }

@@ -5,14 +5,14 @@
  */
 import { conversionLoss, type PlantLoss } from "./conversion-loss";
 import { sitePlantMonths } from "./plant-months.server";
-import { listSitePlants } from "./plants.server";
+import { listPlants } from "./plants.server";
 
 export async function plantLossesOfMonth(args: {
   organizationId: string;
   siteId: string;
   month: string;
 }): Promise<PlantLoss[]> {
-  const plants = await listSitePlants(args);
+  const plants = await listPlants(args);
   if (plants.length === 0) return [];
   const months = await sitePlantMonths({
     ...args,

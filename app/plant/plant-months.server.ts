@@ -40,8 +40,13 @@ interface RollupRow {
   estimatedKwh: string;
 }
 
-async function plantRollups(organizationId: string, meterIds: string[]) {
-  if (meterIds.length === 0) return [];
+/** The rollups of the plants' meters: every month, or only those `within` (YYYY-MM). */
+async function plantRollups(
+  organizationId: string,
+  meterIds: string[],
+  within: readonly string[] | undefined,
+) {
+  if (meterIds.length === 0 || within?.length === 0) return [];
   return db
     .select({
       meterId: monthlyRollups.meterId,
@@ -54,6 +59,12 @@ async function plantRollups(organizationId: string, meterIds: string[]) {
       and(
         eq(monthlyRollups.organizationId, organizationId),
         inArray(monthlyRollups.meterId, meterIds),
+        within
+          ? inArray(
+              monthlyRollups.month,
+              within.map((m) => `${m}-01`),
+            )
+          : undefined,
       ),
     );
 }
@@ -150,9 +161,8 @@ export async function sitePlantMonths(args: {
   within?: readonly string[];
 }): Promise<Map<string, PlantMonthFigures[]>> {
   const meterIds = args.plants.flatMap((p) => p.meters.map((m) => m.meterId));
-  const rows = await plantRollups(args.organizationId, meterIds);
+  const rows = await plantRollups(args.organizationId, meterIds, args.within);
   const monthsWithData = [...new Set(rows.map((r) => r.month.slice(0, 7)))]
-    .filter((m) => args.within?.includes(m) ?? true)
     .sort()
     .reverse()
     .slice(0, args.within ? undefined : (args.months ?? 12));

@@ -34,14 +34,6 @@ const plantColumns = {
 
 export type PlantRow = Awaited<ReturnType<typeof listPlants>>[number];
 
-/** The site's plant in use, each with the meters on its inputs and outputs. */
-export function listSitePlants(args: {
-  organizationId: string;
-  siteId: string;
-}) {
-  return listPlants(args);
-}
-
 /**
  * Plant in use with the meters on its inputs and outputs: one site's, or
  * (siteId null) the whole organisation's.

@@ -16,7 +16,7 @@ import { plantFormSchema } from "~/plant/plant-schema";
 import {
   archivePlant,
   createPlant,
-  listSitePlants,
+  listPlants,
   PlantRuleError,
 } from "~/plant/plants.server";
 import { listSiteMeters } from "~/sites/meters.server";
@@ -36,7 +36,7 @@ export async function loader({ params, context }: Route.LoaderArgs) {
   if (!site) notFound("No such site.");
   const scope = { organizationId: organization.id, siteId: site.id };
   const [plants, meters] = await Promise.all([
-    listSitePlants(scope),
+    listPlants(scope),
     listSiteMeters(scope),
   ]);
   const months = await sitePlantMonths({ ...scope, plants });
