@@ -944,3 +944,90 @@ export const reports = pgTable(
     ),
   ],
 );
+
+// ---------------------------------------------------------------------------
+// Oil and LPG tanks (app/tanks/, docs/fuels-tanks.md): a liquid-fuel meter
+// becomes a tank with its settings; its dips (stock, a state) and deliveries
+// (a path) give the consumption between consecutive dips, which is spread
+// over the meter's intervals.
+// ---------------------------------------------------------------------------
+
+/** A liquid-fuel meter that is a tank: its capacity and declared fuel. */
+export const tanks = pgTable(
+  "tanks",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    capacityL: numeric("capacity_l", { precision: 12, scale: 3 }).notNull(),
+    /** Used where no delivery note states the fuel's own figures. */
+    densityKgL: numeric("density_kg_l", { precision: 6, scale: 4 }).notNull(),
+    calorificValueMjKg: numeric("calorific_value_mj_kg", {
+      precision: 6,
+      scale: 3,
+    }).notNull(),
+    cvBasis: text("cv_basis").notNull().default("gross"),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId] }),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
+    check("tanks_cv_basis_check", sql`${t.cvBasis} in ('gross', 'net')`),
+  ],
+);
+
+/** A stock reading (a dip): the litres in the tank at an instant. */
+export const tankDips = pgTable(
+  "tank_dips",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    dippedAt: timestamp("dipped_at", { withTimezone: true }).notNull(),
+    stockL: numeric("stock_l", { precision: 12, scale: 3 }).notNull(),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId, t.dippedAt] }),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [tanks.organizationId, tanks.meterId],
+    }).onDelete("cascade"),
+  ],
+);
+
+/** A delivery into the tank, with what its delivery note states. */
+export const tankDeliveries = pgTable(
+  "tank_deliveries",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: uuid("id").notNull().defaultRandom(),
+    meterId: uuid("meter_id").notNull(),
+    deliveredAt: timestamp("delivered_at", { withTimezone: true }).notNull(),
+    volumeL: numeric("volume_l", { precision: 12, scale: 3 }).notNull(),
+    densityKgL: numeric("density_kg_l", { precision: 6, scale: 4 }),
+    calorificValueMjKg: numeric("calorific_value_mj_kg", {
+      precision: 6,
+      scale: 3,
+    }),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("tank_deliveries_meter_idx").on(
+      t.organizationId,
+      t.meterId,
+      t.deliveredAt,
+    ),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [tanks.organizationId, tanks.meterId],
+    }).onDelete("cascade"),
+  ],
+);

@@ -12,6 +12,7 @@ import {
   hydrogenItemSchema,
   liquidFuelItemSchema,
   sensibleHeatItemSchema,
+  solidFuelItemSchema,
   steamHeatItemSchema,
   waterHeatItemSchema,
 } from "../physics/evaluate-schema";
@@ -123,6 +124,8 @@ export const wellFormedReadingSchema = z
     gasVolumeItemSchema.extend(intervalReadingFields),
     liquidFuelItemSchema.extend(intervalReadingFields),
     hydrogenItemSchema.extend(intervalReadingFields),
+    // Biomass by weight: a boiler's fuel store weighed out, or a delivery.
+    solidFuelItemSchema.extend(intervalReadingFields),
     intervalEnergySchema,
     registerSchema,
   ])

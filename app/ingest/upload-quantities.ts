@@ -112,6 +112,19 @@ const ROWS: Record<
     words: "Hydrogen: the mass used in an interval, kg.",
     fields: { start: START, end: END, mass_kg: "0.8", basis: "gross" },
   },
+  solid_fuel: {
+    words:
+      "Biomass (logs, chips, pellets): the mass burnt in an interval, kg as weighed, with its calorific value (MJ/kg as received, or per kg of dry matter with the moisture content).",
+    fields: {
+      start: START,
+      end: END,
+      mass_kg: "62",
+      calorific_value_mj_kg: "17.1",
+      cv_basis: "net",
+      cv_moisture_basis: "as_received",
+      moisture_percent: "8",
+    },
+  },
 };
 
 const EXAMPLE_METER: Record<Quantity, string> = {
@@ -124,6 +137,7 @@ const EXAMPLE_METER: Record<Quantity, string> = {
   gas_volume: "NP-GS1",
   liquid_fuel: "DL-OT1",
   hydrogen: "LP-H21",
+  solid_fuel: "BH-BM1",
 };
 
 export const UPLOAD_QUANTITIES: readonly UploadQuantity[] = (

@@ -13,7 +13,8 @@
 // meter_class is given the result carries the meter's MPE as a ± band.
 //
 // Fuels, hydrogen and exergy (design.md, December 2026): the items
-// gas_volume, liquid_fuel and hydrogen, and water_heat's ambient_temp_c.
+// gas_volume, liquid_fuel and hydrogen, and water_heat's ambient_temp_c;
+// and, as an extension, solid_fuel for biomass by weight.
 // Physical and meter ranges (CV, gas temperature, density, ambient) are
 // checked by the physics modules, whose reasons name the field and the range.
 
@@ -27,6 +28,8 @@ export const FUEL_QUANTITIES = [
   "gas_volume",
   "liquid_fuel",
   "hydrogen",
+  // Biomass by weight (an extension of design.md: solid-fuel.ts).
+  "solid_fuel",
 ] as const;
 
 /**
@@ -283,6 +286,32 @@ export const hydrogenItemSchema = z
       "is the most electrical work a fuel cell can get from it (|ΔG|).",
   );
 
+export const solidFuelItemSchema = z
+  .strictObject({
+    quantity: z.literal("solid_fuel"),
+    ...timing,
+    mass_kg: num("Fuel burnt, kg, as weighed (wet)").min(0),
+    calorific_value_mj_kg: num(
+      "CV, MJ/kg: 5 to 35, per kg as weighed or of dry matter (cv_moisture_basis)",
+    ),
+    cv_basis: cvBasis,
+    cv_moisture_basis: z
+      .enum(["as_received", "dry"])
+      .optional()
+      .describe(
+        "The mass the CV is per: as_received (default, the wet fuel as " +
+          "weighed) or dry (its dry matter; needs moisture_percent)",
+      ),
+    moisture_percent: num(
+      "Moisture, % of the wet mass: 0 to 70; required with a dry-basis CV",
+    ).optional(),
+  })
+  .describe(
+    "Solid fuel (biomass: logs, chips, pellets): energy_kwh = m × CV / 3.6, " +
+      "with a dry-basis CV turned into the as-received one by the moisture " +
+      "(EN ISO 18125: gross × (1 − M/100); net × (1 − M/100) − 0.02443 × M).",
+  );
+
 export const evaluateItemSchema = z.discriminatedUnion("quantity", [
   waterHeatItemSchema,
   steamHeatItemSchema,
@@ -293,6 +322,7 @@ export const evaluateItemSchema = z.discriminatedUnion("quantity", [
   gasVolumeItemSchema,
   liquidFuelItemSchema,
   hydrogenItemSchema,
+  solidFuelItemSchema,
 ]);
 
 export type EvaluateItem = z.infer<typeof evaluateItemSchema>;
@@ -355,6 +385,7 @@ export const evaluateComponents = {
   GasVolumeItem: gasVolumeItemSchema,
   LiquidFuelItem: liquidFuelItemSchema,
   HydrogenItem: hydrogenItemSchema,
+  SolidFuelItem: solidFuelItemSchema,
   EvaluateItem: evaluateItemSchema,
   EvaluateRequest: wellFormedEvaluateRequestSchema,
   EvaluateSuccess: evaluateSuccessSchema,

@@ -16,6 +16,7 @@ import { hydrogenEnergy } from "./hydrogen";
 import { liquidFuelEnergy } from "./liquid-fuel";
 import type { StockBalance } from "./liquid-fuel";
 import { sensibleHeatKj } from "./sensible-heat";
+import { solidFuelEnergy } from "./solid-fuel";
 import { steamHeat } from "./steam";
 import { mpeBand } from "./uncertainty";
 import { convertEnergy } from "./units";
@@ -74,6 +75,7 @@ const API_FIELD: Record<string, string> = {
   densityKgL: "density_kg_l",
   calorificValueMjKg: "calorific_value_mj_kg",
   volumeNm3: "volume_nm3",
+  moisturePercent: "moisture_percent",
 };
 
 function fail(error: string): EvaluateResult {
@@ -465,6 +467,29 @@ function evaluateLiquidFuel(item: ItemOf<"liquid_fuel">): EvaluateResult {
   });
 }
 
+function evaluateSolidFuel(item: ItemOf<"solid_fuel">): EvaluateResult {
+  durationSeconds(item);
+  const cvMoistureBasis = item.cv_moisture_basis ?? "as_received";
+  const cvBasis = item.cv_basis ?? "gross";
+  const r = solidFuelEnergy({
+    massKg: item.mass_kg,
+    calorificValueMjKg: item.calorific_value_mj_kg,
+    cvBasis,
+    cvMoistureBasis,
+    moisturePercent: item.moisture_percent,
+  });
+  const scale = ["mass_kg", "calorific_value_mj_kg"];
+  return success(item, scale, r.energyKwh, "declared-cv/solid-fuel", {
+    mass_kg: item.mass_kg,
+    calorific_value_mj_kg: item.calorific_value_mj_kg,
+    cv_basis: cvBasis,
+    cv_moisture_basis: cvMoistureBasis,
+    moisture_percent: item.moisture_percent ?? null,
+    as_received_cv_mj_kg: r.asReceivedCvMjKg,
+    dry_mass_kg: r.dryMassKg,
+  });
+}
+
 function evaluateHydrogen(item: ItemOf<"hydrogen">): EvaluateResult {
   durationSeconds(item);
   const r = hydrogenEnergy({
@@ -606,6 +631,8 @@ function evaluateParsed(item: EvaluateItem): EvaluateResult {
       return evaluateLiquidFuel(item);
     case "hydrogen":
       return evaluateHydrogen(item);
+    case "solid_fuel":
+      return evaluateSolidFuel(item);
   }
 }
 

@@ -23,6 +23,7 @@ export const quantityLabels: Record<Quantity, string> = {
   gas_volume: "Gas meter (volume, calorific value)",
   liquid_fuel: "Liquid fuel (litres or tank stock, density, calorific value)",
   hydrogen: "Hydrogen (mass or normal volume)",
+  solid_fuel: "Biomass by weight (mass, calorific value, moisture)",
 };
 
 /** The energy carriers, in the order forms, filters and the ledger list them. */
@@ -89,11 +90,12 @@ export const carriersFor: Record<Quantity, readonly Carrier[]> = {
   // Natural gas only: LPG vapour's CV (about 95 MJ/m³) lies outside the
   // 10-60 MJ/m³ the quantity accepts, so LPG is metered as a liquid, and
   // hydrogen has its own quantity with its heat of reaction built in.
-  // Biomass has no quantity yet (no meter measures it): a plant's biomass
-  // stays a carrier its fuel role names, until a mass quantity is added.
+  // Biomass is weighed (solid_fuel); a biomass boiler can instead be
+  // accounted for by the heat meter on its flow (water_heat, carrier heat).
   gas_volume: ["natural_gas"],
   liquid_fuel: ["gas_oil", "kerosene", "lpg"],
   hydrogen: ["hydrogen"],
+  solid_fuel: ["biomass"],
 };
 
 /** Fuels: a site buys them, never exports them, so their meters import. */
