@@ -150,3 +150,7 @@ export const tankEntryAnswerSchema = z.strictObject({
 });
 export type TankEntryAnswer = z.output<typeof tankEntryAnswerSchema>;
 export type TankPeriodWire = z.output<typeof tankPeriodSchema>;
+
+export const tankDeliveryAnswerSchema = tankEntryAnswerSchema.extend({
+  id: z.string().describe("The delivery's id"),
+});
