@@ -37,6 +37,9 @@ import {
   updateMeter,
 } from "~/sites/meters.server";
 import { DuplicateNameError } from "~/sites/sites.server";
+import { TankSection } from "~/components/tank/tank-section";
+import { TANK_INTENTS } from "~/tanks/tank-forms";
+import { tankPageAction, tankView } from "~/tanks/tank-page.server";
 import type { Route } from "./+types/meter";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [
@@ -50,7 +53,7 @@ export async function loader({ params, context }: Route.LoaderArgs) {
     meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
-  const [siblings, last, plantFaults] = await Promise.all([
+  const [siblings, last, plantFaults, tank] = await Promise.all([
     listSiteMeters({ organizationId: organization.id, siteId: meter.siteId }),
     lastReadingOf({ organizationId: organization.id, meterId: meter.id }),
     meterPlantFaults({
@@ -58,8 +61,12 @@ export async function loader({ params, context }: Route.LoaderArgs) {
       siteId: meter.siteId,
       meterId: meter.id,
     }),
+    meter.quantity === "liquid_fuel"
+      ? tankView(organization.id, meter.id)
+      : null,
   ]);
   return {
+    tank,
     organization,
     meter,
     plantFaults,
@@ -73,6 +80,7 @@ export async function loader({ params, context }: Route.LoaderArgs) {
       ? (siblings.find((m) => m.id === meter.replacedByMeterId) ?? null)
       : null,
     canManage: can(role, "sites.manage"),
+    canEditReadings: can(role, "readings.edit"),
   };
 }
 
@@ -84,15 +92,41 @@ type Result = {
 const fail = (intent: string, errors: Record<string, string>, status = 400) =>
   data<Result>({ intent, errors }, { status });
 
+/** The tank's forms: dips and deliveries are readings; its settings, the meter's. */
+async function tankAction(
+  intent: string,
+  formData: FormData,
+  { params, context }: Pick<Route.ActionArgs, "params" | "context">,
+) {
+  const { organization, user } = requirePermission(
+    context,
+    intent === "tank-settings" ? "sites.manage" : "readings.edit",
+  );
+  const meter = await getMeter({
+    organizationId: organization.id,
+    meterId: idParam(params.meterId, "No such meter."),
+  });
+  if (!meter) notFound("No such meter.");
+  const result = await tankPageAction(intent, formData, {
+    organizationId: organization.id,
+    actorUserId: user.id,
+    meter,
+  });
+  const failed = Object.keys(result.errors).length > 0;
+  return data<Result>(result, { status: failed ? 400 : 200 });
+}
+
 export async function action({ request, params, context }: Route.ActionArgs) {
+  const formData = await request.formData();
+  const intent = String(formData.get("intent") ?? "");
+  if (TANK_INTENTS.includes(intent))
+    return tankAction(intent, formData, { params, context });
   const { organization, user } = requirePermission(context, "sites.manage");
   const meter = await getMeter({
     organizationId: organization.id,
     meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
-  const formData = await request.formData();
-  const intent = String(formData.get("intent") ?? "");
   const scope = {
     organizationId: organization.id,
     actorUserId: user.id,
@@ -202,6 +236,13 @@ export default function Meter({
           plantsLink={`/o/${organization.id}/sites/${meter.siteId}/plant`}
         />
         <MeterLastReading last={last} timeZone={meter.timeZone} />
+        {meter.quantity === "liquid_fuel" ? (
+          <TankSection
+            tank={loaderData.tank}
+            canEdit={loaderData.canEditReadings}
+            errorsFor={errorsFor}
+          />
+        ) : null}
         {meter.removedAt ? (
           <Notice tone="caution" title="Retired">
             Removed on {dayUtc(meter.removedAt)}.
