@@ -1,5 +1,5 @@
 /**
- * The demo's oil tank (all invented): a 5,000-litre gas-oil tank feeding the
+ * The demo's oil tank (all invented): a 3,500-litre gas-oil tank feeding the
  * standby boiler at Depot & Laundry, dipped every Monday morning over the
  * scenario's two years, with a delivery whenever the stock runs low. The
  * standby boiler is test-fired weekly and carries part of the load in cold
@@ -17,24 +17,24 @@ import { hashSeed, mulberry32, type Random } from "./prng";
 export const OIL_TANK = {
   code: "DL-OT1",
   name: "Standby boiler oil tank",
-  capacityL: 5000,
+  capacityL: 3500,
   densityKgL: "0.845",
   calorificValueMjKg: "45.6",
 } as const;
 
 const WEEK_MS = 7 * 86_400_000;
 /** A delivery is ordered when a week would end below this. */
-const REORDER_BELOW_L = 1200;
+const REORDER_BELOW_L = 900;
 /** Tankers fill to about this, leaving ullage. */
-const FILL_TO_L = 4600;
+const FILL_TO_L = 3300;
 
 /** Litres burnt in the week starting at `monday`: the weekly test, more in winter. */
 function weeklyUse(monday: Date, random: Random): number {
   const month = monday.getUTCMonth();
   const winter = [11, 0, 1].includes(month)
-    ? 140
+    ? 200
     : [10, 2].includes(month)
-      ? 60
+      ? 80
       : 0;
   return Math.round(18 + winter * (0.6 + 0.8 * random()));
 }
@@ -58,7 +58,7 @@ export function oilTankHistory(): {
 } {
   const random = mulberry32(hashSeed(OIL_TANK.code));
   const times = dipTimes();
-  let stock = 3800;
+  let stock = 2800;
   const dips: StoredDip[] = [
     { time: times[0], stockL: String(stock), note: "" },
   ];
