@@ -11,7 +11,7 @@
 // water circuits), drawn from a seeded generator so every run sees the same.
 //
 // A second table gives the evaluations per second of the fuel quantities
-// (gas_volume, liquid_fuel, hydrogen) and of water_heat with ambient_temp_c
+// (gas_volume, liquid_fuel, hydrogen, solid_fuel) and of water_heat with ambient_temp_c
 // (the exergy), each through the API item path.
 
 import { performance } from "node:perf_hooks";
@@ -156,6 +156,7 @@ function fuelItems(n: number): Record<string, Record<string, unknown>[]> {
   const gas = [];
   const oil = [];
   const hydrogen = [];
+  const biomass = [];
   const exergy = [];
   for (let i = 0; i < n; i++) {
     // Half the gas items corrected from line conditions, a quarter by a
@@ -191,6 +192,19 @@ function fuelItems(n: number): Record<string, Record<string, unknown>[]> {
       ...(r() < 0.5 ? { mass_kg: 50 * r() } : { volume_nm3: 500 * r() }),
       basis: r() < 0.5 ? "gross" : "net",
     });
+    // Half as received (pellets, chips), half a dry-basis CV with moisture.
+    biomass.push({
+      quantity: "solid_fuel",
+      mass_kg: 1 + 500 * r(),
+      ...(r() < 0.5
+        ? { calorific_value_mj_kg: 12 + 6 * r() }
+        : {
+            calorific_value_mj_kg: 18 + 2 * r(),
+            cv_moisture_basis: "dry",
+            moisture_percent: 8 + 40 * r(),
+          }),
+      cv_basis: r() < 0.5 ? "gross" : "net",
+    });
     const chilled = r() < 0.2;
     const flow = chilled ? 5 + 5 * r() : 45 + 45 * r();
     exergy.push({
@@ -207,6 +221,7 @@ function fuelItems(n: number): Record<string, Record<string, unknown>[]> {
     gas_volume: gas,
     liquid_fuel: oil,
     hydrogen,
+    solid_fuel: biomass,
     "water_heat + exergy": exergy,
   };
 }
