@@ -235,7 +235,10 @@ export default function Meter({
           faults={loaderData.plantFaults}
           plantsLink={`/o/${organization.id}/sites/${meter.siteId}/plant`}
         />
-        <MeterLastReading last={last} timeZone={meter.timeZone} />
+        {/* A tank's figures are its dips, shown in its own section. */}
+        {loaderData.tank ? null : (
+          <MeterLastReading last={last} timeZone={meter.timeZone} />
+        )}
         {meter.quantity === "liquid_fuel" ? (
           <TankSection
             tank={loaderData.tank}

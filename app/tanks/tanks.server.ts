@@ -298,8 +298,9 @@ export function notATank() {
   );
 }
 
+/** The periods inside the span a change rewrote (not those that only touch it). */
 const overlapping = (periods: readonly DipPeriod[], from: Date, to: Date) =>
-  periods.filter((p) => p.to >= from && p.from <= to);
+  periods.filter((p) => p.to > from && p.from < to);
 
 export interface EntryOutcome {
   periods: DipPeriod[];
