@@ -1,0 +1,92 @@
+/**
+ * A streaming standby of the suite's own test cluster, on a free loopback
+ * port, in a data folder of its own beside the cluster's: scripts/lib.sh's
+ * start_standby (pg_basebackup -R, then pg_ctl start as the cluster's
+ * owner). For tests of the read replica (DATABASE_READ_URL).
+ */
+import { dirname, join } from "node:path";
+import pg from "pg";
+import { pool as primary } from "./db";
+import { runLibSh } from "./lib-sh";
+import { freePort } from "./server-process";
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+export interface Standby {
+  /** DATABASE_URL's database, on the standby. */
+  url: string;
+  /** Resolves once the standby has replayed all the primary has written so far. */
+  caughtUp(): Promise<void>;
+  /** Stops replay (the standby keeps serving what it had), until resumeReplay. */
+  pauseReplay(): Promise<void>;
+  resumeReplay(): Promise<void>;
+  /** Stops the standby and removes its folder. */
+  stop(): Promise<void>;
+}
+
+async function shell(body: string, dataDir: string): Promise<void> {
+  const result = await runLibSh(body, { JOULEBOOK_DATA_DIR: dataDir });
+  if (result.code !== 0)
+    throw new Error(`${body} failed:\n${result.stdout}\n${result.stderr}`);
+}
+
+/** `pgDir`: the managed cluster's data folder (npm test's JOULEBOOK_PG_DIR). */
+export async function startStandby(pgDir: string): Promise<Standby> {
+  const dataDir = dirname(pgDir);
+  const dir = join(dataDir, `standby-${process.pid}`);
+  const port = await freePort();
+  await shell(`stop_standby "${dir}"\nstart_standby "${dir}" ${port}`, dataDir);
+
+  const url = new URL(process.env.DATABASE_URL!);
+  url.port = String(port);
+  const standby = new pg.Pool({ connectionString: url.href, max: 1 });
+  standby.on("error", () => {});
+
+  const caughtUp = async () => {
+    const { rows } = await primary.query<{ lsn: string }>(
+      "select pg_current_wal_lsn()::text as lsn",
+    );
+    const deadline = Date.now() + 15_000;
+    while (Date.now() < deadline) {
+      const replayed = await standby.query<{ ok: boolean }>(
+        "select pg_last_wal_replay_lsn() >= $1::pg_lsn as ok",
+        [rows[0].lsn],
+      );
+      if (replayed.rows[0].ok) return;
+      await sleep(50);
+    }
+    throw new Error(`the standby did not replay up to ${rows[0].lsn} in 15 s`);
+  };
+
+  const replayState = async (want: "paused" | "not paused") => {
+    const deadline = Date.now() + 10_000;
+    while (Date.now() < deadline) {
+      const { rows } = await standby.query<{ state: string }>(
+        "select pg_get_wal_replay_pause_state() as state",
+      );
+      if (rows[0].state === want) return;
+      await sleep(20);
+    }
+    throw new Error(`replay did not become ${want}`);
+  };
+
+  let stopped = false;
+  return {
+    url: url.href,
+    caughtUp,
+    async pauseReplay() {
+      await standby.query("select pg_wal_replay_pause()");
+      await replayState("paused");
+    },
+    async resumeReplay() {
+      await standby.query("select pg_wal_replay_resume()");
+      await replayState("not paused");
+    },
+    async stop() {
+      if (stopped) return;
+      stopped = true;
+      await standby.end();
+      await shell(`stop_standby "${dir}"`, dataDir);
+    },
+  };
+}
