@@ -8,7 +8,6 @@ import { dirname, join } from "node:path";
 import pg from "pg";
 import { pool as primary } from "./db";
 import { runLibSh } from "./lib-sh";
-import { freePort } from "./server-process";
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
@@ -30,16 +29,27 @@ async function shell(body: string, dataDir: string): Promise<void> {
     throw new Error(`${body} failed:\n${result.stdout}\n${result.stderr}`);
 }
 
-/** `pgDir`: the managed cluster's data folder (npm test's JOULEBOOK_PG_DIR). */
-export async function startStandby(pgDir: string): Promise<Standby> {
-  const dataDir = dirname(pgDir);
-  const dir = join(dataDir, `standby-${process.pid}`);
-  const port = await freePort();
-  await shell(`stop_standby "${dir}"\nstart_standby "${dir}" ${port}`, dataDir);
-
+/** DATABASE_URL's database on a standby at `port`. */
+export function standbyUrl(port: number): string {
   const url = new URL(process.env.DATABASE_URL!);
   url.port = String(port);
-  const standby = new pg.Pool({ connectionString: url.href, max: 1 });
+  return url.href;
+}
+
+/**
+ * `pgDir`: the managed cluster's data folder (npm test's JOULEBOOK_PG_DIR);
+ * `port`: a free one (a server may be given standbyUrl(port) meanwhile).
+ */
+export async function startStandby(
+  pgDir: string,
+  port: number,
+): Promise<Standby> {
+  const dataDir = dirname(pgDir);
+  const dir = join(dataDir, `standby-${process.pid}`);
+  await shell(`stop_standby "${dir}"\nstart_standby "${dir}" ${port}`, dataDir);
+
+  const url = standbyUrl(port);
+  const standby = new pg.Pool({ connectionString: url, max: 1 });
   standby.on("error", () => {});
 
   const caughtUp = async () => {
@@ -72,7 +82,7 @@ export async function startStandby(pgDir: string): Promise<Standby> {
 
   let stopped = false;
   return {
-    url: url.href,
+    url,
     caughtUp,
     async pauseReplay() {
       await standby.query("select pg_wal_replay_pause()");
