@@ -17,6 +17,7 @@
  *   week     listIntervals of one meter for a week (the readings view)
  * each the median of several runs.
  *
+ * PGOPTIONS applies to every connection (e.g. "-c plan_cache_mode=force_custom_plan").
  * Database: a fresh `joulebook_scaling` in the managed cluster (or
  * SCALING_DATABASE_URL, which must be an empty database), dropped at the end.
  */
@@ -30,8 +31,11 @@ import { managedUrl } from "./readings.bench";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const DATABASE = "joulebook_scaling";
-const PARTITION_STEPS = [12, 60, 120];
-const ORG_STEPS = [1, 100, 1000];
+/** SCALING_PARTITIONS=12,120 and SCALING_ORGS=1,100 measure fewer points. */
+const steps = (variable: string, fallback: number[]) =>
+  process.env[variable]?.split(",").map(Number) ?? fallback;
+const PARTITION_STEPS = steps("SCALING_PARTITIONS", [12, 60, 120]);
+const ORG_STEPS = steps("SCALING_ORGS", [1, 100, 1000]);
 const METERS_PER_ORG = 4;
 /** The newest month with data; partitions reach back from it. */
 const LAST_MONTH = Date.UTC(2026, 11, 1);
