@@ -4,6 +4,7 @@
  * start_standby (pg_basebackup -R, then pg_ctl start as the cluster's
  * owner). For tests of the read replica (DATABASE_READ_URL).
  */
+import { readdirSync } from "node:fs";
 import { dirname, join } from "node:path";
 import pg from "pg";
 import { pool as primary } from "./db";
@@ -29,6 +30,23 @@ async function shell(body: string, dataDir: string): Promise<void> {
     throw new Error(`${body} failed:\n${result.stdout}\n${result.stderr}`);
 }
 
+/** Standby folders of test runs that were killed before they cleaned up. */
+function leftoverStandbys(dataDir: string): string[] {
+  return readdirSync(dataDir)
+    .map((name) => /^standby-(\d+)$/.exec(name))
+    .filter((match) => match !== null && !processAlive(Number(match[1])))
+    .map((match) => join(dataDir, match![0]));
+}
+
+function processAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 /** DATABASE_URL's database on a standby at `port`. */
 export function standbyUrl(port: number): string {
   const url = new URL(process.env.DATABASE_URL!);
@@ -46,7 +64,10 @@ export async function startStandby(
 ): Promise<Standby> {
   const dataDir = dirname(pgDir);
   const dir = join(dataDir, `standby-${process.pid}`);
-  await shell(`stop_standby "${dir}"\nstart_standby "${dir}" ${port}`, dataDir);
+  const leftovers = [...leftoverStandbys(dataDir), dir].map(
+    (old) => `stop_standby "${old}"\n`,
+  );
+  await shell(`${leftovers.join("")}start_standby "${dir}" ${port}`, dataDir);
 
   const url = standbyUrl(port);
   const standby = new pg.Pool({ connectionString: url, max: 1 });
