@@ -9,6 +9,7 @@ import express from "express";
 import { RouterContextProvider } from "react-router";
 import { apiRouter } from "./api/router.server";
 import { pool } from "./db/client.server";
+import { closeReadPool, markWrites } from "./db/read-source.server";
 import { databaseGate } from "./db/unavailable.server";
 import { estimationIdle } from "./ingest/after-ingest.server";
 import { requestInfoContext } from "./request-context";
@@ -36,6 +37,7 @@ if (env().JOULEBOOK_TEST_COUNTERS === "1") {
 }
 
 app.use(databaseGate);
+app.use(markWrites);
 app.use("/api/v1", apiRouter());
 
 app.use(
@@ -107,5 +109,5 @@ export async function closeResources(): Promise<void> {
   clearInterval(housekeepingTimer);
   await reportJobsIdle();
   await estimationIdle();
-  await pool.end();
+  await Promise.all([pool.end(), closeReadPool()]);
 }

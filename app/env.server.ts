@@ -19,6 +19,19 @@ const envSchema = z
     DATABASE_URL: z
       .string({ error: "DATABASE_URL is required (npm start sets it)" })
       .regex(/^postgres(ql)?:\/\//, "DATABASE_URL must start with postgres://"),
+    // A streaming standby of DATABASE_URL's server: the ledger, the readings
+    // views and the report data read from it (app/db/read-source.server.ts).
+    // Empty means unset, so a deployment can switch the standby off.
+    DATABASE_READ_URL: z.preprocess(
+      (value) => (value === "" ? undefined : value),
+      z
+        .string()
+        .regex(
+          /^postgres(ql)?:\/\//,
+          "DATABASE_READ_URL must start with postgres://",
+        )
+        .optional(),
+    ),
     APP_URL: z.url("APP_URL must be an absolute URL").optional(),
     RESEND_API_KEY: z.string().min(1).default("re_local_fake_key"),
     RESEND_BASE_URL: z

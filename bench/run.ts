@@ -6,6 +6,7 @@ import { benchPhysics } from "./physics.bench";
 import { benchLedger } from "./ledger.bench";
 import { benchReadings } from "./readings.bench";
 import { benchReports } from "./reports.bench";
+import { benchScaling } from "./scaling.bench";
 import { benchSupplierFiles } from "./supplier-files.bench";
 import { benchUpload } from "./upload.bench";
 
@@ -14,6 +15,7 @@ const BENCHES: Record<string, () => Promise<void>> = {
   readings: benchReadings,
   ledger: benchLedger,
   reports: benchReports,
+  scaling: benchScaling,
   "supplier-files": benchSupplierFiles,
   upload: benchUpload,
 };

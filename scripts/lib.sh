@@ -214,6 +214,60 @@ stop_cluster() {
   fi
 }
 
+# A streaming standby of the managed cluster (the read-replica test) ---------
+
+# Lets the cluster's owner role stream WAL over loopback: wal_level must be
+# replica or above (the default; minimal needs a restart, so it is only
+# reported), the role needs REPLICATION (initdb's superuser has it), and
+# pg_hba.conf a replication line for 127.0.0.1 (initdb writes one; it is
+# added, and the configuration reloaded, where it is missing).
+ensure_replication_access() {
+  [ "$(psql_admin -c "show wal_level")" != "minimal" ] ||
+    die "wal_level is minimal in $PG_DIR/postgresql.conf: set it to replica and restart the cluster"
+  if [ "$(psql_admin -c "select rolreplication from pg_roles where rolname = current_user")" != "t" ]; then
+    psql_admin -c "alter role $PG_USER replication"
+  fi
+  if [ -z "$(psql_admin -c "select 1 from pg_hba_file_rules where 'replication' = any(database) and address = '127.0.0.1' and error is null")" ]; then
+    log "Allowing replication connections from 127.0.0.1 (pg_hba.conf)"
+    as_pg sh -c "echo 'host replication $PG_USER 127.0.0.1/32 scram-sha-256' >>'$PG_DIR/pg_hba.conf'"
+    psql_admin -c "select pg_reload_conf()" >/dev/null
+  fi
+}
+
+# start_standby DIR PORT: a hot standby of the managed cluster in a data
+# folder of its own (DIR, which must not exist yet; the postgres user's when
+# we are root), streaming from the cluster over loopback and serving reads on
+# 127.0.0.1:PORT. pg_basebackup -R writes standby.signal and primary_conninfo;
+# the primary's port and socket settings, copied with its configuration, are
+# overridden on the command line. It is a throwaway copy for tests, so
+# neither the copy nor the standby syncs to disk (seconds saved on a busy
+# machine).
+start_standby() {
+  local dir="$1" port="$2"
+  ensure_cluster >/dev/null
+  ensure_replication_access
+  [ ! -e "$dir" ] || die "$dir exists already"
+  mkdir -p "$dir"
+  chmod 700 "$dir"
+  if is_root; then chown postgres:postgres "$dir"; fi
+  as_pg env PGPASSWORD="$(cat "$PG_PASSWORD_FILE")" "$PG_BIN/pg_basebackup" \
+    -h 127.0.0.1 -p "$PG_PORT" -U "$PG_USER" -D "$dir" -R -X stream -c fast -w --no-sync
+  as_pg "$PG_BIN/pg_ctl" -D "$dir" -l "$dir/standby.log" -w -t 60 \
+    -o "-c port=$port -c listen_addresses=127.0.0.1 -c unix_socket_directories=$dir -c hot_standby=on -c fsync=off" \
+    start >/dev/null
+  log "Standby of $PG_DIR serving reads on 127.0.0.1:$port"
+}
+
+# stop_standby DIR: stops a standby start_standby made and removes its folder.
+stop_standby() {
+  local dir="$1"
+  ensure_postgres_binaries
+  if [ -f "$dir/PG_VERSION" ]; then
+    as_pg "$PG_BIN/pg_ctl" -D "$dir" -m immediate -w stop >/dev/null 2>&1 || true
+  fi
+  rm -rf "$dir"
+}
+
 ensure_chromium() {
   if ! command -v chromium >/dev/null 2>&1; then apt_install chromium; fi
 }

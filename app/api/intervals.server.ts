@@ -3,10 +3,18 @@ import {
   latestIntervalHour,
   listIntervals,
 } from "~/ingest/list-intervals.server";
+import type { Database } from "~/db/client.server";
+import { withReadSource } from "~/db/read-source.server";
 import { isUuid } from "~/lib/ids";
 import { getMeter } from "~/sites/meters.server";
 import { sendError, sendValidationError } from "./respond.server";
-import { intervalsQuerySchema, type IntervalPage } from "./schemas";
+import {
+  intervalsQuerySchema,
+  type Interval,
+  type IntervalPage,
+} from "./schemas";
+
+type MeterRow = NonNullable<Awaited<ReturnType<typeof getMeter>>>;
 
 /** At most a quarter's rows per request keeps pages and memory small. */
 const MAX_RANGE_MS = 93 * 86_400_000;
@@ -15,6 +23,32 @@ const rangeSchema = intervalsQuerySchema.transform((q) => ({
   from: q.from ? new Date(q.from) : null,
   to: q.to ? new Date(q.to) : null,
 }));
+
+type RangeRead =
+  | { error: [code: string, message: string] }
+  | { from: Date; to: Date; latest: Date | null; intervals: Interval[] };
+
+/** The asked range (by default the week up to the latest interval) and its rows. */
+async function readRange(
+  readDb: Database,
+  { organizationId, meter }: { organizationId: string; meter: MeterRow },
+  asked: { from: Date | null; to: Date | null },
+): Promise<RangeRead> {
+  const meterId = meter.id;
+  const latest = await latestIntervalHour({ organizationId, meterId }, readDb);
+  const to =
+    asked.to ??
+    new Date((latest ?? new Date()).getTime() + meter.intervalMinutes * 60_000);
+  const from = asked.from ?? new Date(to.getTime() - 7 * 86_400_000);
+  if (to <= from) return { error: ["invalid_range", "to must be after from."] };
+  if (to.getTime() - from.getTime() > MAX_RANGE_MS)
+    return { error: ["range_too_long", "Ask for at most 93 days at a time."] };
+  const intervals = await listIntervals(
+    { organizationId, meterId, from, to },
+    readDb,
+  );
+  return { from, to, latest, intervals };
+}
 
 /** GET /api/v1/orgs/:orgId/meters/:meterId/intervals?from&to */
 export async function getIntervals(
@@ -31,29 +65,13 @@ export async function getIntervals(
     if (!meter) return sendError(res, 404, "not_found", "No such meter.");
     const parsed = rangeSchema.safeParse(req.query);
     if (!parsed.success) return sendValidationError(res, parsed.error);
-    const latest = await latestIntervalHour({ organizationId, meterId });
-    const to =
-      parsed.data.to ??
-      new Date(
-        (latest ?? new Date()).getTime() + meter.intervalMinutes * 60_000,
-      );
-    const from = parsed.data.from ?? new Date(to.getTime() - 7 * 86_400_000);
-    if (to <= from)
-      return sendError(res, 400, "invalid_range", "to must be after from.");
-    if (to.getTime() - from.getTime() > MAX_RANGE_MS) {
-      return sendError(
-        res,
-        400,
-        "range_too_long",
-        "Ask for at most 93 days at a time.",
-      );
-    }
-    const intervals = await listIntervals({
-      organizationId,
-      meterId,
-      from,
-      to,
-    });
+    // Both reads from one source (the standby unless this person has just
+    // written), so `latest` and the rows agree.
+    const read = await withReadSource(req.headers.cookie, (source) =>
+      readRange(source.db, { organizationId, meter }, parsed.data),
+    );
+    if ("error" in read) return sendError(res, 400, ...read.error);
+    const { from, to, latest, intervals } = read;
     const page: IntervalPage = {
       meter: {
         id: meter.id,

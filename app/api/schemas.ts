@@ -76,6 +76,30 @@ export const healthSchema = z.strictObject({
   status: z.enum(["ok", "degraded"]),
   database: z.enum(["reachable", "unreachable"]),
   time: z.iso.datetime(),
+  // Only with DATABASE_READ_URL; reads fall back to the primary while the
+  // standby is unreachable, so it does not make the status degraded.
+  standby: z
+    .strictObject({
+      status: z
+        .enum(["replaying", "unreachable", "not_a_standby"])
+        .describe(
+          "replaying: in recovery, serving reads; not_a_standby: DATABASE_READ_URL names a server that is not in recovery",
+        ),
+      lag_bytes: z
+        .number()
+        .nullable()
+        .describe(
+          "WAL the primary has written that the standby has not replayed",
+        ),
+      lag_seconds: z
+        .number()
+        .nullable()
+        .describe(
+          "Seconds since the standby last replayed a transaction; 0 when caught up",
+        ),
+    })
+    .optional()
+    .describe("The read replica (DATABASE_READ_URL), when one is configured"),
 });
 
 // ---------------------------------------------------------------- ingest --

@@ -1,6 +1,6 @@
 import { and, eq, gte, lt, max, sql } from "drizzle-orm";
 import type { Interval } from "./interval-schema";
-import { db } from "~/db/client.server";
+import { db, type Database } from "~/db/client.server";
 import { intervals, meters } from "~/db/schema";
 
 function ofMeter(args: { organizationId: string; meterId: string }) {
@@ -18,13 +18,16 @@ const isoUtc = (instant: ReturnType<typeof sql>) =>
  * One meter's intervals in [from, to) at its own resolution, oldest first;
  * each ends its meter's interval_minutes after it starts.
  */
-export async function listIntervals(args: {
-  organizationId: string;
-  meterId: string;
-  from: Date;
-  to: Date;
-}): Promise<Interval[]> {
-  return db
+export async function listIntervals(
+  args: {
+    organizationId: string;
+    meterId: string;
+    from: Date;
+    to: Date;
+  },
+  readDb: Database = db,
+): Promise<Interval[]> {
+  return readDb
     .select({
       start: isoUtc(sql`${intervals.intervalStart}`),
       end: isoUtc(
@@ -54,11 +57,14 @@ export async function listIntervals(args: {
     .orderBy(intervals.intervalStart);
 }
 
-export async function latestIntervalHour(args: {
-  organizationId: string;
-  meterId: string;
-}): Promise<Date | null> {
-  const [row] = await db
+export async function latestIntervalHour(
+  args: {
+    organizationId: string;
+    meterId: string;
+  },
+  readDb: Database = db,
+): Promise<Date | null> {
+  const [row] = await readDb
     .select({ latest: max(intervals.intervalStart) })
     .from(intervals)
     .where(ofMeter(args));

@@ -1,4 +1,5 @@
 import type { Ledger } from "./ledger-schema";
+import type pg from "pg";
 import { pool } from "~/db/client.server";
 import { deliveredSignSql } from "./delivered";
 
@@ -31,8 +32,11 @@ export type { CarrierTotal, Ledger, LedgerRow } from "./ledger-schema";
  * is summed, so a cooling import meter's negative heat flow becomes cooling
  * delivered. All sums are PostgreSQL numeric.
  */
-export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
-  const { rows } = await pool.query<{ ledger: Ledger }>(
+export async function ledgerRows(
+  query: LedgerQuery,
+  readPool: pg.Pool = pool,
+): Promise<Ledger> {
+  const { rows } = await readPool.query<{ ledger: Ledger }>(
     `with closes as (
        select site_id, month, min(closed_at) as closed_at
          from month_closes

@@ -11,6 +11,8 @@ import {
   type CarrierTotal,
   type LedgerRow,
 } from "~/ledger/ledger-rows.server";
+import type pg from "pg";
+import { withCaughtUpSource } from "~/db/read-source.server";
 import type { ReportPeriod } from "./periods";
 import { periodAdjustments } from "./data/adjustments.server";
 import { compareWithBaseline } from "./data/baseline-comparison";
@@ -110,30 +112,46 @@ function displayZone(sites: readonly ScopeSite[]): string {
   return zones.size === 1 ? [...zones][0] : "UTC";
 }
 
-export async function loadReportData(
+/**
+ * Read from the standby once it has replayed everything committed when the
+ * report is drawn (a correction made just before the request included),
+ * else from the primary (app/db/read-source.server.ts).
+ */
+export function loadReportData(input: ReportDataInput): Promise<ReportData> {
+  return withCaughtUpSource((source) => loadReportDataFrom(input, source.pool));
+}
+
+async function loadReportDataFrom(
   input: ReportDataInput,
+  readPool: pg.Pool,
 ): Promise<ReportData> {
   const { organizationId, siteId, period } = input;
   const months = monthKeys(period);
   const [name, sites, closes, ledger, meters, adjustments, counts, plants] =
     await Promise.all([
-      organizationName(organizationId),
-      scopeSites(organizationId, siteId),
-      activeCloses(organizationId, period),
-      ledgerRows({
-        organizationId,
-        from: months[0],
-        to: months[months.length - 1],
-        siteId,
-      }),
-      meterPeriodEnergy(organizationId, siteId, period),
-      periodAdjustments(organizationId, siteId, period),
-      meterHourCounts({
-        organizationId,
-        siteId,
-        period,
-        generatedAt: input.generatedAt,
-      }),
+      organizationName(organizationId, readPool),
+      scopeSites(organizationId, siteId, readPool),
+      activeCloses(organizationId, period, readPool),
+      ledgerRows(
+        {
+          organizationId,
+          from: months[0],
+          to: months[months.length - 1],
+          siteId,
+        },
+        readPool,
+      ),
+      meterPeriodEnergy(organizationId, siteId, period, readPool),
+      periodAdjustments(organizationId, siteId, period, readPool),
+      meterHourCounts(
+        {
+          organizationId,
+          siteId,
+          period,
+          generatedAt: input.generatedAt,
+        },
+        readPool,
+      ),
       plantChecks({ organizationId, siteId, months }),
     ]);
   // Archived sites appear only when the period has ledger entries for them.
@@ -142,8 +160,8 @@ export async function loadReportData(
   );
   const ids = listed.map((s) => s.id);
   const [baselines, temperatures] = await Promise.all([
-    baselinesInForce(organizationId, ids),
-    periodTemperatures(organizationId, ids, period),
+    baselinesInForce(organizationId, ids, readPool),
+    periodTemperatures(organizationId, ids, period, readPool),
   ]);
   const statuses = monthStatuses({
     months,

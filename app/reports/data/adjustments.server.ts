@@ -2,6 +2,7 @@
  * The adjusting entries recorded against the period's months: every change
  * to a closed month, with who made it, why and when.
  */
+import type pg from "pg";
 import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
 import type { AdjustmentEntry, Carrier } from "./types";
@@ -13,8 +14,9 @@ export async function periodAdjustments(
   organizationId: string,
   siteId: string | null,
   period: ReportPeriod,
+  readPool: pg.Pool = pool,
 ): Promise<AdjustmentEntry[]> {
-  const { rows } = await pool.query<{
+  const { rows } = await readPool.query<{
     id: string;
     created_at: Date;
     month: string;

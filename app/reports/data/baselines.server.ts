@@ -4,6 +4,7 @@
  */
 import type { DailyTemperature } from "~/baselines/degree-days";
 import type { StoredModel } from "~/baselines/regression";
+import type pg from "pg";
 import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
 import type { SavedBaselineRow } from "./baseline-comparison";
@@ -15,8 +16,9 @@ import type { Carrier } from "./types";
 export async function baselinesInForce(
   organizationId: string,
   siteIds: readonly string[],
+  readPool: pg.Pool = pool,
 ): Promise<Map<string, SavedBaselineRow[]>> {
-  const { rows } = await pool.query<{
+  const { rows } = await readPool.query<{
     id: string;
     site_id: string;
     carrier: Carrier;
@@ -61,8 +63,9 @@ export async function periodTemperatures(
   organizationId: string,
   siteIds: readonly string[],
   period: ReportPeriod,
+  readPool: pg.Pool = pool,
 ): Promise<Map<string, DailyTemperature[]>> {
-  const { rows } = await pool.query<{
+  const { rows } = await readPool.query<{
     site_id: string;
     day: string;
     t: string;

@@ -4,6 +4,7 @@
  * and removed and to the time of generation. A meter's intervals count as
  * their length in hours (a half-hour as 0.5), whatever its resolution.
  */
+import type pg from "pg";
 import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
 import type { MeterHourCounts } from "./data-quality";
@@ -13,13 +14,16 @@ import type { Carrier } from "./types";
 // Raw SQL, on purpose: one of loadReportData's loads, measured by `npm run bench reports`.
 // Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
 
-export async function meterHourCounts(args: {
-  organizationId: string;
-  siteId: string | null;
-  period: ReportPeriod;
-  generatedAt: Date;
-}): Promise<MeterHourCounts[]> {
-  const { rows } = await pool.query<{
+export async function meterHourCounts(
+  args: {
+    organizationId: string;
+    siteId: string | null;
+    period: ReportPeriod;
+    generatedAt: Date;
+  },
+  readPool: pg.Pool = pool,
+): Promise<MeterHourCounts[]> {
+  const { rows } = await readPool.query<{
     site_name: string;
     code: string;
     name: string;

@@ -2,6 +2,7 @@
  * Every meter's signed energy over the period, from the monthly rollups as
  * they stand (sub-meters included), for the sub-meter residuals.
  */
+import type pg from "pg";
 import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
 import type { MeterPeriodEnergy } from "./period-balance";
@@ -14,8 +15,9 @@ export async function meterPeriodEnergy(
   organizationId: string,
   siteId: string | null,
   period: ReportPeriod,
+  readPool: pg.Pool = pool,
 ): Promise<MeterPeriodEnergy[]> {
-  const { rows } = await pool.query<{
+  const { rows } = await readPool.query<{
     id: string;
     site_id: string;
     code: string;

@@ -2,6 +2,7 @@
  * Who and what a report covers: the organisation, its sites (one or all),
  * and the month closes in force for the period.
  */
+import type pg from "pg";
 import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
 import type { ActiveClose } from "./ledger-tables";
@@ -18,8 +19,11 @@ export interface ScopeSite {
   archived: boolean;
 }
 
-export async function organizationName(organizationId: string) {
-  const { rows } = await pool.query<{ name: string }>(
+export async function organizationName(
+  organizationId: string,
+  readPool: pg.Pool = pool,
+) {
+  const { rows } = await readPool.query<{ name: string }>(
     "select name from organizations where id = $1",
     [organizationId],
   );
@@ -34,8 +38,9 @@ export async function organizationName(organizationId: string) {
 export async function scopeSites(
   organizationId: string,
   siteId: string | null,
+  readPool: pg.Pool = pool,
 ): Promise<ScopeSite[]> {
-  const { rows } = await pool.query<{
+  const { rows } = await readPool.query<{
     id: string;
     name: string;
     time_zone: string;
@@ -65,8 +70,12 @@ export async function scopeSites(
 export async function activeCloses(
   organizationId: string,
   period: ReportPeriod,
+  readPool: pg.Pool = pool,
 ): Promise<ActiveClose[]> {
-  const { rows } = await pool.query<{ site_id: string | null; month: string }>(
+  const { rows } = await readPool.query<{
+    site_id: string | null;
+    month: string;
+  }>(
     `select site_id, to_char(month, 'YYYY-MM') as month
        from month_closes
       where organization_id = $1 and reopened_at is null
