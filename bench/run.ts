@@ -4,6 +4,7 @@
 
 import { benchPhysics } from "./physics.bench";
 import { benchLedger } from "./ledger.bench";
+import { benchPages } from "./pages.bench";
 import { benchReadings } from "./readings.bench";
 import { benchReports } from "./reports.bench";
 import { benchSupplierFiles } from "./supplier-files.bench";
@@ -14,6 +15,7 @@ const BENCHES: Record<string, () => Promise<void>> = {
   readings: benchReadings,
   ledger: benchLedger,
   reports: benchReports,
+  pages: benchPages,
   "supplier-files": benchSupplierFiles,
   upload: benchUpload,
 };
