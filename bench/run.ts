@@ -4,6 +4,7 @@
 
 import { benchPhysics } from "./physics.bench";
 import { benchLedger } from "./ledger.bench";
+import { benchPages } from "./pages.bench";
 import { benchReadings } from "./readings.bench";
 import { benchReports } from "./reports.bench";
 import { benchScaling } from "./scaling.bench";
@@ -16,6 +17,7 @@ const BENCHES: Record<string, () => Promise<void>> = {
   ledger: benchLedger,
   reports: benchReports,
   scaling: benchScaling,
+  pages: benchPages,
   "supplier-files": benchSupplierFiles,
   upload: benchUpload,
 };

@@ -246,12 +246,15 @@ export async function completeness(
     ),
     lt(intervals.intervalStart, now),
   );
-  const [measured, estimated, [installed]] = await Promise.all([
-    db.$count(
-      intervals,
-      and(inWindow, inArray(intervals.quality, ["measured", "edited"])),
-    ),
-    db.$count(intervals, and(inWindow, eq(intervals.quality, "estimated"))),
+  // Both counts from one pass over the window's intervals.
+  const [[counts], [installed]] = await Promise.all([
+    db
+      .select({
+        measured: sql<number>`(count(*) filter (where ${inArray(intervals.quality, ["measured", "edited"])}))::int`,
+        estimated: sql<number>`(count(*) filter (where ${eq(intervals.quality, "estimated")}))::int`,
+      })
+      .from(intervals)
+      .where(inWindow),
     db
       .select({
         perDay: sql<number>`coalesce(sum(1440 / ${meters.intervalMinutes}), 0)::int`,
@@ -264,6 +267,7 @@ export async function completeness(
         ),
       ),
   ]);
+  const { measured, estimated } = counts;
   const expected = installed.perDay * days;
   return {
     measuredShare: expected ? measured / expected : 0,

@@ -112,7 +112,14 @@ function overflow(item: EvaluateItem, scale: ScaleFields): EvaluateResult {
   );
 }
 
-const finite = (v: unknown) => typeof v !== "number" || Number.isFinite(v);
+// A loop rather than Object.values(...).every: no array per evaluated item.
+function allFinite(details: Details): boolean {
+  for (const key in details) {
+    const v = details[key];
+    if (typeof v === "number" && !Number.isFinite(v)) return false;
+  }
+  return true;
+}
 
 function success(
   item: EvaluateItem,
@@ -123,8 +130,7 @@ function success(
 ): EvaluateResult {
   if (!Number.isFinite(kwh)) return overflow(item, scale);
   const mj = convertEnergy(kwh, "kWh", "MJ");
-  if (!Number.isFinite(mj) || !Object.values(details).every(finite))
-    return overflow(item, scale);
+  if (!Number.isFinite(mj) || !allFinite(details)) return overflow(item, scale);
   return { ok: true as const, energy_kwh: kwh, energy_mj: mj, method, details };
 }
 
@@ -244,6 +250,9 @@ function requireMpeFields(item: ItemOf<"water_heat">) {
 
 // Outside the meter's rated conditions the standard states no MPE, so the
 // band is left out with the reason rather than extrapolated.
+// The shared empty answer of mpeDetails for an item without EN 1434 fields.
+const NO_DETAILS: Details = Object.freeze({});
+
 function mpeNotApplicable(q: number, dThetaK: number, minK: number) {
   if (q <= 0) return "no flow in the interval";
   if (dThetaK < minK) return `Δθ below Δθmin (${minK} K)`;
@@ -258,7 +267,7 @@ function mpeDetails(
   seconds: number | undefined,
 ): Details {
   const meterClass = requireMpeFields(item);
-  if (meterClass === undefined) return {};
+  if (meterClass === undefined) return NO_DETAILS;
   const q = mpeFlowM3PerH(item, seconds);
   const deltaThetaK = Math.abs(item.flow_temp_c - item.return_temp_c);
   const minK = item.delta_theta_min_k ?? 0;
@@ -305,8 +314,7 @@ function evaluateWaterHeat(item: ItemOf<"water_heat">): EvaluateResult {
   }
   // Before the MPE band, which would otherwise meet the overflow first.
   if (!Number.isFinite(r.energyKj)) return overflow(item, ["volume_m3"]);
-  const exergy = exergyDetails(item, r);
-  return successKj(item, ["volume_m3"], r.energyKj, "iapws-if97/water-heat", {
+  const details: Details = {
     pressure_bar_abs: p.pressureBarAbs,
     sensor_at: item.sensor_at,
     density_at_sensor_kg_per_m3: r.densityAtSensorKgPerM3,
@@ -314,9 +322,22 @@ function evaluateWaterHeat(item: ItemOf<"water_heat">): EvaluateResult {
     flow_enthalpy_kj_per_kg: r.flowEnthalpyKjPerKg,
     return_enthalpy_kj_per_kg: r.returnEnthalpyKjPerKg,
     k_factor_kwh_per_m3_k: r.kFactorKwhPerM3K,
-    ...mpeDetails(item, r.energyKj, seconds),
-    ...exergy,
-  });
+  };
+  // Added in place, in the same key order as before, and only when the item
+  // asks for them: no throw-away objects on the common path.
+  // The exergy is worked out first, as it always was, so that an item with
+  // two faults keeps naming the same one.
+  const exergy = exergyDetails(item, r);
+  const mpe = mpeDetails(item, r.energyKj, seconds);
+  if (mpe !== NO_DETAILS) Object.assign(details, mpe);
+  if (exergy !== NO_DETAILS) Object.assign(details, exergy);
+  return successKj(
+    item,
+    ["volume_m3"],
+    r.energyKj,
+    "iapws-if97/water-heat",
+    details,
+  );
 }
 
 // Exergy beside the energy when the item gives the dead state (water-exergy.ts
@@ -325,7 +346,7 @@ function exergyDetails(
   item: ItemOf<"water_heat">,
   r: WaterHeatResult,
 ): Details {
-  if (item.ambient_temp_c === undefined) return {};
+  if (item.ambient_temp_c === undefined) return NO_DETAILS;
   const kj = waterExergyKj({
     massKg: r.massKg,
     flowTempC: item.flow_temp_c,

@@ -44,8 +44,9 @@ export interface WaterProperties {
   speedOfSoundMPerS: number;
 }
 
-// [I, J, n] of IF97 Table 2 (region 1, Eq. 7).
-const REGION1: ReadonlyArray<readonly [number, number, number]> = [
+// [I, J, n] of IF97 Table 2 (region 1, Eq. 7). Exported, with the region-2
+// tables, for the test that holds the fast evaluation to the term-by-term sum.
+export const REGION1: ReadonlyArray<readonly [number, number, number]> = [
   [0, -2, 0.14632971213167],
   [0, -1, -0.84548187169114],
   [0, 0, -0.3756360367204e1],
@@ -83,7 +84,7 @@ const REGION1: ReadonlyArray<readonly [number, number, number]> = [
 ];
 
 // [J, n] of IF97 Table 10 (region 2, ideal-gas part, Eq. 16).
-const REGION2_IDEAL: ReadonlyArray<readonly [number, number]> = [
+export const REGION2_IDEAL: ReadonlyArray<readonly [number, number]> = [
   [0, -0.96927686500217e1],
   [1, 0.10086655968018e2],
   [-5, -0.5608791128302e-2],
@@ -96,7 +97,9 @@ const REGION2_IDEAL: ReadonlyArray<readonly [number, number]> = [
 ];
 
 // [I, J, n] of IF97 Table 11 (region 2, residual part, Eq. 17).
-const REGION2_RESIDUAL: ReadonlyArray<readonly [number, number, number]> = [
+export const REGION2_RESIDUAL: ReadonlyArray<
+  readonly [number, number, number]
+> = [
   [1, 0, -0.17731742473213e-2],
   [1, 1, -0.17834862292358e-1],
   [1, 2, -0.45996013696365e-1],
@@ -156,8 +159,70 @@ const B23 = [
   0.34805185628969e3, -0.11671859879975e1, 0.10192970039326e-2,
 ] as const;
 
+// The tables above, as the release prints them, are the source of truth; the
+// hot loops read the same numbers from flat typed arrays built once here, so
+// an evaluation walks plain doubles and integers with no iterator, no
+// destructuring and no allocation.
+function column<T extends ReadonlyArray<number>>(
+  table: ReadonlyArray<T>,
+  index: number,
+): Float64Array {
+  return Float64Array.from(table, (row) => row[index]);
+}
+
+const R1_I = Int32Array.from(REGION1, (row) => row[0]);
+const R1_J = Int32Array.from(REGION1, (row) => row[1]);
+const R1_N = column(REGION1, 2);
+const R2O_J = Int32Array.from(REGION2_IDEAL, (row) => row[0]);
+const R2O_N = column(REGION2_IDEAL, 1);
+const R2R_I = Int32Array.from(REGION2_RESIDUAL, (row) => row[0]);
+const R2R_J = Int32Array.from(REGION2_RESIDUAL, (row) => row[1]);
+const R2R_N = column(REGION2_RESIDUAL, 2);
+
+function maxOf(values: Int32Array): number {
+  return values.reduce((m, v) => Math.max(m, v), 0);
+}
+function minOf(values: Int32Array): number {
+  return values.reduce((m, v) => Math.min(m, v), 0);
+}
+
+// Integer powers x^k for k = kMin..kMax, stored at index k − kMin, by
+// repeated multiplication from x^0 = 1 both ways: one multiplication per
+// power instead of one Math.pow per term. Rounding grows by at most one ulp
+// per step (≤ 58 ulp ≈ 1e-14 relative at the highest powers), far inside the
+// release's nine digits and the 1e-12 the tests hold it to.
+function fillPowers(
+  out: Float64Array,
+  x: number,
+  kMin: number,
+  kMax: number,
+): void {
+  out[-kMin] = 1;
+  let up = 1;
+  for (let k = 1; k <= kMax; k++) out[k - kMin] = up *= x;
+  const inverse = 1 / x;
+  let down = 1;
+  for (let k = -1; k >= kMin; k--) out[k - kMin] = down *= inverse;
+}
+
+// Scratch buffers shared by every call: JavaScript runs one call at a time
+// per thread, and each call fills what it reads before reading it.
+const R1_I_MAX = maxOf(R1_I);
+const R1_J_MIN = minOf(R1_J);
+const R1_J_MAX = maxOf(R1_J);
+const R2O_J_MIN = minOf(R2O_J);
+const R2O_J_MAX = maxOf(R2O_J);
+const R2R_I_MAX = maxOf(R2R_I);
+const R2R_J_MAX = maxOf(R2R_J);
+const R1_A_POWERS = new Float64Array(R1_I_MAX + 1);
+const R1_B_POWERS = new Float64Array(R1_J_MAX - R1_J_MIN + 1);
+const R2_TAU_POWERS = new Float64Array(R2O_J_MAX - R2O_J_MIN + 1);
+const R2_PI_POWERS = new Float64Array(R2R_I_MAX + 1);
+const R2_B_POWERS = new Float64Array(R2R_J_MAX + 1);
+
 // Dimensionless Gibbs free energy and its derivatives, the raw material of
-// every property relation (IF97 Tables 4 and 12).
+// every property relation (IF97 Tables 4 and 12), written into a reused
+// record by the functions below.
 interface Gibbs {
   g: number;
   gP: number;
@@ -167,63 +232,103 @@ interface Gibbs {
   gPT: number;
 }
 
+function gibbsRecord(): Gibbs {
+  return { g: 0, gP: 0, gPP: 0, gT: 0, gTT: 0, gPT: 0 };
+}
+
+const REGION1_GIBBS = gibbsRecord();
+const REGION2_IDEAL_GIBBS = gibbsRecord();
+const REGION2_RESIDUAL_GIBBS = gibbsRecord();
+
 // Each term's derivatives are the term itself times i/a, j/b and their
-// products, so only two powers are taken per term (a and b never vanish in
-// the region's validity: a = 7.1 − π ≥ 1.05, b = τ − 1.222 ≥ 1.0).
+// products, so the derivatives come from the same pass as γ (a and b never
+// vanish in the region's validity: a = 7.1 − π ≥ 1.05, b = τ − 1.222 ≥ 1.0).
 function region1Gibbs(pi: number, tau: number): Gibbs {
   const a = 7.1 - pi;
   const b = tau - 1.222;
-  const r: Gibbs = { g: 0, gP: 0, gPP: 0, gT: 0, gTT: 0, gPT: 0 };
-  for (const [i, j, n] of REGION1) {
-    const t = n * a ** i * b ** j;
-    r.g += t;
-    r.gP -= (i * t) / a;
-    r.gPP += (i * (i - 1) * t) / (a * a);
-    r.gT += (j * t) / b;
-    r.gTT += (j * (j - 1) * t) / (b * b);
-    r.gPT -= (i * j * t) / (a * b);
+  fillPowers(R1_A_POWERS, a, 0, R1_I_MAX);
+  fillPowers(R1_B_POWERS, b, R1_J_MIN, R1_J_MAX);
+  let g = 0;
+  let gP = 0;
+  let gPP = 0;
+  let gT = 0;
+  let gTT = 0;
+  let gPT = 0;
+  for (let k = 0; k < R1_N.length; k++) {
+    const i = R1_I[k];
+    const j = R1_J[k];
+    const t = R1_N[k] * R1_A_POWERS[i] * R1_B_POWERS[j - R1_J_MIN];
+    g += t;
+    gP -= i * t;
+    gPP += i * (i - 1) * t;
+    gT += j * t;
+    gTT += j * (j - 1) * t;
+    gPT -= i * j * t;
   }
+  // The common factors 1/a, 1/b of every term's derivative, applied once.
+  const r = REGION1_GIBBS;
+  r.g = g;
+  r.gP = gP / a;
+  r.gPP = gPP / (a * a);
+  r.gT = gT / b;
+  r.gTT = gTT / (b * b);
+  r.gPT = gPT / (a * b);
   return r;
 }
 
 function region2IdealGibbs(pi: number, tau: number): Gibbs {
   // ln(pi) carries all the pressure dependence, so gPT is zero.
-  const r: Gibbs = {
-    g: Math.log(pi),
-    gP: 1 / pi,
-    gPP: -1 / pi ** 2,
-    gT: 0,
-    gTT: 0,
-    gPT: 0,
-  };
-  for (const [j, n] of REGION2_IDEAL) {
-    r.g += n * tau ** j;
-    r.gT += n * j * tau ** (j - 1);
-    r.gTT += n * j * (j - 1) * tau ** (j - 2);
+  fillPowers(R2_TAU_POWERS, tau, R2O_J_MIN, R2O_J_MAX);
+  let g = Math.log(pi);
+  let gT = 0;
+  let gTT = 0;
+  for (let k = 0; k < R2O_N.length; k++) {
+    const j = R2O_J[k];
+    const t = R2O_N[k] * R2_TAU_POWERS[j - R2O_J_MIN];
+    g += t;
+    gT += j * t;
+    gTT += j * (j - 1) * t;
   }
+  const r = REGION2_IDEAL_GIBBS;
+  r.g = g;
+  r.gP = 1 / pi;
+  r.gPP = -1 / (pi * pi);
+  r.gT = gT / tau;
+  r.gTT = gTT / (tau * tau);
+  r.gPT = 0;
   return r;
 }
 
 // As for region 1: π > 0 and b = τ − 0.5 > 0 throughout region 2.
 function region2ResidualGibbs(pi: number, tau: number): Gibbs {
   const b = tau - 0.5;
-  const r: Gibbs = { g: 0, gP: 0, gPP: 0, gT: 0, gTT: 0, gPT: 0 };
-  for (const [i, j, n] of REGION2_RESIDUAL) {
-    const t = n * pi ** i * b ** j;
-    r.g += t;
-    r.gP += (i * t) / pi;
-    r.gPP += (i * (i - 1) * t) / (pi * pi);
-    r.gT += (j * t) / b;
-    r.gTT += (j * (j - 1) * t) / (b * b);
-    r.gPT += (i * j * t) / (pi * b);
+  fillPowers(R2_PI_POWERS, pi, 0, R2R_I_MAX);
+  fillPowers(R2_B_POWERS, b, 0, R2R_J_MAX);
+  let g = 0;
+  let gP = 0;
+  let gPP = 0;
+  let gT = 0;
+  let gTT = 0;
+  let gPT = 0;
+  for (let k = 0; k < R2R_N.length; k++) {
+    const i = R2R_I[k];
+    const j = R2R_J[k];
+    const t = R2R_N[k] * R2_PI_POWERS[i] * R2_B_POWERS[j];
+    g += t;
+    gP += i * t;
+    gPP += i * (i - 1) * t;
+    gT += j * t;
+    gTT += j * (j - 1) * t;
+    gPT += i * j * t;
   }
+  const r = REGION2_RESIDUAL_GIBBS;
+  r.g = g;
+  r.gP = gP / pi;
+  r.gPP = gPP / (pi * pi);
+  r.gT = gT / b;
+  r.gTT = gTT / (b * b);
+  r.gPT = gPT / (pi * b);
   return r;
-}
-
-function withDensity(
-  p: Omit<WaterProperties, "densityKgPerM3">,
-): WaterProperties {
-  return { ...p, densityKgPerM3: 1 / p.specificVolumeM3PerKg };
 }
 
 // Region 1 relations of IF97 Table 3; R·T in kJ/kg, ×1000 for J/kg where
@@ -233,17 +338,19 @@ function region1Unchecked(pMpa: number, tK: number): WaterProperties {
   const tau = 1386 / tK;
   const y = region1Gibbs(pi, tau);
   const rt = IF97_R_KJ_PER_KG_K * tK;
+  const dPT = y.gP - tau * y.gPT;
   const wSquared =
-    (rt * 1000 * y.gP ** 2) /
-    ((y.gP - tau * y.gPT) ** 2 / (tau ** 2 * y.gTT) - y.gPP);
-  return withDensity({
-    specificVolumeM3PerKg: (rt * 1000 * pi * y.gP) / (pMpa * 1e6),
+    (rt * 1000 * y.gP * y.gP) / ((dPT * dPT) / (tau * tau * y.gTT) - y.gPP);
+  const v = (rt * 1000 * pi * y.gP) / (pMpa * 1e6);
+  return {
+    specificVolumeM3PerKg: v,
     enthalpyKjPerKg: rt * tau * y.gT,
     internalEnergyKjPerKg: rt * (tau * y.gT - pi * y.gP),
     entropyKjPerKgK: IF97_R_KJ_PER_KG_K * (tau * y.gT - y.g),
-    isobaricHeatCapacityKjPerKgK: -IF97_R_KJ_PER_KG_K * tau ** 2 * y.gTT,
+    isobaricHeatCapacityKjPerKgK: -IF97_R_KJ_PER_KG_K * tau * tau * y.gTT,
     speedOfSoundMPerS: Math.sqrt(wSquared),
-  });
+    densityKgPerM3: 1 / v,
+  };
 }
 
 // Region 2 relations of IF97 Table 12 (ideal-gas part o, residual part r).
@@ -255,28 +362,35 @@ function region2Unchecked(pMpa: number, tK: number): WaterProperties {
   const rt = IF97_R_KJ_PER_KG_K * tK;
   const gT = o.gT + r.gT;
   const gTT = o.gTT + r.gTT;
+  const piGp = pi * r.gP;
+  const dPT = 1 + piGp - tau * pi * r.gPT;
   const wSquared =
-    (rt * 1000 * (1 + 2 * pi * r.gP + pi ** 2 * r.gP ** 2)) /
-    (1 -
-      pi ** 2 * r.gPP +
-      (1 + pi * r.gP - tau * pi * r.gPT) ** 2 / (tau ** 2 * gTT));
-  return withDensity({
-    specificVolumeM3PerKg: (rt * 1000 * pi * (o.gP + r.gP)) / (pMpa * 1e6),
+    (rt * 1000 * (1 + 2 * piGp + piGp * piGp)) /
+    (1 - pi * pi * r.gPP + (dPT * dPT) / (tau * tau * gTT));
+  const v = (rt * 1000 * pi * (o.gP + r.gP)) / (pMpa * 1e6);
+  return {
+    specificVolumeM3PerKg: v,
     enthalpyKjPerKg: rt * tau * gT,
     internalEnergyKjPerKg: rt * (tau * gT - pi * (o.gP + r.gP)),
     entropyKjPerKgK: IF97_R_KJ_PER_KG_K * (tau * gT - (o.g + r.g)),
-    isobaricHeatCapacityKjPerKgK: -IF97_R_KJ_PER_KG_K * tau ** 2 * gTT,
+    isobaricHeatCapacityKjPerKgK: -IF97_R_KJ_PER_KG_K * tau * tau * gTT,
     speedOfSoundMPerS: Math.sqrt(wSquared),
-  });
+    densityKgPerM3: 1 / v,
+  };
 }
 
 // IF97 Eq. 30 (T* = 1 K, p* = 1 MPa).
+// Squares written as products: it sits on every region-1 guard, and `** 2`
+// may go through Math.pow where a product is one multiplication.
 function saturationPressureUnchecked(tK: number): number {
   const theta = tK + SAT[9] / (tK - SAT[10]);
-  const a = theta ** 2 + SAT[1] * theta + SAT[2];
-  const b = SAT[3] * theta ** 2 + SAT[4] * theta + SAT[5];
-  const c = SAT[6] * theta ** 2 + SAT[7] * theta + SAT[8];
-  return ((2 * c) / (-b + Math.sqrt(b ** 2 - 4 * a * c))) ** 4;
+  const theta2 = theta * theta;
+  const a = theta2 + SAT[1] * theta + SAT[2];
+  const b = SAT[3] * theta2 + SAT[4] * theta + SAT[5];
+  const c = SAT[6] * theta2 + SAT[7] * theta + SAT[8];
+  const root = (2 * c) / (-b + Math.sqrt(b * b - 4 * a * c));
+  const root2 = root * root;
+  return root2 * root2;
 }
 
 // IF97 Eq. 31.
@@ -367,6 +481,20 @@ export function region1Properties(
       "pressureMpa",
     );
   }
+  return region1Unchecked(pressureMpa, temperatureK);
+}
+
+/**
+ * Region 1 for a caller that has itself established, with the same
+ * saturation test, that (p, T) lies inside region 1 (water-properties.ts
+ * checks the meter range and the phase first): skips a second evaluation of
+ * the saturation line on the hottest path. Anything else calls
+ * region1Properties.
+ */
+export function region1PropertiesInRange(
+  pressureMpa: number,
+  temperatureK: number,
+): WaterProperties {
   return region1Unchecked(pressureMpa, temperatureK);
 }
 

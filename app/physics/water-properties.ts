@@ -8,6 +8,7 @@ import { PhysicsRangeError, requireFinite } from "./errors";
 import {
   IF97_SATURATION_MIN_PRESSURE_MPA,
   region1Properties,
+  region1PropertiesInRange,
   region2Properties,
   saturationPressureMpa,
   saturationTemperatureK,
@@ -124,7 +125,10 @@ export function liquidWater(
       tField,
     );
   }
-  return region1Properties(
+  // The meter range lies inside region 1's (0-250 °C ⊂ 273.15-623.15 K,
+  // 40 bar a < 100 MPa) and the phase test above is region 1's own, so the
+  // state is known to be in region 1 without a second saturation pressure.
+  return region1PropertiesInRange(
     mpa(pressureBarAbs),
     temperatureC + CELSIUS_OFFSET_K,
   );

@@ -11,7 +11,7 @@ import {
 import { band, factor, kwh, share, signedPercent } from "./format";
 import { tokens } from "./formula";
 import { flows } from "./sections/site-balance";
-import { textWidth, wrapLines } from "./text";
+import { fitText, textWidth, wrapLines } from "./text";
 import type { SiteReport } from "../data/types";
 
 describe("fonts", () => {
@@ -156,5 +156,44 @@ describe("wrapping", () => {
       "HDD",
       "(15.5\u00a0°C)",
     ]);
+  });
+});
+
+describe("fitText", () => {
+  it("cuts to the longest prefix that fits, as dropping one character at a time would", async () => {
+    const { default: PDFDocument } = await import("pdfkit");
+    const doc = new PDFDocument({ size: "A4" });
+    registerFonts(doc);
+    const style = { size: 8 };
+    const text = "Larchmere Depot & Laundry, boiler house heat (ρ·Δh) meter";
+    // The plain search this one replaces: drop the last character until the
+    // cut with its ellipsis fits.
+    const oneAtATime = (width: number) => {
+      const chars = [...text];
+      while (chars.length > 1) {
+        chars.pop();
+        const candidate = `${chars.join("").trimEnd()}…`;
+        if (textWidth(doc, candidate, style) <= width) return candidate;
+      }
+      return "…";
+    };
+    const full = textWidth(doc, text, style);
+    for (const width of [
+      1,
+      8,
+      20,
+      55,
+      90,
+      full / 2,
+      full - 1,
+      full,
+      full + 5,
+    ]) {
+      expect(fitText(doc, text, width, style), `width ${width}`).toBe(
+        width >= full ? text : oneAtATime(width),
+      );
+    }
+    // Widths come from the document's cache the second time: the same figure.
+    expect(textWidth(doc, text, style)).toBe(full);
   });
 });

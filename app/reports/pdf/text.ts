@@ -4,7 +4,7 @@
  * across pages. Every piece of report text goes through here, so no
  * character is drawn with a face that lacks it.
  */
-import { runs, type Weight } from "./fonts.server";
+import { runs, type Run, type Weight } from "./fonts.server";
 import { colours, page } from "./theme";
 
 export interface TextStyle {
@@ -20,17 +20,54 @@ export interface Span {
   color?: string;
 }
 
+// Widths of runs already measured in a document, by face, size and text.
+// A report draws the same labels, units and figures again and again (every
+// table row, every chart axis); each measurement is a full glyph layout in
+// pdfkit, so each distinct one is made once per document.
+const measuredWidths = new WeakMap<PDFKit.PDFDocument, Map<string, number>>();
+
+function runWidth(doc: PDFKit.PDFDocument, run: Run, size: number): number {
+  let widths = measuredWidths.get(doc);
+  if (!widths) {
+    widths = new Map();
+    measuredWidths.set(doc, widths);
+  }
+  const key = `${run.face}\u0000${size}\u0000${run.text}`;
+  let width = widths.get(key);
+  if (width === undefined) {
+    doc.font(run.face).fontSize(size);
+    width = doc.widthOfString(run.text);
+    widths.set(key, width);
+  }
+  return width;
+}
+
+interface MeasuredText {
+  runs: Run[];
+  widths: number[];
+  width: number;
+}
+
+function measure(
+  doc: PDFKit.PDFDocument,
+  text: string,
+  style: TextStyle,
+): MeasuredText {
+  const pieces = runs(text, style.weight ?? "regular");
+  const widths = pieces.map((run) => runWidth(doc, run, style.size));
+  return {
+    runs: pieces,
+    widths,
+    width: widths.reduce((sum, w) => sum + w, 0),
+  };
+}
+
 export function textWidth(
   doc: PDFKit.PDFDocument,
   text: string,
   style: TextStyle,
 ): number {
-  let width = 0;
-  for (const run of runs(text, style.weight ?? "regular")) {
-    doc.font(run.face).fontSize(style.size);
-    width += doc.widthOfString(run.text);
-  }
-  return width;
+  return measure(doc, text, style).width;
 }
 
 /** Cuts text to fit a width, ending it with an ellipsis. */
@@ -42,12 +79,17 @@ export function fitText(
 ): string {
   if (textWidth(doc, text, style) <= width) return text;
   const chars = [...text];
-  while (chars.length > 1) {
-    chars.pop();
-    const candidate = `${chars.join("").trimEnd()}…`;
-    if (textWidth(doc, candidate, style) <= width) return candidate;
+  const cut = (keep: number) => `${chars.slice(0, keep).join("").trimEnd()}…`;
+  // The longest cut that fits, by bisection: a longer cut is never narrower,
+  // so this is the cut that dropping one character at a time would find.
+  let fits = 0;
+  let tooWide = chars.length;
+  while (tooWide - fits > 1) {
+    const mid = (fits + tooWide) >> 1;
+    if (textWidth(doc, cut(mid), style) <= width) fits = mid;
+    else tooWide = mid;
   }
-  return "…";
+  return fits >= 1 ? cut(fits) : "…";
 }
 
 /**
@@ -61,21 +103,21 @@ export function drawText(
   y: number,
   style: TextStyle & { width?: number; align?: "left" | "right" | "center" },
 ): number {
-  const shown =
-    style.width !== undefined ? fitText(doc, text, style.width, style) : text;
-  const width = textWidth(doc, shown, style);
+  let shown = measure(doc, text, style);
+  if (style.width !== undefined && shown.width > style.width)
+    shown = measure(doc, fitText(doc, text, style.width, style), style);
   let left = x;
   if (style.width !== undefined && style.align === "right")
-    left = x + style.width - width;
+    left = x + style.width - shown.width;
   else if (style.width !== undefined && style.align === "center")
-    left = x + (style.width - width) / 2;
+    left = x + (style.width - shown.width) / 2;
   doc.fillColor(style.color ?? colours.ink);
-  for (const run of runs(shown, style.weight ?? "regular")) {
+  shown.runs.forEach((run, i) => {
     doc.font(run.face).fontSize(style.size);
     doc.text(run.text, left, y, { lineBreak: false });
-    left += doc.widthOfString(run.text);
-  }
-  return width;
+    left += shown.widths[i];
+  });
+  return shown.width;
 }
 
 export interface ParagraphOptions {
