@@ -31,7 +31,10 @@ export function LedgerEntries(grid: ComponentProps<typeof LedgerGrid>) {
       </div>
       <Legend>
         Estimated share: the part of the net figure that comes from estimated
-        intervals. ± uncertainty: the heat meters' maximum permissible error (EN
+        intervals. Exergy (heat and cooling): the work-equivalent of the heat at
+        each day&apos;s outdoor temperature; &ldquo;no data&rdquo; where part of
+        the month has no flow and return temperatures, no weather, or estimated
+        or corrected intervals. ± uncertainty: the heat meters' maximum permissible error (EN
         1434), where it applies. Adjustments: corrections entered after the
         month was closed, with their count
         {grid.adjustmentsLink
