@@ -8,15 +8,11 @@ import { and, eq, inArray, isNull, sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { firstDayOf, meterOfRollup } from "~/db/conditions.server";
 import { meters, monthlyExergy, monthlyRollups } from "~/db/schema";
-import type { Carrier } from "~/sites/meter-kinds";
+import type { CarrierExergy } from "./carrier-exergy";
 
 export const EXERGY_CARRIERS = ["heat", "cooling"] as const;
 
-export interface CarrierExergy {
-  carrier: Carrier;
-  /** kWh into the site (decimal string), or null when it cannot be had. */
-  exergyKwh: string | null;
-}
+export type { CarrierExergy } from "./carrier-exergy";
 
 export async function siteExergyOfMonth(args: {
   organizationId: string;
