@@ -34,9 +34,9 @@ export function LedgerEntries(grid: ComponentProps<typeof LedgerGrid>) {
         intervals. Exergy (heat and cooling): the work-equivalent of the heat at
         each day&apos;s outdoor temperature; &ldquo;no data&rdquo; where part of
         the month has no flow and return temperatures, no weather, or estimated
-        or corrected intervals. ± uncertainty: the heat meters' maximum permissible error (EN
-        1434), where it applies. Adjustments: corrections entered after the
-        month was closed, with their count
+        or corrected intervals. ± uncertainty: the heat meters' maximum
+        permissible error (EN 1434), where it applies. Adjustments: corrections
+        entered after the month was closed, with their count
         {grid.adjustmentsLink
           ? "; select one to see its entries in the audit trail"
           : ""}
