@@ -68,7 +68,8 @@ function NodeShape({
   height,
   payload,
   containerWidth,
-}: NodeProps & { containerWidth: number }) {
+  maxChars,
+}: NodeProps & { containerWidth: number; maxChars: number }) {
   const node = payload as unknown as BalanceNode;
   const colour = nodeColour(node);
   // Labels sit to the right of their node, over the flows leaving it; the
@@ -102,7 +103,7 @@ function NodeShape({
         fontWeight={600}
         fill={node.kind === "site" ? "#0f5546" : "#1a222d"}
       >
-        {node.name}
+        {clipped(node.name, node.kind === "site" ? Infinity : maxChars)}
       </text>
       <text
         x={textX}
@@ -115,6 +116,40 @@ function NodeShape({
       </text>
     </g>
   );
+}
+
+/** How many columns the diagram has: its longest path of flows, plus one. */
+function columnCount(
+  nodeCount: number,
+  links: readonly { source: number; target: number }[],
+): number {
+  const depth = new Array<number>(nodeCount).fill(0);
+  // At most nodeCount passes: the flows form no cycle.
+  for (let pass = 0; pass < nodeCount; pass++) {
+    let moved = false;
+    for (const l of links) {
+      if (depth[l.target] < depth[l.source] + 1) {
+        depth[l.target] = depth[l.source] + 1;
+        moved = true;
+      }
+    }
+    if (!moved) break;
+  }
+  return Math.max(...depth, 0) + 1;
+}
+
+/**
+ * A label fits its column (about 7 px a character at 13 px); longer names
+ * are cut with an ellipsis, whole in the tooltip.
+ */
+function labelChars(width: number, columns: number): number {
+  const column =
+    (width - MARGIN.left - MARGIN.right) / Math.max(columns - 1, 1);
+  return Math.max(12, Math.floor((column - NODE_WIDTH - 16) / 7));
+}
+
+function clipped(name: string, maxChars: number): string {
+  return name.length <= maxChars ? name : `${name.slice(0, maxChars - 1)}…`;
 }
 
 interface TooltipItem {
@@ -141,6 +176,10 @@ function BalanceChart({
     }),
     [nodes, links],
   );
+  const columns = useMemo(
+    () => columnCount(nodes.length, links),
+    [nodes, links],
+  );
   // Below MIN_WIDTH the labels would collide: the diagram scrolls instead.
   return (
     <div className="overflow-x-auto">
@@ -159,7 +198,11 @@ function BalanceChart({
             nodePadding={28}
             margin={MARGIN}
             node={(props: NodeProps) => (
-              <NodeShape {...props} containerWidth={width} />
+              <NodeShape
+                {...props}
+                containerWidth={width}
+                maxChars={labelChars(width, columns)}
+              />
             )}
           >
             <Tooltip

@@ -89,7 +89,7 @@ describe("the site's balance with its plant", () => {
     expect(f).toContainEqual(["HEAT · Meter heat", "Depot", 850, "heat"]);
     expect(f).toContainEqual([
       "Boiler house",
-      "Conversion loss (Boiler house)",
+      "Conversion loss",
       150,
       "natural_gas",
     ]);
@@ -117,7 +117,7 @@ describe("the site's balance with its plant", () => {
   it("gives a heat pump its outdoor-air heat by difference", () => {
     const d = diagramOf([heatPump]);
     expect(flows(d)).toContainEqual([
-      "Outdoor air (heat pump, by difference)",
+      "Outdoor air (by difference)",
       "Heat pump",
       660,
       "heat",

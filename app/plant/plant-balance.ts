@@ -113,7 +113,7 @@ export function withPlant(
     ) {
       const lossNode =
         nodes.push({
-          name: `Conversion loss (${plant.name})`,
+          name: "Conversion loss",
           kind: "loss",
           carrier: fuel.carrier,
           signedKwh: lossKwh,
@@ -125,7 +125,7 @@ export function withPlant(
     if (plant.kind === "heat_pump" && fromAir > 0) {
       const airNode =
         nodes.push({
-          name: "Outdoor air (heat pump, by difference)",
+          name: "Outdoor air (by difference)",
           kind: "ambient",
           carrier: "heat",
           signedKwh: fromAir,
