@@ -222,8 +222,11 @@ export function LedgerGrid({
   unit,
   perM2,
   adjustmentsLink,
+  showExergy = false,
 }: {
   ledger: Ledger;
+  /** A column of exergy for heat and cooling rows ("no data" where unknown). */
+  showExergy?: boolean;
   unit: LedgerUnit;
   perM2: boolean;
   /** Where a row's adjusting entries are listed; none for roles without the audit trail. */
@@ -233,7 +236,7 @@ export function LedgerGrid({
   const totals = useMemo(() => totalRows(ledger), [ledger]);
   const { ref, width } = useWidth();
   const narrow = width > 0 && width < NARROW_GRID_PX;
-  const hasHeat = ledger.rows.some((r) => HAS_EXERGY.has(r.carrier));
+  const hasHeat = showExergy;
 
   const columns = useMemo<ColDef<GridRow>[]>(() => {
     const { decimals } = LEDGER_UNITS[unit];
