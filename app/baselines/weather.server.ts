@@ -6,6 +6,7 @@ import { and, between, count, eq, max, min, sql } from "drizzle-orm";
 import { recordAudit } from "~/audit/record-audit.server";
 import { db } from "~/db/client.server";
 import { dailyWeather } from "~/db/schema";
+import { recomputeSiteWeather } from "~/exergy/exergy-store.server";
 import {
   monthlyDegreeDays,
   type DailyTemperature,
@@ -101,6 +102,8 @@ export async function storeWeather(args: {
       updated += written.length - fresh;
     }
     const result = { inserted, updated, from, to };
+    // The days' outdoor means are the dead state of their heat's exergy.
+    await recomputeSiteWeather(tx, { ...args, from, to });
     await recordAudit(tx, {
       organizationId: args.organizationId,
       actorUserId: args.actorUserId,
@@ -127,6 +130,14 @@ export async function insertSeedWeather(args: {
       .onConflictDoNothing({ target: dayKey })
       .returning({ day: dailyWeather.day });
     stored += written.length;
+  }
+  if (stored > 0) {
+    const days = args.rows.map((r) => r.day).sort();
+    await recomputeSiteWeather(db, {
+      ...args,
+      from: days[0],
+      to: days.at(-1)!,
+    });
   }
   return stored;
 }

@@ -31,23 +31,33 @@ import {
 import { carrierColour } from "~/sites/carrier-colours";
 import { CarrierBadge } from "~/components/carrier-badge";
 import type { PlantLoss } from "~/plant/conversion-loss";
+import { withPlant, type PlantFlow } from "~/plant/plant-balance";
+import type { CarrierExergy } from "~/exergy/carrier-exergy";
 
-const HEIGHT = 440;
+const HEIGHT = 480;
 const MIN_WIDTH = 760;
 const NODE_WIDTH = 12;
 const MARGIN = { top: 44, right: 12, bottom: 12, left: 12 };
 
+const LOSS_GREY = "#8a929c";
+
 function nodeColour(node: BalanceNode): string {
   if (node.kind === "site") return "#0f5546";
-  if (node.kind === "loss") return "#6b7480";
+  if (node.kind === "plant") return "#2f3b48";
+  if (node.kind === "loss") return LOSS_GREY;
   return node.carrier ? carrierColour(node.carrier) : "#4f5966";
 }
 
 const tolerancePercent = formatPercent(RESIDUAL_TOLERANCE, { decimals: 0 });
 
+/**
+ * The figure beside a node, always of one carrier. The site and a plant take
+ * in unlike carriers, so they show none: their flows carry the figures.
+ */
 function nodeValueLabel(node: BalanceNode): string {
-  const value = flowLabel(node.signedKwh);
-  return node.kind === "site" ? `Q + W ${value}` : value;
+  if (node.kind === "site") return "uses in the site";
+  if (node.kind === "plant") return "plant";
+  return flowLabel(node.signedKwh);
 }
 
 /** A node with its name and signed energy beside it, outside the flows. */
@@ -58,7 +68,8 @@ function NodeShape({
   height,
   payload,
   containerWidth,
-}: NodeProps & { containerWidth: number }) {
+  maxChars,
+}: NodeProps & { containerWidth: number; maxChars: number }) {
   const node = payload as unknown as BalanceNode;
   const colour = nodeColour(node);
   // Labels sit to the right of their node, over the flows leaving it; the
@@ -92,7 +103,7 @@ function NodeShape({
         fontWeight={600}
         fill={node.kind === "site" ? "#0f5546" : "#1a222d"}
       >
-        {node.name}
+        {clipped(node.name, node.kind === "site" ? Infinity : maxChars)}
       </text>
       <text
         x={textX}
@@ -105,6 +116,40 @@ function NodeShape({
       </text>
     </g>
   );
+}
+
+/** How many columns the diagram has: its longest path of flows, plus one. */
+function columnCount(
+  nodeCount: number,
+  links: readonly { source: number; target: number }[],
+): number {
+  const depth = new Array<number>(nodeCount).fill(0);
+  // At most nodeCount passes: the flows form no cycle.
+  for (let pass = 0; pass < nodeCount; pass++) {
+    let moved = false;
+    for (const l of links) {
+      if (depth[l.target] < depth[l.source] + 1) {
+        depth[l.target] = depth[l.source] + 1;
+        moved = true;
+      }
+    }
+    if (!moved) break;
+  }
+  return Math.max(...depth, 0) + 1;
+}
+
+/**
+ * A label fits its column (about 7 px a character at 13 px); longer names
+ * are cut with an ellipsis, whole in the tooltip.
+ */
+function labelChars(width: number, columns: number): number {
+  const column =
+    (width - MARGIN.left - MARGIN.right) / Math.max(columns - 1, 1);
+  return Math.max(12, Math.floor((column - NODE_WIDTH - 16) / 7));
+}
+
+function clipped(name: string, maxChars: number): string {
+  return name.length <= maxChars ? name : `${name.slice(0, maxChars - 1)}…`;
 }
 
 interface TooltipItem {
@@ -125,10 +170,14 @@ function BalanceChart({
       nodes,
       links: links.map((l) => ({
         ...l,
-        stroke: carrierColour(l.carrier),
-        strokeOpacity: 0.3,
+        stroke: l.loss ? LOSS_GREY : carrierColour(l.carrier),
+        strokeOpacity: l.loss ? 0.45 : 0.3,
       })),
     }),
+    [nodes, links],
+  );
+  const columns = useMemo(
+    () => columnCount(nodes.length, links),
     [nodes, links],
   );
   // Below MIN_WIDTH the labels would collide: the diagram scrolls instead.
@@ -149,7 +198,11 @@ function BalanceChart({
             nodePadding={28}
             margin={MARGIN}
             node={(props: NodeProps) => (
-              <NodeShape {...props} containerWidth={width} />
+              <NodeShape
+                {...props}
+                containerWidth={width}
+                maxChars={labelChars(width, columns)}
+              />
             )}
           >
             <Tooltip
@@ -176,6 +229,22 @@ function BalanceChart({
         ) : null}
       </div>
     </div>
+  );
+}
+
+/** Exergy beside a heat or cooling carrier's energy, or "no data". */
+function ExergyBeside({ exergy }: { exergy: CarrierExergy | undefined }) {
+  if (!exergy) return null;
+  return (
+    <span data-exergy={exergy.carrier}>
+      {" "}
+      · exergy{" "}
+      <span className="tabular-nums">
+        {exergy.exergyKwh === null
+          ? "no data"
+          : `${formatDecimal(exergy.exergyKwh, 0)} kWh`}
+      </span>
+    </span>
   );
 }
 
@@ -308,19 +377,30 @@ function InsideTheBoundary({
 export function SiteBalanceView({
   balance,
   plantLosses = [],
+  plantFlows = [],
+  exergy = [],
   months,
   siteName,
 }: {
   balance: SiteBalance | null;
   plantLosses?: readonly PlantLoss[];
+  plantFlows?: readonly PlantFlow[];
+  exergy?: readonly CarrierExergy[];
   months: string[];
   siteName: string;
 }) {
   // The diagram measures the page, so it renders in the browser only.
   const mounted = useHydrated();
   const diagram = useMemo(
-    () => (balance ? balanceDiagram(balance, siteName) : null),
-    [balance, siteName],
+    () =>
+      balance
+        ? withPlant(
+            balanceDiagram(balance, siteName),
+            plantFlows,
+            balance.meters,
+          )
+        : null,
+    [balance, siteName, plantFlows],
   );
   if (!balance || !diagram)
     return (
@@ -343,9 +423,20 @@ export function SiteBalanceView({
               <span className="font-semibold tabular-nums">
                 {formatDecimal(b.netKwh, 0)} kWh
               </span>
+              <ExergyBeside
+                exergy={exergy.find((e) => e.carrier === b.carrier)}
+              />
             </li>
           ))}
         </ul>
+      ) : null}
+      {exergy.length > 0 ? (
+        <p className="-mt-2 text-sm text-ink-muted" data-exergy-note>
+          Exergy: the work-equivalent of the heat at each day&apos;s outdoor
+          temperature; &ldquo;no data&rdquo; where part of the month has no flow
+          and return temperatures, no weather, or estimated or corrected
+          intervals.
+        </p>
       ) : null}
       {diagram.links.length === 0 ? (
         <p className="text-ink-muted">
@@ -361,12 +452,18 @@ export function SiteBalanceView({
           {/* A method note: the balance is the thermodynamic view, named here. */}
           <figcaption className="mt-2 text-sm text-ink-muted" data-method-note>
             <span className="font-semibold text-ink">Thermodynamic view.</span>{" "}
-            {monthLong(balance.month)}, from the monthly ledger: heat and work
-            into the site +, out of it −, and the site&apos;s net Q + W. Widths
-            are magnitudes; labels keep the sign. What enters comes in through
-            its meter; exports and chilled water leave through theirs (cooling
-            delivered is heat leaving the site). A parent meter splits into its
-            sub-meters and the distribution loss.
+            {monthLong(balance.month)}, from the monthly ledger: what enters
+            through its meter on the left; a plant&apos;s fuel or electricity
+            flows into the plant, and the plant into its heat and electricity
+            meters inside the boundary and on into the site&apos;s uses, with
+            its conversion loss (fuel less what it delivered) drawn grey. A heat
+            pump&apos;s heat beyond its electricity is drawn from the outdoor
+            air, by difference. Exports and chilled water leave through their
+            meters (cooling delivered is heat leaving the site); a parent meter
+            splits into its sub-meters and the distribution loss. Each flow is
+            one carrier, coloured and labelled as such, its width its kWh;
+            unlike carriers are never added, so the site and the plant carry no
+            total.
           </figcaption>
         </figure>
       )}

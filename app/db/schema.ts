@@ -1031,3 +1031,79 @@ export const tankDeliveries = pgTable(
     }).onDelete("cascade"),
   ],
 );
+
+// ---------------------------------------------------------------------------
+// Exergy beside energy (app/exergy/): what each heat or cooling interval
+// measured with flow and return temperatures needs for its exergy at any
+// dead state, and each meter's month of it at the site's daily outdoor means.
+// ---------------------------------------------------------------------------
+
+/**
+ * The weather-independent part of an interval's exergy, from the readings
+ * with temperatures that made it: Ex = heat − T₀·entropy (T₀ in K, the day's
+ * outdoor mean), both signed into the site. Kept apart from `intervals` so
+ * that exergy can be recomputed when a day's weather arrives later.
+ */
+export const intervalExergy = pgTable(
+  "interval_exergy",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    intervalStart: timestamp("interval_start", {
+      withTimezone: true,
+      mode: "date",
+    }).notNull(),
+    /** m·(h_flow − h_return), kWh, signed into the site. */
+    heatKwh: numeric("heat_kwh", { precision: 24, scale: 9 }).notNull(),
+    /** m·(s_flow − s_return), kWh/K, signed like the heat. */
+    entropyKwhPerK: numeric("entropy_kwh_per_k", {
+      precision: 24,
+      scale: 12,
+    }).notNull(),
+    /**
+     * The flow temperature the dead state must stay on the useful side of
+     * (below it for heating, above it for chilled water): the lowest heating
+     * flow, or the highest chilled flow, of the interval's readings; null
+     * when they disagree on the direction, so no exergy is given.
+     */
+    flowLimitC: numeric("flow_limit_c", { precision: 7, scale: 3 }),
+    /** Flow warmer than return (heating), else chilled water. */
+    heating: boolean("heating").notNull(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId, t.intervalStart] }),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
+  ],
+);
+
+/**
+ * One meter's exergy in one site-local month: the sum over its measured
+ * intervals whose day has an outdoor mean, and how many intervals that was
+ * (the rollup's `hours` says how many there are).
+ */
+export const monthlyExergy = pgTable(
+  "monthly_exergy",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    /** The first day of the site-local month. */
+    month: date("month", { mode: "string" }).notNull(),
+    exergyKwh: numeric("exergy_kwh", { precision: 24, scale: 6 })
+      .notNull()
+      .default("0"),
+    intervals: integer("intervals").notNull().default(0),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId, t.month] }),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
+  ],
+);

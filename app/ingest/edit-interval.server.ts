@@ -2,6 +2,7 @@ import type { PoolClient } from "pg";
 import { recordAuditWith } from "~/audit/record-audit.server";
 import { pool } from "~/db/client.server";
 import { withTransaction } from "~/db/transaction.server";
+import { recomputeMeters, runnerOf } from "~/exergy/exergy-store.server";
 import {
   applyRollupDeltas,
   type RollupDelta,
@@ -163,6 +164,12 @@ export async function editInterval(args: {
       source: "edit",
       reason: args.reason,
       actorUserId: args.actorUserId,
+    });
+    // An edited interval has no exergy: the readings' is no longer its own.
+    await recomputeMeters(runnerOf(client), args.organizationId, {
+      meterIds: [args.meter.id],
+      from: args.intervalStart,
+      to: args.intervalStart,
     });
     return { ok: true, flags };
   });

@@ -1,5 +1,6 @@
 import { hash } from "node:crypto";
 import { isStorableText } from "~/lib/storable-text";
+import { readingExergyBasis, type ExergyBasis } from "~/exergy/interval-exergy";
 import { evaluateItem } from "~/physics/evaluate";
 import { parseReading, type ParsedReading } from "./reading-schema";
 import type { IngestMeter } from "./meter-lookup.server";
@@ -22,6 +23,8 @@ export interface PreparedReading {
   registerKwh: number | null;
   /** ± kWh from the meter's EN 1434 MPE, where the meter's class is known. */
   uncertaintyKwh: string | null;
+  /** Heat and entropy of a water_heat reading, for its exergy (app/exergy). */
+  exergyBasis?: ExergyBasis | null;
 }
 
 export interface Rejection {
@@ -154,9 +157,11 @@ function prepareOne(
       uncertaintyKwh: null,
     };
   }
-  const result = evaluateItem(withMeterDefaults(reading.item, meter));
+  const item = withMeterDefaults(reading.item, meter);
+  const result = evaluateItem(item);
   if (!result.ok) return { index, meter: meter.code, reason: result.error };
-  const signed = result.energy_kwh * siteSign(meter);
+  const sign = siteSign(meter);
+  const signed = result.energy_kwh * sign;
   const mpePercent = result.details.en1434_mpe_percent;
   return {
     index,
@@ -171,6 +176,7 @@ function prepareOne(
       typeof mpePercent === "number"
         ? ((Math.abs(result.energy_kwh) * mpePercent) / 100).toFixed(6)
         : null,
+    exergyBasis: readingExergyBasis(item, result.details, sign),
   };
 }
 

@@ -15,6 +15,7 @@ import {
   type ChangeAttribution,
   type RollupDelta,
 } from "~/ledger/refresh-rollups.server";
+import { storeReadingsExergy } from "~/exergy/exergy-store.server";
 import { intervalPieces } from "./interval-pieces";
 import { named } from "./named-statement.server";
 import { ensurePartitions } from "./partitions.server";
@@ -298,6 +299,8 @@ export async function storeReadings(
   const deltas = await deriveHours(client, organizationId, fresh, touched);
   // The ledger's monthly rollups move in the same transaction as the hours.
   await applyRollupDeltas(client, organizationId, deltas, change);
+  // Exergy beside the energy, for water_heat readings (app/exergy).
+  await storeReadingsExergy(client, organizationId, fresh);
   return {
     accepted: fresh.length,
     repeats: repeats.length,

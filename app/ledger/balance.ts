@@ -172,7 +172,9 @@ export function formatDecimal(value: string, fractionDigits = 1): string {
   return `${sign}${grouped}${fractionDigits > 0 ? `.${fraction}` : ""}`;
 }
 
-export type BalanceNodeKind = "imports" | "meter" | "site" | "loss";
+/** `plant` and `ambient` are added by app/plant/plant-balance.ts. */
+export type BalanceNodeKind =
+  "imports" | "meter" | "site" | "loss" | "plant" | "ambient";
 
 export interface BalanceNode {
   /** Shown beside the node. */
@@ -192,6 +194,8 @@ export interface BalanceLink {
   /** The same energy with its sign, as the meter at the flow's meter end reads it. */
   signedKwh: number;
   carrier: Carrier;
+  /** A plant's conversion loss: drawn grey, whatever fuel it was. */
+  loss?: boolean;
 }
 
 export interface BalanceProblem {

@@ -30,7 +30,9 @@ export type { CarrierTotal, Ledger, LedgerRow } from "./ledger-schema";
  * beside them as adjusting entries. The rollups hold signed energy (into the
  * site +); each meter's is turned by its carrier's delivered sign before it
  * is summed, so a cooling import meter's negative heat flow becomes cooling
- * delivered. All sums are PostgreSQL numeric.
+ * delivered. All sums are PostgreSQL numeric. A heat or cooling row's
+ * `exergy_kwh` is the work-equivalent of its heat at each day's outdoor mean
+ * (app/exergy), into the site +, or null unless every interval has it.
  */
 export async function ledgerRows(
   query: LedgerQuery,
@@ -47,12 +49,16 @@ export async function ledgerRows(
        select s.id as site_id, s.name as site_name, s.floor_area_m2, r.month, m.carrier, m.orientation,
               ${deliveredSignSql("m.carrier")} as sign,
               r.meter_id, r.energy_kwh, r.estimated_kwh, r.uncertainty_kwh,
+              r.hours, me.exergy_kwh, me.intervals as exergy_intervals,
               least(cs.closed_at, co.closed_at) as closed_at
          from monthly_rollups r
          join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
          join sites s on s.organization_id = m.organization_id and s.id = m.site_id
          left join closes cs on cs.site_id = s.id and cs.month = r.month
          left join closes co on co.site_id is null and co.month = r.month
+         -- Exergy beside energy (app/exergy): each meter's month of it.
+         left join monthly_exergy me
+           on me.organization_id = r.organization_id and me.meter_id = r.meter_id and me.month = r.month
         where r.organization_id = $1
           and r.month between to_date($2, 'YYYY-MM') and to_date($3, 'YYYY-MM')
           and m.parent_meter_id is null and m.position = 'boundary'
@@ -76,7 +82,12 @@ export async function ledgerRows(
               bool_or(b.closed_at is not null) as closed,
               min(b.closed_at) as closed_at,
               coalesce(sum(b.sign * a.delta), 0) as adjustments_kwh,
-              coalesce(sum(a.n), 0) as adjustment_count
+              coalesce(sum(a.n), 0) as adjustment_count,
+              -- Only when every interval of every meter in the row has it:
+              -- part of a month would pass for the whole.
+              case when b.carrier in ('heat', 'cooling')
+                    and bool_and(b.hours > 0 and b.exergy_intervals = b.hours)
+                   then sum(b.exergy_kwh) end as exergy_kwh
          from base b left join adj a on a.meter_id = b.meter_id and a.month = b.month
         group by b.site_id, b.site_name, b.floor_area_m2, b.month, b.carrier
      ), totals as (
@@ -95,7 +106,7 @@ export async function ledgerRows(
                                    then uncertainty_kwh::text end,
            'status', case when closed then 'closed' else 'open' end,
            'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int,
-           'closed_at', closed_at)
+           'closed_at', closed_at, 'exergy_kwh', exergy_kwh::text)
          order by site_name, month, carrier), '[]'::json),
        'totals', (select coalesce(json_agg(json_build_object(
            'carrier', carrier, 'imports_kwh', imports_kwh::text,

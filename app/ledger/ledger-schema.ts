@@ -32,6 +32,9 @@ export const ledgerRowSchema = z.strictObject({
     .describe(
       "When a closed month was closed (ISO 8601); its adjusting entries are those since",
     ),
+  exergy_kwh: decimalKwh(
+    "Heat and cooling only: the exergy (work-equivalent) of the row's heat at each day's outdoor mean temperature as the dead state, into the site + (cooling delivered is +, exports −); null when any interval of the month lacks flow and return temperatures, is estimated or edited, or its day has no weather, and for other carriers",
+  ).nullable(),
 });
 export type LedgerRow = z.output<typeof ledgerRowSchema>;
 

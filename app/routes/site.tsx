@@ -28,6 +28,8 @@ import { siteEnergySince } from "~/sites/meter-energy.server";
 import { listSiteMeters } from "~/sites/meters.server";
 import { carrierLabels } from "~/sites/meter-kinds";
 import { plantLossesOfMonth } from "~/plant/plant-losses.server";
+import { plantFlowsOfMonth } from "~/plant/plant-flows.server";
+import { siteExergyOfMonth } from "~/exergy/site-exergy.server";
 import { siteFormSchema } from "~/sites/site-schema";
 import { DuplicateNameError, getSite, updateSite } from "~/sites/sites.server";
 import type { Route } from "./+types/site";
@@ -58,12 +60,14 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const asked = new URL(request.url).searchParams.get("month") ?? "";
   const month = MONTH_PATTERN.test(asked) ? asked : (months[0] ?? null);
   const scope = { organizationId: organization.id, siteId: site.id };
-  const [balance, plantLosses] = month
+  const [balance, plantLosses, plantFlows, exergy] = month
     ? await Promise.all([
         siteBalance({ ...scope, month }),
         plantLossesOfMonth({ ...scope, month }),
+        plantFlowsOfMonth({ ...scope, month }),
+        siteExergyOfMonth({ ...scope, month }),
       ])
-    : [null, []];
+    : [null, [], [], []];
   return {
     organization,
     site,
@@ -74,6 +78,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     canManage: can(role, "sites.manage"),
     balance,
     plantLosses,
+    plantFlows,
+    exergy,
     balanceMonths: months,
   };
 }
@@ -173,6 +179,8 @@ export default function Site({ loaderData, actionData }: Route.ComponentProps) {
           <SiteBalanceView
             balance={loaderData.balance}
             plantLosses={loaderData.plantLosses}
+            plantFlows={loaderData.plantFlows}
+            exergy={loaderData.exergy}
             months={loaderData.balanceMonths}
             siteName={site.name}
           />

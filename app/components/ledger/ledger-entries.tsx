@@ -1,4 +1,4 @@
-import type { ComponentProps, ReactNode } from "react";
+import { useState, type ComponentProps, type ReactNode } from "react";
 import { SectionCard } from "~/components/section-card";
 import { LedgerGrid } from "./ledger-grid";
 import type { LedgerRow } from "./use-ledger";
@@ -23,17 +23,39 @@ function Legend({ children }: { children: ReactNode }) {
 }
 
 /** The monthly entries' grid, with what its columns mean. */
-export function LedgerEntries(grid: ComponentProps<typeof LedgerGrid>) {
+export function LedgerEntries(
+  grid: Omit<ComponentProps<typeof LedgerGrid>, "showExergy">,
+) {
+  // Exergy is a second view of the heat rows: a switch, so the energy
+  // columns keep their room until it is asked for.
+  const [showExergy, setShowExergy] = useState(false);
+  const hasHeat = grid.ledger.rows.some(
+    (r) => r.carrier === "heat" || r.carrier === "cooling",
+  );
   return (
     <SectionCard headingId="ledger-heading" title="Monthly entries">
+      {hasHeat ? (
+        <label className="mt-3 flex min-h-10 items-center gap-2 font-semibold">
+          <input
+            type="checkbox"
+            checked={showExergy}
+            onChange={(e) => setShowExergy(e.target.checked)}
+            className="h-5 w-5 accent-spruce-700"
+          />
+          Exergy beside heat and cooling
+        </label>
+      ) : null}
       <div className="mt-3">
-        <LedgerGrid {...grid} />
+        <LedgerGrid {...grid} showExergy={hasHeat && showExergy} />
       </div>
       <Legend>
         Estimated share: the part of the net figure that comes from estimated
-        intervals. ± uncertainty: the heat meters' maximum permissible error (EN
-        1434), where it applies. Adjustments: corrections entered after the
-        month was closed, with their count
+        intervals. Exergy (heat and cooling): the work-equivalent of the heat at
+        each day&apos;s outdoor temperature; &ldquo;no data&rdquo; where part of
+        the month has no flow and return temperatures, no weather, or estimated
+        or corrected intervals. ± uncertainty: the heat meters' maximum
+        permissible error (EN 1434), where it applies. Adjustments: corrections
+        entered after the month was closed, with their count
         {grid.adjustmentsLink
           ? "; select one to see its entries in the audit trail"
           : ""}

@@ -89,6 +89,8 @@ function totalRows(ledger: Ledger): GridRow[] {
     month: "",
     status: null,
     closed_at: null,
+    // Exergy is shown per row only (see exergyColumn).
+    exergy_kwh: null,
     firstOfSite: true,
     firstOfMonth: true,
     isTotal: true,
@@ -185,6 +187,29 @@ const defaultColumn: ColDef<GridRow> = {
   autoHeaderHeight: true,
 };
 
+/** The carriers whose rows may carry exergy (heat and chilled water). */
+const HAS_EXERGY = new Set<LedgerRow["carrier"]>(["heat", "cooling"]);
+
+/**
+ * Exergy beside the energy: on a heat or cooling row its figure or "no data"
+ * (app/exergy says when it cannot be had); blank on other rows and totals.
+ */
+function exergyColumn(column: ColDef<GridRow>): ColDef<GridRow> {
+  const format = column.valueFormatter as (p: { value: unknown }) => string;
+  return {
+    ...column,
+    colId: "exergy",
+    headerTooltip:
+      "The work-equivalent of the heat at each day's outdoor temperature",
+    valueFormatter: (p) => {
+      if (!p.data?.carrier || p.data.isTotal) return "";
+      if (!HAS_EXERGY.has(p.data.carrier)) return "";
+      return p.value === null ? "no data" : format(p);
+    },
+    cellStyle: (p) => (p.value === null ? { color: "#6b7480" } : null),
+  };
+}
+
 function rowStyle(p: RowClassParams<GridRow>): RowStyle | undefined {
   if (p.node.rowPinned) return { background: "#f4f1ea", fontWeight: 600 };
   if (p.data?.firstOfSite && p.node.rowIndex)
@@ -197,8 +222,11 @@ export function LedgerGrid({
   unit,
   perM2,
   adjustmentsLink,
+  showExergy = false,
 }: {
   ledger: Ledger;
+  /** A column of exergy for heat and cooling rows ("no data" where unknown). */
+  showExergy?: boolean;
   unit: LedgerUnit;
   perM2: boolean;
   /** Where a row's adjusting entries are listed; none for roles without the audit trail. */
@@ -208,6 +236,7 @@ export function LedgerGrid({
   const totals = useMemo(() => totalRows(ledger), [ledger]);
   const { ref, width } = useWidth();
   const narrow = width > 0 && width < NARROW_GRID_PX;
+  const hasHeat = showExergy;
 
   const columns = useMemo<ColDef<GridRow>[]>(() => {
     const { decimals } = LEDGER_UNITS[unit];
@@ -285,6 +314,9 @@ export function LedgerGrid({
         ...energyColumn("Net", (r) => r.net_kwh),
         cellStyle: { fontWeight: 600 },
       },
+      ...(hasHeat
+        ? [exergyColumn(energyColumn("Exergy", (r) => r.exergy_kwh))]
+        : []),
       {
         headerName: "Estimated share (%)",
         field: "estimated_share",
@@ -325,7 +357,7 @@ export function LedgerGrid({
         flex: 1,
       },
     ];
-  }, [unit, perM2, adjustmentsLink, narrow]);
+  }, [unit, perM2, adjustmentsLink, narrow, hasHeat]);
 
   // A short ledger takes only the room it needs; a long one scrolls under its
   // header, with the totals kept in view.

@@ -24,6 +24,7 @@ function row(over: Partial<LedgerRow>): LedgerRow {
     adjustments_kwh: "0",
     adjustment_count: 0,
     closed_at: null,
+    exergy_kwh: null,
     ...over,
   };
 }

@@ -1,0 +1,176 @@
+/**
+ * Exergy beside energy (app/exergy): heat and chilled-water readings with
+ * flow and return temperatures, the site's daily weather as the dead state,
+ * and the ledger API's `exergy_kwh`, which stays null ("no data") until every
+ * interval of the month has its day's weather on the useful side of the flow,
+ * and follows the weather when a day arrives or is replaced later.
+ *
+ * The expected figures are the evaluate API's own `details.exergy_kwh` for
+ * each reading at its day's mean (water-exergy.ts, IF97 region 1), summed:
+ * the ledger must give that sum to the micro-kWh it is stored in.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { evaluateItem } from "../../app/physics/evaluate";
+import { pool } from "../support/db";
+import { Client } from "../support/http";
+import {
+  addCoolingMeter,
+  createMeteredOrg,
+  type MeteredOrg,
+  type MeterRef,
+} from "../support/metered-org";
+
+afterAll(() => pool.end());
+
+const HOUR = 3_600_000;
+
+function water(
+  code: string,
+  start: string,
+  hours: number,
+  volume: number,
+  flow: number,
+  ret: number,
+) {
+  const from = Date.parse(start);
+  return {
+    meter: code,
+    quantity: "water_heat",
+    start: new Date(from).toISOString(),
+    end: new Date(from + hours * HOUR).toISOString(),
+    volume_m3: volume,
+    flow_temp_c: flow,
+    return_temp_c: ret,
+  };
+}
+
+let org: MeteredOrg;
+let cooling: MeterRef;
+let manager: Client;
+type Reading = ReturnType<typeof water>;
+let heatReadings: Reading[];
+let coolingReadings: Reading[];
+
+/** Σ evaluate exergy of the readings, each at the mean of the day it starts on. */
+function expectedExergy(
+  readings: Reading[],
+  pressureBarAbs: number,
+  means: Record<string, number>,
+): number {
+  return readings.reduce((sum, { meter: _meter, ...r }) => {
+    const result = evaluateItem({
+      ...r,
+      pressure_bar_abs: pressureBarAbs,
+      sensor_at: "return",
+      ambient_temp_c: means[r.start.slice(0, 10)],
+    });
+    if (!result.ok) throw new Error(result.error);
+    return sum + (result.details.exergy_kwh as number);
+  }, 0);
+}
+
+async function ledgerExergy(carrier: string): Promise<string | null> {
+  const response = await manager.get(
+    `/api/v1/orgs/${org.org.id}/ledger?from=2025-01&to=2025-01`,
+  );
+  expect(response.status).toBe(200);
+  const body = (await response.json()) as {
+    rows: { carrier: string; exergy_kwh: string | null }[];
+  };
+  const row = body.rows.find((r) => r.carrier === carrier);
+  expect(row, carrier).toBeDefined();
+  return row!.exergy_kwh;
+}
+
+function uploadWeather(days: [string, number][]) {
+  const form = new FormData();
+  form.set("intent", "upload-weather");
+  form.set("siteId", org.siteId);
+  const csv = ["date,mean_temp_c", ...days.map(([d, t]) => `${d},${t}`)];
+  form.set(
+    "file",
+    new Blob([csv.join("\n")], { type: "text/csv" }),
+    "weather.csv",
+  );
+  return manager.request(`/o/${org.org.id}/weather`, {
+    method: "POST",
+    body: form,
+  });
+}
+
+function expectExergy(actual: string | null, expected: number) {
+  expect(actual).toMatch(/^-?\d+\.\d{6}$/);
+  expect(Math.abs(Number(actual) - expected)).toBeLessThanOrEqual(1e-6);
+}
+
+beforeAll(async () => {
+  org = await createMeteredOrg({ roles: ["energy_manager"] });
+  cooling = await addCoolingMeter(org);
+  const w = org.meters.water.code;
+  // Contiguous across midnight (January in London is UTC), so no gap is
+  // estimated; the last reading covers two hours and is split.
+  heatReadings = [
+    water(w, "2025-01-15T22:00:00Z", 1, 2.0, 70, 50),
+    water(w, "2025-01-15T23:00:00Z", 1, 2.5, 72, 51),
+    water(w, "2025-01-16T00:00:00Z", 1, 1.5, 68, 49),
+    water(w, "2025-01-16T01:00:00Z", 1, 1.75, 65, 47.5),
+    water(w, "2025-01-16T02:00:00Z", 2, 3.0, 66, 48),
+  ];
+  coolingReadings = [
+    water(cooling.code, "2025-01-15T23:00:00Z", 1, 4.0, 5, 11),
+    water(cooling.code, "2025-01-16T00:00:00Z", 1, 3.5, 5.5, 11.5),
+  ];
+  const posted = await new Client().postJson(
+    "/api/v1/readings",
+    { readings: [...heatReadings, ...coolingReadings] },
+    { authorization: `Bearer ${org.gatewayKey}` },
+  );
+  expect(posted.status).toBe(200);
+  expect(await posted.json()).toMatchObject({ accepted: 7, rejected: [] });
+  manager = new Client();
+  await manager.signIn(org.org.members[0].email, org.org.members[0].password);
+});
+
+describe("exergy beside energy in the ledger", () => {
+  it("is null without weather, fills in as the days arrive, and follows a replaced day", async () => {
+    // No weather yet: no dead state, no figure.
+    expect(await ledgerExergy("heat")).toBeNull();
+    expect(await ledgerExergy("cooling")).toBeNull();
+
+    // One day of two: part of the month would pass for all of it.
+    expect((await uploadWeather([["2025-01-15", 3.5]])).status).toBe(200);
+    expect(await ledgerExergy("heat")).toBeNull();
+
+    // Both days: the heat has its exergy; the chilled water on the 15th is
+    // not colder than a 3.5 °C day, so cooling still has none.
+    expect((await uploadWeather([["2025-01-16", 12.25]])).status).toBe(200);
+    const heat = await ledgerExergy("heat");
+    expectExergy(
+      heat,
+      expectedExergy(heatReadings, 6, {
+        "2025-01-15": 3.5,
+        "2025-01-16": 12.25,
+      }),
+    );
+    expect(await ledgerExergy("cooling")).toBeNull();
+
+    // The 15th replaced by a mild day above the chilled return: both rows
+    // recomputed, and the cooling's exergy is whole.
+    expect((await uploadWeather([["2025-01-15", 13.5]])).status).toBe(200);
+    const means = { "2025-01-15": 13.5, "2025-01-16": 12.25 };
+    const heatAfter = await ledgerExergy("heat");
+    expectExergy(heatAfter, expectedExergy(heatReadings, 6, means));
+    expect(Number(heatAfter)).toBeLessThan(Number(heat));
+    const coolingExergy = await ledgerExergy("cooling");
+    expectExergy(coolingExergy, expectedExergy(coolingReadings, 4, means));
+    // Exergy of chilled water delivered enters the site, as its cooling does.
+    expect(Number(coolingExergy)).toBeGreaterThan(0);
+
+    // Six heat intervals (the two-hour reading split in two), all counted.
+    const { rows } = await pool.query<{ intervals: number }>(
+      `select intervals from monthly_exergy where organization_id = $1 and meter_id = $2`,
+      [org.org.id, org.meters.water.id],
+    );
+    expect(rows).toEqual([{ intervals: 6 }]);
+  });
+});
