@@ -68,6 +68,7 @@ import {
 } from "./schemas";
 import { uploadReadings } from "./upload-readings.server";
 import { provisioningRoutes } from "./provisioning-routes.server";
+import { gasSupplyRoutes } from "./gas-supply-routes.server";
 import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
@@ -413,6 +414,7 @@ export function apiRoutes(): ApiRoute[] {
       },
     },
     ...provisioningRoutes(),
+    ...gasSupplyRoutes(),
   ];
   let cached: ReturnType<typeof openApiDocument> | undefined;
   const document = () => (cached ??= openApiDocument(routes));
