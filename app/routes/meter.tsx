@@ -3,6 +3,11 @@ import { idParam, notFound } from "~/auth/membership.server";
 import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { MeterFields } from "~/components/meter-fields";
+import { GasSupplyCard } from "~/components/meter/gas-supply-card";
+import {
+  gasSupplyAction,
+  gasSupplySection,
+} from "~/gas/gas-supply-page.server";
 import { MeterLastReading } from "~/components/meter-last-reading";
 import { lastReadingOf } from "~/ingest/last-reading.server";
 import { MeterPlantFaults } from "~/components/plant/meter-plant-faults";
@@ -50,7 +55,7 @@ export async function loader({ params, context }: Route.LoaderArgs) {
     meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
-  const [siblings, last, plantFaults] = await Promise.all([
+  const [siblings, last, plantFaults, gasSupply] = await Promise.all([
     listSiteMeters({ organizationId: organization.id, siteId: meter.siteId }),
     lastReadingOf({ organizationId: organization.id, meterId: meter.id }),
     meterPlantFaults({
@@ -58,11 +63,13 @@ export async function loader({ params, context }: Route.LoaderArgs) {
       siteId: meter.siteId,
       meterId: meter.id,
     }),
+    gasSupplySection(organization.id, meter),
   ]);
   return {
     organization,
     meter,
     plantFaults,
+    gasSupply,
     last: {
       at: last.at?.toISOString() ?? null,
       registerKwh: last.registerKwh,
@@ -98,6 +105,14 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     actorUserId: user.id,
     meterId: meter.id,
   };
+  const gas = await gasSupplyAction({
+    organizationId: organization.id,
+    meterId: meter.id,
+    intent,
+    formData,
+    actor: { actorUserId: user.id },
+  });
+  if (gas) return data<Result>(gas.result, { status: gas.status });
   try {
     if (intent === "save-meter") {
       const form = parseForm(formData, meterFormSchema);
@@ -202,6 +217,13 @@ export default function Meter({
           plantsLink={`/o/${organization.id}/sites/${meter.siteId}/plant`}
         />
         <MeterLastReading last={last} timeZone={meter.timeZone} />
+        {loaderData.gasSupply ? (
+          <GasSupplyCard
+            view={loaderData.gasSupply}
+            canManage={canManage && !meter.removedAt}
+            errors={errorsFor}
+          />
+        ) : null}
         {meter.removedAt ? (
           <Notice tone="caution" title="Retired">
             Removed on {dayUtc(meter.removedAt)}.
