@@ -48,7 +48,10 @@ export const auditActions = {
   "meter.replaced": { kind: "meter", label: "Meter swapped" },
   "gas.cv_saved": { kind: "meter", label: "Calorific value entered" },
   "gas.cv_deleted": { kind: "meter", label: "Calorific value removed" },
-  "gas.settings_saved": { kind: "meter", label: "Gas register settings changed" },
+  "gas.settings_saved": {
+    kind: "meter",
+    label: "Gas register settings changed",
+  },
   "site.created": { kind: "site", label: "Site added" },
   "site.updated": { kind: "site", label: "Site details changed" },
   "site.archived": { kind: "site", label: "Site archived" },

@@ -12,13 +12,7 @@ import {
 } from "../../../seeds/scenario/larchmere-estate";
 import { dailyWeather } from "../../../seeds/scenario/weather";
 import { isGasRegister } from "../../../seeds/scenario/gas-supplies";
-import {
-  isAnyRegister,
-  isRegister,
-  itemsOf,
-  rSquared,
-  withoutMeter,
-} from "./support";
+import { isAnyRegister, itemsOf, rSquared, withoutMeter } from "./support";
 
 // The readings go through the real physics (app/physics/evaluate.ts), the
 // way POST /api/v1/energy/evaluate would take them. Expected signs are
