@@ -159,6 +159,10 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   }
 }
 
+/** A gas register counts m³ or hcf; every other register kWh. */
+const registerUnitWords = (unit: "m3" | "hcf" | null) =>
+  unit === "m3" ? "m³" : (unit ?? "kWh");
+
 function ReasonField({ error }: { error?: string }) {
   return (
     <Field
@@ -216,7 +220,13 @@ export default function Meter({
           faults={loaderData.plantFaults}
           plantsLink={`/o/${organization.id}/sites/${meter.siteId}/plant`}
         />
-        <MeterLastReading last={last} timeZone={meter.timeZone} />
+        <MeterLastReading
+          last={last}
+          timeZone={meter.timeZone}
+          registerUnit={registerUnitWords(
+            loaderData.gasSupply?.settings.registerUnit ?? null,
+          )}
+        />
         {loaderData.gasSupply ? (
           <GasSupplyCard
             view={loaderData.gasSupply}
