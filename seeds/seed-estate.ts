@@ -27,6 +27,7 @@ import {
   SITES,
 } from "./scenario/larchmere-estate";
 import { generateReadings } from "./scenario/generate";
+import { seedGasSupplies } from "./seed-gas-supplies";
 import { seedWeather } from "./seed-weather";
 import { seedDepotOilTank } from "./seed-depot-oil-tank";
 
@@ -144,6 +145,7 @@ export async function createEstate(organizationId: string): Promise<boolean> {
         })),
       );
     }
+    await seedGasSupplies(tx, organizationId, meterIds);
     return true;
   });
 }

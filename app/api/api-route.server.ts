@@ -67,7 +67,7 @@ export const fileReply = (
 ): Reply => ({ description, content: { mediaType }, headers });
 
 export interface ApiRoute {
-  method: "get" | "post" | "patch";
+  method: "get" | "post" | "patch" | "delete";
   /** Express path under /api/v1, e.g. "/orgs/:orgId/ledger". */
   path: string;
   summary: string;

@@ -69,6 +69,7 @@ import {
 import { uploadReadings } from "./upload-readings.server";
 import { provisioningRoutes } from "./provisioning-routes.server";
 import { tankRoutes } from "./tank-routes.server";
+import { gasSupplyRoutes } from "./gas-supply-routes.server";
 import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
@@ -415,6 +416,7 @@ export function apiRoutes(): ApiRoute[] {
     },
     ...provisioningRoutes(),
     ...tankRoutes(),
+    ...gasSupplyRoutes(),
   ];
   let cached: ReturnType<typeof openApiDocument> | undefined;
   const document = () => (cached ??= openApiDocument(routes));

@@ -124,6 +124,17 @@ const FIELDS: Record<string, { label: string; format?: Format }> = {
     }),
   },
   month: { label: "Month", format: calendar },
+  // A gas supply's calorific values and its meter's gas settings (app/gas).
+  calorificValueMjM3: { label: "Calorific value (MJ/m³)" },
+  basis: { label: "Basis", format: fromTable({ gross: "Gross", net: "Net" }) },
+  registerUnit: {
+    label: "Gas register",
+    format: fromTable({ m3: "Cubic metres", hcf: "Hundreds of cubic feet" }),
+  },
+  correctionFactor: { label: "Volume correction factor" },
+  gasTempC: { label: "Gas temperature (°C)" },
+  gasPressureMbarG: { label: "Gas pressure (mbar g)" },
+  atmosphericPressureMbar: { label: "Atmospheric pressure (mbar)" },
   role: { label: "Role", format: role },
   email: { label: "E-mail" },
   name: { label: "Name" },

@@ -49,6 +49,12 @@ export const auditActions = {
   "tank.saved": { kind: "meter", label: "Tank settings saved" },
   "tank.dip_entered": { kind: "meter", label: "Tank dip entered" },
   "tank.delivery_entered": { kind: "meter", label: "Tank delivery entered" },
+  "gas.cv_saved": { kind: "meter", label: "Calorific value entered" },
+  "gas.cv_deleted": { kind: "meter", label: "Calorific value removed" },
+  "gas.settings_saved": {
+    kind: "meter",
+    label: "Gas register settings changed",
+  },
   "site.created": { kind: "site", label: "Site added" },
   "site.updated": { kind: "site", label: "Site details changed" },
   "site.archived": { kind: "site", label: "Site archived" },

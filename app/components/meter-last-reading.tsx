@@ -9,6 +9,7 @@ import { dateTimeIn, decimalAsTyped } from "~/lib/format";
 export function MeterLastReading({
   last,
   timeZone,
+  registerUnit = "kWh",
 }: {
   last: {
     at: string | null;
@@ -16,6 +17,8 @@ export function MeterLastReading({
     registerAt: string | null;
   };
   timeZone: string;
+  /** What the register counts: kWh, or a gas register's m³ or hcf. */
+  registerUnit?: string;
 }) {
   const facts: [string, string][] = [
     [
@@ -25,7 +28,10 @@ export function MeterLastReading({
   ];
   if (last.registerKwh !== null && last.registerAt)
     facts.push(
-      ["Last register value", `${decimalAsTyped(last.registerKwh)} kWh`],
+      [
+        "Last register value",
+        `${decimalAsTyped(last.registerKwh)} ${registerUnit}`,
+      ],
       ["Read at", dateTimeIn(last.registerAt, timeZone)],
     );
   return (

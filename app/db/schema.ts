@@ -1107,3 +1107,131 @@ export const monthlyExergy = pgTable(
     }).onDelete("cascade"),
   ],
 );
+
+// ---------------------------------------------------------------------------
+// Gas supplies (issue #15): the calorific values of each natural-gas meter's
+// supply, the meter's register and volume-correction settings, and the
+// volume behind each interval whose energy took its CV from the series, so a
+// CV entered or changed later recomputes exactly those intervals (app/gas/).
+// ---------------------------------------------------------------------------
+
+/**
+ * One calorific value of a gas supply, for a site-local month or a single
+ * day (a day's value beats its month's). `period_start` is the month's
+ * first day or the day itself.
+ */
+export const calorificValues = pgTable(
+  "calorific_values",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    periodKind: text("period_kind").notNull(),
+    periodStart: date("period_start", { mode: "string" }).notNull(),
+    calorificValueMjM3: numeric("calorific_value_mj_m3", {
+      precision: 7,
+      scale: 4,
+    }).notNull(),
+    basis: text("basis").notNull(),
+    source: text("source").notNull().default(""),
+    enteredByUserId: text("entered_by_user_id").references(() => users.id, {
+      onDelete: "set null",
+    }),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({
+      columns: [t.organizationId, t.meterId, t.periodKind, t.periodStart],
+    }),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
+    check(
+      "calorific_values_period_kind_check",
+      sql`${t.periodKind} in ('month', 'day')`,
+    ),
+    check(
+      "calorific_values_month_start_check",
+      sql`${t.periodKind} = 'day' or extract(day from ${t.periodStart}) = 1`,
+    ),
+    check("calorific_values_basis_check", sql`${t.basis} in ('gross', 'net')`),
+    check(
+      "calorific_values_range_check",
+      sql`${t.calorificValueMjM3} between 10 and 60`,
+    ),
+  ],
+);
+
+/**
+ * A natural-gas meter's register and volume correction. A register unit
+ * makes the meter a register meter (cumulative m³ or hundreds of cubic feet,
+ * with the meter's multiplier and roll-over point in the register's unit);
+ * the correction brings metered volumes to 15 °C and 1013.25 mbar: a stated
+ * factor, or the gas temperature and gauge pressure, or neither.
+ */
+export const gasMeterSettings = pgTable(
+  "gas_meter_settings",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    registerUnit: text("register_unit"),
+    correctionFactor: numeric("correction_factor", { precision: 8, scale: 6 }),
+    gasTempC: numeric("gas_temp_c", { precision: 5, scale: 2 }),
+    gasPressureMbarG: numeric("gas_pressure_mbar_g", {
+      precision: 7,
+      scale: 2,
+    }),
+    atmosphericPressureMbar: numeric("atmospheric_pressure_mbar", {
+      precision: 6,
+      scale: 2,
+    }),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId] }),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
+    check(
+      "gas_meter_settings_unit_check",
+      sql`${t.registerUnit} is null or ${t.registerUnit} in ('m3', 'hcf')`,
+    ),
+  ],
+);
+
+/**
+ * The part of an interval's energy that took its CV from the supply's
+ * series: the volume at reference conditions, the CV used (null: none was
+ * in effect yet, the energy is pending) and the kWh it gave. The interval's
+ * energy is recomputed from these when a CV of its day changes.
+ */
+export const gasIntervalVolumes = pgTable(
+  "gas_interval_volumes",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    meterId: uuid("meter_id").notNull(),
+    intervalStart: timestamp("interval_start", {
+      withTimezone: true,
+      mode: "date",
+    }).notNull(),
+    volumeM3: numeric("volume_m3", { precision: 24, scale: 9 }).notNull(),
+    calorificValueMjM3: numeric("calorific_value_mj_m3", {
+      precision: 7,
+      scale: 4,
+    }),
+    energyKwh: numeric("energy_kwh", { precision: 20, scale: 6 }).notNull(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.meterId, t.intervalStart] }),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
+  ],
+);

@@ -1,5 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { pool } from "~/db/client.server";
+import { loadGasContexts } from "~/gas/gas-context.server";
 import { withTransaction } from "~/db/transaction.server";
 import { findMetersByCode } from "./meter-lookup.server";
 import {
@@ -45,6 +46,7 @@ export async function ingestReadings(
     request.readings,
     new Map(meters.map((m) => [m.code, m])),
     request.now,
+    await loadGasContexts(organizationId, meters),
   );
   const batchId = randomUUID();
   // Raw SQL on one pg client: the batch write is the hot path that

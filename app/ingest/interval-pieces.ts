@@ -31,6 +31,14 @@ export interface IntervalPieces {
  * through unchanged. Longer readings are split over the meter's intervals.
  */
 export function piecesOf(r: PreparedReading): IntervalPiece[] {
+  // A gas reading priced by its supply's CVs comes with its pieces: each
+  // interval's energy is its volume at its own day's CV (app/gas).
+  if (r.gasPieces)
+    return r.gasPieces.map((p) => ({
+      start: p.start,
+      energy: p.energyKwh.toFixed(6),
+      band: "0.000000",
+    }));
   const stepMs = stepMsOf(r.meter);
   const t = r.readingTime.getTime();
   const start = t - (t % stepMs);

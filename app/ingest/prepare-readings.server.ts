@@ -1,9 +1,18 @@
 import { hash } from "node:crypto";
+import type { GasPiece, GasMeterContext } from "~/gas/gas-intervals";
+import { localDay } from "~/gas/gas-intervals";
+import {
+  gasRegisterError,
+  priceSeriesGasReading,
+  takesSeriesCv,
+  withGasDefaults,
+} from "~/gas/prepare-gas";
 import { isStorableText } from "~/lib/storable-text";
 import { readingExergyBasis, type ExergyBasis } from "~/exergy/interval-exergy";
 import { evaluateItem } from "~/physics/evaluate";
 import { parseReading, type ParsedReading } from "./reading-schema";
 import type { IngestMeter } from "./meter-lookup.server";
+import { stepMsOf } from "./hours";
 import { installedError } from "./time-rules";
 import {
   meterKindError,
@@ -25,6 +34,10 @@ export interface PreparedReading {
   uncertaintyKwh: string | null;
   /** Heat and entropy of a water_heat reading, for its exergy (app/exergy). */
   exergyBasis?: ExergyBasis | null;
+  /** A natural-gas meter's supply: its CVs, register and correction (app/gas). */
+  gas?: GasMeterContext;
+  /** A gas reading priced by the series: its intervals' volumes and energies. */
+  gasPieces?: GasPiece[];
 }
 
 export interface Rejection {
@@ -129,7 +142,16 @@ function prepareOne(
   raw: unknown,
   reading: ParsedReading,
   meter: IngestMeter,
+  gas: GasMeterContext | undefined,
 ): PreparedReading | Rejection {
+  if (reading.kind === "gas_register")
+    return prepareGasRegister(index, raw, reading, meter, gas);
+  if (gas?.settings.registerUnit)
+    return {
+      index,
+      meter: meter.code,
+      reason: `quantity: meter ${meter.code} reads a gas register; send gas_register reads`,
+    };
   if (reading.kind === "interval_energy")
     return prepareIntervalEnergy(index, raw, reading, meter);
   const at = reading.kind === "interval" ? reading.start : reading.time;
@@ -158,6 +180,9 @@ function prepareOne(
     };
   }
   const item = withMeterDefaults(reading.item, meter);
+  if (gas) withGasDefaults(item, gas.settings);
+  if (gas && takesSeriesCv(item))
+    return prepareSeriesGas(index, payload, payloadHash, reading, meter, gas);
   const result = evaluateItem(item);
   if (!result.ok) return { index, meter: meter.code, reason: result.error };
   const sign = siteSign(meter);
@@ -177,6 +202,84 @@ function prepareOne(
         ? ((Math.abs(result.energy_kwh) * mpePercent) / 100).toFixed(6)
         : null,
     exergyBasis: readingExergyBasis(item, result.details, sign),
+  };
+}
+
+/** A gas_volume reading without its own CV: each interval at its day's CV. */
+function prepareSeriesGas(
+  index: number,
+  payload: Record<string, unknown>,
+  payloadHash: string,
+  reading: Extract<ParsedReading, { kind: "interval" }>,
+  meter: IngestMeter,
+  gas: GasMeterContext,
+): PreparedReading | Rejection {
+  const priced = priceSeriesGasReading({
+    item: reading.item,
+    meterCode: meter.code,
+    start: reading.start,
+    end: reading.end,
+    stepMs: stepMsOf(meter),
+    context: gas,
+  });
+  if (!priced.ok) return { index, meter: meter.code, reason: priced.reason };
+  const sign = siteSign(meter);
+  return {
+    index,
+    meter,
+    payload,
+    payloadHash,
+    readingTime: reading.start,
+    endTime: reading.end,
+    energyKwh: (priced.energyKwh * sign + 0).toFixed(6),
+    registerKwh: null,
+    uncertaintyKwh: null,
+    gas,
+    gasPieces: priced.pieces.map((p) => ({
+      ...p,
+      energyKwh: p.energyKwh * sign + 0,
+    })),
+  };
+}
+
+/**
+ * A gas register read: stored as the register's value in its own unit
+ * (raw_readings.register_kwh holds it); its intervals are recomputed from
+ * the reads around it with the supply's CVs (register-hours.server.ts).
+ */
+function prepareGasRegister(
+  index: number,
+  raw: unknown,
+  reading: Extract<ParsedReading, { kind: "gas_register" }>,
+  meter: IngestMeter,
+  gas: GasMeterContext | undefined,
+): PreparedReading | Rejection {
+  const refusal =
+    gasRegisterError({
+      meterCode: meter.code,
+      meterQuantity: meter.quantity,
+      context: gas,
+      unit: reading.unit,
+      register: reading.register,
+      time: reading.time,
+      rollover: meter.rolloverKwh === null ? null : Number(meter.rolloverKwh),
+      dayHasCv:
+        gas !== undefined &&
+        gas.lookup(localDay(reading.time, gas.timeZone)) !== null,
+    }) ?? installedError(meter, reading.time);
+  if (refusal) return { index, meter: meter.code, reason: refusal };
+  const payload = raw as Record<string, unknown>;
+  return {
+    index,
+    meter,
+    payload,
+    payloadHash: hashPayload(payload),
+    readingTime: reading.time,
+    endTime: null,
+    energyKwh: null,
+    registerKwh: reading.register,
+    uncertaintyKwh: null,
+    gas,
   };
 }
 
@@ -220,6 +323,7 @@ export function prepareReadings(
   raws: readonly unknown[],
   metersByCode: Map<string, IngestMeter>,
   now = new Date(),
+  gasContexts: ReadonlyMap<string, GasMeterContext> = new Map(),
 ): { prepared: PreparedReading[]; rejected: Rejection[] } {
   const prepared: PreparedReading[] = [];
   const rejected: Rejection[] = [];
@@ -241,7 +345,13 @@ export function prepareReadings(
         reason: `meter: no meter ${parsed.reading.meter} in this organisation`,
       });
     }
-    const outcome = prepareOne(index, raw, parsed.reading, meter);
+    const outcome = prepareOne(
+      index,
+      raw,
+      parsed.reading,
+      meter,
+      gasContexts.get(meter.id),
+    );
     if ("reason" in outcome) rejected.push(outcome);
     else prepared.push(outcome);
   });

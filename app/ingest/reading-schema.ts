@@ -53,7 +53,11 @@ const instant = (field: string) =>
  * What a reading may carry: every quantity a meter measures, and the kWh of
  * an interval, which any interval meter accepts (interval-energy.ts).
  */
-export const READING_QUANTITIES = [...QUANTITIES, "interval_energy"] as const;
+export const READING_QUANTITIES = [
+  ...QUANTITIES,
+  "interval_energy",
+  "gas_register",
+] as const;
 
 const envelopeSchema = z.looseObject({
   meter: meterCode,
@@ -99,6 +103,35 @@ const intervalEnergySchema = z.strictObject({
     ),
 });
 
+/**
+ * A gas register read (app/gas/): the register of a natural-gas meter set up
+ * with a register unit, in that unit: cubic metres or hundreds of cubic feet.
+ */
+const gasRegisterSchema = z
+  .strictObject({
+    meter: meterCode,
+    quantity: z.literal("gas_register"),
+    time: instant("time"),
+    register_m3: z
+      .number({ error: "register_m3: expected a finite number" })
+      .min(0, "register_m3: must not be negative")
+      .optional()
+      .describe("The register in cubic metres, on an m³ register"),
+    register_hcf: z
+      .number({ error: "register_hcf: expected a finite number" })
+      .min(0, "register_hcf: must not be negative")
+      .optional()
+      .describe(
+        "The register in hundreds of cubic feet (1 hcf = 2.8316846592 m³), on an hcf register",
+      ),
+  })
+  .refine(
+    (r) => (r.register_m3 === undefined) !== (r.register_hcf === undefined),
+    {
+      error: "register_m3: give exactly one of register_m3 and register_hcf",
+    },
+  );
+
 /** An interval reading: an evaluate item plus its meter and its hour span. */
 const intervalReadingFields = {
   meter: meterCode,
@@ -121,13 +154,20 @@ export const wellFormedReadingSchema = z
     sensibleHeatItemSchema.extend(intervalReadingFields),
     electricWorkItemSchema.extend(intervalReadingFields),
     // Fuels: a gas meter's volume, an oil tank's litres or stock, hydrogen.
-    gasVolumeItemSchema.extend(intervalReadingFields),
+    gasVolumeItemSchema.extend({
+      ...intervalReadingFields,
+      // Left out, the CV in effect on the interval's site-local day is
+      // taken from the supply's series (app/gas/calorific-values.ts).
+      calorific_value_mj_m3:
+        gasVolumeItemSchema.shape.calorific_value_mj_m3.optional(),
+    }),
     liquidFuelItemSchema.extend(intervalReadingFields),
     hydrogenItemSchema.extend(intervalReadingFields),
     // Biomass by weight: a boiler's fuel store weighed out, or a delivery.
     solidFuelItemSchema.extend(intervalReadingFields),
     intervalEnergySchema,
     registerSchema,
+    gasRegisterSchema,
   ])
   .meta({ id: "Reading" });
 
@@ -166,6 +206,15 @@ export type ParsedReading =
       quantity: RegisterQuantity;
       time: Date;
       registerKwh: number;
+    }
+  | {
+      kind: "gas_register";
+      meter: string;
+      quantity: "gas_register";
+      time: Date;
+      /** The register in the unit named by `unit`. */
+      register: number;
+      unit: "m3" | "hcf";
     };
 
 function firstIssue(error: z.ZodError): string {
@@ -246,6 +295,8 @@ export function parseWithSchemas(
     return parseRegister(raw, now);
   if (envelope.data.quantity === "interval_energy")
     return parseIntervalEnergy(raw, now);
+  if (envelope.data.quantity === "gas_register")
+    return parseGasRegister(raw, now);
   const times = intervalTimes.safeParse(raw);
   if (!times.success) return { ok: false, error: firstIssue(times.error) };
   const { meter, quantity } = envelope.data;
@@ -287,6 +338,26 @@ function parseRegister(raw: object, now: Date) {
       quantity: parsed.data.quantity,
       time: parsed.data.time,
       registerKwh: parsed.data.register_kwh,
+    },
+  };
+}
+
+function parseGasRegister(raw: object, now: Date) {
+  const parsed = gasRegisterSchema.safeParse(raw);
+  if (!parsed.success)
+    return { ok: false as const, error: firstIssue(parsed.error) };
+  const timeError = instantError("time", parsed.data.time, now);
+  if (timeError) return { ok: false as const, error: timeError };
+  const { meter, time, register_m3, register_hcf } = parsed.data;
+  return {
+    ok: true as const,
+    reading: {
+      kind: "gas_register" as const,
+      meter,
+      quantity: "gas_register" as const,
+      time,
+      register: register_m3 ?? register_hcf!,
+      unit: register_m3 === undefined ? ("hcf" as const) : ("m3" as const),
     },
   };
 }

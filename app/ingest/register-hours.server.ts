@@ -5,6 +5,13 @@
  * included) and replaced, not added.
  */
 import type { PoolClient } from "pg";
+import {
+  priceByDay,
+  registerVolumeM3,
+  type GasMeterContext,
+  type GasPiece,
+} from "~/gas/gas-intervals";
+import { replaceGasVolumes } from "~/gas/gas-volumes.server";
 import type { RollupDelta } from "~/ledger/refresh-rollups.server";
 import { floorToStep, splitAcrossIntervals, stepMsOf } from "./hours";
 import { siteSign, type PreparedReading } from "./prepare-readings.server";
@@ -19,6 +26,8 @@ type Meter = PreparedReading["meter"];
 export interface RegisterMeterSpan {
   meter: Meter;
   times: Date[];
+  /** A gas register: its advances are volumes, priced by the supply's CVs. */
+  gas?: GasMeterContext;
 }
 
 interface RegisterHour {
@@ -37,9 +46,13 @@ export async function lockRegisterMeters(
   client: PoolClient,
   readings: PreparedReading[],
 ): Promise<void> {
+  // A gas meter priced by its CV series is locked too: a CV change
+  // recomputes its intervals under the same lock (app/gas).
   const ids = [
     ...new Set(
-      readings.filter((r) => r.registerKwh !== null).map((r) => r.meter.id),
+      readings
+        .filter((r) => r.registerKwh !== null || r.gasPieces)
+        .map((r) => r.meter.id),
     ),
   ].sort();
   for (const id of ids) {
@@ -129,6 +142,31 @@ function hoursFromDeltas(
   return hours;
 }
 
+/**
+ * A gas register's hours hold register advances (× multiplier); each becomes
+ * a volume at reference conditions and the energy of its day's CV. An hour
+ * whose day has no CV yet keeps its volume and 0 kWh, flagged cv_pending,
+ * until the CV is entered (app/gas/calorific-values.server.ts).
+ */
+function priceGasHours(
+  hours: Map<number, RegisterHour>,
+  gas: GasMeterContext,
+): GasPiece[] {
+  const pieces = priceByDay(
+    [...hours.entries()].map(([start, h]) => ({
+      start,
+      volumeM3: registerVolumeM3(h.energy, gas.settings),
+    })),
+    gas,
+  );
+  for (const p of pieces) {
+    const hour = hours.get(p.start)!;
+    hour.energy = p.energyKwh;
+    if (p.cvMjM3 === null) hour.flags.add("cv_pending");
+  }
+  return pieces;
+}
+
 /** Replaces the hours; a person's edit stands, flagged that data came after it. */
 function replaceHours(
   client: PoolClient,
@@ -206,9 +244,12 @@ export async function recomputeRegisterSpan(
         : Number(span.meter.rolloverKwh),
   });
   const hours = hoursFromDeltas(span.meter, deltas, from, to);
+  const gasPieces = span.gas ? priceGasHours(hours, span.gas) : [];
   const changes = hours.size
     ? await replaceHours(client, organizationId, span.meter, hours)
     : [];
+  if (span.gas)
+    await replaceGasVolumes(client, organizationId, span.meter.id, gasPieces);
   // The hours touched end at the last read: a delta ends there (exclusive).
   return { from, to: bounds.next ?? hi, deltas: changes };
 }

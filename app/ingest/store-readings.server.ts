@@ -10,6 +10,7 @@
  * meters wait for each other but never deadlock.
  */
 import type { PoolClient } from "pg";
+import { addGasVolumes } from "~/gas/gas-volumes.server";
 import {
   applyRollupDeltas,
   type ChangeAttribution,
@@ -243,7 +244,11 @@ function widen(
 function registerSpans(fresh: PreparedReading[]): RegisterMeterSpan[] {
   const spans = new Map<string, RegisterMeterSpan>();
   for (const r of fresh.filter((f) => f.registerKwh !== null)) {
-    const span = spans.get(r.meter.id) ?? { meter: r.meter, times: [] };
+    const span = spans.get(r.meter.id) ?? {
+      meter: r.meter,
+      times: [],
+      gas: r.gas,
+    };
     span.times.push(r.readingTime);
     spans.set(r.meter.id, span);
   }
@@ -264,6 +269,13 @@ async function deriveHours(
   const deltas = intervalReadings.length
     ? await addIntervalReadings(client, organizationId, intervalReadings)
     : [];
+  // The volumes behind gas intervals priced by their supply's CVs, so that
+  // a CV entered later recomputes them (app/gas).
+  await addGasVolumes(
+    client,
+    organizationId,
+    intervalReadings.filter((r) => r.gasPieces),
+  );
   for (const span of registerSpans(fresh)) {
     const range = await recomputeRegisterSpan(client, organizationId, span);
     widen(touched, span.meter.id, range.from, range.to);

@@ -5,7 +5,8 @@ import type { PoolClient } from "pg";
 
 /** Who or what changed the intervals: recorded on any adjusting entry. */
 export interface ChangeAttribution {
-  source: "late_data" | "edit" | "estimate";
+  /** calorific_value: a gas supply's CV entered or changed (app/gas). */
+  source: "late_data" | "edit" | "estimate" | "calorific_value";
   reason: string;
   actorUserId?: string | null;
   gatewayId?: string | null;

@@ -3,6 +3,11 @@ import { idParam, notFound } from "~/auth/membership.server";
 import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { MeterFields } from "~/components/meter-fields";
+import { GasSupplyCard } from "~/components/meter/gas-supply-card";
+import {
+  gasSupplyAction,
+  gasSupplySection,
+} from "~/gas/gas-supply-page.server";
 import { MeterLastReading } from "~/components/meter-last-reading";
 import { lastReadingOf } from "~/ingest/last-reading.server";
 import { MeterPlantFaults } from "~/components/plant/meter-plant-faults";
@@ -53,7 +58,7 @@ export async function loader({ params, context }: Route.LoaderArgs) {
     meterId: idParam(params.meterId, "No such meter."),
   });
   if (!meter) notFound("No such meter.");
-  const [siblings, last, plantFaults, tank] = await Promise.all([
+  const [siblings, last, plantFaults, tank, gasSupply] = await Promise.all([
     listSiteMeters({ organizationId: organization.id, siteId: meter.siteId }),
     lastReadingOf({ organizationId: organization.id, meterId: meter.id }),
     meterPlantFaults({
@@ -64,12 +69,14 @@ export async function loader({ params, context }: Route.LoaderArgs) {
     meter.quantity === "liquid_fuel"
       ? tankView(organization.id, meter.id)
       : null,
+    gasSupplySection(organization.id, meter),
   ]);
   return {
     tank,
     organization,
     meter,
     plantFaults,
+    gasSupply,
     last: {
       at: last.at?.toISOString() ?? null,
       registerKwh: last.registerKwh,
@@ -132,6 +139,14 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     actorUserId: user.id,
     meterId: meter.id,
   };
+  const gas = await gasSupplyAction({
+    organizationId: organization.id,
+    meterId: meter.id,
+    intent,
+    formData,
+    actor: { actorUserId: user.id },
+  });
+  if (gas) return data<Result>(gas.result, { status: gas.status });
   try {
     if (intent === "save-meter") {
       const form = parseForm(formData, meterFormSchema);
@@ -177,6 +192,10 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     throw error;
   }
 }
+
+/** A gas register counts m³ or hcf; every other register kWh. */
+const registerUnitWords = (unit: "m3" | "hcf" | null) =>
+  unit === "m3" ? "m³" : (unit ?? "kWh");
 
 function ReasonField({ error }: { error?: string }) {
   return (
@@ -237,8 +256,21 @@ export default function Meter({
         />
         {/* A tank's figures are its dips, shown in its own section. */}
         {loaderData.tank ? null : (
-          <MeterLastReading last={last} timeZone={meter.timeZone} />
+          <MeterLastReading
+            last={last}
+            timeZone={meter.timeZone}
+            registerUnit={registerUnitWords(
+              loaderData.gasSupply?.settings.registerUnit ?? null,
+            )}
+          />
         )}
+        {loaderData.gasSupply ? (
+          <GasSupplyCard
+            view={loaderData.gasSupply}
+            canManage={canManage && !meter.removedAt}
+            errors={errorsFor}
+          />
+        ) : null}
         {meter.quantity === "liquid_fuel" ? (
           <TankSection
             tank={loaderData.tank}

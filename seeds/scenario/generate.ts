@@ -12,6 +12,7 @@ import type {
   SteamHour,
   WaterHour,
 } from "./encode";
+import { GAS_REGISTERS, isGasRegister } from "./gas-supplies";
 import { METERS, SCENARIO_GAPS, SCENARIO_PERIOD } from "./larchmere-estate";
 import type { ScenarioMeter } from "./larchmere-estate";
 import { SITE_MODELS } from "./loads";
@@ -46,14 +47,22 @@ export type RegisterReading = {
   register_kwh: number;
 };
 
+/** No CV: each hour takes its day's from the supply's series (gas-supplies.ts). */
 export type GasVolumeReading = {
   meter: string;
   start: string;
   end: string;
   quantity: "gas_volume";
   volume_m3: number;
-  calorific_value_mj_m3: number;
   correction_factor: number;
+};
+
+/** A gas register read in hundreds of cubic feet (gas-supplies.ts). */
+export type GasRegisterReading = {
+  meter: string;
+  time: string;
+  quantity: "gas_register";
+  register_hcf: number;
 };
 
 export type HydrogenReading = {
@@ -69,7 +78,8 @@ export type GatewayReading =
   | SteamHeatReading
   | GasVolumeReading
   | HydrogenReading
-  | RegisterReading;
+  | RegisterReading
+  | GasRegisterReading;
 
 export interface ScenarioReading {
   meter: string;
@@ -99,6 +109,13 @@ export const REGISTER_START: Record<string, { kwh: number; decimals: number }> =
     "DR-EL1": { kwh: 141_906.4, decimals: 1 },
     "BH-HPE": { kwh: 12_480.0, decimals: 1 },
     "LP-FCE": { kwh: 0, decimals: 1 },
+    // Gas registers count in their own unit (hcf), the same way.
+    ...Object.fromEntries(
+      Object.entries(GAS_REGISTERS).map(([code, g]) => [
+        code,
+        { kwh: g.start, decimals: g.decimals },
+      ]),
+    ),
   };
 
 class Register {
@@ -202,7 +219,6 @@ function gasReading(
     end,
     quantity: "gas_volume",
     volume_m3: v.volumeM3,
-    calorific_value_mj_m3: v.cvMjM3,
     correction_factor: v.correctionFactor,
   };
 }
@@ -257,12 +273,25 @@ function requireRange(range: GenerateRange): void {
   if (to <= from) throw new RangeError("to must be after from");
 }
 
-const REGISTER_METERS = METERS.filter(
-  (m) => m.quantity === "electric_register",
-);
-const INTERVAL_METERS = METERS.filter(
-  (m) => m.quantity !== "electric_register",
-);
+const isRegisterMeter = (m: ScenarioMeter) =>
+  m.quantity === "electric_register" || isGasRegister(m.code);
+const REGISTER_METERS = METERS.filter(isRegisterMeter);
+const INTERVAL_METERS = METERS.filter((m) => !isRegisterMeter(m));
+
+function registerReading(
+  m: ScenarioMeter,
+  time: string,
+  value: number,
+): GatewayReading {
+  return isGasRegister(m.code)
+    ? { meter: m.code, time, quantity: "gas_register", register_hcf: value }
+    : {
+        meter: m.code,
+        time,
+        quantity: "electric_register",
+        register_kwh: value,
+      };
+}
 
 /**
  * The scenario simulated hour by hour from its start, as far as it is asked
@@ -334,12 +363,11 @@ export class ScenarioRun {
     const iso = isoSeconds(t);
     for (const m of REGISTER_METERS) {
       if (!activeAt(m, t) || this.missing(m.code, t)) continue;
-      const reading: RegisterReading = {
-        meter: m.code,
-        time: iso,
-        quantity: "electric_register",
-        register_kwh: this.registers.get(m.code)!.read(),
-      };
+      const reading = registerReading(
+        m,
+        iso,
+        this.registers.get(m.code)!.read(),
+      );
       yield { meter: m.code, reading };
     }
   }

@@ -11,6 +11,7 @@ import type {
   SensorPosition,
 } from "../../app/sites/meter-kinds";
 import type { PlantKind, PlantMeterRole } from "../../app/plant/plant-roles";
+import { SCHOOL_BOILER_PLANT, SCHOOL_GAS_METERS } from "./gas-supplies";
 
 export interface ScenarioSite {
   name: string;
@@ -456,6 +457,8 @@ export const METERS: readonly ScenarioMeter[] = [
     multiplier: 1,
     installedAt: LONG_AGO,
   },
+  // The school's gas boiler house (gas-supplies.ts).
+  ...SCHOOL_GAS_METERS,
 ];
 
 export interface ScenarioPlant {
@@ -496,6 +499,7 @@ export const PLANTS: readonly ScenarioPlant[] = [
     heatFlowC: 60,
     heatReturnC: 40,
   },
+  SCHOOL_BOILER_PLANT,
 ];
 
 /**

@@ -9,6 +9,7 @@
 import type { HourContext } from "./clock";
 import { clamp, energy, heatOf, heatingWater, round } from "./encode";
 import type { HourValue, WaterHour } from "./encode";
+import { demoCalorificValue, schoolBoilerHouse } from "./gas-supplies";
 import { BOILER_FAULT, SITE, siteByName } from "./larchmere-estate";
 import { noiseFactor, streamFor } from "./prng";
 import { heatingDegreeDays } from "./weather";
@@ -17,15 +18,6 @@ export type PlantModel = (c: HourContext) => Record<string, HourValue>;
 
 /** 1.02264: the fixed correction factor of small supplies in Great Britain [memory] (references.md §9). */
 const GAS_CORRECTION = 1.02264;
-
-/**
- * The supply's gross CV by local month, MJ/m³ (invented, within the
- * 37.5–43 common in Great Britain, references.md §9): a little richer gas
- * in winter.
- */
-const GAS_CV_BY_MONTH = [
-  39.6, 39.5, 39.4, 39.3, 39.2, 39.1, 39.1, 39.2, 39.3, 39.4, 39.5, 39.6,
-];
 
 /** kWh of hydrogen's gross (higher) heat per kg: 141.79 MJ/kg (references.md §9). */
 const HYDROGEN_KWH_PER_KG = 141.79 / 3.6;
@@ -42,7 +34,9 @@ function depotBoilerHouse(): PlantModel {
     const water = heatingWater(rand, heat, 75, 15, 3);
     const delivered = heatOf(water);
     const efficiency = 0.86 * noiseFactor(rand, 0.01);
-    const cv = GAS_CV_BY_MONTH[Number(c.localDate.slice(5, 7)) - 1];
+    // The supply's CV series (gas-supplies.ts): its readings carry no CV,
+    // each hour takes its day's from the series entered for the supply.
+    const cv = demoCalorificValue(c.localDate.slice(0, 7));
     const gasKwh = delivered / efficiency;
     const faulty = c.localDate.startsWith(BOILER_FAULT.month);
     return {
@@ -101,4 +95,5 @@ export const PLANT_MODELS: readonly (() => PlantModel)[] = [
   depotBoilerHouse,
   housingHeatPump,
   poolFuelCell,
+  schoolBoilerHouse,
 ];

@@ -4,6 +4,7 @@
  * through the ingest API, a second start sends nothing again, DEMO_LIVE=0
  * leaves it alone, and the feeder ends when the script that started it does.
  */
+import { isGasRegister } from "../../seeds/scenario/gas-supplies";
 import { spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
@@ -152,7 +153,8 @@ async function storedCounts() {
 }
 
 const isRegister = (code: string) =>
-  METERS.find((m) => m.code === code)!.quantity === "electric_register";
+  METERS.find((m) => m.code === code)!.quantity === "electric_register" ||
+  isGasRegister(code);
 
 describe("the live demo gateway", () => {
   it("does nothing with DEMO_LIVE=0: it says so and ends, the readings stay days old", async () => {

@@ -128,6 +128,19 @@ describe("the demo's plant", () => {
     }
   });
 
+  it("prices the school's hcf gas register with its supply's CVs: its boiler house runs at 80–90 % gross", async () => {
+    // The register's reads carry no CV: each hour took its day's from the
+    // series the seed entered (seeds/scenario/gas-supplies.ts).
+    const rows = monthRows(await plantPage(SITE.school));
+    expect(rows.map((r) => r.month)).toEqual(["2026-02", "2026-01"]);
+    for (const row of rows) {
+      const efficiency = percent(row.cells[3]);
+      expect(efficiency, row.month).toBeGreaterThan(80);
+      expect(efficiency, row.month).toBeLessThan(90);
+      expect(row.cells.at(-1), row.month).toBe("Within the laws");
+    }
+  });
+
   it("shows the heat pump's COP between 2 and 4.5, within the Carnot limit every month", async () => {
     const rows = monthRows(await plantPage(SITE.housing));
     expect(rows.map((r) => r.month)).toEqual(["2026-02", "2026-01"]);

@@ -128,7 +128,7 @@ function check(path: string[], value: unknown): string[] {
 
 /** The problems of an answer against the document's schema for its status. */
 async function answerProblems(
-  method: "get" | "post" | "patch",
+  method: "get" | "post" | "patch" | "delete",
   expressPath: string,
   response: Response,
 ): Promise<string[]> {
@@ -348,7 +348,7 @@ describe("what the server answers fits the document", () => {
   const gateway = () => ({ authorization: `Bearer ${org.gatewayKey}` });
 
   async function expectFits(
-    method: "get" | "post" | "patch",
+    method: "get" | "post" | "patch" | "delete",
     expressPath: string,
     response: Response,
     status: number,
@@ -686,6 +686,76 @@ describe("what the server answers fits the document", () => {
       await owner.get(
         api(`${orgPath}/sites/00000000-0000-4000-8000-000000000000`),
       ),
+      404,
+    );
+  });
+
+  it("a gas supply: its settings and calorific values, entered, listed, refused and removed", async () => {
+    const created = await owner.postJson(api(`${orgPath}/meters`), {
+      site_id: org.siteId,
+      code: `GC-${org.tag}`,
+      name: "Contract gas supply",
+      quantity: "gas_volume",
+      carrier: "natural_gas",
+      orientation: "import",
+      installed_at: "2026-01-01",
+    });
+    const meterId = ((await created.json()) as { id: string }).id;
+    const settings = "/orgs/:orgId/meters/:meterId/gas-settings";
+    const cvs = "/orgs/:orgId/meters/:meterId/calorific-values";
+    const meterPath = `${orgPath}/meters/${meterId}`;
+    await expectFits(
+      "post",
+      settings,
+      await owner.postJson(api(`${meterPath}/gas-settings`), {
+        register_unit: "hcf",
+        correction_factor: 1.02264,
+      }),
+      200,
+    );
+    await expectFits(
+      "get",
+      settings,
+      await finance.get(api(`${meterPath}/gas-settings`)),
+      200,
+    );
+    await expectFits(
+      "post",
+      cvs,
+      await owner.postJson(api(`${meterPath}/calorific-values`), {
+        entries: [
+          { period: "2026-01", calorific_value_mj_m3: 39.3 },
+          { period: "2026-01-05", calorific_value_mj_m3: 39.1, basis: "net" },
+        ],
+      }),
+      201,
+    );
+    await expectFits(
+      "post",
+      cvs,
+      await owner.postJson(api(`${meterPath}/calorific-values`), {
+        period: "2026-02",
+        calorific_value_mj_m3: 65,
+      }),
+      400,
+    );
+    await expectFits(
+      "get",
+      cvs,
+      await finance.get(api(`${meterPath}/calorific-values`)),
+      200,
+    );
+    const removed = await owner.request(
+      api(`${meterPath}/calorific-values/2026-01-05`),
+      { method: "DELETE" },
+    );
+    expect(removed.status).toBe(204);
+    await expectFits(
+      "delete",
+      `${cvs}/:period`,
+      await owner.request(api(`${meterPath}/calorific-values/2026-01-05`), {
+        method: "DELETE",
+      }),
       404,
     );
   });

@@ -2,6 +2,7 @@
  * The live demo's feed and its gateway client, with a clock, a server and a
  * database of the test's own (the integration test runs the real ones).
  */
+import { isGasRegister } from "../../seeds/scenario/gas-supplies";
 import { describe, expect, it } from "vitest";
 import { LiveFeed, type StoredUntil } from "../../seeds/live/feed";
 import { FeedRefused, gatewayPoster } from "../../seeds/live/gateway-poster";
@@ -15,14 +16,15 @@ const HOUR_MS = 3_600_000;
 const plus = (d: Date, ms: number) => new Date(d.getTime() + ms);
 const installed = METERS.filter((m) => !m.removedAt);
 const isRegisterMeter = (code: string) =>
-  METERS.find((m) => m.code === code)?.quantity === "electric_register";
+  METERS.find((m) => m.code === code)?.quantity === "electric_register" ||
+  isGasRegister(code);
 
 /** The seeded data ends at `end`: each interval meter's last hour starts an hour before, each register reads at it. */
 function storedThrough(end: Date): Map<string, Date | null> {
   return new Map(
     installed.map((m) => [
       m.code,
-      m.quantity === "electric_register" ? end : plus(end, -HOUR_MS),
+      isRegisterMeter(m.code) ? end : plus(end, -HOUR_MS),
     ]),
   );
 }
@@ -122,7 +124,7 @@ describe("the live demo feed", () => {
     const stored = new Map(
       installed.map((m) => [
         m.code,
-        m.quantity === "electric_register"
+        isRegisterMeter(m.code)
           ? LAST_FULL_HOUR
           : plus(LAST_FULL_HOUR, -HOUR_MS),
       ]),

@@ -9,7 +9,8 @@ import {
 import { REGISTER_START } from "../../../seeds/scenario/generate";
 
 // The checks restate design.md's demo scenario ("Demo scenario") and the
-// brief's choices (one CT multiplier, one roll-over, one swap).
+// brief's choices (one CT multiplier, one roll-over, one swap), and the
+// school's gas register (issue #15: hcf, a multiplier and a roll-over).
 
 describe("Larchmere estate description", () => {
   it("has seven sites in London time with positive areas", () => {
@@ -54,12 +55,16 @@ describe("Larchmere estate description", () => {
     expect(METERS.filter((m) => m.quantity === "steam_heat")).toHaveLength(1);
     expect(METERS.filter((m) => m.multiplier !== 1)).toEqual([
       expect.objectContaining({ code: "CH-EL1", multiplier: 40 }),
+      // The school's imperial gas register counts in tens of hcf.
+      expect.objectContaining({ code: "NP-GR1", multiplier: 10 }),
     ]);
   });
 
   it("has one roll-over register and one swap", () => {
     expect(METERS.filter((m) => m.rolloverKwh !== undefined)).toEqual([
       expect.objectContaining({ code: "RL-EL1", rolloverKwh: 100_000 }),
+      // The gas register's roll-over point is in its own unit, hcf.
+      expect.objectContaining({ code: "NP-GR1", rolloverKwh: 10_000 }),
     ]);
     const removed = METERS.filter((m) => m.removedAt !== undefined);
     expect(removed).toHaveLength(1);

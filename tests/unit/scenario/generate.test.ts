@@ -20,7 +20,11 @@ import {
   meterByCode,
 } from "../../../seeds/scenario/larchmere-estate";
 import { hashSeed } from "../../../seeds/scenario/prng";
-import { isRegister } from "./support";
+import {
+  demoCvSeries,
+  isGasRegister,
+} from "../../../seeds/scenario/gas-supplies";
+import { isAnyRegister, isRegister } from "./support";
 
 // Expected counts are arithmetic on the scenario's definition: 730 days ×
 // 24 = 17 520 hourly intervals, 17 521 register reads (both ends), less the
@@ -71,7 +75,7 @@ function registerReads(code: string): RegisterReading[] {
 }
 
 function startOf(r: GatewayReading): string {
-  return isRegister(r) ? r.time : r.start;
+  return isAnyRegister(r) ? r.time : r.start;
 }
 
 beforeAll(() => {
@@ -107,7 +111,7 @@ describe("generateReadings", () => {
       return (
         t >= range.from.getTime() &&
         t <= range.to.getTime() &&
-        (isRegister(r) || t < range.to.getTime())
+        (isAnyRegister(r) || t < range.to.getTime())
       );
     });
     const key = (r: GatewayReading) => `${r.meter}@${startOf(r)}`;
@@ -144,7 +148,9 @@ describe("generateReadings", () => {
     for (const [code, list] of byMeter) {
       const m = meterByCode(code);
       for (const r of list) {
-        if (r.meter !== code || r.quantity !== m.quantity) {
+        // A gas register's reads are gas_register reads of a gas_volume meter.
+        const quantity = isGasRegister(code) ? "gas_register" : m.quantity;
+        if (r.meter !== code || r.quantity !== quantity) {
           wrong.push(`${code}: ${JSON.stringify(r)}`);
         }
       }
@@ -159,15 +165,16 @@ describe("generateReadings", () => {
     for (const m of METERS) {
       if (m.removedAt !== undefined || m.code === "NP-EL2") continue;
       const expected =
-        (m.quantity === "electric_register" ? HOURS + 1 : HOURS) -
-        gapHoursOf(m.code);
+        (m.quantity === "electric_register" || isGasRegister(m.code)
+          ? HOURS + 1
+          : HOURS) - gapHoursOf(m.code);
       expect(byMeter.get(m.code)!.length, m.code).toBe(expected);
     }
   });
 
   it("stamps intervals as whole hours, ISO 8601 without milliseconds", () => {
     for (const r of byMeter.get("CH-HX1")!.slice(0, 50)) {
-      if (isRegister(r)) throw new Error("not an interval");
+      if (isAnyRegister(r)) throw new Error("not an interval");
       expect(r.start).toMatch(/^\d{4}-\d\d-\d\dT\d\d:00:00Z$/);
       expect(Date.parse(r.end) - Date.parse(r.start)).toBe(HOUR_MS);
     }
@@ -194,15 +201,34 @@ function outOfRange(r: GatewayReading): string | null {
     return ok ? null : "steam outside 3–10 bar g, or condensate too hot";
   }
   if (r.quantity === "gas_volume") {
-    // GB natural gas 37.5–43 MJ/m³ gross (references.md §9, common practice).
-    const ok = r.volume_m3 >= 0 && within(r.calorific_value_mj_m3, 37.5, 43);
-    return ok ? null : "gas volume < 0 or CV outside 37.5–43 MJ/m³";
+    // The CV comes from the supply's series (checked below).
+    return r.volume_m3 >= 0 ? null : "gas volume < 0";
+  }
+  if (r.quantity === "gas_register") {
+    return r.register_hcf >= 0 && r.register_hcf < 10_000
+      ? null
+      : "gas register outside 0 to its roll-over at 10,000 hcf";
   }
   if (r.quantity === "hydrogen") {
     return r.mass_kg >= 0 ? null : "negative hydrogen mass";
   }
   return r.register_kwh >= 0 ? null : "negative register";
 }
+
+describe("the gas supplies' calorific values", () => {
+  it("are plausible gross values, 38.5–40.0 MJ/m³, for every month from the scenario's start", () => {
+    // GB natural gas is 37.5–43 MJ/m³ gross (references.md §9, common practice).
+    const series = demoCvSeries();
+    expect(series[0].period).toBe("2024-12");
+    expect(series.length).toBeGreaterThanOrEqual(24);
+    for (const { cv } of series) {
+      expect(cv).toBeGreaterThanOrEqual(38.5);
+      expect(cv).toBeLessThanOrEqual(40);
+    }
+    // Not one flat figure: the supply's gas varies month to month.
+    expect(new Set(series.map((s) => s.cv)).size).toBeGreaterThan(6);
+  });
+});
 
 describe("physical ranges of the raw readings", () => {
   it("keeps water at 5–95 °C and 1–16 bar a, steam at 3–10 bar g", () => {

@@ -3,6 +3,7 @@ import {
   generateReadings,
   ScenarioRun,
 } from "../../../seeds/scenario/generate";
+import { isGasRegister } from "../../../seeds/scenario/gas-supplies";
 import type { ScenarioReading } from "../../../seeds/scenario/generate";
 import {
   METERS,
@@ -36,7 +37,9 @@ describe("ScenarioRun: the scenario stepped hour by hour", () => {
       perMeter.set(r.meter, (perMeter.get(r.meter) ?? 0) + 1);
     for (const m of METERS.filter((x) => !x.removedAt)) {
       // 24 intervals, or 25 register reads (both ends of the day).
-      const expected = m.quantity === "electric_register" ? 25 : 24;
+      const register =
+        m.quantity === "electric_register" || isGasRegister(m.code);
+      const expected = register ? 25 : 24;
       expect(perMeter.get(m.code), m.code).toBe(expected);
     }
     const reads = readings

@@ -2,19 +2,41 @@
 // the items POST /api/v1/energy/evaluate takes (design.md: readings without
 // `meter`; registers as pairs of consecutive reads).
 
+import { localDay } from "../../../app/gas/gas-intervals";
+import { demoCalorificValue } from "../../../seeds/scenario/gas-supplies";
 import type {
+  GasRegisterReading,
   GatewayReading,
   RegisterReading,
 } from "../../../seeds/scenario/generate";
 import type { ScenarioMeter } from "../../../seeds/scenario/larchmere-estate";
 
+/**
+ * The reading as an evaluate item. A gas reading without a CV gets its
+ * supply's CV for the site-local day (the demo's series), as ingest gives
+ * it one (app/gas).
+ */
 export function withoutMeter(r: GatewayReading): Record<string, unknown> {
   const { meter: _meter, ...item } = r;
+  if (r.quantity === "gas_volume" && !("calorific_value_mj_m3" in item)) {
+    const day = localDay(new Date(r.start), "Europe/London");
+    return {
+      ...item,
+      calorific_value_mj_m3: demoCalorificValue(day.slice(0, 7)),
+    };
+  }
   return item;
 }
 
 export function isRegister(r: GatewayReading): r is RegisterReading {
   return r.quantity === "electric_register";
+}
+
+/** A read of a register, electric or gas: an instant, not an interval. */
+export function isAnyRegister(
+  r: GatewayReading,
+): r is RegisterReading | GasRegisterReading {
+  return r.quantity === "electric_register" || r.quantity === "gas_register";
 }
 
 /** One evaluate item per pair of consecutive reads of one register meter. */

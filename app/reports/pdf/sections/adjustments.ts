@@ -11,6 +11,7 @@ const sourceNames: Record<string, string> = {
   late_data: "Late readings",
   edit: "Edit",
   estimate: "Estimate",
+  calorific_value: "Calorific value",
 };
 
 export function drawAdjustments(
