@@ -51,6 +51,7 @@ const processes = development ? 1 : serverProcessCount(env);
 function superviseQueue(): Promise<Supervisor> {
   return startSupervisor({
     databaseUrl: env.DATABASE_URL,
+    schema: env.JOB_QUEUE_SCHEMA,
     alertsMinutes: env.ALERTS_INTERVAL_MINUTES,
     reconcileMinutes: env.BILLING_RECONCILE_MINUTES,
   });

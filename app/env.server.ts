@@ -35,6 +35,16 @@ const envSchema = z
         { error: WEB_CONCURRENCY_RULE },
       )
       .default(1),
+    // The PostgreSQL schema of the job queue (pg-boss). Server processes that
+    // share a database and this name share their jobs; a test server of its
+    // own uses another, so no other server takes its jobs.
+    JOB_QUEUE_SCHEMA: z
+      .string()
+      .regex(
+        /^[a-z_][a-z0-9_]{0,49}$/,
+        "JOB_QUEUE_SCHEMA must be a lower-case PostgreSQL name (letters, digits, _)",
+      )
+      .default("pgboss"),
     DATABASE_URL: z
       .string({ error: "DATABASE_URL is required (npm start sets it)" })
       .regex(/^postgres(ql)?:\/\//, "DATABASE_URL must start with postgres://"),

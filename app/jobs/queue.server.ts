@@ -14,6 +14,7 @@ import { eq } from "drizzle-orm";
 import PgBoss from "pg-boss";
 import { db, pool } from "~/db/client.server";
 import { jobClaims } from "~/db/schema";
+import { env } from "~/env.server";
 import type { QueueName } from "./queues";
 
 // One connection to the queue per process; kept on globalThis, as the pool
@@ -35,6 +36,7 @@ export async function startQueue(): Promise<void> {
   if (state.joulebookQueue) return;
   const boss = new PgBoss({
     db: { executeSql: (text, values) => pool.query(text, values) },
+    schema: env().JOB_QUEUE_SCHEMA,
     migrate: false,
     supervise: false,
     schedule: false,

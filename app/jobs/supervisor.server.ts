@@ -34,11 +34,13 @@ function alive(pid: number): boolean {
 
 export async function startSupervisor(options: {
   databaseUrl: string;
+  schema: string;
   alertsMinutes: number;
   reconcileMinutes: number;
 }): Promise<Supervisor> {
   const boss = new PgBoss({
     connectionString: options.databaseUrl,
+    schema: options.schema,
     max: 2,
     application_name: "joulebook-queue-supervisor",
     // Expired jobs are found within a minute of their expiry.
