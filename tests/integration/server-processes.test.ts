@@ -11,11 +11,14 @@ import { sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createOrganization, db } from "../support/db";
 import { Client } from "../support/http";
+import { createMeteredOrg } from "../support/metered-org";
 import { freePort, ServerProcess } from "../support/server-process";
 
 const QUEUE_SCHEMA = "pgboss_processes_test";
 /** Password guesses judged per address and client (docs/architecture.md). */
 const MAX_GUESSES_PER_ADDRESS = 5;
+/** The test server's gateway rate limit: small, so a few batches reach it. */
+const GATEWAY_BATCHES_PER_MINUTE = 4;
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 let server: ServerProcess;
@@ -93,6 +96,7 @@ beforeAll(async () => {
     JOB_QUEUE_SCHEMA: QUEUE_SCHEMA,
     TRUST_PROXY: "1",
     JOULEBOOK_TEST_COUNTERS: "1",
+    GATEWAY_RATE_LIMIT_PER_MINUTE: String(GATEWAY_BATCHES_PER_MINUTE),
   });
   // Two processes load the app at once: on a busy machine that takes a while.
   await server.start(120_000);
@@ -141,6 +145,29 @@ describe("two server processes on one port", () => {
     expect(
       new Set(answers.filter((a) => a.status === 429).map((a) => a.pid)).size,
     ).toBe(2);
+  });
+
+  it("a gateway's rate limit counts the batches both processes took", async () => {
+    const org = await createMeteredOrg();
+    const answers: Answer[] = [];
+    for (let i = 0; i < GATEWAY_BATCHES_PER_MINUTE + 2; i++)
+      answers.push(
+        await freshRequest("/api/v1/readings", {
+          method: "POST",
+          headers: {
+            "content-type": "application/json",
+            authorization: `Bearer ${org.gatewayKey}`,
+          },
+          body: JSON.stringify({ readings: [] }),
+        }),
+      );
+    // Each process alone saw no more than three: only a shared count refuses.
+    expect(answers.map((a) => a.status === 429)).toEqual([
+      ...Array(GATEWAY_BATCHES_PER_MINUTE).fill(false),
+      true,
+      true,
+    ]);
+    expect(new Set(answers.map((a) => a.pid)).size).toBe(2);
   });
 
   it("a report whose process is killed mid-job is finished by the other", async () => {
