@@ -145,7 +145,7 @@ describe("two server processes on one port", () => {
     expect(
       new Set(answers.filter((a) => a.status === 429).map((a) => a.pid)).size,
     ).toBe(2);
-  });
+  }, 90_000);
 
   it("a gateway's rate limit counts the batches both processes took", async () => {
     const org = await createMeteredOrg();
