@@ -14,18 +14,21 @@ import { databaseGate } from "./db/unavailable.server";
 import { estimationIdle } from "./ingest/after-ingest.server";
 import { requestInfoContext } from "./request-context";
 import { countingUnder, takeCounts } from "./auth/request-counters.server";
-import { runAllAlerts } from "./alerts/run-alerts.server";
 import { env } from "./env.server";
-import { pruneAuthRecords } from "./auth/housekeeping.server";
-import { reconcileBilling } from "./billing/reconcile.server";
-import { reportJobsIdle, resumeReportJobs } from "./reports/report-jobs.server";
+import { startJobHandlers } from "./jobs/handlers.server";
+import { stopQueue } from "./jobs/queue.server";
 
 export const app = express();
 
 // Tests count the work one request does (the test server only): a request
 // carrying `x-joulebook-count: <key>` is tallied, and the tally is read back
-// from /__counters/<key>.
+// from /__counters/<key>. Each answer names the process that served it, so
+// tests of several processes know which one answered.
 if (env().JOULEBOOK_TEST_COUNTERS === "1") {
+  app.use((_req, res, next) => {
+    res.setHeader("x-joulebook-pid", String(process.pid));
+    next();
+  });
   app.get("/__counters/:key", (req, res) => {
     res.json(takeCounts(req.params.key));
   });
@@ -51,63 +54,22 @@ app.use(
   }),
 );
 
-// Alert conditions are checked on a timer in the serving process; with
-// several servers, the open-alert unique index keeps each e-mail single.
-const alertMinutes = env().ALERTS_INTERVAL_MINUTES;
-const alertTimer =
-  alertMinutes > 0
-    ? setInterval(
-        () =>
-          void runAllAlerts().catch((error) =>
-            console.error("[alerts] run failed", error),
-          ),
-        alertMinutes * 60_000,
-      )
-    : null;
-alertTimer?.unref();
+/**
+ * Starts this process's share of the background work: it takes jobs from the
+ * PostgreSQL queue (reports, alerts, billing reconciliation, housekeeping).
+ * server.ts calls it once, after the supervisor has prepared the queue.
+ */
+export async function startBackgroundWork(): Promise<void> {
+  await startJobHandlers();
+}
 
-// Reports left queued by a restart, or running in a process that died, are
-// picked up at start and then every minute.
-const resumeReports = () =>
-  void resumeReportJobs().catch((error) =>
-    console.error("[reports] could not resume jobs", error),
-  );
-resumeReports();
-const reportTimer = setInterval(resumeReports, 60_000);
-reportTimer.unref();
-
-// Stripe's subscription quantities are checked against the estate on a
-// timer, repairing any sync that failed while Stripe was unreachable.
-const reconcileMinutes = env().BILLING_RECONCILE_MINUTES;
-const reconcileTimer =
-  reconcileMinutes > 0
-    ? setInterval(
-        () =>
-          void reconcileBilling().catch((error) =>
-            console.error("[billing] reconciliation run failed", error),
-          ),
-        reconcileMinutes * 60_000,
-      )
-    : null;
-reconcileTimer?.unref();
-
-// Expired sessions, old sign-in attempts and spent reset links, hourly.
-const housekeepingTimer = setInterval(
-  () =>
-    void pruneAuthRecords().catch((error) =>
-      console.error("[housekeeping] pruning failed", error),
-    ),
-  60 * 60_000,
-);
-housekeepingTimer.unref();
-
-/** Finishes estimation already queued, then closes the pool. */
+/**
+ * Stops taking jobs (a report still being made after a few seconds is
+ * handed back to the queue for another process), finishes estimation
+ * already queued, then closes the pool.
+ */
 export async function closeResources(): Promise<void> {
-  if (alertTimer) clearInterval(alertTimer);
-  if (reconcileTimer) clearInterval(reconcileTimer);
-  clearInterval(reportTimer);
-  clearInterval(housekeepingTimer);
-  await reportJobsIdle();
+  await stopQueue(3_000);
   await estimationIdle();
   await Promise.all([pool.end(), closeReadPool()]);
 }

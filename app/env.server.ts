@@ -1,4 +1,8 @@
+import { availableParallelism } from "node:os";
 import { z } from "zod";
+
+const WEB_CONCURRENCY_RULE =
+  "WEB_CONCURRENCY must be a whole number from 1 to 64, or auto";
 
 /**
  * The environment, validated once at boot. Each bad value is reported with its
@@ -16,6 +20,31 @@ const envSchema = z
       .min(1, "PORT must be between 1 and 65535")
       .max(65535, "PORT must be between 1 and 65535")
       .default(3000),
+    // Server processes on one port: a whole number, or "auto" for one per
+    // core (server.ts; app/processes).
+    WEB_CONCURRENCY: z
+      .union(
+        [
+          z.literal("auto"),
+          z.coerce
+            .number({ error: WEB_CONCURRENCY_RULE })
+            .int(WEB_CONCURRENCY_RULE)
+            .min(1, WEB_CONCURRENCY_RULE)
+            .max(64, WEB_CONCURRENCY_RULE),
+        ],
+        { error: WEB_CONCURRENCY_RULE },
+      )
+      .default(1),
+    // The PostgreSQL schema of the job queue (pg-boss). Server processes that
+    // share a database and this name share their jobs; a test server of its
+    // own uses another, so no other server takes its jobs.
+    JOB_QUEUE_SCHEMA: z
+      .string()
+      .regex(
+        /^[a-z_][a-z0-9_]{0,49}$/,
+        "JOB_QUEUE_SCHEMA must be a lower-case PostgreSQL name (letters, digits, _)",
+      )
+      .default("pgboss"),
     DATABASE_URL: z
       .string({ error: "DATABASE_URL is required (npm start sets it)" })
       .regex(/^postgres(ql)?:\/\//, "DATABASE_URL must start with postgres://"),
@@ -139,6 +168,13 @@ export function parseEnv(source: NodeJS.ProcessEnv): Env {
     (issue) => `  - ${issue.path.join(".") || "environment"}: ${issue.message}`,
   );
   throw new Error(`Invalid environment:\n${lines.join("\n")}`);
+}
+
+/** The number of server processes WEB_CONCURRENCY asks for. */
+export function serverProcessCount(e: Pick<Env, "WEB_CONCURRENCY">): number {
+  return e.WEB_CONCURRENCY === "auto"
+    ? availableParallelism()
+    : e.WEB_CONCURRENCY;
 }
 
 let cached: Env | undefined;

@@ -2,17 +2,23 @@ import type { NextFunction, Request, Response } from "express";
 import { rateLimit } from "express-rate-limit";
 import { env } from "~/env.server";
 import { handleBatch } from "./ingest-batch.server";
+import { PostgresRateLimitStore } from "./rate-limit-store.server";
 import { sendError } from "./respond.server";
 
 export { READINGS_BODY_LIMIT } from "./ingest-batch.server";
 
 /**
  * Per gateway, not per address: many gateways may sit behind one NAT, and
- * one misbehaving gateway must not starve the others.
+ * one misbehaving gateway must not starve the others. Counted in PostgreSQL,
+ * so all server processes limit a gateway as one.
  */
 export function gatewayRateLimit() {
   return rateLimit({
     windowMs: 60_000,
+    store: new PostgresRateLimitStore("gateway"),
+    // Should the count fail (the database away), the batch goes on to the
+    // write path, which answers 503 by itself; the limit never answers 500.
+    passOnStoreError: true,
     limit: () => env().GATEWAY_RATE_LIMIT_PER_MINUTE,
     standardHeaders: "draft-8",
     legacyHeaders: false,

@@ -75,6 +75,13 @@ export const reportPathSchema = orgPathSchema.extend({ reportId: idSchema() });
 export const healthSchema = z.strictObject({
   status: z.enum(["ok", "degraded"]),
   database: z.enum(["reachable", "unreachable"]),
+  processes: z
+    .number()
+    .int()
+    .min(1)
+    .describe(
+      "Server processes serving on this port (WEB_CONCURRENCY), as their primary counts them",
+    ),
   time: z.iso.datetime(),
   // Only with DATABASE_READ_URL; reads fall back to the primary while the
   // standby is unreachable, so it does not make the status degraded.

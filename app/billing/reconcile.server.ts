@@ -1,7 +1,8 @@
 /**
  * Reconciliation: compares each subscription in Stripe with the estate and
  * repairs drift (a quantity sync that failed, a change made in Stripe's
- * dashboard, a lost webhook). Runs on a timer (app.server.ts) and from the
+ * dashboard, a lost webhook). Runs as a job of the PostgreSQL queue
+ * (app/jobs/handlers.server.ts), once across all processes, and from the
  * billing page's "Check now".
  */
 import { db } from "~/db/client.server";
@@ -190,12 +191,16 @@ let running: Promise<ReconcileOutcome[]> | null = null;
 /**
  * Every billing account, one by one: those with a live subscription get the
  * quantity check; the others one list call each, which links a subscription
- * whose Checkout webhook was lost.
+ * whose Checkout webhook was lost. `runId` goes into the idempotency keys of
+ * the run's quantity changes: the queue passes its job id, so a retried run
+ * is answered from Stripe's record instead of changing twice.
  */
-export function reconcileBilling(): Promise<ReconcileOutcome[]> {
-  // A slow run is not overlapped by the next tick of the timer.
+export function reconcileBilling(
+  runId = new Date().toISOString(),
+): Promise<ReconcileOutcome[]> {
+  // A slow run is not overlapped by another in this process (the queue's
+  // stately policy keeps runs single across processes).
   running ??= (async () => {
-    const runId = new Date().toISOString();
     const rows = await db
       .select({ organizationId: billingAccounts.organizationId })
       .from(billingAccounts);

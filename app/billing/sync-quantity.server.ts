@@ -6,6 +6,7 @@
  */
 import { eq } from "drizzle-orm";
 import { actionLabel } from "~/audit/kinds";
+import { withAdvisoryLock } from "~/db/advisory-lock.server";
 import { db } from "~/db/client.server";
 import { billingAccounts } from "~/db/schema";
 import { env } from "~/env.server";
@@ -90,14 +91,17 @@ function causeInWords(cause: string): string {
 /** How long a user's request waits for Stripe before answering anyway. */
 const WAIT_MS = 8_000;
 
-// One sync at a time per organisation in this process, so two quick changes
-// cannot overtake each other and leave the older count in Stripe.
+// One sync at a time per organisation, so two quick changes cannot overtake
+// each other and leave the older count in Stripe: queued in this process,
+// and under a PostgreSQL advisory lock across processes and machines.
 const queues = new Map<string, Promise<void>>();
 
 function enqueue(organizationId: string, cause: string): Promise<void> {
   const previous = queues.get(organizationId) ?? Promise.resolve();
   const run = previous.then(() =>
-    syncSubscriptionQuantity({ organizationId, cause }).then(
+    withAdvisoryLock(`billing-quantity:${organizationId}`, () =>
+      syncSubscriptionQuantity({ organizationId, cause }),
+    ).then(
       () => undefined,
       (error: unknown) => {
         console.error(

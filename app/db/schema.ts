@@ -923,16 +923,14 @@ export const reports = pgTable(
     }),
     createdAt: createdAt(),
     completedAt: timestamp("completed_at", { withTimezone: true }),
-    /** Touched while a job runs; a stale one means its process died. */
-    heartbeatAt: timestamp("heartbeat_at", { withTimezone: true }),
   },
   (t) => [
     primaryKey({ columns: [t.organizationId, t.id] }),
     index("reports_sha256_idx").on(t.organizationId, t.sha256),
     index("reports_created_idx").on(t.organizationId, t.createdAt),
-    // Job pickup at start and every minute: only unfinished reports.
+    // The queue's start-up sweep for requests that never became a job.
     index("reports_pickup_idx")
-      .on(t.status, t.heartbeatAt)
+      .on(t.status)
       .where(sql`${t.status} in ('queued', 'running')`),
     check(
       "reports_status_check",
@@ -1235,3 +1233,39 @@ export const gasIntervalVolumes = pgTable(
     }).onDelete("cascade"),
   ],
 );
+
+// ---------------------------------------------------------------------------
+// Many server processes (app/jobs, app/api/rate-limit-store.server.ts): state
+// that must hold across processes and machines is kept here, not in memory.
+// ---------------------------------------------------------------------------
+
+/**
+ * Which process is running which queue job (pg-boss keeps the job itself in
+ * its own `pgboss` schema). When a server process dies, its primary fails the
+ * jobs recorded under its pid, so the queue retries them at once elsewhere
+ * instead of waiting for their expiry.
+ */
+export const jobClaims = pgTable(
+  "job_claims",
+  {
+    jobId: uuid("job_id").primaryKey(),
+    queue: text("queue").notNull(),
+    data: jsonb("data").notNull(),
+    host: text("host").notNull(),
+    pid: integer("pid").notNull(),
+    startedAt: timestamp("started_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [index("job_claims_process_idx").on(t.host, t.pid)],
+);
+
+/**
+ * express-rate-limit's counters (fixed windows), one row per key, so every
+ * process behind the load balancer counts a gateway's batches together.
+ */
+export const rateLimitHits = pgTable("rate_limit_hits", {
+  key: text("key").primaryKey(),
+  hits: integer("hits").notNull(),
+  resetsAt: timestamp("resets_at", { withTimezone: true }).notNull(),
+});

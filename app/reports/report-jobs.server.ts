@@ -1,20 +1,24 @@
 /**
- * Report generation as a background job in the serving process: a request
- * stores a queued row and returns at once; one job at a time loads the data,
- * draws the PDF, signs it and stores it with its SHA-256. Progress goes to
- * the row so any page (or another server) can show it.
+ * Report generation as a job of the PostgreSQL queue (app/jobs): a request
+ * stores a queued row and sends a job whose id is the report's; whichever
+ * server process takes it loads the data, draws the PDF, signs it and stores
+ * it with its SHA-256. Progress goes to the row so any page, served by any
+ * process, can show it.
  *
- * Several servers may share the database: a job is claimed by an atomic
- * queued → running update, and a running job keeps a heartbeat so one whose
- * process died is queued again instead of staying "running" for ever.
+ * The queue runs each job once across all processes. A failed try is retried
+ * with back-off (the row says so); a process killed mid-job has its job
+ * failed by its primary and retried by another process; a job out of tries
+ * goes to the abandoned queue, which marks its report failed.
  */
 import { createHash } from "node:crypto";
-import { and, eq, lt, or } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { sendEmail } from "~/email/mailer.server";
 import { reportReadyEmail } from "~/email/templates.server";
 import { appUrl } from "~/env.server";
 import { organizations, reports, users } from "~/db/schema";
+import { sendJob, type JobAttempt } from "~/jobs/queue.server";
+import { REPORT_QUEUE } from "~/jobs/queues";
 import {
   anchorFor,
   periodKinds,
@@ -31,71 +35,52 @@ import { addSignaturePlaceholder, signPdf } from "./signing/sign-pdf.server";
 import { signingIdentityFromEnv } from "./signing/identity.server";
 import { requestReport } from "./reports.server";
 
-interface JobKey {
+export interface ReportJobKey {
   organizationId: string;
   reportId: string;
 }
+type JobKey = ReportJobKey;
 
-const HEARTBEAT_MS = 5_000;
-/** A running job whose heartbeat is older than this lost its process. */
-const STALE_AFTER_MS = 60_000;
-
-const queue: JobKey[] = [];
-let draining: Promise<void> | null = null;
-
-/** Queues a report already stored as queued; returns at once. */
-export function enqueueReport(job: JobKey): void {
-  queue.push(job);
-  draining ??= drain().finally(() => {
-    draining = null;
-  });
-}
-
-/** Stores a report request and queues its job once the row is committed. */
+/** Stores a report request and sends its job once the row is committed. */
 export async function queueReport(
   input: Parameters<typeof requestReport>[0],
 ): ReturnType<typeof requestReport> {
   const outcome = await requestReport(input);
-  if (outcome.ok)
-    enqueueReport({
+  if (outcome.ok) {
+    const key: JobKey = {
       organizationId: input.organizationId,
       reportId: outcome.reportId,
-    });
+    };
+    // Should the send fail, the row stays queued and the supervisor sends
+    // it when the server next starts (supervisor.server.ts).
+    await sendJob(REPORT_QUEUE, key, { id: outcome.reportId }).catch((error) =>
+      console.error("[reports] could not queue the job", error),
+    );
+  }
   return outcome;
 }
 
-/** Resolves when every queued report has been made (tests, shutdown). */
-export async function reportJobsIdle(): Promise<void> {
-  while (draining) await draining;
-}
+const whereReport = (job: JobKey) =>
+  and(
+    eq(reports.organizationId, job.organizationId),
+    eq(reports.id, job.reportId),
+  );
 
-async function drain(): Promise<void> {
-  for (let job = queue.shift(); job; job = queue.shift()) {
-    try {
-      await runReportJob(job);
-    } catch (error) {
-      // runReportJob records failures on the row; this only guards the loop.
-      console.error("[reports] job crashed", error);
-    }
-  }
-}
-
-/** Claims a queued report; null when another worker has it or it is gone. */
-async function claim(job: JobKey) {
+/**
+ * Marks the report running for this try; null when it is finished or gone.
+ * A retried job finds it still running from the try that failed.
+ */
+async function claim(job: JobKey, attempt: number) {
   const [row] = await db
     .update(reports)
     .set({
       status: "running",
       progress: 1,
-      progressNote: "Starting",
-      heartbeatAt: new Date(),
+      progressNote:
+        attempt > 0 ? `Starting again (try ${attempt + 1})` : "Starting",
     })
     .where(
-      and(
-        eq(reports.organizationId, job.organizationId),
-        eq(reports.id, job.reportId),
-        eq(reports.status, "queued"),
-      ),
+      and(whereReport(job), inArray(reports.status, ["queued", "running"])),
     )
     .returning();
   return row ?? null;
@@ -108,19 +93,14 @@ function progressWriter(job: JobKey) {
     // Whole percent from 1 to 99: 0 is "queued", 100 is "stored".
     const percent = Math.min(99, Math.max(1, Math.round(fraction * 100)));
     const now = Date.now();
-    if (percent === lastPercent && now - lastWrite < HEARTBEAT_MS) return;
+    if (percent === lastPercent) return;
     if (now - lastWrite < 200 && percent - lastPercent < 10) return;
     lastWrite = now;
     lastPercent = percent;
     await db
       .update(reports)
-      .set({ progress: percent, progressNote: note, heartbeatAt: new Date() })
-      .where(
-        and(
-          eq(reports.organizationId, job.organizationId),
-          eq(reports.id, job.reportId),
-        ),
-      );
+      .set({ progress: percent, progressNote: note })
+      .where(whereReport(job));
   };
 }
 
@@ -145,9 +125,14 @@ async function authorAndOrganization(
   };
 }
 
-/** Makes one report: data, drawing, signature, storage. */
-export async function runReportJob(job: JobKey): Promise<void> {
-  const row = await claim(job);
+/**
+ * One try at one report: data, drawing, signature, storage. A failure is
+ * written on the row and thrown, so the queue retries; the last try's
+ * failure is final.
+ */
+export async function runReportJob(attempt: JobAttempt<JobKey>): Promise<void> {
+  const job = attempt.data;
+  const row = await claim(job, attempt.retryCount);
   if (!row) return;
   const progress = progressWriter(job);
   try {
@@ -194,7 +179,9 @@ export async function runReportJob(job: JobKey): Promise<void> {
         url: `${appUrl()}/o/${row.organizationId}/reports`,
       });
   } catch (error) {
-    await markFailed(job, error);
+    if (attempt.retryCount < attempt.retryLimit) await markRetrying(job, error);
+    else await markFailed(job, error);
+    throw error;
   }
 }
 
@@ -229,62 +216,58 @@ async function store(
       pageCount,
       allMonthsClosed,
       completedAt: new Date(),
-      heartbeatAt: null,
     })
-    .where(
-      and(
-        eq(reports.organizationId, job.organizationId),
-        eq(reports.id, job.reportId),
-      ),
-    );
+    .where(whereReport(job));
   return sha256;
+}
+
+function failureMessage(error: unknown): string {
+  const message = error instanceof Error ? error.message : String(error);
+  return `The report could not be made: ${message}`.slice(0, 500);
+}
+
+async function markRetrying(job: JobKey, error: unknown): Promise<void> {
+  console.error(
+    "[reports] generation failed; the queue will retry",
+    job,
+    error,
+  );
+  await db
+    .update(reports)
+    .set({ progressNote: "Failed; trying again shortly" })
+    .where(whereReport(job));
 }
 
 async function markFailed(job: JobKey, error: unknown): Promise<void> {
   console.error("[reports] generation failed", job, error);
-  const message = error instanceof Error ? error.message : String(error);
   await db
     .update(reports)
     .set({
       status: "failed",
       progressNote: "Failed",
-      error: `The report could not be made: ${message}`.slice(0, 500),
-      heartbeatAt: null,
+      error: failureMessage(error),
       completedAt: new Date(),
     })
-    .where(
-      and(
-        eq(reports.organizationId, job.organizationId),
-        eq(reports.id, job.reportId),
-      ),
-    );
+    .where(whereReport(job));
 }
 
 /**
- * Picks up reports left queued by a restart, and running ones whose process
- * stopped sending heartbeats. Called when the server starts and on a timer.
+ * A job out of tries without recording why (its process was killed on the
+ * last try): its report is marked failed so the page stops waiting.
  */
-export async function resumeReportJobs(): Promise<number> {
-  const staleBefore = new Date(Date.now() - STALE_AFTER_MS);
-  const rows = await db
+export async function abandonReport(job: JobKey): Promise<void> {
+  await db
     .update(reports)
-    .set({ status: "queued", progress: 0, progressNote: "Waiting to start" })
+    .set({
+      status: "failed",
+      progressNote: "Failed",
+      error:
+        "The report could not be made: the server making it stopped. Please ask for it again.",
+      completedAt: new Date(),
+    })
     .where(
-      or(
-        eq(reports.status, "queued"),
-        and(
-          eq(reports.status, "running"),
-          lt(reports.heartbeatAt, staleBefore),
-        ),
-      ),
-    )
-    .returning({
-      organizationId: reports.organizationId,
-      reportId: reports.id,
-    });
-  const waiting = new Set(queue.map((j) => j.reportId));
-  for (const row of rows) if (!waiting.has(row.reportId)) enqueueReport(row);
-  return rows.length;
+      and(whereReport(job), inArray(reports.status, ["queued", "running"])),
+    );
 }
 
 /** The period a stored row names, rebuilt from its kind and first day. */

@@ -22,12 +22,13 @@ const waterItem = {
 };
 
 describe("GET /api/v1/health", () => {
-  it("reports the database as reachable", async () => {
+  it("reports the database as reachable and the one serving process", async () => {
     const response = await new Client().get("/api/v1/health");
     expect(response.status).toBe(200);
     expect(await response.json()).toMatchObject({
       status: "ok",
       database: "reachable",
+      processes: 1,
     });
   });
 });
