@@ -24,6 +24,10 @@ function row(over: Partial<LedgerRow>): LedgerRow {
     adjustments_kwh: "0",
     adjustment_count: 0,
     closed_at: null,
+    co2e_kg: null,
+    co2e_market_kg: null,
+    co2e_adjustments_kg: "0",
+    co2e_market_adjustments_kg: "0",
     ...over,
   };
 }
