@@ -28,6 +28,7 @@ import {
 } from "./scenario/larchmere-estate";
 import { generateReadings } from "./scenario/generate";
 import { seedWeather } from "./seed-weather";
+import { seedCarbon } from "./seed-carbon";
 
 async function larchmereId(): Promise<string> {
   const [org] = await db
@@ -227,6 +228,7 @@ async function closeFirstFullYear(organizationId: string): Promise<void> {
 export async function seedEstate(): Promise<boolean> {
   const organizationId = await larchmereId();
   const created = await createEstate(organizationId);
+  await seedCarbon(organizationId);
   // The scenario ends at its own period end; readings are checked as of then.
   if (created) {
     await ingestScenario(organizationId, SCENARIO_PERIOD.to);
