@@ -276,6 +276,10 @@ describe("ledger exports", () => {
         "adjustments_kwh",
         "adjustment_count",
         "closed_at",
+        "co2e_kg",
+        "co2e_market_kg",
+        "co2e_adjustments_kg",
+        "co2e_market_adjustments_kg",
       ].sort(),
     );
   });
