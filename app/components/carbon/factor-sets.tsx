@@ -36,7 +36,10 @@ export function FactorSetsSection({
           <Notice tone="success">{result.message}</Notice>
         ) : null}
         <div className="mt-4 overflow-x-auto">
-          <table className="w-full text-left text-sm" data-testid="factor-sets">
+          <table
+            className="w-full text-left text-sm [&_td]:px-2 [&_td]:py-1 [&_th]:px-2"
+            data-testid="factor-sets"
+          >
             <thead>
               <tr>
                 <th>Year</th>
