@@ -139,6 +139,8 @@ describe("ledger exports", () => {
       "Adjustments (MWh)",
       "Adjustment count",
       "Status",
+      "CO₂e location-based (kg)",
+      "CO₂e market-based (kg)",
     ]);
     expect(response.headers.get("content-disposition")).toContain(
       "joulebook-ledger-2026-07-to-2026-08-MWh.csv",
