@@ -30,6 +30,7 @@ import { generateReadings } from "./scenario/generate";
 import { seedGasSupplies } from "./seed-gas-supplies";
 import { seedWeather } from "./seed-weather";
 import { seedDepotOilTank } from "./seed-depot-oil-tank";
+import { seedCarbon } from "./seed-carbon";
 
 async function larchmereId(): Promise<string> {
   const [org] = await db
@@ -230,6 +231,7 @@ async function closeFirstFullYear(organizationId: string): Promise<void> {
 export async function seedEstate(): Promise<boolean> {
   const organizationId = await larchmereId();
   const created = await createEstate(organizationId);
+  await seedCarbon(organizationId);
   // The scenario ends at its own period end; readings are checked as of then.
   if (created) {
     await ingestScenario(organizationId, SCENARIO_PERIOD.to);

@@ -4,6 +4,7 @@
  * verify a PDF sent as the request body.
  */
 import type { NextFunction, Request, Response } from "express";
+import { financialYearStart } from "~/financial-year/financial-year.server";
 import { isUuid } from "~/lib/ids";
 import { queueReport } from "~/reports/report-jobs.server";
 import {
@@ -41,10 +42,13 @@ export const getReports = handle(async (_req, res) => {
 export const postReport = handle(async (req, res) => {
   const parsed = reportRequestSchema.safeParse(req.body);
   if (!parsed.success) return sendValidationError(res, parsed.error);
-  const resolved = resolveReportRequest(parsed.data);
+  const { organizationId } = member(res);
+  const resolved = resolveReportRequest(
+    parsed.data,
+    await financialYearStart(organizationId),
+  );
   if (!resolved.ok)
     return sendError(res, 400, "invalid_period", resolved.reason);
-  const { organizationId } = member(res);
   const outcome = await queueReport({
     organizationId,
     ...auditActorOf(member(res)),

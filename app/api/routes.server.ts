@@ -70,6 +70,7 @@ import { uploadReadings } from "./upload-readings.server";
 import { provisioningRoutes } from "./provisioning-routes.server";
 import { tankRoutes } from "./tank-routes.server";
 import { gasSupplyRoutes } from "./gas-supply-routes.server";
+import { carbonRoutes } from "./carbon-routes.server";
 import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
@@ -417,6 +418,7 @@ export function apiRoutes(): ApiRoute[] {
     ...provisioningRoutes(),
     ...tankRoutes(),
     ...gasSupplyRoutes(),
+    ...carbonRoutes(),
   ];
   let cached: ReturnType<typeof openApiDocument> | undefined;
   const document = () => (cached ??= openApiDocument(routes));

@@ -16,6 +16,7 @@ export const auditKinds = [
   "billing",
   "baseline",
   "report",
+  "carbon",
 ] as const;
 export type AuditKind = (typeof auditKinds)[number];
 
@@ -31,6 +32,7 @@ export const auditKindLabels: Record<AuditKind, string> = {
   billing: "Billing",
   baseline: "Baselines and weather",
   report: "Signed reports",
+  carbon: "Emission factors, budgets and targets",
 };
 
 /** Each action written to audit_log.action: its kind and its label. */
@@ -83,6 +85,20 @@ export const auditActions = {
   "baseline.saved": { kind: "baseline", label: "Baseline saved" },
   "weather.uploaded": { kind: "baseline", label: "Weather uploaded" },
   "report.requested": { kind: "report", label: "Signed report requested" },
+  "emission_factors.saved": {
+    kind: "carbon",
+    label: "Emission factors saved",
+  },
+  "emission_contract.created": {
+    kind: "carbon",
+    label: "Supply contract added",
+  },
+  "organization.financial_year_changed": {
+    kind: "carbon",
+    label: "Financial year changed",
+  },
+  "budget.saved": { kind: "carbon", label: "Budget saved" },
+  "carbon_target.saved": { kind: "carbon", label: "Carbon target saved" },
 } as const satisfies Record<string, { kind: AuditKind; label: string }>;
 
 export type AuditAction = keyof typeof auditActions;

@@ -45,6 +45,10 @@ export const permissions = {
   "audit.view": ["owner", "auditor"],
   /** Organisation API tokens act for the whole organisation: owners only. */
   "tokens.manage": ["owner"],
+  /** Emission factors, supply contracts, budgets and the carbon target. */
+  "carbon.manage": managers,
+  /** The organisation's settings (its financial year). */
+  "organization.settings": ["owner"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof permissions;

@@ -125,11 +125,24 @@ export const signInAttempts = pgTable(
   ],
 );
 
-export const organizations = pgTable("organizations", {
-  id: uuid("id").primaryKey().defaultRandom(),
-  name: text("name").notNull(),
-  createdAt: createdAt(),
-});
+export const organizations = pgTable(
+  "organizations",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    name: text("name").notNull(),
+    /** The month (1–12) a financial year starts in; 1 is the calendar year. */
+    financialYearStartMonth: smallint("financial_year_start_month")
+      .notNull()
+      .default(1),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    check(
+      "organizations_fy_start_check",
+      sql`${t.financialYearStartMonth} between 1 and 12`,
+    ),
+  ],
+);
 
 export const memberships = pgTable(
   "memberships",
@@ -938,7 +951,188 @@ export const reports = pgTable(
     ),
     check(
       "reports_period_kind_check",
-      sql`${t.periodKind} in ('month', 'quarter', 'year')`,
+      sql`${t.periodKind} in ('month', 'quarter', 'year', 'financial_year', 'financial_quarter')`,
+    ),
+  ],
+);
+
+// ---------------------------------------------------------------------------
+// Carbon: emission-factor sets per calendar year and carrier (location-based,
+// with the set's market-based residual factor), supply contracts that give a
+// meter its own market-based factor, and the adjusting entries a change to
+// either makes to closed months (docs/carbon.md).
+// ---------------------------------------------------------------------------
+
+/** One year's factors for one carrier, with where they come from. */
+export const emissionFactorSets = pgTable(
+  "emission_factor_sets",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    year: smallint("year").notNull(),
+    carrier: carrierEnum("carrier").notNull(),
+    /** 1 for fuels burnt on site, 2 for bought electricity, heat, steam, cooling. */
+    scope: smallint("scope").notNull(),
+    locationKgPerKwh: numeric("location_kg_per_kwh", {
+      precision: 14,
+      scale: 8,
+    }).notNull(),
+    /** The residual mix for supplies without a contract; null: the location factor. */
+    marketKgPerKwh: numeric("market_kg_per_kwh", { precision: 14, scale: 8 }),
+    /** Transmission and distribution losses plus well-to-tank, reported apart. */
+    scope3KgPerKwh: numeric("scope3_kg_per_kwh", { precision: 14, scale: 8 }),
+    source: text("source").notNull(),
+    version: text("version").notNull(),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("emission_factor_sets_year_carrier_unique").on(
+      t.organizationId,
+      t.year,
+      t.carrier,
+    ),
+    check("emission_factor_sets_scope_check", sql`${t.scope} in (1, 2)`),
+    check(
+      "emission_factor_sets_source_check",
+      sql`length(btrim(${t.source})) > 0`,
+    ),
+    check(
+      "emission_factor_sets_factors_check",
+      sql`${t.locationKgPerKwh} >= 0 and coalesce(${t.marketKgPerKwh}, 0) >= 0 and coalesce(${t.scope3KgPerKwh}, 0) >= 0`,
+    ),
+  ],
+);
+
+/**
+ * A supplier-specific or zero-carbon contract for one supply (a boundary
+ * meter): its market-based factor for the months it covers.
+ */
+export const emissionContracts = pgTable(
+  "emission_contracts",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    meterId: uuid("meter_id").notNull(),
+    name: text("name").notNull(),
+    kgPerKwh: numeric("kg_per_kwh", { precision: 14, scale: 8 }).notNull(),
+    /** First and last month covered (first days); no end: open. */
+    validFrom: date("valid_from", { mode: "string" }).notNull(),
+    validTo: date("valid_to", { mode: "string" }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+      name: "emission_contracts_meter_fk",
+    }).onDelete("cascade"),
+    check("emission_contracts_factor_check", sql`${t.kgPerKwh} >= 0`),
+  ],
+);
+
+/**
+ * What a factor or contract change did to a closed month's carbon: the
+ * month keeps its closed figure and the difference is shown beside it.
+ * Unbounded numeric: kWh × kg/kWh is kept to the last digit.
+ */
+export const carbonAdjustments = pgTable(
+  "carbon_adjustments",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: bigserial("id", { mode: "number" }).notNull(),
+    meterId: uuid("meter_id").notNull(),
+    month: date("month", { mode: "string" }).notNull(),
+    deltaCo2eKg: numeric("delta_co2e_kg").notNull(),
+    deltaCo2eMarketKg: numeric("delta_co2e_market_kg").notNull(),
+    reason: text("reason").notNull(),
+    createdAt: timestamp("created_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("carbon_adjustments_month_idx").on(t.organizationId, t.month),
+  ],
+);
+
+// ---------------------------------------------------------------------------
+// Budgets and targets: a budget per site, carrier and financial year (kWh and
+// money), spread by month; one carbon target per organisation.
+// ---------------------------------------------------------------------------
+
+export const budgets = pgTable(
+  "budgets",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    siteId: uuid("site_id").notNull(),
+    carrier: carrierEnum("carrier").notNull(),
+    /** The calendar year the financial year starts in (FY 2025 starts in 2025). */
+    financialYear: smallint("financial_year").notNull(),
+    energyKwh: numeric("energy_kwh", { precision: 24, scale: 6 }).notNull(),
+    /** Money, in the organisation's currency; null: no money budget. */
+    amount: numeric("amount", { precision: 18, scale: 2 }),
+    currency: text("currency"),
+    /** flat or degree_days */
+    spread: text("spread").notNull().default("flat"),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("budgets_site_carrier_year_unique").on(
+      t.organizationId,
+      t.siteId,
+      t.carrier,
+      t.financialYear,
+    ),
+    foreignKey({
+      columns: [t.organizationId, t.siteId],
+      foreignColumns: [sites.organizationId, sites.id],
+      name: "budgets_site_fk",
+    }).onDelete("cascade"),
+    check("budgets_spread_check", sql`${t.spread} in ('flat', 'degree_days')`),
+    check(
+      "budgets_amounts_check",
+      sql`${t.energyKwh} >= 0 and coalesce(${t.amount}, 0) >= 0`,
+    ),
+  ],
+);
+
+/** A carbon target: a share below a base financial year, by a target year. */
+export const carbonTargets = pgTable(
+  "carbon_targets",
+  {
+    organizationId: uuid("organization_id")
+      .notNull()
+      .references(() => organizations.id, { onDelete: "cascade" }),
+    id: uuid("id").notNull().defaultRandom(),
+    baseYear: smallint("base_year").notNull(),
+    targetYear: smallint("target_year").notNull(),
+    reductionPercent: numeric("reduction_percent", {
+      precision: 5,
+      scale: 2,
+    }).notNull(),
+    /** location or market */
+    basis: text("basis").notNull().default("location"),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    uniqueIndex("carbon_targets_org_unique").on(t.organizationId),
+    check(
+      "carbon_targets_check",
+      sql`${t.targetYear} > ${t.baseYear} and ${t.reductionPercent} > 0 and ${t.reductionPercent} <= 100 and ${t.basis} in ('location', 'market')`,
     ),
   ],
 );

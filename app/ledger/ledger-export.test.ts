@@ -78,6 +78,8 @@ describe("the ledger export table", () => {
       "Adjustments (MWh)",
       "Adjustment count",
       "Status",
+      "CO₂e location-based (kg)",
+      "CO₂e market-based (kg)",
     ]);
     expect(table.lines[0]).toEqual({
       total: false,
@@ -94,6 +96,8 @@ describe("the ledger export table", () => {
         "0",
         0,
         "Closed",
+        null,
+        null,
       ],
     });
   });

@@ -27,8 +27,13 @@ export interface ExportableLedger {
     net_kwh: string;
     estimated_share: number;
     status: "open" | "closed";
+    co2e_kg?: string | null;
+    co2e_market_kg?: string | null;
   })[];
-  totals: ServerTotal[];
+  totals: (ServerTotal & {
+    co2e_kg?: string | null;
+    co2e_market_kg?: string | null;
+  })[];
 }
 
 export interface ExportOptions {
@@ -43,7 +48,14 @@ export interface ExportOptions {
  * `percent` and `count` are numbers; `area` is decimal text in m².
  */
 export type ColumnKind =
-  "text" | "month" | "energy" | "band" | "percent" | "count" | "area";
+  | "text"
+  | "month"
+  | "energy"
+  | "band"
+  | "percent"
+  | "count"
+  | "area"
+  | "carbon";
 
 export interface ExportColumn {
   header: string;
@@ -93,6 +105,9 @@ export function ledgerExport(
     { header: `Adjustments (${label})`, kind: "energy" },
     { header: "Adjustment count", kind: "count" },
     { header: "Status", kind: "text" },
+    // Carbon is kg CO₂e whatever the energy unit, never per m².
+    { header: "CO₂e location-based (kg)", kind: "carbon" },
+    { header: "CO₂e market-based (kg)", kind: "carbon" },
   ];
 
   /** kWh text in the unit, per m² of `area` if asked; null where per m² has no area. */
@@ -126,6 +141,8 @@ export function ledgerExport(
       carrierLabel(r.carrier),
       ...figures(r, r.floor_area_m2),
       statusLabels[r.status],
+      r.co2e_kg ?? null,
+      r.co2e_market_kg ?? null,
     ],
   }));
   const totals: ExportLine[] = carrierTotals(
@@ -140,6 +157,9 @@ export function ledgerExport(
       carrierLabel(t.carrier),
       ...figures(t, t.floor_area_m2),
       null,
+      ledger.totals.find((s) => s.carrier === t.carrier)?.co2e_kg ?? null,
+      ledger.totals.find((s) => s.carrier === t.carrier)?.co2e_market_kg ??
+        null,
     ],
   }));
   return { columns, lines: [...entries, ...totals] };

@@ -2,6 +2,11 @@ import type { Ledger } from "./ledger-schema";
 import type pg from "pg";
 import { pool } from "~/db/client.server";
 import { deliveredSignSql } from "./delivered";
+import {
+  factorJoinsSql,
+  LOCATION_FACTOR_SQL,
+  MARKET_FACTOR_SQL,
+} from "~/carbon/carbon-sql.server";
 
 // Raw SQL, on purpose: the Ledger's rollup aggregate, timed against a bare read by `npm run bench ledger`.
 // Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
@@ -50,7 +55,8 @@ export async function ledgerRows(
               ${deliveredSignSql("m.carrier")} as sign,
               r.meter_id, r.energy_kwh, r.estimated_kwh, r.uncertainty_kwh,
               r.hours, me.exergy_kwh, me.intervals as exergy_intervals,
-              least(cs.closed_at, co.closed_at) as closed_at
+              least(cs.closed_at, co.closed_at) as closed_at,
+              ${LOCATION_FACTOR_SQL} as f_location, ${MARKET_FACTOR_SQL} as f_market
          from monthly_rollups r
          join meters m on m.organization_id = r.organization_id and m.id = r.meter_id
          join sites s on s.organization_id = m.organization_id and s.id = m.site_id
@@ -59,6 +65,7 @@ export async function ledgerRows(
          -- Exergy beside energy (app/exergy): each meter's month of it.
          left join monthly_exergy me
            on me.organization_id = r.organization_id and me.meter_id = r.meter_id and me.month = r.month
+         ${factorJoinsSql({ org: "r.organization_id", month: "r.month", carrier: "m.carrier", meterId: "r.meter_id" })}
         where r.organization_id = $1
           and r.month between to_date($2, 'YYYY-MM') and to_date($3, 'YYYY-MM')
           and m.parent_meter_id is null and m.position = 'boundary'
@@ -70,6 +77,14 @@ export async function ledgerRows(
          join ledger_adjustments a
            on a.organization_id = $1 and a.meter_id = b.meter_id and a.month = b.month
           and b.closed_at is not null and a.created_at >= b.closed_at
+        group by b.meter_id, b.month
+     ), cadj as (
+       -- Carbon's adjusting entries: factor or contract changes since the close (carbon-adjustments.server.ts).
+       select b.meter_id, b.month, sum(c.delta_co2e_kg) as location, sum(c.delta_co2e_market_kg) as market
+         from base b
+         join carbon_adjustments c
+           on c.organization_id = $1 and c.meter_id = b.meter_id and c.month = b.month
+          and b.closed_at is not null and c.created_at >= b.closed_at
         group by b.meter_id, b.month
      ), ledger as (
        select b.site_id, b.site_name, b.floor_area_m2, b.month, b.carrier,
@@ -87,12 +102,26 @@ export async function ledgerRows(
               -- part of a month would pass for the whole.
               case when b.carrier in ('heat', 'cooling')
                     and bool_and(b.hours > 0 and b.exergy_intervals = b.hours)
-                   then sum(b.exergy_kwh) end as exergy_kwh
+                   then sum(b.exergy_kwh) end as exergy_kwh,
+              -- Carbon of delivered energy only: exports are not netted off (docs/carbon.md).
+              -- A closed month: its closed energy × today's factor, less the factor changes since.
+              case when bool_or(b.f_location is null) then null else
+                coalesce(sum(b.sign * (b.energy_kwh - coalesce(a.delta, 0)) * b.f_location) filter (where b.orientation = 'import'), 0)
+                - coalesce(sum(ca.location), 0) end as co2e_kg,
+              case when bool_or(b.f_market is null) filter (where b.orientation = 'import') then null
+                   when bool_or(b.f_location is null) and count(*) filter (where b.orientation = 'import') = 0 then null else
+                coalesce(sum(b.sign * (b.energy_kwh - coalesce(a.delta, 0)) * b.f_market) filter (where b.orientation = 'import'), 0)
+                - coalesce(sum(ca.market), 0) end as co2e_market_kg,
+              coalesce(sum(b.sign * coalesce(a.delta, 0) * b.f_location) filter (where b.orientation = 'import'), 0)
+                + coalesce(sum(ca.location), 0) as co2e_adjustments_kg,
+              coalesce(sum(b.sign * coalesce(a.delta, 0) * b.f_market) filter (where b.orientation = 'import'), 0)
+                + coalesce(sum(ca.market), 0) as co2e_market_adjustments_kg
          from base b left join adj a on a.meter_id = b.meter_id and a.month = b.month
+         left join cadj ca on ca.meter_id = b.meter_id and ca.month = b.month
         group by b.site_id, b.site_name, b.floor_area_m2, b.month, b.carrier
      ), totals as (
        select carrier, sum(imports_kwh) as imports_kwh, sum(exports_kwh) as exports_kwh,
-              sum(net_kwh) as net_kwh
+              sum(net_kwh) as net_kwh, sum(co2e_kg) as co2e_kg, sum(co2e_market_kg) as co2e_market_kg
          from ledger group by carrier
      )
      select json_build_object(
@@ -106,12 +135,21 @@ export async function ledgerRows(
                                    then uncertainty_kwh::text end,
            'status', case when closed then 'closed' else 'open' end,
            'adjustments_kwh', adjustments_kwh::text, 'adjustment_count', adjustment_count::int,
-           'closed_at', closed_at, 'exergy_kwh', exergy_kwh::text)
+           'closed_at', closed_at, 'exergy_kwh', exergy_kwh::text,
+           'co2e_kg', trim_scale(co2e_kg)::text, 'co2e_market_kg', trim_scale(co2e_market_kg)::text,
+           'co2e_adjustments_kg', trim_scale(co2e_adjustments_kg)::text,
+           'co2e_market_adjustments_kg', trim_scale(co2e_market_adjustments_kg)::text)
          order by site_name, month, carrier), '[]'::json),
        'totals', (select coalesce(json_agg(json_build_object(
            'carrier', carrier, 'imports_kwh', imports_kwh::text,
-           'exports_kwh', exports_kwh::text, 'net_kwh', net_kwh::text)
-         order by carrier), '[]'::json) from totals)) as ledger
+           'exports_kwh', exports_kwh::text, 'net_kwh', net_kwh::text,
+           'co2e_kg', trim_scale(co2e_kg)::text, 'co2e_market_kg', trim_scale(co2e_market_kg)::text)
+         order by carrier), '[]'::json) from totals),
+       -- Carbon may be added across carriers (kWh never is): the exact sums of the rows that have it.
+       'carbon_total', json_build_object(
+           'co2e_kg', trim_scale(coalesce(sum(co2e_kg), 0))::text,
+           'co2e_market_kg', trim_scale(coalesce(sum(co2e_market_kg), 0))::text,
+           'rows_without_factor', (count(*) filter (where co2e_kg is null))::int)) as ledger
        from ledger`,
     [
       query.organizationId,

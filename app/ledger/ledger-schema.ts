@@ -4,7 +4,7 @@
  */
 import { z } from "zod";
 import { MONTH_PATTERN } from "~/lib/months";
-import { carrier, decimalKwh, id } from "~/lib/wire-schemas";
+import { carrier, decimalKg, decimalKwh, id } from "~/lib/wire-schemas";
 
 /**
  * One site × month × carrier: delivered (imports, ≥ 0) and exported
@@ -35,6 +35,18 @@ export const ledgerRowSchema = z.strictObject({
   exergy_kwh: decimalKwh(
     "Heat and cooling only: the exergy (work-equivalent) of the row's heat at each day's outdoor mean temperature as the dead state, into the site + (cooling delivered is +, exports −); null when any interval of the month lacks flow and return temperatures, is estimated or edited, or its day has no weather, and for other carriers",
   ).nullable(),
+  co2e_kg: decimalKg(
+    "Location-based CO₂e of the delivered energy (exports not netted off); null without a factor set for the carrier and year",
+  ).nullable(),
+  co2e_market_kg: decimalKg(
+    "Market-based CO₂e: each supply's contract, else the set's residual mix, else its location-based factor",
+  ).nullable(),
+  co2e_adjustments_kg: decimalKg(
+    "Location-based carbon changed since the month was closed (energy and factor changes)",
+  ),
+  co2e_market_adjustments_kg: decimalKg(
+    "Market-based carbon changed since the month was closed",
+  ),
 });
 export type LedgerRow = z.output<typeof ledgerRowSchema>;
 
@@ -44,6 +56,8 @@ export const carrierTotalSchema = z.strictObject({
   imports_kwh: decimalKwh("Delivered"),
   exports_kwh: decimalKwh("Exported"),
   net_kwh: decimalKwh("Net"),
+  co2e_kg: decimalKg("Σ of the rows' location-based CO₂e").nullable(),
+  co2e_market_kg: decimalKg("Σ of the rows' market-based CO₂e").nullable(),
 });
 export type CarrierTotal = z.output<typeof carrierTotalSchema>;
 
@@ -54,5 +68,17 @@ export const ledgerSchema = z.strictObject({
   totals: z
     .array(carrierTotalSchema)
     .describe("One per carrier in the rows, in carrier order"),
+  carbon_total: z
+    .strictObject({
+      co2e_kg: decimalKg("Σ of every row's location-based CO₂e"),
+      co2e_market_kg: decimalKg("Σ of every row's market-based CO₂e"),
+      rows_without_factor: z
+        .number()
+        .int()
+        .describe(
+          "Rows left out of the sums: no factor set for their carrier and year",
+        ),
+    })
+    .describe("Carbon across carriers: the exact sums of the rows"),
 });
 export type Ledger = z.output<typeof ledgerSchema>;

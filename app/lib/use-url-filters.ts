@@ -18,8 +18,10 @@ export function useUrlFilters() {
   const get = (name: string): string =>
     Object.hasOwn(pending, name) ? pending[name] : (params.get(name) ?? "");
   /** Sets one filter; an empty value falls back to its default. */
-  const set = (name: string, value: string) => {
-    const values = { ...pending, [name]: value };
+  const set = (name: string, value: string) => setAll({ [name]: value });
+  /** Sets several filters at once (a financial period's first and last month). */
+  const setAll = (changes: Record<string, string>) => {
+    const values = { ...pending, ...changes };
     setDraft({ key, values });
     const next = new URLSearchParams(params);
     for (const [k, v] of Object.entries(values)) {
@@ -28,5 +30,5 @@ export function useUrlFilters() {
     }
     setParams(next, { replace: true, preventScrollReset: true });
   };
-  return [get, set] as const;
+  return [get, set, setAll] as const;
 }

@@ -18,4 +18,11 @@ export const decimalKwh = (description: string) =>
     .regex(/^-?\d+(\.\d+)?$/)
     .describe(`${description}, kWh as exact decimal text`);
 
+/** Carbon as exact decimal text (kWh × kg/kWh keeps every digit). */
+export const decimalKg = (description: string) =>
+  z
+    .string()
+    .regex(/^-?\d+(\.\d+)?$/)
+    .describe(`${description}, kg CO₂e as exact decimal text`);
+
 export const carrier = z.enum(carriers);

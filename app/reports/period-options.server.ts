@@ -3,7 +3,8 @@ import { eq, max, min } from "drizzle-orm";
 import { db } from "~/db/client.server";
 import { monthlyRollups } from "~/db/schema";
 import { monthLong } from "~/lib/format";
-import { anchorFor } from "./periods";
+import { financialYearStart } from "~/financial-year/financial-year.server";
+import { anchorFor, reportPeriod } from "./periods";
 
 export interface PeriodOption {
   /** "month:2026-03", "quarter:2026-Q1" or "year:2026", as the form sends it */
@@ -15,6 +16,8 @@ export interface PeriodChoices {
   months: PeriodOption[];
   quarters: PeriodOption[];
   years: PeriodOption[];
+  /** The organisation's financial years and their quarters. */
+  financial: PeriodOption[];
   /** The latest whole month with data: the sensible default. */
   suggested: string | null;
 }
@@ -37,10 +40,31 @@ export async function periodChoices(
   const first = range?.first?.slice(0, 7);
   const last = range?.last?.slice(0, 7);
   if (!first || !last)
-    return { months: [], quarters: [], years: [], suggested: null };
+    return {
+      months: [],
+      quarters: [],
+      years: [],
+      financial: [],
+      suggested: null,
+    };
   const months = monthsBetween(first, last).reverse();
   const quarters = [...new Set(months.map((m) => anchorFor("quarter", m)))];
   const years = [...new Set(months.map((m) => anchorFor("year", m)))];
+  const fyStart = await financialYearStart(organizationId);
+  const financial = [
+    ...new Set(
+      months.flatMap((m) => [
+        `financial_year:${anchorFor("financial_year", m, fyStart)}`,
+        `financial_quarter:${anchorFor("financial_quarter", m, fyStart)}`,
+      ]),
+    ),
+  ].map((value) => {
+    const [kind, anchor] = value.split(":") as [
+      "financial_year" | "financial_quarter",
+      string,
+    ];
+    return { value, label: reportPeriod(kind, anchor, fyStart).label };
+  });
   return {
     months: months.map((m) => ({
       value: `month:${m}`,
@@ -51,6 +75,7 @@ export async function periodChoices(
       label: q.replace("-", " "),
     })),
     years: years.map((y) => ({ value: `year:${y}`, label: y })),
+    financial,
     suggested: months[1] ? `month:${months[1]}` : `month:${months[0]}`,
   };
 }

@@ -101,3 +101,23 @@ describe("reportPeriodFields", () => {
     expect(result.error?.issues[0].path).toEqual(["kind"]);
   });
 });
+
+describe("financial periods in reports", () => {
+  it("a financial year starting in April runs April to March", () => {
+    const fy = reportPeriod("financial_year", "2025", 4);
+    expect(fy.start).toBe("2025-04-01");
+    expect(fy.end).toBe("2026-04-01");
+    expect(fy.months).toHaveLength(12);
+    expect(fy.label).toBe("FY 2025/26");
+  });
+
+  it("its fourth quarter crosses the calendar year", () => {
+    const q4 = reportPeriod("financial_quarter", "2025-Q4", 4);
+    expect(q4.months).toEqual(["2026-01-01", "2026-02-01", "2026-03-01"]);
+    expect(q4.end).toBe("2026-04-01");
+    expect(q4.label).toBe("Q4 FY 2025/26");
+    expect(anchorFor("financial_quarter", "2026-02", 4)).toBe("2025-Q4");
+    expect(anchorFor("financial_year", "2026-03", 4)).toBe("2025");
+    expect(anchorFor("financial_year", "2026-04", 4)).toBe("2026");
+  });
+});

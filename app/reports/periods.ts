@@ -5,8 +5,21 @@
 import { z } from "zod";
 import { monthLong } from "~/lib/format";
 import { MONTH_PATTERN } from "~/lib/months";
+import {
+  financialQuarter,
+  financialQuarterOf,
+  financialYear,
+  financialYearOf,
+  type MonthSpan,
+} from "~/financial-year/financial-year";
 
-export const periodKinds = ["month", "quarter", "year"] as const;
+export const periodKinds = [
+  "month",
+  "quarter",
+  "year",
+  "financial_year",
+  "financial_quarter",
+] as const;
 export type PeriodKind = (typeof periodKinds)[number];
 
 export interface ReportPeriod {
@@ -29,7 +42,21 @@ const ANCHOR: Record<PeriodKind, { pattern: RegExp; example: string }> = {
   month: { pattern: MONTH_PATTERN, example: "2026-03" },
   quarter: { pattern: /^(\d{4})-Q([1-4])$/, example: "2026-Q1" },
   year: { pattern: /^(\d{4})$/, example: "2026" },
+  // A financial year is named by the calendar year it starts in.
+  financial_year: { pattern: /^(\d{4})$/, example: "2025" },
+  financial_quarter: { pattern: /^(\d{4})-Q([1-4])$/, example: "2025-Q1" },
 };
+
+function fromSpan(kind: PeriodKind, span: MonthSpan): ReportPeriod {
+  const [y, m] = span.to.split("-").map(Number);
+  return {
+    kind,
+    start: `${span.from}-01`,
+    end: firstOfMonth(y, m),
+    months: span.months.map((month) => `${month}-01`),
+    label: span.label,
+  };
+}
 
 function firstOfMonth(year: number, monthIndex: number): string {
   const y = year + Math.floor(monthIndex / 12);
@@ -60,7 +87,12 @@ function build(
  * The period of `kind` named by `anchor`: "YYYY-MM" for a month, "YYYY-Qn"
  * for a quarter, "YYYY" for a year. Throws an Error saying what was expected.
  */
-export function reportPeriod(kind: PeriodKind, anchor: string): ReportPeriod {
+export function reportPeriod(
+  kind: PeriodKind,
+  anchor: string,
+  /** The month (1–12) the organisation's financial year starts in. */
+  financialYearStart = 1,
+): ReportPeriod {
   if (!(periodKinds as readonly string[]).includes(kind))
     throw new Error(
       `Unknown period kind "${String(kind)}": use month, quarter or year.`,
@@ -84,12 +116,27 @@ export function reportPeriod(kind: PeriodKind, anchor: string): ReportPeriod {
     const quarter = Number(match[2]);
     return build(kind, year, (quarter - 1) * 3, 3, `Q${quarter} ${year}`);
   }
+  if (kind === "financial_year")
+    return fromSpan(kind, financialYear(year, financialYearStart));
+  if (kind === "financial_quarter")
+    return fromSpan(
+      kind,
+      financialQuarter(year, Number(match[2]), financialYearStart),
+    );
   return build(kind, year, 0, 12, String(year));
 }
 
 /** The anchor of the period of `kind` that contains a month (YYYY-MM). */
-export function anchorFor(kind: PeriodKind, month: string): string {
+export function anchorFor(
+  kind: PeriodKind,
+  month: string,
+  financialYearStart = 1,
+): string {
   const [year, m] = month.split("-");
+  if (kind === "financial_year")
+    return String(financialYearOf(month, financialYearStart));
+  if (kind === "financial_quarter")
+    return `${financialYearOf(month, financialYearStart)}-Q${financialQuarterOf(month, financialYearStart)}`;
   if (kind === "month") return `${year}-${m}`;
   if (kind === "quarter") return `${year}-Q${Math.ceil(Number(m) / 3)}`;
   return year;
@@ -101,7 +148,9 @@ export function anchorFor(kind: PeriodKind, month: string): string {
  */
 export const reportPeriodFields = z
   .object({
-    kind: z.enum(periodKinds, { error: "Choose a month, quarter or year." }),
+    kind: z.enum(periodKinds, {
+      error: "Choose a month, quarter, year, financial year or its quarter.",
+    }),
     anchor: z.string().trim().min(1, "Choose the period.").max(16),
   })
   .transform((fields, ctx) => {

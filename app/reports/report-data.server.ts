@@ -40,6 +40,8 @@ import type { DailyTemperature } from "~/baselines/degree-days";
 import type { SavedBaselineRow } from "./data/baseline-comparison";
 import type { ReportData, SiteReport } from "./data/types";
 
+import { factorSources } from "~/carbon/emission-factors.server";
+
 export type * from "./data/types";
 
 export interface ReportDataInput {
@@ -200,5 +202,18 @@ async function loadReportDataFrom(
     plantChecks: plants,
     method: methodFacts(listed),
     cautions: [...CAUTIONS],
+    carbon: {
+      byCarrier: ledger.totals.map((t) => ({
+        carrier: t.carrier,
+        co2eKg: t.co2e_kg,
+        co2eMarketKg: t.co2e_market_kg,
+      })),
+      totalKg: ledger.carbon_total.co2e_kg,
+      totalMarketKg: ledger.carbon_total.co2e_market_kg,
+      rowsWithoutFactor: ledger.carbon_total.rows_without_factor,
+      sources: await factorSources(organizationId, [
+        ...new Set(months.map((m) => Number(m.slice(0, 4)))),
+      ]),
+    },
   };
 }

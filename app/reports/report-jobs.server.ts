@@ -19,6 +19,7 @@ import { appUrl } from "~/env.server";
 import { organizations, reports, users } from "~/db/schema";
 import { sendJob, type JobAttempt } from "~/jobs/queue.server";
 import { REPORT_QUEUE } from "~/jobs/queues";
+import { financialYearStart } from "~/financial-year/financial-year.server";
 import {
   anchorFor,
   periodKinds,
@@ -143,7 +144,10 @@ export async function runReportJob(attempt: JobAttempt<JobKey>): Promise<void> {
     const data = await loadReportData({
       organizationId: row.organizationId,
       siteId: row.siteId,
-      period: reportPeriodFromRow(row),
+      period: reportPeriodFromRow(
+        row,
+        await financialYearStart(row.organizationId),
+      ),
       reportId: row.id,
       authorName,
       generatedAt,
@@ -271,12 +275,21 @@ export async function abandonReport(job: JobKey): Promise<void> {
 }
 
 /** The period a stored row names, rebuilt from its kind and first day. */
-export function reportPeriodFromRow(row: {
-  periodKind: string;
-  periodStart: string;
-}): ReportPeriod {
+export function reportPeriodFromRow(
+  row: {
+    periodKind: string;
+    periodStart: string;
+  },
+  financialYearStart = 1,
+): ReportPeriod {
   const kind = periodKinds.find((k) => k === row.periodKind);
   if (!kind) throw new Error(`Unknown period kind "${row.periodKind}".`);
-  const anchor = anchorFor(kind, row.periodStart.slice(0, 7));
-  return reportPeriod(kind, anchor);
+  // A financial year starts in its own first month; a financial quarter's
+  // year start is the organisation's (financialYearStart).
+  const start =
+    kind === "financial_year"
+      ? Number(row.periodStart.slice(5, 7))
+      : financialYearStart;
+  const anchor = anchorFor(kind, row.periodStart.slice(0, 7), start);
+  return reportPeriod(kind, anchor, start);
 }

@@ -2,6 +2,7 @@ import { useEffect, useMemo, useRef } from "react";
 import { data, type ShouldRevalidateFunctionArgs } from "react-router";
 import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
+import { CarbonTotal } from "~/components/carbon/carbon-total";
 import { Cautions } from "~/components/cautions";
 import { ExportLink } from "~/components/export-link";
 import { FiltersCard } from "~/components/filters";
@@ -31,6 +32,7 @@ import { closeMonth, reopenMonth } from "~/ledger/month-close.server";
 import { formatCount } from "~/lib/format";
 import { useHydrated } from "~/lib/use-hydrated";
 import { parseForm } from "~/lib/forms";
+import { financialYearStart } from "~/financial-year/financial-year.server";
 import { carrierLabels } from "~/sites/meter-kinds";
 import { getSite, listSites } from "~/sites/sites.server";
 import type { Route } from "./+types/ledger";
@@ -45,6 +47,7 @@ export async function loader({ context }: Route.LoaderArgs) {
     canReopen: can(role, "months.reopen"),
     canOpenAudit: can(role, "audit.view"),
     sites: await listSites({ organizationId: organization.id }),
+    financialYearStart: await financialYearStart(organization.id),
   };
 }
 
@@ -181,13 +184,20 @@ export default function LedgerPage({
                 : ""
           }
         >
-          <LedgerFilterFields filters={filters} sites={sites} />
+          <LedgerFilterFields
+            filters={filters}
+            sites={sites}
+            financialYearStart={loaderData.financialYearStart}
+          />
         </FiltersCard>
         {ledger && !loading && rows.length === 0 && !error ? (
           <EmptyState title="No ledger entries for these months">
             Entries appear once meters on a site's boundary have intervals in
             the months chosen.
           </EmptyState>
+        ) : null}
+        {mounted && ledger && rows.length > 0 ? (
+          <CarbonTotal ledger={ledger} />
         ) : null}
         {mounted && ledger && rows.length > 0 ? (
           <LedgerEntries

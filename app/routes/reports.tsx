@@ -1,3 +1,4 @@
+import { financialYearStart } from "~/financial-year/financial-year.server";
 import { useEffect } from "react";
 import { data, Form, Link, useNavigation, useRevalidator } from "react-router";
 import { requirePermission } from "~/auth/page-access.server";
@@ -55,7 +56,10 @@ export async function action({ request, context }: Route.ActionArgs) {
   const form = parseForm(await request.formData(), reportRequestSchema);
   if (!form.ok)
     return data<ActionResult>({ errors: form.errors }, { status: 400 });
-  const resolved = resolveReportRequest(form.data);
+  const resolved = resolveReportRequest(
+    form.data,
+    await financialYearStart(organization.id),
+  );
   if (!resolved.ok)
     return data<ActionResult>(
       { errors: { [resolved.field]: resolved.reason } },
@@ -208,6 +212,13 @@ function NewReportCard({
           </optgroup>
           <optgroup label="Years">
             {periods.years.map((p) => (
+              <option key={p.value} value={p.value}>
+                {p.label}
+              </option>
+            ))}
+          </optgroup>
+          <optgroup label="Financial years and quarters">
+            {periods.financial.map((p) => (
               <option key={p.value} value={p.value}>
                 {p.label}
               </option>

@@ -139,6 +139,8 @@ describe("ledger exports", () => {
       "Adjustments (MWh)",
       "Adjustment count",
       "Status",
+      "CO₂e location-based (kg)",
+      "CO₂e market-based (kg)",
     ]);
     expect(response.headers.get("content-disposition")).toContain(
       "joulebook-ledger-2026-07-to-2026-08-MWh.csv",
@@ -276,6 +278,10 @@ describe("ledger exports", () => {
         "adjustments_kwh",
         "adjustment_count",
         "closed_at",
+        "co2e_kg",
+        "co2e_market_kg",
+        "co2e_adjustments_kg",
+        "co2e_market_adjustments_kg",
       ].sort(),
     );
   });

@@ -193,7 +193,21 @@ describe("report content", () => {
         exports_kwh: t.exportsKwh,
         net_kwh: t.netKwh,
       })),
-    ).toEqual(ledger.totals);
+    ).toEqual(
+      ledger.totals.map((t) => ({
+        carrier: t.carrier,
+        imports_kwh: t.imports_kwh,
+        exports_kwh: t.exports_kwh,
+        net_kwh: t.net_kwh,
+      })),
+    );
+    // And its carbon is the ledger's, per carrier and across carriers.
+    expect(
+      data.carbon.byCarrier.map((c) => [c.carrier, c.co2eKg, c.co2eMarketKg]),
+    ).toEqual(
+      ledger.totals.map((t) => [t.carrier, t.co2e_kg, t.co2e_market_kg]),
+    );
+    expect(data.carbon.totalKg).toBe(ledger.carbon_total.co2e_kg);
     expect(data.months.map((m) => [m.month, m.closed])).toEqual([
       ["2025-01", true],
       ["2025-02", false],

@@ -6,6 +6,7 @@ import {
   namedChoices,
   PeriodFields,
 } from "~/components/filters";
+import { periodPicks } from "~/financial-year/financial-year";
 import { defaultMonths, periodErrors } from "~/ledger/ledger-period";
 import { isLedgerUnit, ledgerUnits } from "~/ledger/ledger-units";
 import { MONTH_PATTERN } from "~/lib/months";
@@ -20,7 +21,7 @@ const unitChoices = ledgerUnits.map((u) => ({ value: u, label: u }));
  * last twelve full months by default.
  */
 export function useLedgerFilters(sites: readonly SiteChoice[]) {
-  const [get, set] = useUrlFilters();
+  const [get, set, setAll] = useUrlFilters();
   const defaults = useMemo(() => defaultMonths(new Date()), []);
   const from = get("from") || defaults.from;
   const to = get("to") || defaults.to;
@@ -34,21 +35,40 @@ export function useLedgerFilters(sites: readonly SiteChoice[]) {
     unit: isLedgerUnit(unit) ? unit : "kWh",
     perM2: get("per") === "m2",
   };
-  return { values, errors: periodErrors(from, to), set, defaults };
+  return { values, errors: periodErrors(from, to), set, setAll, defaults };
 }
 
 export type LedgerFilterState = ReturnType<typeof useLedgerFilters>;
 
 /** The months, site, carrier, unit and per m² of the Ledger page. */
 export function LedgerFilterFields({
-  filters: { values, errors, set },
+  filters: { values, errors, set, setAll, defaults },
   sites,
+  financialYearStart,
 }: {
   filters: LedgerFilterState;
   sites: readonly SiteChoice[];
+  /** The month (1–12) the organisation's financial year starts in. */
+  financialYearStart: number;
 }) {
+  // The financial years and quarters up to the last full month's, newest first.
+  const picks = periodPicks(defaults.to, financialYearStart);
+  const picked =
+    picks.find((p) => p.from === values.from && p.to === values.to)?.value ??
+    "";
   return (
     <div className="grid gap-4 sm:grid-cols-3 lg:grid-cols-6 lg:items-end">
+      <FilterSelect
+        label="Financial period"
+        name="fy"
+        value={picked}
+        all="Months as chosen"
+        choices={picks.map((p) => ({ value: p.value, label: p.label }))}
+        onChange={(value) => {
+          const pick = picks.find((p) => p.value === value);
+          if (pick) setAll({ from: pick.from, to: pick.to });
+        }}
+      />
       <PeriodFields
         unit="month"
         pattern={MONTH_PATTERN}

@@ -18,7 +18,7 @@ import { Link } from "react-router";
 import { CarrierBadge } from "~/components/carrier-badge";
 import { Badge } from "~/components/ui";
 import { carrierTotals } from "~/ledger/carrier-totals";
-import { convertKwh } from "~/ledger/convert-energy-decimal";
+import { addExact, convertKwh } from "~/ledger/convert-energy-decimal";
 import {
   LEDGER_UNITS,
   unitLabel as labelOf,
@@ -83,6 +83,7 @@ function sortRows(rows: LedgerRow[]): GridRow[] {
 function totalRows(ledger: Ledger): GridRow[] {
   return carrierTotals(ledger.rows, ledger.totals, carriers).map((total) => ({
     ...total,
+    ...carbonOfTotal(ledger, total.carrier),
     id: `total|${total.carrier}`,
     site_id: "",
     site_name: "Total",
@@ -95,6 +96,20 @@ function totalRows(ledger: Ledger): GridRow[] {
     firstOfMonth: true,
     isTotal: true,
   }));
+}
+
+/** A carrier's carbon: the server's exact sums, and its adjustments added exactly. */
+function carbonOfTotal(ledger: Ledger, carrier: LedgerRow["carrier"]) {
+  const server = ledger.totals.find((t) => t.carrier === carrier);
+  const mine = ledger.rows.filter((r) => r.carrier === carrier);
+  return {
+    co2e_kg: server?.co2e_kg ?? null,
+    co2e_market_kg: server?.co2e_market_kg ?? null,
+    co2e_adjustments_kg: addExact(mine.map((r) => r.co2e_adjustments_kg)),
+    co2e_market_adjustments_kg: addExact(
+      mine.map((r) => r.co2e_market_adjustments_kg),
+    ),
+  };
 }
 
 function CarrierCell({ data }: ICellRendererParams<GridRow>) {
@@ -179,6 +194,28 @@ const entryColumn: ColDef<GridRow> = {
   wrapText: true,
   autoHeight: true,
 };
+
+/**
+ * Carbon in whole kg, never per m² or converted with the energy unit; a dash
+ * where the carrier has no factor set for the year.
+ */
+function carbonColumn(
+  headerName: string,
+  pick: (row: GridRow) => string | null,
+): ColDef<GridRow> {
+  return {
+    headerName,
+    type: "rightAligned",
+    valueGetter: (p) => (p.data ? pick(p.data) : null),
+    valueFormatter: (p) =>
+      p.value === null || p.value === undefined
+        ? "—"
+        : formatNumber(Number(p.value), 0, { fixed: true }),
+    cellClass: ["ag-right-aligned-cell", "tabular-nums"],
+    minWidth: 96,
+    flex: 1,
+  };
+}
 
 const defaultColumn: ColDef<GridRow> = {
   sortable: false,
@@ -347,6 +384,8 @@ export function LedgerGrid({
         cellRenderer: AdjustmentsCell,
         cellRendererParams: { linkTo: adjustmentsLink },
       },
+      carbonColumn("CO₂e location-based (kg)", (r) => r.co2e_kg),
+      carbonColumn("CO₂e market-based (kg)", (r) => r.co2e_market_kg),
       {
         headerName: "Status",
         field: "status",

@@ -25,6 +25,10 @@ function row(over: Partial<LedgerRow>): LedgerRow {
     adjustment_count: 0,
     closed_at: null,
     exergy_kwh: null,
+    co2e_kg: null,
+    co2e_market_kg: null,
+    co2e_adjustments_kg: "0",
+    co2e_market_adjustments_kg: "0",
     ...over,
   };
 }

@@ -258,4 +258,25 @@ export interface ReportData {
   plantChecks: { plants: number; faults: PlantFault[] };
   method: MethodFacts;
   cautions: string[];
+  /** Carbon of the delivered energy, from the ledger's own sums, and the factors' sources. */
+  carbon: ReportCarbon;
+}
+
+export interface ReportCarbon {
+  byCarrier: {
+    carrier: Carrier;
+    co2eKg: string | null;
+    co2eMarketKg: string | null;
+  }[];
+  /** Across carriers: carbon may be added, kWh never. */
+  totalKg: string;
+  totalMarketKg: string;
+  rowsWithoutFactor: number;
+  sources: {
+    year: number;
+    carrier: Carrier;
+    scope: 1 | 2;
+    source: string;
+    version: string;
+  }[];
 }

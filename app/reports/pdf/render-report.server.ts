@@ -22,6 +22,7 @@ import {
   newPage,
 } from "./layout";
 import { drawAdjustments } from "./sections/adjustments";
+import { drawCarbon } from "./sections/carbon";
 import { drawCautionsSection } from "./sections/cautions";
 import {
   contentsCapacity,
@@ -143,6 +144,7 @@ export async function drawReport(
     const done = (i + 1) / Math.max(1, data.sites.length);
     await step(onProgress, 0.1 + 0.7 * done, site.name);
   }
+  section("Carbon", 1, () => drawCarbon(doc, data));
   section("Adjusting entries", 1, () => drawAdjustments(doc, data));
   await step(onProgress, 0.85, "Adjusting entries");
   section("Data quality", 1, () => {

@@ -222,6 +222,23 @@ function report(sites: SiteReport[]): ReportData {
       sites.map((s) => ({ name: s.name, degreeDayBaseC: s.degreeDayBaseC })),
     ),
     cautions: [...CAUTIONS],
+    carbon: {
+      byCarrier: [
+        { carrier: "heat", co2eKg: "1234.5", co2eMarketKg: "1234.5" },
+      ],
+      totalKg: "1234.5",
+      totalMarketKg: "1234.5",
+      rowsWithoutFactor: 0,
+      sources: [
+        {
+          year: 2025,
+          carrier: "heat",
+          scope: 2,
+          source: "Test factors, not an official publication",
+          version: "t1",
+        },
+      ],
+    },
   };
 }
 
