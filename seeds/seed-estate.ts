@@ -28,6 +28,7 @@ import {
 } from "./scenario/larchmere-estate";
 import { generateReadings } from "./scenario/generate";
 import { seedWeather } from "./seed-weather";
+import { seedTariffs } from "./seed-tariffs";
 
 async function larchmereId(): Promise<string> {
   const [org] = await db
@@ -230,6 +231,7 @@ export async function seedEstate(): Promise<boolean> {
   // The scenario ends at its own period end; readings are checked as of then.
   if (created) {
     await ingestScenario(organizationId, SCENARIO_PERIOD.to);
+    await seedTariffs(organizationId);
     await closeFirstFullYear(organizationId);
   }
   // Weather goes in on the days a site lacks, also into an existing estate.

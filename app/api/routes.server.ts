@@ -68,6 +68,7 @@ import {
 } from "./schemas";
 import { uploadReadings } from "./upload-readings.server";
 import { provisioningRoutes } from "./provisioning-routes.server";
+import { tariffRoutes } from "./tariff-routes.server";
 import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
@@ -413,6 +414,7 @@ export function apiRoutes(): ApiRoute[] {
       },
     },
     ...provisioningRoutes(),
+    ...tariffRoutes(),
   ];
   let cached: ReturnType<typeof openApiDocument> | undefined;
   const document = () => (cached ??= openApiDocument(routes));

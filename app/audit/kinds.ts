@@ -16,6 +16,7 @@ export const auditKinds = [
   "billing",
   "baseline",
   "report",
+  "tariff",
 ] as const;
 export type AuditKind = (typeof auditKinds)[number];
 
@@ -31,6 +32,7 @@ export const auditKindLabels: Record<AuditKind, string> = {
   billing: "Billing",
   baseline: "Baselines and weather",
   report: "Signed reports",
+  tariff: "Tariffs",
 };
 
 /** Each action written to audit_log.action: its kind and its label. */
@@ -40,6 +42,12 @@ export const auditActions = {
     kind: "adjustment",
     label: "Closed month adjusted",
   },
+  "ledger.cost_adjusted": {
+    kind: "adjustment",
+    label: "Closed month's cost adjusted",
+  },
+  "tariff.created": { kind: "tariff", label: "Tariff added" },
+  "tariff.version_added": { kind: "tariff", label: "Tariff version added" },
   "month.closed": { kind: "month", label: "Month closed" },
   "month.reopened": { kind: "month", label: "Month reopened" },
   "meter.created": { kind: "meter", label: "Meter added" },

@@ -1,6 +1,9 @@
 import type { Ledger } from "./ledger-schema";
 import { pool } from "~/db/client.server";
 import { deliveredSignSql } from "./delivered";
+import { refreshStaleCosts } from "~/tariffs/costs.server";
+import { attachCosts } from "~/tariffs/ledger-costs";
+import { ledgerCostCells } from "~/tariffs/ledger-costs.server";
 
 // Raw SQL, on purpose: the Ledger's rollup aggregate, timed against a bare read by `npm run bench ledger`.
 // Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
@@ -32,7 +35,9 @@ export type { CarrierTotal, Ledger, LedgerRow } from "./ledger-schema";
  * delivered. All sums are PostgreSQL numeric.
  */
 export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
-  const { rows } = await pool.query<{ ledger: Ledger }>(
+  // Cost beside energy (app/tariffs): months whose energy moved are priced again first.
+  await refreshStaleCosts(query.organizationId, query.from, query.to);
+  const { rows } = await pool.query<{ ledger: Omit<Ledger, "cost_totals"> }>(
     `with closes as (
        select site_id, month, min(closed_at) as closed_at
          from month_closes
@@ -106,5 +111,6 @@ export async function ledgerRows(query: LedgerQuery): Promise<Ledger> {
       query.carrier ?? null,
     ],
   );
-  return rows[0].ledger;
+  const ledger = rows[0].ledger;
+  return { ...ledger, ...attachCosts(ledger, await ledgerCostCells(query)) };
 }

@@ -5,6 +5,11 @@
 import { z } from "zod";
 import { MONTH_PATTERN } from "~/lib/months";
 import { carrier, decimalKwh, id } from "~/lib/wire-schemas";
+import {
+  costFields,
+  costTotalSchema,
+  carrierCostFields,
+} from "~/tariffs/cost-schema";
 
 /**
  * One site × month × carrier: delivered (imports, ≥ 0) and exported
@@ -32,6 +37,7 @@ export const ledgerRowSchema = z.strictObject({
     .describe(
       "When a closed month was closed (ISO 8601); its adjusting entries are those since",
     ),
+  ...costFields,
 });
 export type LedgerRow = z.output<typeof ledgerRowSchema>;
 
@@ -41,6 +47,7 @@ export const carrierTotalSchema = z.strictObject({
   imports_kwh: decimalKwh("Delivered"),
   exports_kwh: decimalKwh("Exported"),
   net_kwh: decimalKwh("Net"),
+  ...carrierCostFields,
 });
 export type CarrierTotal = z.output<typeof carrierTotalSchema>;
 
@@ -51,5 +58,10 @@ export const ledgerSchema = z.strictObject({
   totals: z
     .array(carrierTotalSchema)
     .describe("One per carrier in the rows, in carrier order"),
+  cost_totals: z
+    .array(costTotalSchema)
+    .describe(
+      "The cost of every row, across carriers, one per currency: the exact sums of the rows' cost",
+    ),
 });
 export type Ledger = z.output<typeof ledgerSchema>;

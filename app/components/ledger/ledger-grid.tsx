@@ -24,7 +24,7 @@ import {
   unitLabel as labelOf,
   type LedgerUnit,
 } from "~/ledger/ledger-units";
-import { formatNumber, monthShort } from "~/lib/format";
+import { formatCost, formatNumber, monthShort } from "~/lib/format";
 import { useWidth } from "~/lib/use-width";
 import { carrierLabels, carriers } from "~/sites/meter-kinds";
 import type { Ledger, LedgerRow } from "./use-ledger";
@@ -83,6 +83,7 @@ function sortRows(rows: LedgerRow[]): GridRow[] {
 function totalRows(ledger: Ledger): GridRow[] {
   return carrierTotals(ledger.rows, ledger.totals, carriers).map((total) => ({
     ...total,
+    ...costOfTotal(ledger, total.carrier),
     id: `total|${total.carrier}`,
     site_id: "",
     site_name: "Total",
@@ -93,6 +94,16 @@ function totalRows(ledger: Ledger): GridRow[] {
     firstOfMonth: true,
     isTotal: true,
   }));
+}
+
+/** A carrier's cost total, the exact sum the API gives beside its energy. */
+function costOfTotal(ledger: Ledger, carrier: LedgerRow["carrier"]) {
+  const total = ledger.totals.find((t) => t.carrier === carrier);
+  return {
+    cost: total?.cost ?? null,
+    currency: total?.currency ?? null,
+    adjustments_cost: null,
+  };
 }
 
 function CarrierCell({ data }: ICellRendererParams<GridRow>) {
@@ -284,6 +295,20 @@ export function LedgerGrid({
       {
         ...energyColumn("Net", (r) => r.net_kwh),
         cellStyle: { fontWeight: 600 },
+      },
+      {
+        headerName: "Cost",
+        colId: "cost",
+        type: "rightAligned",
+        valueGetter: (p) =>
+          p.data?.cost == null ? null : Number(p.data.cost),
+        valueFormatter: (p) =>
+          p.data?.cost == null || p.data.currency === null
+            ? "—"
+            : formatCost(p.data.cost, p.data.currency),
+        cellClass: ["ag-right-aligned-cell", "tabular-nums"],
+        minWidth: 96,
+        flex: 1,
       },
       {
         headerName: "Estimated share (%)",

@@ -24,6 +24,9 @@ function row(over: Partial<LedgerRow>): LedgerRow {
     adjustments_kwh: "0",
     adjustment_count: 0,
     closed_at: null,
+    cost: null,
+    currency: null,
+    adjustments_cost: null,
     ...over,
   };
 }
