@@ -27,8 +27,14 @@ export interface ExportableLedger {
     net_kwh: string;
     estimated_share: number;
     status: "open" | "closed";
-  })[];
-  totals: ServerTotal[];
+  } & CostCells)[];
+  totals: (ServerTotal & CostCells)[];
+}
+
+/** A row's or a total's cost (app/tariffs): exact decimal text and its currency, or null. */
+interface CostCells {
+  cost?: string | null;
+  currency?: string | null;
 }
 
 export interface ExportOptions {
@@ -43,7 +49,14 @@ export interface ExportOptions {
  * `percent` and `count` are numbers; `area` is decimal text in m².
  */
 export type ColumnKind =
-  "text" | "month" | "energy" | "band" | "percent" | "count" | "area";
+  | "text"
+  | "month"
+  | "energy"
+  | "band"
+  | "percent"
+  | "count"
+  | "area"
+  | "money";
 
 export interface ExportColumn {
   header: string;
@@ -92,6 +105,9 @@ export function ledgerExport(
     { header: `± uncertainty (${label})`, kind: "band" },
     { header: `Adjustments (${label})`, kind: "energy" },
     { header: "Adjustment count", kind: "count" },
+    // Money is never per m² or in another energy unit: the exact decimal as priced.
+    { header: "Cost", kind: "money" },
+    { header: "Currency", kind: "text" },
     { header: "Status", kind: "text" },
   ];
 
@@ -125,6 +141,8 @@ export function ledgerExport(
       r.month,
       carrierLabel(r.carrier),
       ...figures(r, r.floor_area_m2),
+      r.cost ?? null,
+      r.currency ?? null,
       statusLabels[r.status],
     ],
   }));
@@ -132,16 +150,21 @@ export function ledgerExport(
     ledger.rows,
     ledger.totals,
     carriers as readonly string[],
-  ).map((t) => ({
-    total: true,
-    cells: [
-      "Total",
-      null,
-      carrierLabel(t.carrier),
-      ...figures(t, t.floor_area_m2),
-      null,
-    ],
-  }));
+  ).map((t) => {
+    const server = ledger.totals.find((s) => s.carrier === t.carrier);
+    return {
+      total: true,
+      cells: [
+        "Total",
+        null,
+        carrierLabel(t.carrier),
+        ...figures(t, t.floor_area_m2),
+        server?.cost ?? null,
+        server?.currency ?? null,
+        null,
+      ],
+    };
+  });
   return { columns, lines: [...entries, ...totals] };
 }
 

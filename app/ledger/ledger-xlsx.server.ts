@@ -33,6 +33,7 @@ function numberFormats(
     percent: "0.0",
     count: "0",
     area: "#,##0.0",
+    money: "#,##0.00",
   };
 }
 
