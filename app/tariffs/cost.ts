@@ -23,7 +23,7 @@
  */
 import Decimal from "decimal.js-light";
 import type { BandWeek } from "./band-week";
-import { DAY_MS, QUARTER_MS, localQuarter } from "./local-time";
+import { DAY_MS, QUARTER_MS, dayNumber, localQuarter } from "./local-time";
 import type { TariffRates } from "./tariff-schema";
 
 const Exact = Decimal.clone({
@@ -86,26 +86,52 @@ function daysOfMonth(month: string): string[] {
   return days;
 }
 
-function versionOn(versions: readonly PricedVersion[], day: string): number {
-  return versions.findIndex(
-    (v) => v.validFrom <= day && (v.validTo === null || day <= v.validTo),
-  );
+/**
+ * Energy is summed as integers of 10⁻⁸ kWh (BigInt): stored energies have 6
+ * places, and a quarter of one has at most 8, so every sum is exact and
+ * fast; it becomes a decimal once per band and month.
+ */
+const SCALE_PLACES = 8;
+const SCALE = 10n ** BigInt(SCALE_PLACES);
+
+function scaled(text: string): bigint {
+  const negative = text.startsWith("-");
+  const [whole, fraction = ""] = text.replace(/^[-+]/, "").split(".");
+  if (fraction.length > SCALE_PLACES - 2)
+    throw new Error(`energy with more than 6 places: ${text}`);
+  const value = BigInt(whole + fraction.padEnd(SCALE_PLACES, "0"));
+  return negative ? -value : value;
+}
+
+function unscaled(value: bigint): Exact {
+  return new Exact(value.toString()).div(SCALE.toString());
+}
+
+interface DayRange {
+  from: number;
+  to: number;
+}
+
+function versionOn(ranges: readonly DayRange[], day: number): number {
+  for (let i = 0; i < ranges.length; i++)
+    if (ranges[i].from <= day && day <= ranges[i].to) return i;
+  return -1;
 }
 
 interface Accumulator {
-  bandKwh: Exact[];
-  leviedKwh: Exact;
-  exportKwh: Exact;
-  /** Demand per UTC quarter, summed over the supply's meters. */
-  demand: Map<number, Exact>;
+  bandKwh: bigint[];
+  leviedKwh: bigint;
+  exportKwh: bigint;
+  /** Demand per UTC quarter in 10⁻⁸ kW, summed over the supply's meters. */
+  demand: Map<number, bigint>;
   days: number;
 }
 
 function emptyAccumulator(bandCount: number): Accumulator {
   return {
-    bandKwh: Array.from({ length: bandCount }, () => new Exact(0)),
-    leviedKwh: new Exact(0),
-    exportKwh: new Exact(0),
+    bandKwh: Array.from({ length: bandCount }, () => 0n),
+    leviedKwh: 0n,
+    exportKwh: 0n,
     demand: new Map(),
     days: 0,
   };
@@ -114,32 +140,33 @@ function emptyAccumulator(bandCount: number): Accumulator {
 function addInterval(
   accumulators: Accumulator[],
   versions: readonly PricedVersion[],
+  ranges: readonly DayRange[],
   timeZone: string,
   interval: SupplyInterval,
-): Exact {
+): bigint {
   const quarters = interval.minutes / 15;
-  const energy = new Exact(interval.deliveredKwh);
-  const perQuarter = energy.div(quarters);
-  const kw = energy.times(60).div(interval.minutes);
-  let unpriced = new Exact(0);
+  const energy = scaled(interval.deliveredKwh);
+  // Exact: 10⁻⁸ units of a 6-place figure divide by 2 and 4.
+  const perQuarter = energy / BigInt(quarters);
+  const kw = (energy * 60n) / BigInt(interval.minutes);
+  let unpriced = 0n;
   for (let q = 0; q < quarters; q++) {
     const at = interval.startMs + q * QUARTER_MS;
     const local = localQuarter(timeZone, at);
-    const v = versionOn(versions, local.day);
+    const v = versionOn(ranges, local.day);
     if (v < 0) {
-      unpriced = unpriced.plus(perQuarter);
+      unpriced += perQuarter;
       continue;
     }
     const acc = accumulators[v];
-    if (perQuarter.isNegative()) {
-      acc.exportKwh = acc.exportKwh.plus(perQuarter);
+    if (perQuarter < 0n) {
+      acc.exportKwh += perQuarter;
       continue;
     }
-    const band = versions[v].week[local.weekQuarter];
-    acc.bandKwh[band] = acc.bandKwh[band].plus(perQuarter);
-    acc.leviedKwh = acc.leviedKwh.plus(perQuarter);
+    acc.bandKwh[versions[v].week[local.weekQuarter]] += perQuarter;
+    acc.leviedKwh += perQuarter;
     const key = Math.floor(at / QUARTER_MS);
-    acc.demand.set(key, (acc.demand.get(key) ?? new Exact(0)).plus(kw));
+    acc.demand.set(key, (acc.demand.get(key) ?? 0n) + kw);
   }
   return unpriced;
 }
@@ -150,20 +177,20 @@ function versionParts(
   monthDays: number,
 ): VersionParts {
   const r = version.rates;
-  const bands = r.bands.map((b, i) => ({
-    name: b.name,
-    kwh: acc.bandKwh[i],
-    cost: acc.bandKwh[i].times(b.rate_per_kwh),
-  }));
+  const bands = r.bands.map((b, i) => {
+    const kwh = unscaled(acc.bandKwh[i]);
+    return { name: b.name, kwh, cost: kwh.times(b.rate_per_kwh) };
+  });
   const levyRate = r.levies.reduce(
     (sum, l) => sum.plus(l.rate_per_kwh),
     new Exact(0),
   );
-  const levies = acc.leviedKwh.times(levyRate);
+  const levies = unscaled(acc.leviedKwh).times(levyRate);
   const standing = new Exact(r.standing_charge_per_day).times(acc.days);
   const capacity = new Exact(r.capacity_charge_per_day).times(acc.days);
-  let maxKw = new Exact(0);
-  for (const kw of acc.demand.values()) if (kw.gt(maxKw)) maxKw = kw;
+  let maxScaled = 0n;
+  for (const kw of acc.demand.values()) if (kw > maxScaled) maxScaled = kw;
+  const maxKw = unscaled(maxScaled);
   const mdFull = maxKw.times(r.max_demand_rate_per_kw_month);
   const maxDemand =
     acc.days === monthDays
@@ -175,7 +202,7 @@ function versionParts(
   const exportCredit =
     r.export_rate_per_kwh === null
       ? new Exact(0)
-      : acc.exportKwh.times(r.export_rate_per_kwh);
+      : unscaled(acc.exportKwh).times(r.export_rate_per_kwh);
   const charged = bands
     .reduce((sum, b) => sum.plus(b.cost), new Exact(0))
     .plus(levies)
@@ -196,7 +223,7 @@ function versionParts(
     capacity: text(capacity),
     max_demand_kw: text(maxKw),
     max_demand: text(maxDemand),
-    export_kwh: text(acc.exportKwh),
+    export_kwh: text(unscaled(acc.exportKwh)),
     export_credit: text(exportCredit),
     vat: text(vat),
     total: text(charged.plus(vat).plus(exportCredit)),
@@ -215,23 +242,28 @@ export function monthCost(input: {
   const accumulators = versions.map((v) =>
     emptyAccumulator(v.rates.bands.length),
   );
+  const ranges = versions.map((v) => ({
+    from: dayNumber(v.validFrom),
+    to: v.validTo === null ? Number.MAX_SAFE_INTEGER : dayNumber(v.validTo),
+  }));
   const days = daysOfMonth(month);
   for (const day of days) {
-    const v = versionOn(versions, day);
+    const v = versionOn(ranges, dayNumber(day));
     if (v >= 0) accumulators[v].days += 1;
   }
-  let unpriced = new Exact(0);
+  let unpriced = 0n;
   for (const interval of input.intervals)
-    unpriced = unpriced.plus(
-      addInterval(accumulators, versions, timeZone, interval),
-    );
+    unpriced += addInterval(accumulators, versions, ranges, timeZone, interval);
   const parts = versions
     .map((v, i) => ({ v, acc: accumulators[i] }))
     .filter(
-      ({ acc }) =>
-        acc.days > 0 || acc.demand.size > 0 || !acc.exportKwh.isZero(),
+      ({ acc }) => acc.days > 0 || acc.demand.size > 0 || acc.exportKwh !== 0n,
     )
     .map(({ v, acc }) => versionParts(v, acc, days.length));
   const cost = parts.reduce((sum, p) => sum.plus(p.total), new Exact(0));
-  return { cost: text(cost), versions: parts, unpriced_kwh: text(unpriced) };
+  return {
+    cost: text(cost),
+    versions: parts,
+    unpriced_kwh: text(unscaled(unpriced)),
+  };
 }

@@ -11,7 +11,8 @@ const DAY_MS = 86_400_000;
 const QUARTER_MS = 900_000;
 
 const formatters = new Map<string, Intl.DateTimeFormat>();
-const offsets = new Map<string, number>();
+/** Per zone: the offset of each UTC hour, NaN for an hour with a change inside it. */
+const offsets = new Map<string, Map<number, number>>();
 
 function formatter(timeZone: string): Intl.DateTimeFormat {
   let f = formatters.get(timeZone);
@@ -54,14 +55,17 @@ function askIntl(timeZone: string, utcMs: number): number {
  */
 export function offsetMs(timeZone: string, utcMs: number): number {
   const hour = Math.floor(utcMs / HOUR_MS);
-  const hourKey = `${timeZone}|${hour}`;
-  const known = offsets.get(hourKey);
+  let zone = offsets.get(timeZone);
+  if (!zone || zone.size > 200_000) {
+    zone = new Map();
+    offsets.set(timeZone, zone);
+  }
+  const known = zone.get(hour);
   if (known !== undefined && !Number.isNaN(known)) return known;
   if (known === undefined) {
     const atStart = askIntl(timeZone, hour * HOUR_MS);
     const atLast = askIntl(timeZone, hour * HOUR_MS + 3 * QUARTER_MS);
-    if (offsets.size > 200_000) offsets.clear();
-    offsets.set(hourKey, atStart === atLast ? atStart : Number.NaN);
+    zone.set(hour, atStart === atLast ? atStart : Number.NaN);
     if (atStart === atLast) return atStart;
   }
   return askIntl(timeZone, Math.floor(utcMs / QUARTER_MS) * QUARTER_MS);
@@ -70,8 +74,13 @@ export function offsetMs(timeZone: string, utcMs: number): number {
 export interface LocalQuarter {
   /** 0 … 671 from Monday 00:00 local. */
   weekQuarter: number;
-  /** The local day, YYYY-MM-DD. */
-  day: string;
+  /** The local day, as days since 1970-01-01 (dayNumber). */
+  day: number;
+}
+
+/** YYYY-MM-DD as days since 1970-01-01. */
+export function dayNumber(day: string): number {
+  return Math.floor(Date.parse(`${day}T00:00:00Z`) / DAY_MS);
 }
 
 /** The local quarter hour of the week, and the local day, of a UTC instant. */
@@ -83,7 +92,7 @@ export function localQuarter(timeZone: string, utcMs: number): LocalQuarter {
   const inDay = Math.floor((localMs - days * DAY_MS) / QUARTER_MS);
   return {
     weekQuarter: weekday * QUARTERS_PER_DAY + inDay,
-    day: new Date(days * DAY_MS).toISOString().slice(0, 10),
+    day: days,
   };
 }
 
