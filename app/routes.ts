@@ -30,6 +30,7 @@ export default [
       route("meters/:meterId/readings", "routes/meter-readings.tsx"),
       route("readings", "routes/readings.tsx"),
       route("ledger", "routes/ledger.tsx"),
+      route("tariffs", "routes/tariffs.tsx"),
       route("audit", "routes/audit.tsx"),
       route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),

@@ -350,3 +350,27 @@ export async function addTariffVersion(
     }),
   );
 }
+
+/** The supplies bought across a boundary that have no tariff yet: a site and carrier each. */
+export async function untariffedSupplies(
+  organizationId: string,
+): Promise<{ siteId: string; siteName: string; carrier: string }[]> {
+  const { rows } = await db.execute<{
+    site_id: string;
+    site_name: string;
+    carrier: string;
+  }>(
+    sql`select distinct s.id as site_id, s.name as site_name, m.carrier::text as carrier
+          from meters m join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+         where m.organization_id = ${organizationId} and m.parent_meter_id is null
+           and m.position = 'boundary' and s.archived_at is null
+           and not exists (select 1 from tariffs t where t.organization_id = m.organization_id
+                             and t.site_id = m.site_id and t.carrier = m.carrier and t.meter_id is null)
+         order by site_name, carrier`,
+  );
+  return rows.map((r) => ({
+    siteId: r.site_id,
+    siteName: r.site_name,
+    carrier: r.carrier,
+  }));
+}
