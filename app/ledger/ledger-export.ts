@@ -49,14 +49,7 @@ export interface ExportOptions {
  * `percent` and `count` are numbers; `area` is decimal text in m².
  */
 export type ColumnKind =
-  | "text"
-  | "month"
-  | "energy"
-  | "band"
-  | "percent"
-  | "count"
-  | "area"
-  | "money";
+  "text" | "month" | "energy" | "band" | "percent" | "count" | "area" | "money";
 
 export interface ExportColumn {
   header: string;

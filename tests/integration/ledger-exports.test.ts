@@ -138,6 +138,8 @@ describe("ledger exports", () => {
       "± uncertainty (MWh)",
       "Adjustments (MWh)",
       "Adjustment count",
+      "Cost",
+      "Currency",
       "Status",
     ]);
     expect(response.headers.get("content-disposition")).toContain(
@@ -276,6 +278,10 @@ describe("ledger exports", () => {
         "adjustments_kwh",
         "adjustment_count",
         "closed_at",
+        // Cost beside the energy (docs/costs.md): null where no tariff applies.
+        "cost",
+        "currency",
+        "adjustments_cost",
       ].sort(),
     );
   });

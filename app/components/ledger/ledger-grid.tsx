@@ -300,8 +300,7 @@ export function LedgerGrid({
         headerName: "Cost",
         colId: "cost",
         type: "rightAligned",
-        valueGetter: (p) =>
-          p.data?.cost == null ? null : Number(p.data.cost),
+        valueGetter: (p) => (p.data?.cost == null ? null : Number(p.data.cost)),
         valueFormatter: (p) =>
           p.data?.cost == null || p.data.currency === null
             ? "—"
