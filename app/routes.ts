@@ -31,6 +31,7 @@ export default [
       route("readings", "routes/readings.tsx"),
       route("ledger", "routes/ledger.tsx"),
       route("carbon", "routes/carbon.tsx"),
+      route("tariffs", "routes/tariffs.tsx"),
       route("audit", "routes/audit.tsx"),
       route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),

@@ -31,6 +31,7 @@ import { seedGasSupplies } from "./seed-gas-supplies";
 import { seedWeather } from "./seed-weather";
 import { seedDepotOilTank } from "./seed-depot-oil-tank";
 import { seedCarbon } from "./seed-carbon";
+import { seedTariffs } from "./seed-tariffs";
 
 async function larchmereId(): Promise<string> {
   const [org] = await db
@@ -236,6 +237,7 @@ export async function seedEstate(): Promise<boolean> {
   if (created) {
     await ingestScenario(organizationId, SCENARIO_PERIOD.to);
     await seedDepotOilTank(organizationId);
+    await seedTariffs(organizationId);
     await closeFirstFullYear(organizationId);
   }
   // Weather goes in on the days a site lacks, also into an existing estate.

@@ -71,6 +71,7 @@ import { provisioningRoutes } from "./provisioning-routes.server";
 import { tankRoutes } from "./tank-routes.server";
 import { gasSupplyRoutes } from "./gas-supply-routes.server";
 import { carbonRoutes } from "./carbon-routes.server";
+import { tariffRoutes } from "./tariff-routes.server";
 import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
@@ -419,6 +420,7 @@ export function apiRoutes(): ApiRoute[] {
     ...tankRoutes(),
     ...gasSupplyRoutes(),
     ...carbonRoutes(),
+    ...tariffRoutes(),
   ];
   let cached: ReturnType<typeof openApiDocument> | undefined;
   const document = () => (cached ??= openApiDocument(routes));

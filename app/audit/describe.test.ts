@@ -107,7 +107,10 @@ describe("kinds of change", () => {
       expect(kindOf(action), action).not.toBeNull();
       expect(actionsOfKind(kindOf(action)!)).toContain(action);
     }
-    expect(actionsOfKind("adjustment")).toEqual(["ledger.adjusted"]);
+    expect(actionsOfKind("adjustment")).toEqual([
+      "ledger.adjusted",
+      "ledger.cost_adjusted",
+    ]);
     expect(actionLabel("something.new")).toBe("something.new");
     expect(kindOf("something.new")).toBeNull();
   });

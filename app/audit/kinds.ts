@@ -17,6 +17,7 @@ export const auditKinds = [
   "baseline",
   "report",
   "carbon",
+  "tariff",
 ] as const;
 export type AuditKind = (typeof auditKinds)[number];
 
@@ -33,6 +34,7 @@ export const auditKindLabels: Record<AuditKind, string> = {
   baseline: "Baselines and weather",
   report: "Signed reports",
   carbon: "Emission factors, budgets and targets",
+  tariff: "Tariffs",
 };
 
 /** Each action written to audit_log.action: its kind and its label. */
@@ -42,6 +44,12 @@ export const auditActions = {
     kind: "adjustment",
     label: "Closed month adjusted",
   },
+  "ledger.cost_adjusted": {
+    kind: "adjustment",
+    label: "Closed month's cost adjusted",
+  },
+  "tariff.created": { kind: "tariff", label: "Tariff added" },
+  "tariff.version_added": { kind: "tariff", label: "Tariff version added" },
   "month.closed": { kind: "month", label: "Month closed" },
   "month.reopened": { kind: "month", label: "Month reopened" },
   "meter.created": { kind: "meter", label: "Meter added" },

@@ -43,6 +43,9 @@ export const permissions = {
   "reports.download": everyone,
   "reports.verify": ["owner", "auditor"],
   "audit.view": ["owner", "auditor"],
+  /** Tariffs price the ledger: everyone reads them, the estate's managers change them. */
+  "tariffs.view": everyone,
+  "tariffs.manage": managers,
   /** Organisation API tokens act for the whole organisation: owners only. */
   "tokens.manage": ["owner"],
   /** Emission factors, supply contracts, budgets and the carbon target. */

@@ -33,6 +33,7 @@ const areas: Area[] = [
   { label: "Sites", path: "/sites", permission: "organization.view" },
   { label: "Ledger", path: "/ledger", permission: "ledger.view" },
   { label: "Carbon", path: "/carbon", permission: "ledger.view" },
+  { label: "Tariffs", path: "/tariffs", permission: "tariffs.view" },
   {
     label: "Weather & baselines",
     path: "/weather",

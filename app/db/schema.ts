@@ -1463,3 +1463,137 @@ export const rateLimitHits = pgTable("rate_limit_hits", {
   hits: integer("hits").notNull(),
   resetsAt: timestamp("resets_at", { withTimezone: true }).notNull(),
 });
+
+// ---------------------------------------------------------------------------
+// Cost: tariffs per supply, their versions, the cost of each supply's month
+// computed from its intervals, and the adjusting entries written when a
+// closed month's cost changes (app/tariffs, docs/costs.md).
+// ---------------------------------------------------------------------------
+
+/**
+ * A supply's tariff: one meter (`meter_id`), or every boundary meter of a
+ * site and carrier that has no tariff of its own (`meter_id` null).
+ */
+export const tariffs = pgTable(
+  "tariffs",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: uuid("id").notNull().defaultRandom(),
+    name: text("name").notNull(),
+    siteId: uuid("site_id").notNull(),
+    carrier: carrierEnum("carrier").notNull(),
+    meterId: uuid("meter_id"),
+    /** ISO 4217, e.g. GBP. */
+    currency: text("currency").notNull(),
+    /** Demo tariffs are invented and say so. */
+    illustrative: boolean("illustrative").notNull().default(false),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    // One tariff per supply: per meter, or per site and carrier.
+    uniqueIndex("tariffs_meter_unique")
+      .on(t.organizationId, t.meterId)
+      .where(sql`${t.meterId} is not null`),
+    uniqueIndex("tariffs_site_carrier_unique")
+      .on(t.organizationId, t.siteId, t.carrier)
+      .where(sql`${t.meterId} is null`),
+    foreignKey({
+      columns: [t.organizationId, t.siteId],
+      foreignColumns: [sites.organizationId, sites.id],
+    }).onDelete("cascade"),
+    foreignKey({
+      columns: [t.organizationId, t.meterId],
+      foreignColumns: [meters.organizationId, meters.id],
+    }).onDelete("cascade"),
+  ],
+);
+
+/**
+ * One version of a tariff's rates, valid from `valid_from` to `valid_to`
+ * (both site-local days, inclusive; null: until further notice). The rates
+ * are decimal text in JSON, checked by app/tariffs/tariff-schema.ts.
+ */
+export const tariffVersions = pgTable(
+  "tariff_versions",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: uuid("id").notNull().defaultRandom(),
+    tariffId: uuid("tariff_id").notNull(),
+    validFrom: date("valid_from", { mode: "string" }).notNull(),
+    validTo: date("valid_to", { mode: "string" }),
+    rates: jsonb("rates").notNull(),
+    createdByUserId: text("created_by_user_id"),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("tariff_versions_tariff_idx").on(
+      t.organizationId,
+      t.tariffId,
+      t.validFrom,
+    ),
+    foreignKey({
+      columns: [t.organizationId, t.tariffId],
+      foreignColumns: [tariffs.organizationId, tariffs.id],
+    }).onDelete("cascade"),
+  ],
+);
+
+/** A supply's cost in one site-local month, the exact sum of its intervals' costs and its daily charges. */
+export const monthlyCosts = pgTable(
+  "monthly_costs",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    tariffId: uuid("tariff_id").notNull(),
+    month: date("month", { mode: "string" }).notNull(),
+    cost: numeric("cost").notNull(),
+    currency: text("currency").notNull(),
+    /** The parts of the cost (energy by band, standing, demand, VAT …), decimal text. */
+    parts: jsonb("parts").notNull(),
+    computedAt: timestamp("computed_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+    /**
+     * The newest `updated_at` of the supply's rollups the computation saw: a
+     * rollup newer than this (even one committed by a transaction that began
+     * earlier) makes the month due again.
+     */
+    rollupsUpdatedAt: timestamp("rollups_updated_at", { withTimezone: true }),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.tariffId, t.month] }),
+    foreignKey({
+      columns: [t.organizationId, t.tariffId],
+      foreignColumns: [tariffs.organizationId, tariffs.id],
+    }).onDelete("cascade"),
+  ],
+);
+
+/** A change to a closed month's cost (a tariff changed, or late energy): never silent. */
+export const costAdjustments = pgTable(
+  "cost_adjustments",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: bigserial("id", { mode: "number" }).notNull(),
+    tariffId: uuid("tariff_id").notNull(),
+    month: date("month", { mode: "string" }).notNull(),
+    deltaCost: numeric("delta_cost").notNull(),
+    currency: text("currency").notNull(),
+    /** tariff or energy */
+    source: text("source").notNull(),
+    reason: text("reason").notNull(),
+    actorUserId: text("actor_user_id"),
+    createdAt: timestamp("created_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("cost_adjustments_month_idx").on(t.organizationId, t.month),
+    foreignKey({
+      columns: [t.organizationId, t.tariffId],
+      foreignColumns: [tariffs.organizationId, tariffs.id],
+    }).onDelete("cascade"),
+  ],
+);

@@ -39,6 +39,8 @@ const ledger: ExportableLedger = {
       estimated_kwh: "150.025000",
       estimated_share: 0.1,
       status: "closed",
+      cost: "165.0275",
+      currency: "GBP",
     }),
     entry("Civic Hall", "2026-01", "electricity", "800.000000", "-120.500000"),
     entry("Pool", "2026-02", "heat", "2000.000000", "0", {
@@ -58,6 +60,8 @@ const ledger: ExportableLedger = {
       imports_kwh: "3500.250000",
       exports_kwh: "0",
       net_kwh: "3500.250000",
+      cost: "165.0275",
+      currency: "GBP",
     },
   ],
 };
@@ -77,6 +81,8 @@ describe("the ledger export table", () => {
       "± uncertainty (MWh)",
       "Adjustments (MWh)",
       "Adjustment count",
+      "Cost",
+      "Currency",
       "Status",
       "CO₂e location-based (kg)",
       "CO₂e market-based (kg)",
@@ -95,6 +101,9 @@ describe("the ledger export table", () => {
         "0.0525",
         "0",
         0,
+        // Money stays the exact decimal it was priced at, whatever the energy unit.
+        "165.0275",
+        "GBP",
         "Closed",
         null,
         null,
@@ -121,6 +130,9 @@ describe("the ledger export table", () => {
       "0",
     ]);
     expect(electricity.slice(3, 6)).toEqual(["800", "-120.5", "679.5"]);
+    // The carrier's cost total is the API's exact sum; none where no row is priced.
+    expect(heat.slice(11, 13)).toEqual(["165.0275", "GBP"]);
+    expect(electricity.slice(11, 13)).toEqual([null, null]);
     expect(table.lines.filter((l) => !l.total)).toHaveLength(3);
   });
 

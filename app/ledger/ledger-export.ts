@@ -29,11 +29,18 @@ export interface ExportableLedger {
     status: "open" | "closed";
     co2e_kg?: string | null;
     co2e_market_kg?: string | null;
-  })[];
-  totals: (ServerTotal & {
-    co2e_kg?: string | null;
-    co2e_market_kg?: string | null;
-  })[];
+  } & CostCells)[];
+  totals: (ServerTotal &
+    CostCells & {
+      co2e_kg?: string | null;
+      co2e_market_kg?: string | null;
+    })[];
+}
+
+/** A row's or a total's cost (app/tariffs): exact decimal text and its currency, or null. */
+interface CostCells {
+  cost?: string | null;
+  currency?: string | null;
 }
 
 export interface ExportOptions {
@@ -55,7 +62,8 @@ export type ColumnKind =
   | "percent"
   | "count"
   | "area"
-  | "carbon";
+  | "carbon"
+  | "money";
 
 export interface ExportColumn {
   header: string;
@@ -104,6 +112,9 @@ export function ledgerExport(
     { header: `± uncertainty (${label})`, kind: "band" },
     { header: `Adjustments (${label})`, kind: "energy" },
     { header: "Adjustment count", kind: "count" },
+    // Money is never per m² or in another energy unit: the exact decimal as priced.
+    { header: "Cost", kind: "money" },
+    { header: "Currency", kind: "text" },
     { header: "Status", kind: "text" },
     // Carbon is kg CO₂e whatever the energy unit, never per m².
     { header: "CO₂e location-based (kg)", kind: "carbon" },
@@ -140,6 +151,8 @@ export function ledgerExport(
       r.month,
       carrierLabel(r.carrier),
       ...figures(r, r.floor_area_m2),
+      r.cost ?? null,
+      r.currency ?? null,
       statusLabels[r.status],
       r.co2e_kg ?? null,
       r.co2e_market_kg ?? null,
@@ -149,19 +162,23 @@ export function ledgerExport(
     ledger.rows,
     ledger.totals,
     carriers as readonly string[],
-  ).map((t) => ({
-    total: true,
-    cells: [
-      "Total",
-      null,
-      carrierLabel(t.carrier),
-      ...figures(t, t.floor_area_m2),
-      null,
-      ledger.totals.find((s) => s.carrier === t.carrier)?.co2e_kg ?? null,
-      ledger.totals.find((s) => s.carrier === t.carrier)?.co2e_market_kg ??
+  ).map((t) => {
+    const server = ledger.totals.find((s) => s.carrier === t.carrier);
+    return {
+      total: true,
+      cells: [
+        "Total",
         null,
-    ],
-  }));
+        carrierLabel(t.carrier),
+        ...figures(t, t.floor_area_m2),
+        server?.cost ?? null,
+        server?.currency ?? null,
+        null,
+        server?.co2e_kg ?? null,
+        server?.co2e_market_kg ?? null,
+      ],
+    };
+  });
   return { columns, lines: [...entries, ...totals] };
 }
 

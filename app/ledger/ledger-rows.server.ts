@@ -7,6 +7,9 @@ import {
   LOCATION_FACTOR_SQL,
   MARKET_FACTOR_SQL,
 } from "~/carbon/carbon-sql.server";
+import { refreshStaleCosts } from "~/tariffs/costs.server";
+import { attachCosts } from "~/tariffs/ledger-costs";
+import { ledgerCostCells } from "~/tariffs/ledger-costs.server";
 
 // Raw SQL, on purpose: the Ledger's rollup aggregate, timed against a bare read by `npm run bench ledger`.
 // Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
@@ -43,7 +46,11 @@ export async function ledgerRows(
   query: LedgerQuery,
   readPool: pg.Pool = pool,
 ): Promise<Ledger> {
-  const { rows } = await readPool.query<{ ledger: Ledger }>(
+  // Cost beside energy (app/tariffs): months whose energy moved are priced again first.
+  await refreshStaleCosts(query.organizationId, query.from, query.to);
+  const { rows } = await readPool.query<{
+    ledger: Omit<Ledger, "cost_totals">;
+  }>(
     `with closes as (
        select site_id, month, min(closed_at) as closed_at
          from month_closes
@@ -159,5 +166,6 @@ export async function ledgerRows(
       query.carrier ?? null,
     ],
   );
-  return rows[0].ledger;
+  const ledger = rows[0].ledger;
+  return { ...ledger, ...attachCosts(ledger, await ledgerCostCells(query)) };
 }

@@ -5,6 +5,11 @@
 import { z } from "zod";
 import { MONTH_PATTERN } from "~/lib/months";
 import { carrier, decimalKg, decimalKwh, id } from "~/lib/wire-schemas";
+import {
+  costFields,
+  costTotalSchema,
+  carrierCostFields,
+} from "~/tariffs/cost-schema";
 
 /**
  * One site × month × carrier: delivered (imports, ≥ 0) and exported
@@ -47,6 +52,7 @@ export const ledgerRowSchema = z.strictObject({
   co2e_market_adjustments_kg: decimalKg(
     "Market-based carbon changed since the month was closed",
   ),
+  ...costFields,
 });
 export type LedgerRow = z.output<typeof ledgerRowSchema>;
 
@@ -58,6 +64,7 @@ export const carrierTotalSchema = z.strictObject({
   net_kwh: decimalKwh("Net"),
   co2e_kg: decimalKg("Σ of the rows' location-based CO₂e").nullable(),
   co2e_market_kg: decimalKg("Σ of the rows' market-based CO₂e").nullable(),
+  ...carrierCostFields,
 });
 export type CarrierTotal = z.output<typeof carrierTotalSchema>;
 
@@ -80,5 +87,10 @@ export const ledgerSchema = z.strictObject({
         ),
     })
     .describe("Carbon across carriers: the exact sums of the rows"),
+  cost_totals: z
+    .array(costTotalSchema)
+    .describe(
+      "The cost of every row, across carriers, one per currency: the exact sums of the rows' cost",
+    ),
 });
 export type Ledger = z.output<typeof ledgerSchema>;

@@ -34,6 +34,7 @@ function numberFormats(
     count: "0",
     area: "#,##0.0",
     carbon: "#,##0.000",
+    money: "#,##0.00",
   };
 }
 

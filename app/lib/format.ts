@@ -325,3 +325,11 @@ export function formatMoney(minor: number, currency: string): string {
 export function decimalAsTyped(decimal: string): string {
   return decimal.includes(".") ? decimal.replace(/\.?0+$/, "") : decimal;
 }
+
+/** An exact decimal amount in its currency, to the currency's places: "1234.5678", "GBP" → "£1,234.57". */
+export function formatCost(decimal: string, currency: string): string {
+  return new Intl.NumberFormat(LOCALE, {
+    style: "currency",
+    currency: currency.toUpperCase(),
+  }).format(Number(decimal));
+}

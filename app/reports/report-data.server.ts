@@ -103,6 +103,8 @@ function withLedgerTotals(
           importsKwh: own.imports_kwh,
           exportsKwh: own.exports_kwh,
           netKwh: own.net_kwh,
+          cost: own.cost,
+          currency: own.currency,
         }
       : t;
   });

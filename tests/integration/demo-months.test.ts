@@ -262,4 +262,55 @@ describe("demo estate months", () => {
       expect(ledger.rows.length).toBeGreaterThanOrEqual(7 * 2 * 2);
     },
   );
+
+  it(
+    "the demo's illustrative tariffs price every ledger row, and the cost totals are the rows' exact sums",
+    { timeout: 90_000 },
+    async () => {
+      const { seedTariffs } = await import("../../seeds/seed-tariffs");
+      await seedTariffs(org.id);
+      const owner = new Client();
+      await owner.signIn(org.members[0].email, org.members[0].password);
+      const response = await owner.get(
+        `/api/v1/orgs/${org.id}/ledger?from=${MONTHS[0]}&to=${MONTHS.at(-1)}`,
+      );
+      expect(response.status).toBe(200);
+      const ledger = (await response.json()) as {
+        rows: {
+          carrier: string;
+          cost: string | null;
+          currency: string | null;
+        }[];
+        totals: {
+          carrier: string;
+          cost: string | null;
+          currency: string | null;
+        }[];
+        cost_totals: { currency: string; cost: string }[];
+      };
+      expect(ledger.rows.length).toBeGreaterThanOrEqual(7 * 2 * 2);
+      expect(
+        ledger.rows.filter((r) => r.cost === null || r.currency !== "GBP"),
+      ).toEqual([]);
+      // Exact sums, in integer units of 10⁻¹² so no float rounds them.
+      const units = (text: string) => {
+        const [whole, fraction = ""] = text.replace("-", "").split(".");
+        const value = BigInt(whole + fraction.padEnd(12, "0"));
+        return text.startsWith("-") ? -value : value;
+      };
+      const sum = (texts: string[]) => texts.reduce((s, t) => s + units(t), 0n);
+      expect(units(ledger.cost_totals[0].cost)).toBe(
+        sum(ledger.rows.map((r) => r.cost!)),
+      );
+      expect(ledger.cost_totals.map((t) => t.currency)).toEqual(["GBP"]);
+      for (const total of ledger.totals)
+        expect(units(total.cost!), total.carrier).toBe(
+          sum(
+            ledger.rows
+              .filter((r) => r.carrier === total.carrier)
+              .map((r) => r.cost!),
+          ),
+        );
+    },
+  );
 });

@@ -138,6 +138,8 @@ describe("ledger exports", () => {
       "± uncertainty (MWh)",
       "Adjustments (MWh)",
       "Adjustment count",
+      "Cost",
+      "Currency",
       "Status",
       "CO₂e location-based (kg)",
       "CO₂e market-based (kg)",
@@ -282,6 +284,10 @@ describe("ledger exports", () => {
         "co2e_market_kg",
         "co2e_adjustments_kg",
         "co2e_market_adjustments_kg",
+        // Cost beside the energy (docs/costs.md): null where no tariff applies.
+        "cost",
+        "currency",
+        "adjustments_cost",
       ].sort(),
     );
   });

@@ -185,13 +185,15 @@ describe("report content", () => {
       authorName: owner.name,
       generatedAt: new Date(),
     });
-    // The report's totals are the ledger's, digit for digit, per carrier.
+    // The report's totals are the ledger's, digit for digit, per carrier, cost included.
     expect(
       data.carrierTotals.map((t) => ({
         carrier: t.carrier,
         imports_kwh: t.importsKwh,
         exports_kwh: t.exportsKwh,
         net_kwh: t.netKwh,
+        cost: t.cost,
+        currency: t.currency,
       })),
     ).toEqual(
       ledger.totals.map((t) => ({

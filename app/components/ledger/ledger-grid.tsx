@@ -24,7 +24,7 @@ import {
   unitLabel as labelOf,
   type LedgerUnit,
 } from "~/ledger/ledger-units";
-import { formatNumber, monthShort } from "~/lib/format";
+import { formatCost, formatNumber, monthShort } from "~/lib/format";
 import { useWidth } from "~/lib/use-width";
 import { carrierLabels, carriers } from "~/sites/meter-kinds";
 import type { Ledger, LedgerRow } from "./use-ledger";
@@ -84,6 +84,7 @@ function totalRows(ledger: Ledger): GridRow[] {
   return carrierTotals(ledger.rows, ledger.totals, carriers).map((total) => ({
     ...total,
     ...carbonOfTotal(ledger, total.carrier),
+    ...costOfTotal(ledger, total.carrier),
     id: `total|${total.carrier}`,
     site_id: "",
     site_name: "Total",
@@ -109,6 +110,16 @@ function carbonOfTotal(ledger: Ledger, carrier: LedgerRow["carrier"]) {
     co2e_market_adjustments_kg: addExact(
       mine.map((r) => r.co2e_market_adjustments_kg),
     ),
+  };
+}
+
+/** A carrier's cost total, the exact sum the API gives beside its energy. */
+function costOfTotal(ledger: Ledger, carrier: LedgerRow["carrier"]) {
+  const total = ledger.totals.find((t) => t.carrier === carrier);
+  return {
+    cost: total?.cost ?? null,
+    currency: total?.currency ?? null,
+    adjustments_cost: null,
   };
 }
 
@@ -354,6 +365,19 @@ export function LedgerGrid({
       ...(hasHeat
         ? [exergyColumn(energyColumn("Exergy", (r) => r.exergy_kwh))]
         : []),
+      {
+        headerName: "Cost",
+        colId: "cost",
+        type: "rightAligned",
+        valueGetter: (p) => (p.data?.cost == null ? null : Number(p.data.cost)),
+        valueFormatter: (p) =>
+          p.data?.cost == null || p.data.currency === null
+            ? "—"
+            : formatCost(p.data.cost, p.data.currency),
+        cellClass: ["ag-right-aligned-cell", "tabular-nums"],
+        minWidth: 96,
+        flex: 1,
+      },
       {
         headerName: "Estimated share (%)",
         field: "estimated_share",

@@ -29,6 +29,9 @@ function row(over: Partial<LedgerRow>): LedgerRow {
     co2e_market_kg: null,
     co2e_adjustments_kg: "0",
     co2e_market_adjustments_kg: "0",
+    cost: null,
+    currency: null,
+    adjustments_cost: null,
     ...over,
   };
 }
@@ -58,7 +61,20 @@ describe("ledger tables", () => {
       uncertaintyKwh: "2.25",
       adjustmentsKwh: "-1.5",
       adjustmentCount: 2,
+      // No entry is priced: no cost total rather than a zero.
+      cost: null,
+      currency: null,
     });
+  });
+
+  it("the cost total is the exact sum of priced entries of one currency, and none across currencies", () => {
+    const priced = [
+      row({ cost: "0.1", currency: "GBP" }),
+      row({ month: "2025-02", cost: "0.2", currency: "GBP" }),
+    ].map(toEntry);
+    expect(totalOf(priced)).toMatchObject({ cost: "0.3", currency: "GBP" });
+    const mixed = [...priced, toEntry(row({ cost: "5", currency: "EUR" }))];
+    expect(totalOf(mixed)).toMatchObject({ cost: null, currency: null });
   });
 
   it("one table per carrier, heat before electricity, months in order", () => {

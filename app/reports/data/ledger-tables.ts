@@ -31,6 +31,20 @@ export function toEntry(row: LedgerRow): LedgerEntry {
     status: row.status,
     adjustmentsKwh: row.adjustments_kwh,
     adjustmentCount: row.adjustment_count,
+    cost: row.cost,
+    currency: row.currency,
+  };
+}
+
+/** The entries' cost, exactly summed, when they are priced in one currency. */
+function costOf(entries: readonly LedgerEntry[]) {
+  const priced = entries.filter((e) => e.cost !== null && e.currency !== null);
+  const currencies = new Set(priced.map((e) => e.currency));
+  if (priced.length === 0 || currencies.size !== 1)
+    return { cost: null, currency: null };
+  return {
+    cost: sumDecimals(priced.map((e) => e.cost!)),
+    currency: priced[0].currency,
   };
 }
 
@@ -61,6 +75,7 @@ export function totalOf(entries: readonly LedgerEntry[]): EntryTotal {
     uncertaintyKwh: bands.length ? sumDecimals(bands.map(absDecimal)) : null,
     adjustmentsKwh: sumDecimals(entries.map((e) => e.adjustmentsKwh)),
     adjustmentCount: entries.reduce((s, e) => s + e.adjustmentCount, 0),
+    ...costOf(entries),
   };
 }
 

@@ -172,6 +172,8 @@ describe("the site balance of a period", () => {
       uncertaintyKwh: null,
       adjustmentsKwh: "0",
       adjustmentCount: 0,
+      cost: null,
+      currency: null,
     },
   });
 

@@ -46,6 +46,9 @@ export interface LedgerEntry {
   /** Changes since the month was closed, not in the figures above. */
   adjustmentsKwh: string;
   adjustmentCount: number;
+  /** What the entry's supplies cost under their tariffs (exact decimal), and its currency; null: no tariff. */
+  cost: string | null;
+  currency: string | null;
 }
 
 export interface EntryTotal {
@@ -56,6 +59,9 @@ export interface EntryTotal {
   uncertaintyKwh: string | null;
   adjustmentsKwh: string;
   adjustmentCount: number;
+  /** The exact sum of the entries' cost; null when none is priced or their currencies differ. */
+  cost: string | null;
+  currency: string | null;
 }
 
 export interface CarrierTable {

@@ -32,6 +32,8 @@ const entry = (
   status: "closed" as const,
   adjustmentsKwh: "0",
   adjustmentCount: 0,
+  cost: "123.4567",
+  currency: "GBP",
 });
 
 const total = (net: string) => ({
@@ -42,6 +44,8 @@ const total = (net: string) => ({
   uncertaintyKwh: null,
   adjustmentsKwh: "0",
   adjustmentCount: 0,
+  cost: "370.3701",
+  currency: "GBP",
 });
 
 function site(name: string, withData: boolean): SiteReport {

@@ -9,14 +9,14 @@ import type {
   LedgerEntry,
   SiteReport,
 } from "../../data/types";
-import { monthShort } from "~/lib/format";
+import { formatCost, monthShort } from "~/lib/format";
 import { band, kwh, share } from "../format";
 import { drawTable, widths, type Row } from "../table";
 import { carrierColours, colours } from "../theme";
 import { carrierLabels } from "~/sites/meter-kinds";
 
 function columns() {
-  const w = widths(1.05, 1.3, 1.15, 1.3, 0.85, 1.1, 1.2, 0.7);
+  const w = widths(1.0, 1.2, 1.1, 1.2, 0.8, 1.05, 1.15, 1.1, 0.7);
   return [
     { header: "Month", width: w[0] },
     { header: "Delivered (kWh)", width: w[1], align: "right" as const },
@@ -29,12 +29,18 @@ function columns() {
       width: w[6],
       align: "right" as const,
     },
-    { header: "Status", width: w[7] },
+    { header: "Cost", width: w[7], align: "right" as const },
+    { header: "Status", width: w[8] },
   ];
 }
 
 function adjustments(amount: string, count: number): string {
   return count ? `${kwh(amount)} (${count})` : "—";
+}
+
+/** Money as priced (VAT included); a dash where no tariff applies. */
+function money(cost: string | null, currency: string | null): string {
+  return cost === null || currency === null ? "—" : formatCost(cost, currency);
 }
 
 function entryRow(e: LedgerEntry): Row {
@@ -50,6 +56,7 @@ function entryRow(e: LedgerEntry): Row {
       },
       band(e.uncertaintyKwh),
       adjustments(e.adjustmentsKwh, e.adjustmentCount),
+      money(e.cost, e.currency),
       e.status === "closed"
         ? { text: "Closed", color: colours.spruce700, weight: "semibold" }
         : { text: "Open", color: colours.caution700 },
@@ -68,6 +75,7 @@ function totalRow(label: string, t: EntryTotal): Row {
       share(t.estimatedShare),
       band(t.uncertaintyKwh),
       adjustments(t.adjustmentsKwh, t.adjustmentCount),
+      money(t.cost, t.currency),
       "",
     ],
   };
