@@ -275,6 +275,7 @@ describe("ledger exports", () => {
         "net_kwh",
         "estimated_kwh",
         "estimated_share",
+        "exergy_kwh",
         "uncertainty_kwh",
         "status",
         "adjustments_kwh",

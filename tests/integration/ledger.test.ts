@@ -351,7 +351,7 @@ describe("monthly ledger", () => {
     expect(csv.headers.get("content-type")).toMatch(/text\/csv/);
     const lines = (await csv.text()).trim().split("\n");
     expect(lines[0]).toBe(
-      "Site,Month,Carrier,Delivered (kWh),Exported (kWh),Net (kWh),Estimated (kWh),Estimated share (%),± uncertainty (kWh),Adjustments (kWh),Adjustment count,Cost,Currency,Status",
+      "Site,Month,Carrier,Delivered (kWh),Exported (kWh),Net (kWh),Estimated (kWh),Estimated share (%),± uncertainty (kWh),Adjustments (kWh),Adjustment count,Cost,Currency,Status,CO₂e location-based (kg),CO₂e market-based (kg)",
     );
     const json = await ledger(finance, org, "2026-05", "2026-05");
     // The entries, then one total row for the one carrier.

@@ -201,6 +201,8 @@ describe("report content", () => {
         imports_kwh: t.imports_kwh,
         exports_kwh: t.exports_kwh,
         net_kwh: t.net_kwh,
+        cost: t.cost,
+        currency: t.currency,
       })),
     );
     // And its carbon is the ledger's, per carrier and across carriers.
