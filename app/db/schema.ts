@@ -1648,10 +1648,7 @@ export const supplierBills = pgTable(
       "supplier_bills_read_type_check",
       sql`${t.readType} in ('actual', 'estimated')`,
     ),
-    check(
-      "supplier_bills_period_check",
-      sql`${t.periodFrom} <= ${t.periodTo}`,
-    ),
+    check("supplier_bills_period_check", sql`${t.periodFrom} <= ${t.periodTo}`),
     foreignKey({
       columns: [t.organizationId, t.tariffId],
       foreignColumns: [tariffs.organizationId, tariffs.id],
