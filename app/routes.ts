@@ -33,7 +33,10 @@ export default [
       route("carbon", "routes/carbon.tsx"),
       route("tariffs", "routes/tariffs.tsx"),
       route("supplier-bills", "routes/supplier-bills.tsx"),
-      route("supplier-bills/queried.csv", "routes/supplier-bills-queried-csv.ts"),
+      route(
+        "supplier-bills/queried.csv",
+        "routes/supplier-bills-queried-csv.ts",
+      ),
       route("audit", "routes/audit.tsx"),
       route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),

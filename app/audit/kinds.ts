@@ -53,7 +53,10 @@ export const auditActions = {
   "tariff.created": { kind: "tariff", label: "Tariff added" },
   "tariff.version_added": { kind: "tariff", label: "Tariff version added" },
   "bills.uploaded": { kind: "bill", label: "Supplier bills uploaded" },
-  "bill.state_changed": { kind: "bill", label: "Supplier bill's state changed" },
+  "bill.state_changed": {
+    kind: "bill",
+    label: "Supplier bill's state changed",
+  },
   "bills.tolerance_set": { kind: "bill", label: "Bill-check tolerance set" },
   "month.closed": { kind: "month", label: "Month closed" },
   "month.reopened": { kind: "month", label: "Month reopened" },

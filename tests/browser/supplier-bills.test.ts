@@ -55,6 +55,21 @@ describe("checking a supplier's bills", () => {
     await page.goto(`${baseUrl}/o/${org.org.id}/supplier-bills`);
     await page.getByRole("heading", { name: "Supplier bills" }).waitFor();
 
+    // A file with an unknown supply: refused with the row and reason, nothing stored.
+    await upload(
+      page,
+      "bills.csv",
+      Buffer.from(`${csv}\nNO-SUCH-METER,2026-01-01,2026-01-31,1,1,actual`),
+    );
+    const problems = page.getByRole("table", {
+      name: "Problems in the bill file",
+    });
+    await problems.getByText('Unknown supply "NO-SUCH-METER"').waitFor();
+    expect(
+      await problems.getByRole("cell", { name: "4", exact: true }).count(),
+    ).toBe(1);
+    expect(await page.getByTestId("bill-row").count()).toBe(0);
+
     await upload(page, "bills.xlsx", await xlsxOf(csv));
     await page
       .getByText("Checked: 2 stored (1 agreed, 1 queried), 0 already stored.")
@@ -82,7 +97,9 @@ describe("checking a supplier's bills", () => {
       .fill("Credit note received");
     await queriedRow.getByRole("button", { name: "Save" }).click();
     await page.getByText(/is resolved\.$/).waitFor();
-    expect((await states(page)).sort()).toEqual(["Agreed", "Resolved"]);
+    await expect
+      .poll(async () => (await states(page)).sort())
+      .toEqual(["Agreed", "Resolved"]);
     await queriedRow.getByText("History (2)").click();
     await queriedRow
       .getByText(/queried → resolved by .*Credit note received/)

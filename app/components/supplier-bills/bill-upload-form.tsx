@@ -8,7 +8,7 @@ export function BillUploadForm() {
     <Card aria-label="Upload bills">
       <h2 className="text-title">Upload a supplier&apos;s bills</h2>
       <p className="mt-1 text-sm text-ink-muted">
-        CSV or Excel (.xlsx) with a header row: {billColumns.join(", ")}
+        CSV or Excel (.xlsx) with a header row: {billColumns.join(", ")}{" "}
         (currency optional). A supply is a meter code or a tariff&apos;s name; a
         period runs from the first day of a month to the last day of a month. If
         any row is refused, nothing from the file is stored.

@@ -65,9 +65,11 @@ function History({ entries }: { entries: BillHistoryEntry[] }) {
       <ul className="mt-1 text-sm">
         {entries.map((e, i) => (
           <li key={i}>
-            {dateTimeUtc(e.at)}: {e.fromState ? `${e.fromState} → ` : ""}
-            {e.toState}
-            {e.actorName ? ` by ${e.actorName}` : " on upload"}. {e.note}
+            {dateTimeUtc(e.at)}:{" "}
+            {e.fromState
+              ? `${e.fromState} → ${e.toState}`
+              : `checked on upload: ${e.toState}`}
+            {e.actorName ? ` by ${e.actorName}` : ""}. {e.note}
           </li>
         ))}
       </ul>
