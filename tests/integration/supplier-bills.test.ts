@@ -31,6 +31,7 @@ describe("supplier bills", () => {
   let org: MeteredOrg;
   let manager: Client;
   let auditor: Client;
+  let finance: Client;
   let stranger: Client;
   let base: string;
   let supplies: BillSupply[];
@@ -52,12 +53,16 @@ describe("supplier bills", () => {
 
   beforeAll(async () => {
     await db.delete(schema.signInAttempts);
-    org = await createMeteredOrg({ roles: ["energy_manager", "auditor"] });
+    org = await createMeteredOrg({
+      roles: ["energy_manager", "auditor", "finance"],
+    });
     const other = await createOrganization(["owner"]);
     manager = new Client();
     await manager.signIn(org.org.members[0].email, org.org.members[0].password);
     auditor = new Client();
     await auditor.signIn(org.org.members[1].email, org.org.members[1].password);
+    finance = new Client();
+    await finance.signIn(org.org.members[2].email, org.org.members[2].password);
     stranger = new Client();
     await stranger.signIn(other.members[0].email, other.members[0].password);
     base = `/api/v1/orgs/${org.org.id}`;
@@ -191,6 +196,20 @@ describe("supplier bills", () => {
       .from(schema.auditLog)
       .where(eq(schema.auditLog.subject, queried.id));
     expect(audit.map((e) => e.action)).toEqual(["bill.state_changed"]);
+
+    // Finance settles bills too.
+    const byFinance = await finance.postJson(
+      `${base}/bills/${queried.id}/state`,
+      { state: "queried", note: "Credit note not yet booked" },
+    );
+    expect(byFinance.status).toBe(200);
+    const [latest] = await auditor
+      .request(`${base}/bills?state=queried`)
+      .then(async (r) => ((await r.json()) as { bills: BillAnswer[] }).bills);
+    expect(latest).toMatchObject({
+      id: queried.id,
+      note: "Credit note not yet booked",
+    });
 
     // Another organisation sees none of it.
     expect((await stranger.request(`${base}/bills`)).status).toBe(404);
