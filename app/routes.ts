@@ -32,6 +32,11 @@ export default [
       route("ledger", "routes/ledger.tsx"),
       route("carbon", "routes/carbon.tsx"),
       route("tariffs", "routes/tariffs.tsx"),
+      route("supplier-bills", "routes/supplier-bills.tsx"),
+      route(
+        "supplier-bills/queried.csv",
+        "routes/supplier-bills-queried-csv.ts",
+      ),
       route("audit", "routes/audit.tsx"),
       route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),

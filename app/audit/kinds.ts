@@ -18,6 +18,7 @@ export const auditKinds = [
   "report",
   "carbon",
   "tariff",
+  "bill",
 ] as const;
 export type AuditKind = (typeof auditKinds)[number];
 
@@ -35,6 +36,7 @@ export const auditKindLabels: Record<AuditKind, string> = {
   report: "Signed reports",
   carbon: "Emission factors, budgets and targets",
   tariff: "Tariffs",
+  bill: "Supplier bills",
 };
 
 /** Each action written to audit_log.action: its kind and its label. */
@@ -50,6 +52,12 @@ export const auditActions = {
   },
   "tariff.created": { kind: "tariff", label: "Tariff added" },
   "tariff.version_added": { kind: "tariff", label: "Tariff version added" },
+  "bills.uploaded": { kind: "bill", label: "Supplier bills uploaded" },
+  "bill.state_changed": {
+    kind: "bill",
+    label: "Supplier bill's state changed",
+  },
+  "bills.tolerance_set": { kind: "bill", label: "Bill-check tolerance set" },
   "month.closed": { kind: "month", label: "Month closed" },
   "month.reopened": { kind: "month", label: "Month reopened" },
   "meter.created": { kind: "meter", label: "Meter added" },

@@ -50,6 +50,9 @@ export const permissions = {
   "tokens.manage": ["owner"],
   /** Emission factors, supply contracts, budgets and the carbon target. */
   "carbon.manage": managers,
+  /** Supplier bills: everyone reads them; managers and finance upload, query and resolve them. */
+  "bills.view": everyone,
+  "bills.manage": ["owner", "energy_manager", "finance"],
   /** The organisation's settings (its financial year). */
   "organization.settings": ["owner"],
 } as const satisfies Record<string, readonly Role[]>;

@@ -35,6 +35,11 @@ const areas: Area[] = [
   { label: "Carbon", path: "/carbon", permission: "ledger.view" },
   { label: "Tariffs", path: "/tariffs", permission: "tariffs.view" },
   {
+    label: "Supplier bills",
+    path: "/supplier-bills",
+    permission: "bills.view",
+  },
+  {
     label: "Weather & baselines",
     path: "/weather",
     permission: "ledger.view",

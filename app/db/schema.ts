@@ -1597,3 +1597,110 @@ export const costAdjustments = pgTable(
     }).onDelete("cascade"),
   ],
 );
+
+// ---------------------------------------------------------------------------
+// Supplier-bill checks: a supplier's bills set against the metered kWh and
+// the computed cost of the same supply and months, their states and history,
+// and each organisation's tolerance (app/supplier-bills, docs/costs.md).
+// ---------------------------------------------------------------------------
+
+/** A supplier's bill for one supply (a tariff) and whole site-local months. */
+export const supplierBills = pgTable(
+  "supplier_bills",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: uuid("id").notNull().defaultRandom(),
+    tariffId: uuid("tariff_id").notNull(),
+    /** The supply as the file named it (a meter code or the tariff's name). */
+    supplyLabel: text("supply_label").notNull(),
+    /** The first day of the first month and the last day of the last month. */
+    periodFrom: date("period_from", { mode: "string" }).notNull(),
+    periodTo: date("period_to", { mode: "string" }).notNull(),
+    kwh: numeric("kwh").notNull(),
+    /** What the supplier asks, VAT included. */
+    amount: numeric("amount").notNull(),
+    currency: text("currency").notNull(),
+    readType: text("read_type").notNull(),
+    /** What the check found when the bill was uploaded. */
+    meteredKwh: numeric("metered_kwh").notNull(),
+    computedCost: numeric("computed_cost").notNull(),
+    state: text("state").notNull(),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    // One bill per supply and period: the same file twice adds nothing.
+    uniqueIndex("supplier_bills_period_unique").on(
+      t.organizationId,
+      t.tariffId,
+      t.periodFrom,
+      t.periodTo,
+    ),
+    check(
+      "supplier_bills_state_check",
+      sql`${t.state} in ('agreed', 'queried', 'resolved')`,
+    ),
+    check(
+      "supplier_bills_read_type_check",
+      sql`${t.readType} in ('actual', 'estimated')`,
+    ),
+    check("supplier_bills_period_check", sql`${t.periodFrom} <= ${t.periodTo}`),
+    foreignKey({
+      columns: [t.organizationId, t.tariffId],
+      foreignColumns: [tariffs.organizationId, tariffs.id],
+    }).onDelete("cascade"),
+  ],
+);
+
+/** Each state a bill has been given, by whom, when and why. */
+export const supplierBillEvents = pgTable(
+  "supplier_bill_events",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    id: bigserial("id", { mode: "number" }).notNull(),
+    billId: uuid("bill_id").notNull(),
+    /** Null for the state the check gave the bill on upload. */
+    fromState: text("from_state"),
+    toState: text("to_state").notNull(),
+    note: text("note").notNull().default(""),
+    actorUserId: text("actor_user_id"),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId, t.id] }),
+    index("supplier_bill_events_bill_idx").on(t.organizationId, t.billId),
+    foreignKey({
+      columns: [t.organizationId, t.billId],
+      foreignColumns: [supplierBills.organizationId, supplierBills.id],
+    }).onDelete("cascade"),
+  ],
+);
+
+/**
+ * How far a bill may differ from the meters and the tariff before it is
+ * queried: the larger of the percentage and the absolute figure (either may
+ * be absent). No row: 2 % (app/supplier-bills/bill-check.ts).
+ */
+export const billTolerances = pgTable(
+  "bill_tolerances",
+  {
+    organizationId: uuid("organization_id").notNull(),
+    percent: numeric("percent"),
+    absoluteKwh: numeric("absolute_kwh"),
+    absoluteAmount: numeric("absolute_amount"),
+    updatedAt: timestamp("updated_at", { withTimezone: true })
+      .notNull()
+      .defaultNow(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.organizationId] }),
+    foreignKey({
+      columns: [t.organizationId],
+      foreignColumns: [organizations.id],
+    }).onDelete("cascade"),
+  ],
+);
