@@ -49,6 +49,8 @@ for (const [label, viewport] of [
     "members",
     "audit",
     "api-tokens",
+    "tariffs",
+    "carbon",
     "../../outbox",
     "../../account",
   ]) {
