@@ -72,6 +72,7 @@ import { tankRoutes } from "./tank-routes.server";
 import { gasSupplyRoutes } from "./gas-supply-routes.server";
 import { carbonRoutes } from "./carbon-routes.server";
 import { tariffRoutes } from "./tariff-routes.server";
+import { budgetRoutes } from "./budget-routes.server";
 import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
@@ -421,6 +422,7 @@ export function apiRoutes(): ApiRoute[] {
     ...gasSupplyRoutes(),
     ...carbonRoutes(),
     ...tariffRoutes(),
+    ...budgetRoutes(),
   ];
   let cached: ReturnType<typeof openApiDocument> | undefined;
   const document = () => (cached ??= openApiDocument(routes));
