@@ -44,6 +44,8 @@ export interface YearProgress {
   label: string;
   months: string[];
   lastMonthToDate: string;
+  /** The month (1–12) the organisation's financial year starts in. */
+  startMonth: number;
   budgets: BudgetProgress[];
   carbon: CarbonProgress | null;
 }
@@ -136,6 +138,7 @@ export async function yearProgress(args: {
     label: span.label,
     months: span.months,
     lastMonthToDate,
+    startMonth,
     budgets: progress,
     carbon: target
       ? await carbonProgress(
