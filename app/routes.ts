@@ -32,6 +32,7 @@ export default [
       route("ledger", "routes/ledger.tsx"),
       route("carbon", "routes/carbon.tsx"),
       route("tariffs", "routes/tariffs.tsx"),
+      route("budgets", "routes/budgets.tsx"),
       route("audit", "routes/audit.tsx"),
       route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),

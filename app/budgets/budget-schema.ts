@@ -97,3 +97,25 @@ export const carbonTargetSchema = z.strictObject({
 export const carbonTargetReplySchema = z.strictObject({
   target: carbonTargetSchema.nullable(),
 });
+
+/** Form text to the API's shape: blanks are null, the year a number. */
+function fromForm(values: unknown) {
+  const v = { ...(values as Record<string, string>) };
+  delete v.intent;
+  const blankIsNull = (s: string | undefined) =>
+    s === undefined || s.trim() === "" ? null : s.trim();
+  return {
+    ...v,
+    financial_year: Number(v.financial_year),
+    ...("amount" in v ? { amount: blankIsNull(v.amount) } : {}),
+    ...("currency" in v ? { currency: blankIsNull(v.currency) } : {}),
+    ...("base_year" in v ? { base_year: Number(v.base_year) } : {}),
+    ...("target_year" in v ? { target_year: Number(v.target_year) } : {}),
+  };
+}
+
+export const budgetFormSchema = z.preprocess(fromForm, budgetInputSchema);
+export const carbonTargetFormSchema = z.preprocess((values) => {
+  const { financial_year: _unused, ...rest } = fromForm(values);
+  return rest;
+}, carbonTargetInputSchema);
