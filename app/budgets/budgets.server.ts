@@ -6,6 +6,7 @@
  */
 import { and, asc, eq } from "drizzle-orm";
 import { recordAudit } from "~/audit/record-audit.server";
+import { fitSiteBaseline } from "~/baselines/baselines.server";
 import { siteMonthlyDegreeDays } from "~/baselines/weather.server";
 import { db } from "~/db/client.server";
 import { budgets, carbonTargets, sites } from "~/db/schema";
@@ -25,27 +26,48 @@ export type BudgetOutcome =
   | { ok: false; status: 400; reason: string; field: string };
 
 /**
- * The degree-day weights of a budget year: the site's heating degree days
- * of the same months one year earlier, because the budget is set before its
- * own weather is known (docs/budgets.md). None known: the spread is flat.
+ * The degree-day weights of a budget year's months. A budget is set before
+ * its own weather is known, so the year before stands in: the site's
+ * energy of the carrier is fitted on its degree days of the same months one
+ * year earlier (OLS, app/baselines; heating degree days, cooling degree days
+ * for cooling), and each month's weight is the model's kWh for it, base load
+ * included; pure degree days would give summer months almost nothing of a
+ * heat budget that also heats water. Without a usable fit the degree days
+ * alone weigh the months, and without weather the spread is flat
+ * (docs/budgets.md).
  */
 async function degreeDayWeights(
-  organizationId: string,
-  siteId: string,
-  baseC: number,
+  row: BudgetRow,
   months: string[],
 ): Promise<number[] | undefined> {
   const yearEarlier = (m: string) =>
     `${Number(m.slice(0, 4)) - 1}${m.slice(4)}`;
-  const dd = await siteMonthlyDegreeDays({
-    organizationId,
-    siteId,
-    baseC,
-    from: yearEarlier(months[0]),
-    to: yearEarlier(months[months.length - 1]),
+  const from = yearEarlier(months[0]);
+  const to = yearEarlier(months[months.length - 1]);
+  const driver = row.carrier === "cooling" ? "cdd" : "hdd";
+  const { points, outcome } = await fitSiteBaseline({
+    organizationId: row.organizationId,
+    site: {
+      id: row.siteId,
+      degreeDayBaseC: row.degreeDayBaseC,
+    },
+    carrier: row.carrier,
+    driver,
+    from,
+    to,
   });
-  const byMonth = new Map(dd.map((d) => [d.month, d.hdd]));
-  return months.map((m) => byMonth.get(yearEarlier(m)) ?? 0);
+  const dd = await siteMonthlyDegreeDays({
+    organizationId: row.organizationId,
+    siteId: row.siteId,
+    baseC: Number(row.degreeDayBaseC),
+    from,
+    to,
+  });
+  const byMonth = new Map(dd.map((d) => [d.month, d[driver]]));
+  const degreeDays = months.map((m) => byMonth.get(yearEarlier(m)) ?? 0);
+  if (!outcome.ok || points.length < months.length) return degreeDays;
+  const { intercept, slope } = outcome.model;
+  return degreeDays.map((d) => Math.max(0, intercept + slope * d));
 }
 
 type BudgetRow = typeof budgets.$inferSelect & {
@@ -57,12 +79,7 @@ async function withSpread(row: BudgetRow, startMonth: number): Promise<Budget> {
   const { months } = financialYear(row.financialYear, startMonth);
   const weights =
     row.spread === "degree_days"
-      ? await degreeDayWeights(
-          row.organizationId,
-          row.siteId,
-          Number(row.degreeDayBaseC),
-          months,
-        )
+      ? await degreeDayWeights(row, months)
       : undefined;
   const energy = spreadBudget(row.energyKwh, 12, 6, weights);
   const money =

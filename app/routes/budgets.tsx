@@ -22,7 +22,12 @@ import {
   PageHeader,
   SelectField,
 } from "~/components/ui";
-import { formatCost, formatNumber, NO_FIGURE } from "~/lib/format";
+import {
+  decimalAsTyped,
+  formatCost,
+  formatNumber,
+  NO_FIGURE,
+} from "~/lib/format";
 import { parseForm } from "~/lib/forms";
 import { listSites } from "~/sites/sites.server";
 import { carrierLabels, carriers } from "~/sites/meter-kinds";
@@ -174,7 +179,7 @@ export default function Budgets({ loaderData }: Route.ComponentProps) {
         <SectionCard headingId="target" title="Carbon target">
           <p className="text-sm text-ink-muted">
             {target
-              ? `${target.reduction_percent} % below ${financialYearLabel(target.base_year, startMonth)} by ${financialYearLabel(target.target_year, startMonth)}, ${target.basis}-based CO₂e of all carriers.`
+              ? `${decimalAsTyped(target.reduction_percent)} % below ${financialYearLabel(target.base_year, startMonth)} by ${financialYearLabel(target.target_year, startMonth)}, ${target.basis}-based CO₂e of all carriers.`
               : "No carbon target yet."}
           </p>
           {canManage ? (

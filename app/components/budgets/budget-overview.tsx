@@ -2,7 +2,7 @@ import { BrowserOnly } from "~/components/browser-only";
 import { BudgetChart } from "~/components/budgets/budget-chart";
 import { CHART } from "~/components/chart-colours";
 import { SectionCard } from "~/components/section-card";
-import { formatCost, formatNumber } from "~/lib/format";
+import { decimalAsTyped, formatCost, formatNumber } from "~/lib/format";
 import { carrierColour } from "~/sites/carrier-colours";
 import { carrierLabels, type Carrier } from "~/sites/meter-kinds";
 import type { OverviewBudgets } from "~/budgets/overview-budgets.server";
@@ -38,7 +38,7 @@ export function BudgetOverview({ budgets }: { budgets: OverviewBudgets }) {
         the forecast to year end: each month to come is its budget scaled by the
         year to date’s actual ÷ budget.
         {carbonTarget
-          ? ` Carbon target: ${carbonTarget.reductionPercent} % below ${carbonTarget.baseYearLabel} (${carbonTarget.basis}-based), ${amount(carbonTarget.allowedKg, "kg CO₂e")} for the year.`
+          ? ` Carbon target: ${decimalAsTyped(carbonTarget.reductionPercent)} % below ${carbonTarget.baseYearLabel} (${carbonTarget.basis}-based), ${amount(carbonTarget.allowedKg, "kg CO₂e")} for the year.`
           : null}
       </p>
       <div className="mt-4 grid gap-6 lg:grid-cols-2">
