@@ -37,6 +37,7 @@ export default [
         "supplier-bills/queried.csv",
         "routes/supplier-bills-queried-csv.ts",
       ),
+      route("budgets", "routes/budgets.tsx"),
       route("audit", "routes/audit.tsx"),
       route("weather", "routes/weather-baselines.tsx"),
       route("gateways", "routes/gateways.tsx"),

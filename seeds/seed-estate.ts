@@ -32,6 +32,7 @@ import { seedWeather } from "./seed-weather";
 import { seedDepotOilTank } from "./seed-depot-oil-tank";
 import { seedCarbon } from "./seed-carbon";
 import { seedTariffs } from "./seed-tariffs";
+import { seedBudgets } from "./seed-budgets";
 
 async function larchmereId(): Promise<string> {
   const [org] = await db
@@ -242,5 +243,6 @@ export async function seedEstate(): Promise<boolean> {
   }
   // Weather goes in on the days a site lacks, also into an existing estate.
   await seedWeather(organizationId);
+  await seedBudgets(organizationId);
   return created;
 }

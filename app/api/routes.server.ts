@@ -73,6 +73,7 @@ import { gasSupplyRoutes } from "./gas-supply-routes.server";
 import { carbonRoutes } from "./carbon-routes.server";
 import { tariffRoutes } from "./tariff-routes.server";
 import { supplierBillRoutes } from "./supplier-bill-routes.server";
+import { budgetRoutes } from "./budget-routes.server";
 import { formatCount } from "~/lib/format";
 
 /** One interval reading and one register reading, as a gateway sends them. */
@@ -423,6 +424,7 @@ export function apiRoutes(): ApiRoute[] {
     ...carbonRoutes(),
     ...tariffRoutes(),
     ...supplierBillRoutes(),
+    ...budgetRoutes(),
   ];
   let cached: ReturnType<typeof openApiDocument> | undefined;
   const document = () => (cached ??= openApiDocument(routes));

@@ -1,13 +1,13 @@
 /**
- * The money actual of a budget: the ledger's cost for a site, carrier and
- * period. ONE function, so the tariff work (which adds `cost` to the monthly
- * rollups) is wired in one place.
- *
- * This branch has no `cost` on the rollups yet, so it answers null and the
- * pages show the money actual as "no tariff yet". When the rollups carry
- * `cost`, sum it here for the site's boundary import meters of the carrier
- * over the months, the same way the ledger sums energy.
+ * The money actual of a budget: the cost the tariffs computed for a site and
+ * carrier over some months (monthly_costs, app/tariffs). A supply is a meter
+ * or a site and carrier; every tariff of the site and carrier counts, so a
+ * site with one tariff per meter sums them. Exact: PostgreSQL numeric, text.
  */
+import { sql } from "drizzle-orm";
+import { db } from "~/db/client.server";
+import { refreshStaleCosts } from "~/tariffs/costs.server";
+
 export interface CostQuery {
   organizationId: string;
   siteId: string;
@@ -17,6 +17,39 @@ export interface CostQuery {
   to: string;
 }
 
-export async function ledgerCost(_query: CostQuery): Promise<string | null> {
-  return null;
+/** Each month's cost (YYYY-MM → decimal text); empty when no tariff covers the supply. */
+export async function ledgerCostByMonth(
+  query: CostQuery,
+): Promise<{ covered: boolean; months: Map<string, string> }> {
+  // The same freshness as the Ledger: months whose energy moved are priced again first.
+  await refreshStaleCosts(query.organizationId, query.from, query.to);
+  const { rows } = await db.execute<{
+    month: string | null;
+    cost: string | null;
+  }>(sql`select to_char(c.month, 'YYYY-MM') as month, sum(c.cost)::text as cost
+       from tariffs t
+       left join monthly_costs c
+         on c.organization_id = t.organization_id and c.tariff_id = t.id
+        and c.month between to_date(${query.from}, 'YYYY-MM') and to_date(${query.to}, 'YYYY-MM')
+      where t.organization_id = ${query.organizationId}
+        and t.site_id = ${query.siteId}::uuid and t.carrier::text = ${query.carrier}
+      group by c.month order by c.month`);
+  const months = new Map<string, string>();
+  for (const row of rows)
+    if (row.month && row.cost !== null) months.set(row.month, row.cost);
+  return { covered: rows.length > 0, months };
+}
+
+/** The cost over the months, exact; null only when no tariff covers the site and carrier. */
+export async function ledgerCost(query: CostQuery): Promise<string | null> {
+  const { rows } = await db.execute<{ tariffs: number; cost: string | null }>(
+    sql`select count(distinct t.id)::int as tariffs, coalesce(sum(c.cost), 0)::text as cost
+       from tariffs t
+       left join monthly_costs c
+         on c.organization_id = t.organization_id and c.tariff_id = t.id
+        and c.month between to_date(${query.from}, 'YYYY-MM') and to_date(${query.to}, 'YYYY-MM')
+      where t.organization_id = ${query.organizationId}
+        and t.site_id = ${query.siteId}::uuid and t.carrier::text = ${query.carrier}`,
+  );
+  return rows[0] && rows[0].tariffs > 0 ? rows[0].cost : null;
 }

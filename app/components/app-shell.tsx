@@ -34,6 +34,7 @@ const areas: Area[] = [
   { label: "Ledger", path: "/ledger", permission: "ledger.view" },
   { label: "Carbon", path: "/carbon", permission: "ledger.view" },
   { label: "Tariffs", path: "/tariffs", permission: "tariffs.view" },
+  { label: "Budgets", path: "/budgets", permission: "ledger.view" },
   {
     label: "Supplier bills",
     path: "/supplier-bills",

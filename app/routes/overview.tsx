@@ -4,6 +4,8 @@ import { requirePermission } from "~/auth/page-access.server";
 import { can } from "~/auth/permissions";
 import { Cautions } from "~/components/cautions";
 import { AgainstBaseline } from "~/components/overview/against-baseline";
+import { BudgetOverview } from "~/components/budgets/budget-overview";
+import { overviewBudgets } from "~/budgets/overview-budgets.server";
 import { AlertSettings } from "~/components/overview/alert-settings";
 import { EnergyByMonth } from "~/components/overview/energy-by-month";
 import { EstateStats } from "~/components/overview/estate-stats";
@@ -47,6 +49,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     now,
   });
   const alerts = await alertPreferences(organization.id, user.id, role);
+  const budgets = await overviewBudgets(organization.id, now);
   return {
     organization,
     month: estate.month,
@@ -61,6 +64,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     baselines: estate.baselines,
     now: now.toISOString(),
     alerts,
+    budgets,
   };
 }
 
@@ -110,6 +114,7 @@ export default function Overview({
     baselines,
     now,
     alerts,
+    budgets,
   } = loaderData;
   const base = `/o/${organization.id}`;
   // Until readings arrive, the first steps lead the page; an organisation
@@ -145,6 +150,7 @@ export default function Overview({
               silentMeters={silentList.length}
             />
             <EnergyByMonth months={byCarrier} />
+            {budgets ? <BudgetOverview budgets={budgets} /> : null}
             <div className="grid gap-6 lg:grid-cols-2">
               <SitesThatChanged rows={drift} month={month} base={base} />
               <MetersWithoutData
