@@ -41,6 +41,7 @@ import type { SavedBaselineRow } from "./data/baseline-comparison";
 import type { ReportData, SiteReport } from "./data/types";
 
 import { factorSources } from "~/carbon/emission-factors.server";
+import { reportBudgets } from "./data/budgets.server";
 
 export type * from "./data/types";
 
@@ -131,33 +132,48 @@ async function loadReportDataFrom(
 ): Promise<ReportData> {
   const { organizationId, siteId, period } = input;
   const months = monthKeys(period);
-  const [name, sites, closes, ledger, meters, adjustments, counts, plants] =
-    await Promise.all([
-      organizationName(organizationId, readPool),
-      scopeSites(organizationId, siteId, readPool),
-      activeCloses(organizationId, period, readPool),
-      ledgerRows(
-        {
-          organizationId,
-          from: months[0],
-          to: months[months.length - 1],
-          siteId,
-        },
-        readPool,
-      ),
-      meterPeriodEnergy(organizationId, siteId, period, readPool),
-      periodAdjustments(organizationId, siteId, period, readPool),
-      meterHourCounts(
-        {
-          organizationId,
-          siteId,
-          period,
-          generatedAt: input.generatedAt,
-        },
-        readPool,
-      ),
-      plantChecks({ organizationId, siteId, months }),
-    ]);
+  const [
+    name,
+    sites,
+    closes,
+    ledger,
+    meters,
+    adjustments,
+    counts,
+    plants,
+    budgets,
+  ] = await Promise.all([
+    organizationName(organizationId, readPool),
+    scopeSites(organizationId, siteId, readPool),
+    activeCloses(organizationId, period, readPool),
+    ledgerRows(
+      {
+        organizationId,
+        from: months[0],
+        to: months[months.length - 1],
+        siteId,
+      },
+      readPool,
+    ),
+    meterPeriodEnergy(organizationId, siteId, period, readPool),
+    periodAdjustments(organizationId, siteId, period, readPool),
+    meterHourCounts(
+      {
+        organizationId,
+        siteId,
+        period,
+        generatedAt: input.generatedAt,
+      },
+      readPool,
+    ),
+    plantChecks({ organizationId, siteId, months }),
+    reportBudgets({
+      organizationId,
+      siteId,
+      lastMonth: months[months.length - 1],
+      generatedAt: input.generatedAt,
+    }),
+  ]);
   // Archived sites appear only when the period has ledger entries for them.
   const listed = sites.filter(
     (s) => !s.archived || ledger.rows.some((r) => r.site_id === s.id),
@@ -217,5 +233,6 @@ async function loadReportDataFrom(
         ...new Set(months.map((m) => Number(m.slice(0, 4)))),
       ]),
     },
+    budgets,
   };
 }

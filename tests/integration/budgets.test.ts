@@ -8,11 +8,24 @@
 import Decimal from "decimal.js-light";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { applyAppTestEnv } from "../support/app-env";
 import { Client } from "../support/http";
 import { createOrganization, db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
-afterAll(() => pool.end());
+applyAppTestEnv();
+
+// The signed report's budgets are loaded in this process, as report jobs do.
+const app = {
+  periods: () => import("../../app/reports/periods"),
+  data: () => import("../../app/reports/report-data.server"),
+  client: () => import("../../app/db/client.server"),
+};
+
+afterAll(async () => {
+  await pool.end();
+  await (await app.client()).pool.end();
+});
 
 type Json = Record<string, unknown>;
 const HALF_HOUR = 1_800_000;
@@ -35,9 +48,14 @@ interface ProgressMonth {
 interface ProgressAnswer {
   year: number;
   budgets: {
-    budget: { id: string };
-    energy: { months: ProgressMonth[]; forecast: string };
-    money: { months: ProgressMonth[]; forecast: string } | null;
+    budget: { id: string; carrier: string };
+    energy: {
+      months: ProgressMonth[];
+      budget: string;
+      actualToDate: string;
+      forecast: string;
+    };
+    money: { months: ProgressMonth[]; budget: string; forecast: string } | null;
   }[];
   carbon: { target: Json } | null;
 }
@@ -248,5 +266,33 @@ describe("budgets and the carbon target", () => {
     const january = one.energy.months.find((m) => m.month === "2026-01")!;
     expect(january.actual).toBeNull();
     expect(january.forecast).toBe("0.000");
+
+    // The signed report of the financial year carries the same figures.
+    const { reportPeriod } = await app.periods();
+    const { loadReportData } = await app.data();
+    const report = await loadReportData({
+      organizationId: org.org.id,
+      siteId: null,
+      period: reportPeriod("year", "2026"),
+      reportId: "00000000-0000-4000-8000-00000000b0d9",
+      authorName: "Budget test",
+      generatedAt: new Date(),
+    });
+    expect(report.budgets.rows).toEqual([
+      expect.objectContaining({
+        carrier: one.budget.carrier,
+        budgetKwh: one.energy.budget,
+        actualKwhToDate: one.energy.actualToDate,
+        forecastKwh: one.energy.forecast,
+        money: expect.objectContaining({
+          budget: one.money!.budget,
+          forecast: one.money!.forecast,
+        }),
+      }),
+    ]);
+    expect(report.budgets.carbon).toMatchObject({
+      reductionPercent: "12.50",
+      baseYear: 2025,
+    });
   });
 });

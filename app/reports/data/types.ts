@@ -266,6 +266,38 @@ export interface ReportData {
   cautions: string[];
   /** Carbon of the delivered energy, from the ledger's own sums, and the factors' sources. */
   carbon: ReportCarbon;
+  /** The budgets and carbon target of the financial year the period ends in (app/budgets). */
+  budgets: ReportBudgets;
+}
+
+export interface ReportBudgets {
+  /** The financial year's label, e.g. "FY 2025/26". */
+  label: string;
+  /** The last month counted as actual; later months are forecast. */
+  lastMonthToDate: string;
+  rows: {
+    siteName: string;
+    carrier: Carrier;
+    budgetKwh: string;
+    actualKwhToDate: string;
+    forecastKwh: string;
+    /** Null: no money budget, or no tariff prices the supply. */
+    money: {
+      currency: string;
+      budget: string;
+      actualToDate: string;
+      forecast: string;
+    } | null;
+  }[];
+  /** Null: no carbon target, or a site's report (the target is the estate's). */
+  carbon: {
+    reductionPercent: string;
+    baseYear: number;
+    basis: "location" | "market";
+    allowedKg: string;
+    actualKgToDate: string;
+    forecastKg: string;
+  } | null;
 }
 
 export interface ReportCarbon {

@@ -22,6 +22,7 @@ import {
   newPage,
 } from "./layout";
 import { drawAdjustments } from "./sections/adjustments";
+import { drawBudgets } from "./sections/budgets";
 import { drawCarbon } from "./sections/carbon";
 import { drawCautionsSection } from "./sections/cautions";
 import {
@@ -145,6 +146,7 @@ export async function drawReport(
     await step(onProgress, 0.1 + 0.7 * done, site.name);
   }
   section("Carbon", 1, () => drawCarbon(doc, data));
+  section("Budgets and target", 1, () => drawBudgets(doc, data));
   section("Adjusting entries", 1, () => drawAdjustments(doc, data));
   await step(onProgress, 0.85, "Adjusting entries");
   section("Data quality", 1, () => {

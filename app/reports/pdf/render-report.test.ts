@@ -243,6 +243,33 @@ function report(sites: SiteReport[]): ReportData {
         },
       ],
     },
+    budgets: {
+      label: "FY 2025/26",
+      lastMonthToDate: "2025-02",
+      rows: [
+        {
+          siteName: "Płock Δ-Block",
+          carrier: "heat",
+          budgetKwh: "120000.000",
+          actualKwhToDate: "20500.250",
+          forecastKwh: "121000.000",
+          money: {
+            currency: "GBP",
+            budget: "11000.00",
+            actualToDate: "1900.00",
+            forecast: "11100.00",
+          },
+        },
+      ],
+      carbon: {
+        reductionPercent: "10",
+        baseYear: 2024,
+        basis: "location",
+        allowedKg: "90000.000",
+        actualKgToDate: "15000.000",
+        forecastKg: "92000.000",
+      },
+    },
   };
 }
 
