@@ -264,11 +264,13 @@ describe("demo estate months", () => {
   );
 
   it(
-    "the demo's illustrative tariffs price every ledger row, and the cost totals are the rows' exact sums",
+    "the demo's illustrative tariffs and factors give every ledger row its cost and both carbon figures, and the totals are the rows' exact sums",
     { timeout: 90_000 },
     async () => {
       const { seedTariffs } = await import("../../seeds/seed-tariffs");
       await seedTariffs(org.id);
+      const { seedCarbon } = await import("../../seeds/seed-carbon");
+      await seedCarbon(org.id);
       const owner = new Client();
       await owner.signIn(org.members[0].email, org.members[0].password);
       const response = await owner.get(
@@ -280,17 +282,28 @@ describe("demo estate months", () => {
           carrier: string;
           cost: string | null;
           currency: string | null;
+          co2e_kg: string | null;
+          co2e_market_kg: string | null;
         }[];
         totals: {
           carrier: string;
           cost: string | null;
           currency: string | null;
+          co2e_kg: string | null;
+          co2e_market_kg: string | null;
         }[];
         cost_totals: { currency: string; cost: string }[];
+        carbon_total: { co2e_kg: string; co2e_market_kg: string };
       };
       expect(ledger.rows.length).toBeGreaterThanOrEqual(7 * 2 * 2);
       expect(
-        ledger.rows.filter((r) => r.cost === null || r.currency !== "GBP"),
+        ledger.rows.filter(
+          (r) =>
+            r.cost === null ||
+            r.currency !== "GBP" ||
+            r.co2e_kg === null ||
+            r.co2e_market_kg === null,
+        ),
       ).toEqual([]);
       // Exact sums, in integer units of 10⁻¹² so no float rounds them.
       const units = (text: string) => {
@@ -311,6 +324,20 @@ describe("demo estate months", () => {
               .map((r) => r.cost!),
           ),
         );
+      // Carbon: per carrier and across carriers (kWh never are).
+      for (const field of ["co2e_kg", "co2e_market_kg"] as const) {
+        expect(units(ledger.carbon_total[field]), field).toBe(
+          sum(ledger.rows.map((r) => r[field]!)),
+        );
+        for (const total of ledger.totals)
+          expect(units(total[field]!), `${total.carrier} ${field}`).toBe(
+            sum(
+              ledger.rows
+                .filter((r) => r.carrier === total.carrier)
+                .map((r) => r[field]!),
+            ),
+          );
+      }
     },
   );
 });
