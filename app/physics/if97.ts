@@ -16,6 +16,7 @@
 // kJ/kg; volume in m³/kg and speed of sound in m/s.
 
 import { PhysicsRangeError, requireFinite } from "./errors";
+import { region1FirstOrderSums } from "./if97-region1-sums.generated";
 
 // Specific gas constant of water, IF97 Eq. 1, kJ/(kg·K).
 export const IF97_R_KJ_PER_KG_K = 0.461526;
@@ -329,6 +330,63 @@ function region2ResidualGibbs(pi: number, tau: number): Gibbs {
   r.gTT = gTT / (b * b);
   r.gPT = gPT / (pi * b);
   return r;
+}
+
+/**
+ * Density, enthalpy and entropy of two liquid states at one pressure: what a
+ * heat meter's flow and return need, and nothing more.
+ */
+export interface LiquidPair {
+  firstDensityKgPerM3: number;
+  firstEnthalpyKjPerKg: number;
+  firstEntropyKjPerKgK: number;
+  secondDensityKgPerM3: number;
+  secondEnthalpyKjPerKg: number;
+  secondEntropyKjPerKgK: number;
+}
+
+// γ, γπ·a and γτ·b of region 1, unrolled (the generated module says why).
+const R1_SUMS = new Float64Array(3);
+// ρ, h and s of one liquid state: ρ needs γπ, h needs γτ and s needs γ and
+// γτ, so the second derivatives (cp, w) are not summed at all.
+const R1_LIQUID = new Float64Array(3);
+
+function region1Liquid(pMpa: number, tK: number): Float64Array {
+  const pi = pMpa / 16.53;
+  const tau = 1386 / tK;
+  const a = 7.1 - pi;
+  const b = tau - 1.222;
+  region1FirstOrderSums(a, b, R1_SUMS);
+  const gP = R1_SUMS[1] / a;
+  const gT = R1_SUMS[2] / b;
+  const rt = IF97_R_KJ_PER_KG_K * tK;
+  // 1 / v with v as region1Unchecked writes it, so ρ is bit for bit its ρ.
+  R1_LIQUID[0] = 1 / ((rt * 1000 * pi * gP) / (pMpa * 1e6));
+  R1_LIQUID[1] = rt * tau * gT;
+  R1_LIQUID[2] = IF97_R_KJ_PER_KG_K * (tau * gT - R1_SUMS[0]);
+  return R1_LIQUID;
+}
+
+/**
+ * Region 1 at (p, T₁) and (p, T₂) for a caller that has established both
+ * states are in region 1 (as for region1PropertiesInRange). The same sums
+ * as region1Properties in the same order, so ρ, h and s are the same
+ * numbers to the last bit; no record is made: the figures go into `out`.
+ */
+export function region1LiquidPairInRange(
+  pressureMpa: number,
+  firstK: number,
+  secondK: number,
+  out: LiquidPair,
+): void {
+  let state = region1Liquid(pressureMpa, firstK);
+  out.firstDensityKgPerM3 = state[0];
+  out.firstEnthalpyKjPerKg = state[1];
+  out.firstEntropyKjPerKgK = state[2];
+  state = region1Liquid(pressureMpa, secondK);
+  out.secondDensityKgPerM3 = state[0];
+  out.secondEnthalpyKjPerKg = state[1];
+  out.secondEntropyKjPerKgK = state[2];
 }
 
 // Region 1 relations of IF97 Table 3; R·T in kJ/kg, ×1000 for J/kg where

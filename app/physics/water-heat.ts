@@ -6,7 +6,8 @@
 // chilled water (flow colder than return) comes out negative by itself.
 
 import { requireNonNegative } from "./errors";
-import { liquidWater } from "./water-properties";
+import { liquidWaterPair } from "./water-properties";
+import type { LiquidPair } from "./water-properties";
 
 export type SensorPosition = "flow" | "return";
 
@@ -33,24 +34,45 @@ export interface WaterHeatResult {
 
 const KJ_PER_KWH = 3600;
 
+// Scratch for the two states: JavaScript runs one call at a time per thread,
+// and waterHeat copies what it needs out before it returns.
+const STATES: LiquidPair = {
+  firstDensityKgPerM3: 0,
+  firstEnthalpyKjPerKg: 0,
+  firstEntropyKjPerKgK: 0,
+  secondDensityKgPerM3: 0,
+  secondEnthalpyKjPerKg: 0,
+  secondEntropyKjPerKgK: 0,
+};
+
+// The inputs' names, for an error about either temperature.
+const FIELDS = { first: "flowTempC", second: "returnTempC" } as const;
+
 export function waterHeat(input: WaterHeatInput): WaterHeatResult {
   requireNonNegative("volumeM3", input.volumeM3);
-  const p = input.pressureBarAbs;
-  const flow = liquidWater(p, input.flowTempC, { temperature: "flowTempC" });
-  const ret = liquidWater(p, input.returnTempC, {
-    temperature: "returnTempC",
-  });
-  const rho = (input.sensorAt === "flow" ? flow : ret).densityKgPerM3;
-  const dh = flow.enthalpyKjPerKg - ret.enthalpyKjPerKg;
+  liquidWaterPair(
+    input.pressureBarAbs,
+    input.flowTempC,
+    input.returnTempC,
+    FIELDS,
+    STATES,
+  );
+  const hFlow = STATES.firstEnthalpyKjPerKg;
+  const hReturn = STATES.secondEnthalpyKjPerKg;
+  const rho =
+    input.sensorAt === "flow"
+      ? STATES.firstDensityKgPerM3
+      : STATES.secondDensityKgPerM3;
+  const dh = hFlow - hReturn;
   const massKg = input.volumeM3 * rho;
   return {
     energyKj: massKg * dh,
     massKg,
     densityAtSensorKgPerM3: rho,
-    flowEnthalpyKjPerKg: flow.enthalpyKjPerKg,
-    returnEnthalpyKjPerKg: ret.enthalpyKjPerKg,
-    flowEntropyKjPerKgK: flow.entropyKjPerKgK,
-    returnEntropyKjPerKgK: ret.entropyKjPerKgK,
+    flowEnthalpyKjPerKg: hFlow,
+    returnEnthalpyKjPerKg: hReturn,
+    flowEntropyKjPerKgK: STATES.firstEntropyKjPerKgK,
+    returnEntropyKjPerKgK: STATES.secondEntropyKjPerKgK,
     kFactorKwhPerM3K: kFactor(rho, dh, input.flowTempC - input.returnTempC),
   };
 }

@@ -7,15 +7,16 @@
 import { PhysicsRangeError, requireFinite } from "./errors";
 import {
   IF97_SATURATION_MIN_PRESSURE_MPA,
+  region1LiquidPairInRange,
   region1Properties,
   region1PropertiesInRange,
   region2Properties,
   saturationPressureMpa,
   saturationTemperatureK,
 } from "./if97";
-import type { WaterProperties } from "./if97";
+import type { LiquidPair, WaterProperties } from "./if97";
 
-export type { WaterProperties } from "./if97";
+export type { LiquidPair, WaterProperties } from "./if97";
 
 // Heating, chilled-water and process-steam meters: 0-250 °C for the
 // temperatures their sensors measure in water, 0.006-40 bar a for pressures.
@@ -131,6 +132,55 @@ export function liquidWater(
   return region1PropertiesInRange(
     mpa(pressureBarAbs),
     temperatureC + CELSIUS_OFFSET_K,
+  );
+}
+
+/**
+ * Two liquid states at one pressure (a heat meter's flow and return), with
+ * exactly the checks and errors of liquidWater for the first state, then
+ * the second. The figures go into `out` (first, second).
+ *
+ * The common case is checked at once: every input inside the meter range,
+ * and p at or above the saturation pressure of the hotter state. p_s rises
+ * with t (IF97 Eq. 30), so that one saturation pressure clears both states
+ * with the whole 1e-9 allowance to spare. Anything else, a bad number
+ * included, goes through liquidWater state by state, so that the error
+ * names the same field and range as it always did.
+ */
+export function liquidWaterPair(
+  pressureBarAbs: number,
+  firstC: number,
+  secondC: number,
+  fields: { pressure?: string; first: string; second: string },
+  out: LiquidPair,
+): void {
+  const { minTemperatureC: tMin, maxTemperatureC: tMax } = METER_RANGE;
+  const { minPressureBarAbs: pMin, maxPressureBarAbs: pMax } = METER_RANGE;
+  // Written so that NaN fails every comparison and takes the careful path.
+  const inRange =
+    pressureBarAbs >= pMin &&
+    pressureBarAbs <= pMax &&
+    firstC >= tMin &&
+    firstC <= tMax &&
+    secondC >= tMin &&
+    secondC <= tMax;
+  const hotterK = Math.max(firstC, secondC) + CELSIUS_OFFSET_K;
+  if (!inRange || pressureBarAbs < saturationPressureMpa(hotterK) * 10) {
+    const p = fields.pressure;
+    liquidWater(pressureBarAbs, firstC, {
+      pressure: p,
+      temperature: fields.first,
+    });
+    liquidWater(pressureBarAbs, secondC, {
+      pressure: p,
+      temperature: fields.second,
+    });
+  }
+  region1LiquidPairInRange(
+    mpa(pressureBarAbs),
+    firstC + CELSIUS_OFFSET_K,
+    secondC + CELSIUS_OFFSET_K,
+    out,
   );
 }
 
