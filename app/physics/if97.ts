@@ -495,6 +495,14 @@ export function saturationPressureMpa(temperatureK: number): number {
   return saturationPressureUnchecked(temperatureK);
 }
 
+/**
+ * p_s(T) for a caller that has itself checked T lies on the saturation line
+ * (273.15 K to 647.096 K): no guard of its own on the heat meter's path.
+ */
+export function saturationPressureInRangeMpa(temperatureK: number): number {
+  return saturationPressureUnchecked(temperatureK);
+}
+
 /** Saturation temperature T_s(p), IF97 Eq. 31, 611.213 Pa to 22.064 MPa. */
 export function saturationTemperatureK(pressureMpa: number): number {
   requireBetween(

@@ -49,7 +49,9 @@ const STATES: LiquidPair = {
 const FIELDS = { first: "flowTempC", second: "returnTempC" } as const;
 
 export function waterHeat(input: WaterHeatInput): WaterHeatResult {
-  requireNonNegative("volumeM3", input.volumeM3);
+  // The check's own function only when it will throw (NaN fails both tests).
+  const v = input.volumeM3;
+  if (!(v >= 0 && v < Infinity)) requireNonNegative("volumeM3", v);
   liquidWaterPair(
     input.pressureBarAbs,
     input.flowTempC,

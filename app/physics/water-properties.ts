@@ -11,6 +11,7 @@ import {
   region1Properties,
   region1PropertiesInRange,
   region2Properties,
+  saturationPressureInRangeMpa,
   saturationPressureMpa,
   saturationTemperatureK,
 } from "./if97";
@@ -164,8 +165,9 @@ export function liquidWaterPair(
     firstC <= tMax &&
     secondC >= tMin &&
     secondC <= tMax;
+  // 0-250 °C lies on the saturation line, so p_s needs no guard of its own.
   const hotterK = Math.max(firstC, secondC) + CELSIUS_OFFSET_K;
-  if (!inRange || pressureBarAbs < saturationPressureMpa(hotterK) * 10) {
+  if (!inRange || pressureBarAbs < saturationPressureInRangeMpa(hotterK) * 10) {
     const p = fields.pressure;
     liquidWater(pressureBarAbs, firstC, {
       pressure: p,
