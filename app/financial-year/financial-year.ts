@@ -6,20 +6,9 @@
  * year, "FY 2025". Pure: no database; read in the browser too.
  */
 
-export const MONTH_NAMES = [
-  "January",
-  "February",
-  "March",
-  "April",
-  "May",
-  "June",
-  "July",
-  "August",
-  "September",
-  "October",
-  "November",
-  "December",
-] as const;
+import { MONTH_NAMES } from "~/lib/format";
+
+export { MONTH_NAMES };
 
 export interface MonthSpan {
   /** First and last month, YYYY-MM, both included. */

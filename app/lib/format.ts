@@ -37,7 +37,7 @@ type Instant = Date | string | number;
  * differ ("Sep" or "Sept"), and the server and the browser must write the
  * same text. Intl only finds an instant's calendar fields in a zone.
  */
-const MONTH_NAMES = [
+export const MONTH_NAMES = [
   "January",
   "February",
   "March",

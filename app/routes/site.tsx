@@ -27,8 +27,7 @@ import { parseForm } from "~/lib/forms";
 import { siteEnergySince } from "~/sites/meter-energy.server";
 import { listSiteMeters } from "~/sites/meters.server";
 import { carrierLabels } from "~/sites/meter-kinds";
-import { plantLossesOfMonth } from "~/plant/plant-losses.server";
-import { plantFlowsOfMonth } from "~/plant/plant-flows.server";
+import { plantMonthOfSite } from "~/plant/plant-month.server";
 import { siteExergyOfMonth } from "~/exergy/site-exergy.server";
 import { siteFormSchema } from "~/sites/site-schema";
 import { DuplicateNameError, getSite, updateSite } from "~/sites/sites.server";
@@ -60,14 +59,13 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   const asked = new URL(request.url).searchParams.get("month") ?? "";
   const month = MONTH_PATTERN.test(asked) ? asked : (months[0] ?? null);
   const scope = { organizationId: organization.id, siteId: site.id };
-  const [balance, plantLosses, plantFlows, exergy] = month
+  const [balance, plant, exergy] = month
     ? await Promise.all([
         siteBalance({ ...scope, month }),
-        plantLossesOfMonth({ ...scope, month }),
-        plantFlowsOfMonth({ ...scope, month }),
+        plantMonthOfSite({ ...scope, month }),
         siteExergyOfMonth({ ...scope, month }),
       ])
-    : [null, [], [], []];
+    : [null, { flows: [], losses: [] }, []];
   return {
     organization,
     site,
@@ -77,8 +75,8 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     })),
     canManage: can(role, "sites.manage"),
     balance,
-    plantLosses,
-    plantFlows,
+    plantLosses: plant.losses,
+    plantFlows: plant.flows,
     exergy,
     balanceMonths: months,
   };
