@@ -105,6 +105,18 @@ function round(value: number, digits: number): number {
   return Number(value.toFixed(digits));
 }
 
+// The meter-range checks that liquid and steam share, then p_s(t) in bar a
+// for the caller's phase test.
+function meterSaturationBar(
+  pressureBarAbs: number,
+  temperatureC: number,
+  fields: FieldNames,
+): number {
+  requireMeterPressureBar(fields.pressure ?? "pressureBarAbs", pressureBarAbs);
+  requireMeterTemperatureC(fields.temperature ?? "temperatureC", temperatureC);
+  return saturationPressureMpa(temperatureC + CELSIUS_OFFSET_K) * 10;
+}
+
 /**
  * Liquid water at (p, t) from IF97 region 1. The water must be liquid: t at
  * or below the saturation temperature at p, i.e. p ≥ p_s(t).
@@ -114,11 +126,8 @@ export function liquidWater(
   temperatureC: number,
   fields: FieldNames = {},
 ): WaterProperties {
-  const pField = fields.pressure ?? "pressureBarAbs";
   const tField = fields.temperature ?? "temperatureC";
-  requireMeterPressureBar(pField, pressureBarAbs);
-  requireMeterTemperatureC(tField, temperatureC);
-  const psBar = saturationPressureMpa(temperatureC + CELSIUS_OFFSET_K) * 10;
+  const psBar = meterSaturationBar(pressureBarAbs, temperatureC, fields);
   if (pressureBarAbs < psBar * (1 - SATURATION_RELATIVE_TOLERANCE)) {
     throw new PhysicsRangeError(
       `${temperatureC} °C is not liquid at ${pressureBarAbs} bar a: liquid ` +
@@ -195,11 +204,8 @@ export function steam(
   temperatureC: number,
   fields: FieldNames = {},
 ): WaterProperties {
-  const pField = fields.pressure ?? "pressureBarAbs";
   const tField = fields.temperature ?? "temperatureC";
-  requireMeterPressureBar(pField, pressureBarAbs);
-  requireMeterTemperatureC(tField, temperatureC);
-  const psBar = saturationPressureMpa(temperatureC + CELSIUS_OFFSET_K) * 10;
+  const psBar = meterSaturationBar(pressureBarAbs, temperatureC, fields);
   if (pressureBarAbs > psBar * (1 + SATURATION_RELATIVE_TOLERANCE)) {
     throw new PhysicsRangeError(
       `${temperatureC} °C is below saturation at ${pressureBarAbs} bar a: ` +
