@@ -135,12 +135,12 @@ async function loadReportDataFrom(
   const scoped = scopeSites(organizationId, siteId, readPool);
   // Baselines and weather of every site in scope, archived ones too, so they
   // need not wait for the ledger that says which archived sites are listed.
-  const siteWeather = scoped.then((all) => {
+  const siteWeather = scoped.then(async (all) => {
     const ids = all.map((s) => s.id);
     return Promise.all([
       baselinesInForce(organizationId, ids, readPool),
       periodTemperatures(organizationId, ids, period, readPool),
-    ]);
+    ] as const);
   });
   const [
     name,
