@@ -16,7 +16,11 @@ import {
   listBudgets,
   type CarbonTarget,
 } from "./budgets.server";
-import { ledgerCostByMonth } from "./ledger-cost.server";
+import {
+  ledgerCostsByMonth,
+  supplyKey,
+  type SupplyCost,
+} from "./ledger-cost.server";
 import { budgetProgress, sumDecimals, type Progress } from "./progress";
 import type { Budget } from "./budget-schema";
 
@@ -74,9 +78,12 @@ export async function yearProgress(args: {
   /** The financial year; the current one when left out. */
   year?: number;
   now?: Date;
+  /** The organisation's financial year start, when the caller has read it. */
+  startMonth?: number;
 }): Promise<YearProgress> {
   const now = args.now ?? new Date();
-  const startMonth = await financialYearStart(args.organizationId);
+  const startMonth =
+    args.startMonth ?? (await financialYearStart(args.organizationId));
   const lastMonthToDate = lastCompleteMonth(now);
   const current = monthKey(now);
   const year =
@@ -99,40 +106,55 @@ export async function yearProgress(args: {
     (r) => `${r.site_id}|${r.carrier}|${r.month}`,
     (r) => r.imports_kwh,
   );
-  const progress = await Promise.all(
-    budgets.map(async (budget): Promise<BudgetProgress> => {
-      const key = (m: string) => `${budget.site_id}|${budget.carrier}|${m}`;
-      const energy = budgetProgress(
-        budget.months.map((m) => ({
-          month: m.month,
-          budget: m.energy_kwh,
-          actual: energyByMonth.get(key(m.month)) ?? null,
-        })),
-        lastMonthToDate,
-        3,
-      );
-      if (budget.amount === null) return { budget, energy, money: null };
-      const cost = await ledgerCostByMonth({
-        organizationId: args.organizationId,
-        siteId: budget.site_id,
-        carrier: budget.carrier,
-        from: span.from,
-        to: span.to,
-      });
-      const money = cost.covered
-        ? budgetProgress(
-            budget.months.map((m) => ({
-              month: m.month,
-              budget: m.amount ?? "0",
-              actual: cost.months.get(m.month) ?? null,
-            })),
-            lastMonthToDate,
-            2,
-          )
-        : null;
-      return { budget, energy, money };
-    }),
-  );
+  // Every supply's cost in one read, after the ledger has priced stale
+  // months; the carbon target's base year beside it.
+  const [costs, carbon] = await Promise.all([
+    budgets.some((b) => b.amount !== null)
+      ? ledgerCostsByMonth({
+          organizationId: args.organizationId,
+          from: span.from,
+          to: span.to,
+        })
+      : new Map<string, SupplyCost>(),
+    target
+      ? carbonProgress(
+          args.organizationId,
+          target,
+          span.months,
+          ledger.rows,
+          // The base year is often this year: its ledger is read already.
+          target.base_year === year ? ledger.rows : null,
+          startMonth,
+          lastMonthToDate,
+        )
+      : null,
+  ]);
+  const progress = budgets.map((budget): BudgetProgress => {
+    const key = (m: string) => `${budget.site_id}|${budget.carrier}|${m}`;
+    const energy = budgetProgress(
+      budget.months.map((m) => ({
+        month: m.month,
+        budget: m.energy_kwh,
+        actual: energyByMonth.get(key(m.month)) ?? null,
+      })),
+      lastMonthToDate,
+      3,
+    );
+    if (budget.amount === null) return { budget, energy, money: null };
+    const cost = costs.get(supplyKey(budget.site_id, budget.carrier));
+    const money = cost?.covered
+      ? budgetProgress(
+          budget.months.map((m) => ({
+            month: m.month,
+            budget: m.amount ?? "0",
+            actual: cost.months.get(m.month) ?? null,
+          })),
+          lastMonthToDate,
+          2,
+        )
+      : null;
+    return { budget, energy, money };
+  });
   return {
     year,
     label: span.label,
@@ -140,16 +162,7 @@ export async function yearProgress(args: {
     lastMonthToDate,
     startMonth,
     budgets: progress,
-    carbon: target
-      ? await carbonProgress(
-          args.organizationId,
-          target,
-          span.months,
-          ledger.rows,
-          startMonth,
-          lastMonthToDate,
-        )
-      : null,
+    carbon,
   };
 }
 
@@ -167,17 +180,22 @@ async function carbonProgress(
   target: CarbonTarget,
   months: string[],
   rows: Row[],
+  baseRows: Row[] | null,
   startMonth: number,
   lastMonthToDate: string,
 ): Promise<CarbonProgress> {
   const base = financialYear(target.base_year, startMonth);
-  const baseLedger = await ledgerRows({
-    organizationId,
-    from: base.from,
-    to: base.to,
-  });
+  const baseLedger =
+    baseRows ??
+    (
+      await ledgerRows({
+        organizationId,
+        from: base.from,
+        to: base.to,
+      })
+    ).rows;
   const baseByIndex = sumBy(
-    baseLedger.rows,
+    baseLedger,
     (r) => String(base.months.indexOf(r.month)),
     carbonOf(target.basis),
   );

@@ -17,27 +17,48 @@ export interface CostQuery {
   to: string;
 }
 
-/** Each month's cost (YYYY-MM → decimal text); empty when no tariff covers the supply. */
-export async function ledgerCostByMonth(
-  query: CostQuery,
-): Promise<{ covered: boolean; months: Map<string, string> }> {
+export interface SupplyCost {
+  /** False when no tariff covers the site and carrier. */
+  covered: boolean;
+  /** Each month's cost, YYYY-MM → decimal text. */
+  months: Map<string, string>;
+}
+
+/** The key of a site and carrier in ledgerCostsByMonth's answer. */
+export const supplyKey = (siteId: string, carrier: string) =>
+  `${siteId}|${carrier}`;
+
+/**
+ * Each month's cost of every site and carrier a tariff covers, in one read
+ * (a year's budgets ask for many supplies): supplyKey → cost. A site and
+ * carrier without a tariff is absent.
+ */
+export async function ledgerCostsByMonth(
+  query: Omit<CostQuery, "siteId" | "carrier">,
+): Promise<Map<string, SupplyCost>> {
   // The same freshness as the Ledger: months whose energy moved are priced again first.
   await refreshStaleCosts(query.organizationId, query.from, query.to);
   const { rows } = await db.execute<{
+    site_id: string;
+    carrier: string;
     month: string | null;
     cost: string | null;
-  }>(sql`select to_char(c.month, 'YYYY-MM') as month, sum(c.cost)::text as cost
+  }>(sql`select t.site_id, t.carrier::text as carrier,
+              to_char(c.month, 'YYYY-MM') as month, sum(c.cost)::text as cost
        from tariffs t
        left join monthly_costs c
          on c.organization_id = t.organization_id and c.tariff_id = t.id
         and c.month between to_date(${query.from}, 'YYYY-MM') and to_date(${query.to}, 'YYYY-MM')
-      where t.organization_id = ${query.organizationId}
-        and t.site_id = ${query.siteId}::uuid and t.carrier::text = ${query.carrier}
-      group by c.month order by c.month`);
-  const months = new Map<string, string>();
-  for (const row of rows)
-    if (row.month && row.cost !== null) months.set(row.month, row.cost);
-  return { covered: rows.length > 0, months };
+      where t.organization_id = ${query.organizationId} and t.site_id is not null
+      group by t.site_id, t.carrier, c.month order by c.month`);
+  const costs = new Map<string, SupplyCost>();
+  for (const row of rows) {
+    const key = supplyKey(row.site_id, row.carrier);
+    const cost = costs.get(key) ?? { covered: true, months: new Map() };
+    costs.set(key, cost);
+    if (row.month && row.cost !== null) cost.months.set(row.month, row.cost);
+  }
+  return costs;
 }
 
 /** The cost over the months, exact; null only when no tariff covers the site and carrier. */

@@ -531,6 +531,12 @@ export const intervals = pgTable(
   },
   (t) => [
     primaryKey({ columns: [t.organizationId, t.meterId, t.intervalStart] }),
+    // Edited intervals are rare: this finds them in a month without reading
+    // the month, so a report's data quality reads only incomplete months
+    // (app/reports/data/data-quality.server.ts).
+    index("intervals_edited_idx")
+      .on(t.organizationId, t.meterId, t.intervalStart)
+      .where(sql`quality = 'edited'`),
   ],
 );
 

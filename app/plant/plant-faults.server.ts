@@ -69,15 +69,23 @@ export async function plantChecks(args: {
 }): Promise<{ plants: number; faults: PlantFault[] }> {
   const plants = await listPlants(args);
   const bySite = groupBySite(plants);
-  const names = await siteNames(args.organizationId, [...bySite.keys()]);
+  // The sites' months are read side by side: a report waits for all of them.
+  const [names, monthsBySite] = await Promise.all([
+    siteNames(args.organizationId, [...bySite.keys()]),
+    Promise.all(
+      [...bySite].map(([siteId, sitePlants]) =>
+        sitePlantMonths({
+          organizationId: args.organizationId,
+          siteId,
+          plants: sitePlants,
+          within: args.months,
+        }),
+      ),
+    ),
+  ]);
   const faults: PlantFault[] = [];
-  for (const [siteId, sitePlants] of bySite) {
-    const months = await sitePlantMonths({
-      organizationId: args.organizationId,
-      siteId,
-      plants: sitePlants,
-      within: args.months,
-    });
+  for (const [i, [siteId, sitePlants]] of [...bySite].entries()) {
+    const months = monthsBySite[i];
     for (const plant of sitePlants)
       faults.push(
         ...faultsOf(plant, months.get(plant.id) ?? [], names.get(siteId) ?? ""),

@@ -132,6 +132,16 @@ async function loadReportDataFrom(
 ): Promise<ReportData> {
   const { organizationId, siteId, period } = input;
   const months = monthKeys(period);
+  const scoped = scopeSites(organizationId, siteId, readPool);
+  // Baselines and weather of every site in scope, archived ones too, so they
+  // need not wait for the ledger that says which archived sites are listed.
+  const siteWeather = scoped.then(async (all) => {
+    const ids = all.map((s) => s.id);
+    return Promise.all([
+      baselinesInForce(organizationId, ids, readPool),
+      periodTemperatures(organizationId, ids, period, readPool),
+    ] as const);
+  });
   const [
     name,
     sites,
@@ -142,9 +152,11 @@ async function loadReportDataFrom(
     counts,
     plants,
     budgets,
+    [baselines, temperatures],
+    sources,
   ] = await Promise.all([
     organizationName(organizationId, readPool),
-    scopeSites(organizationId, siteId, readPool),
+    scoped,
     activeCloses(organizationId, period, readPool),
     ledgerRows(
       {
@@ -173,16 +185,15 @@ async function loadReportDataFrom(
       lastMonth: months[months.length - 1],
       generatedAt: input.generatedAt,
     }),
+    siteWeather,
+    factorSources(organizationId, [
+      ...new Set(months.map((m) => Number(m.slice(0, 4)))),
+    ]),
   ]);
   // Archived sites appear only when the period has ledger entries for them.
   const listed = sites.filter(
     (s) => !s.archived || ledger.rows.some((r) => r.site_id === s.id),
   );
-  const ids = listed.map((s) => s.id);
-  const [baselines, temperatures] = await Promise.all([
-    baselinesInForce(organizationId, ids, readPool),
-    periodTemperatures(organizationId, ids, period, readPool),
-  ]);
   const statuses = monthStatuses({
     months,
     rows: ledger.rows,
@@ -229,9 +240,7 @@ async function loadReportDataFrom(
       totalKg: ledger.carbon_total.co2e_kg,
       totalMarketKg: ledger.carbon_total.co2e_market_kg,
       rowsWithoutFactor: ledger.carbon_total.rows_without_factor,
-      sources: await factorSources(organizationId, [
-        ...new Set(months.map((m) => Number(m.slice(0, 4)))),
-      ]),
+      sources,
     },
     budgets,
   };

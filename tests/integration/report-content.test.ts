@@ -18,7 +18,7 @@ import { join } from "node:path";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { applyAppTestEnv } from "../support/app-env";
-import { db, pool, schema } from "../support/db";
+import { createOrganization, db, pool, schema } from "../support/db";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
 
 // The app's modules read the environment when they load.
@@ -348,5 +348,308 @@ describe("report content", () => {
     });
     expect(text).toContain("All months closed");
     expect(text).not.toContain("Provisional");
+  });
+});
+
+/**
+ * The data-quality counts read the monthly rollups for complete months and
+ * intervals only for the rest (app/reports/data/data-quality.server.ts).
+ * They must equal, field for field, what reading every interval of the
+ * window gives: this is that query, kept here as the reference.
+ */
+const EVERY_INTERVAL_REFERENCE_SQL = `with live as (
+   select m.id, m.interval_minutes, m.code, m.name, m.carrier::text as carrier, m.orientation::text as orientation,
+          m.parent_meter_id is not null as sub_meter, m.removed_at is not null as retired,
+          s.name as site_name,
+          greatest(($2::date)::timestamp at time zone s.time_zone, m.installed_at) as t0,
+          least(($3::date)::timestamp at time zone s.time_zone,
+                coalesce(m.removed_at, 'infinity'::timestamptz), $5::timestamptz) as t1
+     from meters m
+     join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+    where m.organization_id = $1 and ($4::uuid is null or s.id = $4::uuid)
+ ), hours as (
+   select l.id, i.interval_start, i.quality::text as quality, l.interval_minutes / 60.0 as length,
+          case when i.quality = 'measured'
+               then i.interval_start - lag(i.interval_start) over (
+                      partition by l.id, i.quality = 'measured' order by i.interval_start)
+          end as step
+     from live l
+     join intervals i on i.organization_id = $1 and i.meter_id = l.id
+      and i.interval_start >= l.t0 and i.interval_start < l.t1
+    where l.t1 > l.t0
+ ), counts as (
+   select id,
+          coalesce(sum(length) filter (where quality = 'measured'), 0)::float8 as measured,
+          coalesce(sum(length) filter (where quality = 'estimated'), 0)::float8 as estimated,
+          coalesce(sum(length) filter (where quality = 'edited'), 0)::float8 as edited,
+          min(interval_start) filter (where quality = 'measured') as first_measured,
+          max(interval_start) filter (where quality = 'measured') as last_measured,
+          max(extract(epoch from step) / 3600 - length)::float8 as longest_gap
+     from hours group by id
+ ), conflicts as (
+   select c.meter_id as id, count(*)::int as conflicts,
+          count(*) filter (where c.resolved_at is null)::int as open_conflicts
+     from reading_conflicts c
+     join live l on l.id = c.meter_id
+    where c.organization_id = $1
+      and c.reading_time < l.t1 and c.reading_time >= l.t0
+    group by c.meter_id
+ )
+ select l.site_name, l.code, l.name, l.carrier, l.orientation, l.sub_meter, l.retired,
+        l.t0, l.t1,
+        coalesce(k.measured, 0) as measured, coalesce(k.estimated, 0) as estimated,
+        coalesce(k.edited, 0) as edited, k.first_measured, k.last_measured, k.longest_gap,
+        coalesce(c.conflicts, 0) as conflicts, coalesce(c.open_conflicts, 0) as open_conflicts
+   from live l
+   left join counts k on k.id = l.id
+   left join conflicts c on c.id = l.id
+  where l.t1 > l.t0
+  order by l.site_name, l.sub_meter, l.code`;
+
+describe("report data quality from rollups", () => {
+  /** Each meter's series: [from, to) at its resolution, less gaps, with some estimated or edited. */
+  interface Series {
+    code: string;
+    site: "london" | "kolkata";
+    minutes: 15 | 30 | 60;
+    installedAt: string;
+    removedAt?: string;
+    from?: string;
+    to?: string;
+    missing?: [string, string][];
+    estimated?: [string, string][];
+    edited?: [string, string][];
+  }
+  const series: Series[] = [
+    {
+      // Installed mid-February; a gap across the end of March (local
+      // midnight is 23:00 UTC in summer time), the last slot of May
+      // missing, estimated hours in June, an edited hour in August and a
+      // gap in the night summer time ends.
+      code: "A",
+      site: "london",
+      minutes: 60,
+      installedAt: "2025-02-10T13:00:00Z",
+      from: "2025-02-10T13:00:00Z",
+      to: "2026-01-01T00:00:00Z",
+      missing: [
+        ["2025-03-31T20:00:00Z", "2025-04-01T03:00:00Z"],
+        ["2025-05-31T22:00:00Z", "2025-05-31T23:00:00Z"],
+        ["2025-10-26T00:00:00Z", "2025-10-26T03:00:00Z"],
+      ],
+      estimated: [["2025-06-10T00:00:00Z", "2025-06-10T06:00:00Z"]],
+      edited: [["2025-08-05T12:00:00Z", "2025-08-05T13:00:00Z"]],
+    },
+    {
+      // Half-hourly, removed in September; a gap across the end of July.
+      code: "B",
+      site: "london",
+      minutes: 30,
+      installedAt: "2020-01-01T00:00:00Z",
+      removedAt: "2025-09-15T10:30:00Z",
+      from: "2024-12-01T00:00:00Z",
+      to: "2025-09-15T10:30:00Z",
+      missing: [["2025-07-31T22:00:00Z", "2025-08-01T01:30:00Z"]],
+    },
+    {
+      // Kolkata's months start at 18:30 UTC, between two hours; the last
+      // hour of April is estimated, a gap in November.
+      code: "C",
+      site: "kolkata",
+      minutes: 60,
+      installedAt: "2020-01-01T00:00:00Z",
+      from: "2024-12-20T00:00:00Z",
+      to: "2026-01-05T00:00:00Z",
+      missing: [["2025-11-10T05:00:00Z", "2025-11-10T08:00:00Z"]],
+      estimated: [["2025-04-30T18:00:00Z", "2025-04-30T19:00:00Z"]],
+    },
+    {
+      // Quarter-hourly from the first of October (local); a gap across the
+      // end of November and an edited quarter-hour in December.
+      code: "D",
+      site: "london",
+      minutes: 15,
+      installedAt: "2025-09-30T23:00:00Z",
+      from: "2025-09-30T23:00:00Z",
+      to: "2026-01-01T00:00:00Z",
+      missing: [["2025-11-30T23:45:00Z", "2025-12-01T00:15:00Z"]],
+      edited: [["2025-12-24T10:00:00Z", "2025-12-24T10:15:00Z"]],
+    },
+    // Never read.
+    {
+      code: "E",
+      site: "london",
+      minutes: 60,
+      installedAt: "2020-01-01T00:00:00Z",
+    },
+  ];
+
+  let organizationId: string;
+  const siteIds: Record<Series["site"], string> = { london: "", kolkata: "" };
+
+  beforeAll(async () => {
+    organizationId = (await createOrganization(["owner"])).id;
+    for (const [site, timeZone] of [
+      ["london", "Europe/London"],
+      ["kolkata", "Asia/Kolkata"],
+    ] as const) {
+      const [row] = await db
+        .insert(schema.sites)
+        .values({ organizationId, name: `Quality ${site}`, timeZone })
+        .returning({ id: schema.sites.id });
+      siteIds[site] = row.id;
+    }
+    await pool.query(`select ensure_month_partitions($1, $2)`, [
+      "2024-12-01T00:00:00Z",
+      "2026-02-01T00:00:00Z",
+    ]);
+    for (const s of series) {
+      const [meter] = await db
+        .insert(schema.meters)
+        .values({
+          organizationId,
+          siteId: siteIds[s.site],
+          code: `Q-${s.code}`,
+          name: `Quality meter ${s.code}`,
+          quantity: "electric_register",
+          carrier: "electricity",
+          orientation: "import",
+          intervalMinutes: s.minutes,
+          installedAt: new Date(s.installedAt),
+          removedAt: s.removedAt ? new Date(s.removedAt) : null,
+        })
+        .returning({ id: schema.meters.id });
+      if (!s.from || !s.to) continue;
+      const within = (spans: [string, string][] = []) =>
+        spans.length
+          ? spans.map(([a, b]) => `(t >= '${a}' and t < '${b}')`).join(" or ")
+          : "false";
+      await pool.query(
+        `insert into intervals (organization_id, meter_id, interval_start, energy_kwh, quality)
+         select $1, $2, t, 1.5,
+                (case when ${within(s.estimated)} then 'estimated'
+                      when ${within(s.edited)} then 'edited' else 'measured' end)::interval_quality
+           from generate_series($3::timestamptz, $4::timestamptz - $5 * interval '1 minute',
+                                $5 * interval '1 minute') as t
+          where not (${within(s.missing)})`,
+        [organizationId, meter.id, s.from, s.to, s.minutes],
+      );
+    }
+    // The rollups as the write path keeps them: per site-local month.
+    await pool.query(
+      `insert into monthly_rollups (organization_id, meter_id, month, energy_kwh, estimated_kwh, hours, estimated_hours)
+       select i.organization_id, i.meter_id, date_trunc('month', i.interval_start at time zone s.time_zone)::date,
+              sum(i.energy_kwh), coalesce(sum(i.energy_kwh) filter (where i.quality = 'estimated'), 0),
+              count(*), count(*) filter (where i.quality = 'estimated')
+         from intervals i
+         join meters m on m.organization_id = i.organization_id and m.id = i.meter_id
+         join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+        where i.organization_id = $1
+        group by 1, 2, 3`,
+      [organizationId],
+    );
+  });
+
+  async function reference(args: {
+    siteId: string | null;
+    period: { start: string; end: string };
+    generatedAt: Date;
+  }) {
+    const { rows } = await pool.query(EVERY_INTERVAL_REFERENCE_SQL, [
+      organizationId,
+      args.period.start,
+      args.period.end,
+      args.siteId,
+      args.generatedAt,
+    ]);
+    return rows.map((r) => ({
+      siteName: r.site_name,
+      code: r.code,
+      name: r.name,
+      carrier: r.carrier,
+      orientation: r.orientation,
+      subMeter: r.sub_meter,
+      retired: r.retired,
+      from: r.t0,
+      to: r.t1,
+      measured: r.measured,
+      estimated: r.estimated,
+      edited: r.edited,
+      firstMeasured: r.first_measured,
+      lastMeasured: r.last_measured,
+      longestInnerGapHours: Math.max(0, r.longest_gap ?? 0),
+      conflicts: r.conflicts,
+      openConflicts: r.open_conflicts,
+    }));
+  }
+
+  it("equals reading every interval: gaps across month ends, DST, partial, removed, estimated and edited", async () => {
+    const { meterHourCounts } =
+      await import("../../app/reports/data/data-quality.server");
+    const { reportPeriod } = await app.periods();
+    const cases = [
+      ["year", "2025"],
+      ["quarter", "2025-Q2"],
+      ["month", "2025-10"],
+    ] as const;
+    const generated = [
+      "2026-01-05T00:00:00Z",
+      "2025-12-10T07:20:00Z",
+      "2025-03-31T22:30:00Z",
+    ];
+    let compared = 0;
+    for (const [kind, anchor] of cases)
+      for (const at of generated)
+        for (const siteId of [null, siteIds.london]) {
+          const args = {
+            organizationId,
+            siteId,
+            period: reportPeriod(kind, anchor),
+            generatedAt: new Date(at),
+          };
+          const expected = await reference(args);
+          expect(await meterHourCounts(args)).toEqual(expected);
+          compared += expected.length;
+        }
+    expect(compared).toBeGreaterThan(40);
+
+    // And the figures are the ones the series were made with.
+    const year = await meterHourCounts({
+      organizationId,
+      siteId: null,
+      period: reportPeriod("year", "2025"),
+      generatedAt: new Date("2026-01-05T00:00:00Z"),
+    });
+    const byCode = new Map(year.map((m) => [m.code, m]));
+    // A: 7 hours missing across the end of March; June's estimates break
+    // the measured run for 6 hours.
+    expect(byCode.get("Q-A")).toMatchObject({
+      estimated: 6,
+      edited: 1,
+      longestInnerGapHours: 7,
+      firstMeasured: new Date("2025-02-10T13:00:00Z"),
+      lastMeasured: new Date("2025-12-31T23:00:00Z"),
+    });
+    // B: 3.5 hours missing across the end of July, until its removal.
+    expect(byCode.get("Q-B")).toMatchObject({
+      retired: true,
+      longestInnerGapHours: 3.5,
+      lastMeasured: new Date("2025-09-15T10:00:00Z"),
+    });
+    // C: the period starts at 18:30 UTC, so its first hour is 19:00.
+    expect(byCode.get("Q-C")).toMatchObject({
+      estimated: 1,
+      longestInnerGapHours: 3,
+      firstMeasured: new Date("2024-12-31T19:00:00Z"),
+    });
+    expect(byCode.get("Q-D")).toMatchObject({
+      edited: 0.25,
+      longestInnerGapHours: 0.5,
+    });
+    expect(byCode.get("Q-E")).toMatchObject({
+      measured: 0,
+      firstMeasured: null,
+      longestInnerGapHours: 0,
+    });
   });
 });

@@ -382,6 +382,23 @@ describe("a signed report", () => {
     ).toThrow(/pdfVersion: "1.7"/);
   });
 
+  it("signs byte for byte as @signpdf's P12Signer, whichever identity", async () => {
+    const { P12Signer } = await import("@signpdf/signer-p12");
+    const { SignPdf } = await import("@signpdf/signpdf");
+    const pdf = await reportPdf(2);
+    const at = new Date("2026-01-02T03:04:05Z");
+    for (const identity of [ours, theirs]) {
+      const reference = await new SignPdf().sign(
+        pdf,
+        new P12Signer(identity.p12, { passphrase: identity.passphrase }),
+        at,
+      );
+      // Twice: the second signature comes from the cached key.
+      for (let i = 0; i < 2; i++)
+        expect((await signPdf(pdf, identity, at)).equals(reference)).toBe(true);
+    }
+  }, 30_000);
+
   it("signs ten pages in well under a second", async () => {
     const pdf = await reportPdf(10);
     await signPdf(pdf, ours); // first use loads the signer's code paths

@@ -28,6 +28,7 @@ export async function reportBudgets(args: {
     organizationId: args.organizationId,
     year: yearOf(args.lastMonth, startMonth),
     now: args.generatedAt,
+    startMonth,
   });
   const target = args.siteId === null ? progress.carbon : null;
   return {

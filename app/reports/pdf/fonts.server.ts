@@ -11,6 +11,7 @@ import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import { dirname, join } from "node:path";
 import { inflateSync } from "node:zlib";
+import { sharedFont } from "./shared-fonts.server";
 
 export const weights = ["regular", "italic", "semibold", "bold"] as const;
 export type Weight = (typeof weights)[number];
@@ -109,7 +110,13 @@ function fontBytes(subset: Subset, weight: Weight): Buffer {
 export function registerFonts(doc: PDFKit.PDFDocument): void {
   for (const subset of subsets)
     for (const weight of weights)
-      doc.registerFont(faceName(subset, weight), fontBytes(subset, weight));
+      doc.registerFont(
+        faceName(subset, weight),
+        // pdfkit takes a parsed font as it takes bytes; its typings omit it.
+        sharedFont(fontFile(subset, weight), () =>
+          fontBytes(subset, weight),
+        ) as unknown as Buffer,
+      );
 }
 
 type Ranges = [number, number][];

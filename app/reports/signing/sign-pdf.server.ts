@@ -7,9 +7,9 @@
  * the version readers expect for SHA-256 signatures.
  */
 import { pdfkitAddPlaceholder } from "@signpdf/placeholder-pdfkit";
-import { P12Signer } from "@signpdf/signer-p12";
 import { SignPdf } from "@signpdf/signpdf";
 import type { SigningIdentity } from "./identity.server";
+import { CachedP12Signer } from "./p12-signer.server";
 
 export const REPORT_PDF_VERSION = "1.7";
 
@@ -55,8 +55,8 @@ export async function signPdf(
   identity: Pick<SigningIdentity, "p12" | "passphrase">,
   signingTime: Date = new Date(),
 ): Promise<Buffer> {
-  const signer = new P12Signer(identity.p12, {
-    passphrase: identity.passphrase,
-  });
+  // P12Signer's PKCS#7, byte for byte, without its per-call PKCS#12
+  // decryption and JavaScript RSA (p12-signer.server.ts).
+  const signer = new CachedP12Signer(identity.p12, identity.passphrase);
   return new SignPdf().sign(pdfWithPlaceholder, signer, signingTime);
 }
