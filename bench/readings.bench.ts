@@ -199,11 +199,18 @@ export async function startServer(
     GATEWAY_RATE_LIMIT_PER_MINUTE: "1000000",
   };
   delete env.VITEST;
-  const child = spawn(process.execPath, ["--import", "tsx", "server.ts"], {
-    cwd: ROOT,
-    env,
-    stdio: ["ignore", "ignore", "inherit"],
-  });
+  // e.g. JOULEBOOK_BENCH_SERVER_FLAGS="--cpu-prof --cpu-prof-dir=/tmp/prof"
+  // profiles the server (Node refuses --cpu-prof in NODE_OPTIONS).
+  const flags = process.env.JOULEBOOK_BENCH_SERVER_FLAGS?.split(" ") ?? [];
+  const child = spawn(
+    process.execPath,
+    [...flags.filter(Boolean), "--import", "tsx", "server.ts"],
+    {
+      cwd: ROOT,
+      env,
+      stdio: ["ignore", "ignore", "inherit"],
+    },
+  );
   const deadline = Date.now() + 60_000;
   while (Date.now() < deadline) {
     if (child.exitCode !== null || child.signalCode !== null)

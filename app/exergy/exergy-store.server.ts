@@ -33,9 +33,14 @@ export function runnerOf(client: PoolClient): SqlRunner {
   return drizzle(client);
 }
 
-/** One interval's exergy at its day's mean, when the dead state makes it useful. */
+/**
+ * Each interval's exergy at its day's mean, when the dead state makes it
+ * useful, with its site-local month. $8 and $9 bound the intervals (the
+ * batch's first and last), so that only their partitions are probed.
+ */
 const CONTRIBUTION = `
-  select e.meter_id, e.interval_start, e.heat_kwh - (w.mean_temp_c + 273.15) * e.entropy_kwh_per_k as exergy
+  select e.meter_id, date_trunc('month', e.interval_start at time zone s.time_zone)::date as month,
+         e.heat_kwh - (w.mean_temp_c + 273.15) * e.entropy_kwh_per_k as exergy
     from %EXERGY% e
     join meters m on m.organization_id = $1 and m.id = e.meter_id
     join sites s on s.organization_id = m.organization_id and s.id = m.site_id
@@ -44,6 +49,7 @@ const CONTRIBUTION = `
     join intervals i
       on i.organization_id = $1 and i.meter_id = e.meter_id
      and i.interval_start = e.interval_start and i.quality = 'measured'
+     and i.interval_start >= $8 and i.interval_start <= $9
     join daily_weather w
       on w.organization_id = $1 and w.site_id = s.id
      and w.day = (e.interval_start at time zone s.time_zone)::date
@@ -51,15 +57,16 @@ const CONTRIBUTION = `
               else w.mean_temp_c > e.flow_limit_c end`;
 
 /**
- * Adds the pieces to interval_exergy and each touched month the difference
- * its intervals make, in one statement: \`old\` reads the pieces' intervals
- * as the statement's snapshot has them (before the upsert), \`added\` as
- * they are after it. Their intervals' quality is read once: a batch never
- * changes it for an interval that already has exergy (measured stays
- * measured, an edit stands; only an estimate or a gap turns measured, and
- * those have no exergy yet), so the difference is the pieces' alone.
- * PostgreSQL numeric adds and multiplies exactly, so the months equal a
- * recompute digit for digit.
+ * Adds the pieces to interval_exergy and answers, per touched month, the
+ * difference its intervals make, in one statement: \`before\` reads the
+ * pieces' intervals as the statement's snapshot has them (before the
+ * upsert), \`after\` as the upsert leaves them. Their intervals' quality is
+ * read once: a batch never changes it for an interval that already has
+ * exergy (measured stays measured, an edit stands; only an estimate or a
+ * gap turns measured, and those have no exergy yet), so the difference is
+ * the pieces' alone. PostgreSQL numeric adds and multiplies exactly, so the
+ * months stay equal to a recompute digit for digit. It also answers the
+ * outdoor means it used, for applyReadingsExergy to check.
  */
 const ADD_PIECES = `with u as (
     select m, h, sum(q) as q, sum(s) as s,
@@ -87,50 +94,92 @@ const ADD_PIECES = `with u as (
                else greatest(e.flow_limit_c, excluded.flow_limit_c) end end,
       heating = e.heating and excluded.heating
     returning e.*
-  ), diff as (
-    select meter_id, interval_start, exergy, 1 as n from (${CONTRIBUTION.replace("%EXERGY%", "after")}) a
+  ), diff as materialized (
+    select meter_id, month, exergy, 1 as n from (${CONTRIBUTION.replace("%EXERGY%", "after")}) a
     union all
-    select meter_id, interval_start, -exergy, -1 from (${CONTRIBUTION.replace("%EXERGY%", "before")}) b
-  ), months as (
-    select d.meter_id, date_trunc('month', d.interval_start at time zone s.time_zone)::date as month,
-           sum(d.exergy) as exergy, sum(d.n)::int as n
-      from diff d
-      join meters m on m.organization_id = $1 and m.id = d.meter_id
+    select meter_id, month, -exergy, -1 from (${CONTRIBUTION.replace("%EXERGY%", "before")}) b
+  ), sums as (
+    select meter_id, month, sum(exergy) as exergy, sum(n)::int as n from diff group by 1, 2
+  ), keys as materialized (
+    select u.m as meter_id, s.id as site_id,
+           date_trunc('month', u.h at time zone s.time_zone)::date as month,
+           (u.h at time zone s.time_zone)::date as day
+      from u
+      join meters m on m.organization_id = $1 and m.id = u.m
       join sites s on s.organization_id = m.organization_id and s.id = m.site_id
-     group by 1, 2
+  ), months as (
+    select distinct meter_id, month from keys
+  ), days as (
+    select distinct site_id, day from keys
   )
-  update monthly_exergy me
-     set exergy_exact_kwh = me.exergy_exact_kwh + months.exergy,
-         exergy_kwh = round(me.exergy_exact_kwh + months.exergy, 6),
-         intervals = me.intervals + months.n, updated_at = now()
-    from months
-   where me.organization_id = $1 and me.meter_id = months.meter_id and me.month = months.month`;
+  select (select json_agg(json_build_object(
+                  'meterId', mo.meter_id, 'month', mo.month,
+                  'exergyKwh', coalesce(s.exergy, 0)::text, 'intervals', coalesce(s.n, 0))
+                order by mo.meter_id, mo.month)
+            from months mo left join sums s using (meter_id, month)) as months,
+         (select json_agg(json_build_object('siteId', d.site_id, 'day', d.day, 'meanTempC', w.mean_temp_c::text))
+            from days d
+            left join daily_weather w on w.organization_id = $1 and w.site_id = d.site_id and w.day = d.day) as weather`;
 
-/** Creates or locks, in key order, the months of the pieces' intervals. */
+/** Creates or locks, in key order, the months a batch moves. */
 const LOCK_MONTHS = `insert into monthly_exergy (organization_id, meter_id, month)
-  select distinct $1::uuid, u.m, date_trunc('month', u.h at time zone s.time_zone)::date
-    from unnest($2::uuid[], $3::timestamptz[]) as u(m, h)
-    join meters m on m.organization_id = $1 and m.id = u.m
-    join sites s on s.organization_id = m.organization_id and s.id = m.site_id
-   order by 2, 3
+  select $1, m, mo from unnest($2::uuid[], $3::date[]) as u(m, mo) order by m, mo
   on conflict (organization_id, meter_id, month) do update set updated_at = now()`;
 
 /**
- * After a batch's intervals and rollups are written: its water_heat
- * readings' exergy, and their months moved by what it changed.
+ * Adds the months' differences, unless an outdoor mean they were computed
+ * with has changed since (weather committed in between): then nothing, and
+ * the caller recomputes those months.
  */
-export async function storeReadingsExergy(
+const ADD_TO_MONTHS = `with changed as (
+    select 1 from unnest($5::uuid[], $6::date[], $7::numeric[]) as f(site_id, day, t)
+      left join daily_weather w on w.organization_id = $1 and w.site_id = f.site_id and w.day = f.day
+     where w.mean_temp_c is distinct from f.t
+     limit 1
+  ), added as (
+    update monthly_exergy me
+       set exergy_exact_kwh = me.exergy_exact_kwh + d.x,
+           exergy_kwh = round(me.exergy_exact_kwh + d.x, 6),
+           intervals = me.intervals + d.n, updated_at = now()
+      from unnest($2::uuid[], $3::date[], $4::numeric[], $8::int[]) as d(m, mo, x, n)
+     where me.organization_id = $1 and me.meter_id = d.m and me.month = d.mo
+       and (d.x <> 0 or d.n <> 0) and not exists (select 1 from changed)
+    returning 1
+  )
+  select exists (select 1 from changed) as weather_changed`;
+
+/** What a batch's exergy does to its months, and the outdoor means that says it with. */
+export interface ReadingsExergy {
+  months: {
+    meterId: string;
+    month: string;
+    exergyKwh: string;
+    intervals: number;
+  }[];
+  weather: { siteId: string; day: string; meanTempC: string | null }[];
+  meterIds: string[];
+  from: Date;
+  to: Date;
+}
+
+/**
+ * The batch's water_heat readings into interval_exergy, with what their
+ * months gain; takes no lock another batch waits for (the intervals are
+ * already this batch's), so it runs before the rollups.
+ */
+export async function addReadingsExergy(
   client: PoolClient,
   organizationId: string,
   readings: readonly PreparedReading[],
-): Promise<void> {
+): Promise<ReadingsExergy | null> {
   const p = exergyPieces(readings);
-  if (p.meterIds.length === 0) return;
-  await client.query({
-    ...named(LOCK_MONTHS),
-    values: [organizationId, p.meterIds, p.starts],
-  });
-  await client.query({
+  if (p.meterIds.length === 0) return null;
+  const times = p.starts.map((s) => Date.parse(s));
+  const from = new Date(Math.min(...times));
+  const to = new Date(Math.max(...times));
+  const { rows } = await client.query<
+    Omit<ReadingsExergy, "meterIds" | "from" | "to">
+  >({
     ...named(ADD_PIECES),
     values: [
       organizationId,
@@ -140,8 +189,49 @@ export async function storeReadingsExergy(
       p.entropies,
       p.flowLimits,
       p.heating,
+      from,
+      to,
     ],
   });
+  return { ...rows[0], meterIds: [...new Set(p.meterIds)], from, to };
+}
+
+/**
+ * After the rollups: locks the months (key order), then adds what they
+ * gained. Locking first means a weather write either committed before (its
+ * means are seen, and the differences no longer hold: the months are
+ * recomputed) or waits for this commit and recomputes after it.
+ */
+export async function applyReadingsExergy(
+  client: PoolClient,
+  organizationId: string,
+  exergy: ReadingsExergy | null,
+): Promise<void> {
+  if (!exergy) return;
+  const { months, weather } = exergy;
+  await client.query({
+    ...named(LOCK_MONTHS),
+    values: [
+      organizationId,
+      months.map((m) => m.meterId),
+      months.map((m) => m.month),
+    ],
+  });
+  const { rows } = await client.query<{ weather_changed: boolean }>({
+    ...named(ADD_TO_MONTHS),
+    values: [
+      organizationId,
+      months.map((m) => m.meterId),
+      months.map((m) => m.month),
+      months.map((m) => m.exergyKwh),
+      weather.map((w) => w.siteId),
+      weather.map((w) => w.day),
+      weather.map((w) => w.meanTempC),
+      months.map((m) => m.intervals),
+    ],
+  });
+  if (rows[0].weather_changed)
+    await recomputeMeters(runnerOf(client), organizationId, exergy);
 }
 
 /**
