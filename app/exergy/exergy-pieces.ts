@@ -14,8 +14,6 @@ export interface ExergyPieces {
   entropies: string[];
   flowLimits: number[];
   heating: boolean[];
-  /** Whether two pieces may share an interval (then they are summed first). */
-  shared: boolean;
 }
 
 export function exergyPieces(rows: readonly PreparedReading[]): ExergyPieces {
@@ -26,11 +24,7 @@ export function exergyPieces(rows: readonly PreparedReading[]): ExergyPieces {
     entropies: [],
     flowLimits: [],
     heating: [],
-    shared: false,
   };
-  // As interval-pieces.ts: an interval at or before the latest seen for its
-  // meter may be shared (exactly so for readings in key order).
-  const latest = new Map<string, number>();
   for (const r of rows) {
     const basis = r.exergyBasis;
     if (!basis || !r.endTime) continue;
@@ -48,10 +42,6 @@ export function exergyPieces(rows: readonly PreparedReading[]): ExergyPieces {
       stepMs,
     );
     heat.forEach((piece, i) => {
-      const start = piece.intervalStart.getTime();
-      const before = latest.get(r.meter.id) ?? -Infinity;
-      out.shared ||= start <= before;
-      latest.set(r.meter.id, Math.max(before, start));
       out.meterIds.push(r.meter.id);
       out.starts.push(piece.intervalStart.toISOString());
       out.heats.push(piece.energyKwh.toFixed(9));

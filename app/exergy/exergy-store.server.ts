@@ -68,19 +68,14 @@ const CONTRIBUTION = `
  * months stay equal to a recompute digit for digit. It also answers the
  * outdoor means it used, for applyReadingsExergy to check.
  */
-const PIECES = `unnest($2::uuid[], $3::timestamptz[], $4::numeric[], $5::numeric[], $6::numeric[], $7::boolean[])
-  as u(m, h, q, s, f, w)`;
-
-/** Pieces sharing an interval are summed first; usually none do, and the grouping would only cost time. */
-const SUMMED_PIECES = `select m, h, sum(q) as q, sum(s) as s,
-         case when bool_and(w) = bool_or(w)
-              then case when bool_and(w) then min(f) else max(f) end end as f,
-         bool_and(w) as w
-    from ${PIECES}
-   group by m, h`;
-
-const addPieces = (input: string) => `with u as (
-    ${input}
+const ADD_PIECES = `with u as (
+    select m, h, sum(q) as q, sum(s) as s,
+           case when bool_and(w) = bool_or(w)
+                then case when bool_and(w) then min(f) else max(f) end end as f,
+           bool_and(w) as w
+      from unnest($2::uuid[], $3::timestamptz[], $4::numeric[], $5::numeric[], $6::numeric[], $7::boolean[])
+           as u(m, h, q, s, f, w)
+     group by m, h
   ), before as (
     select e.* from interval_exergy e join u on e.meter_id = u.m and e.interval_start = u.h
      where e.organization_id = $1
@@ -125,9 +120,6 @@ const addPieces = (input: string) => `with u as (
          (select json_agg(json_build_object('siteId', d.site_id, 'day', d.day, 'meanTempC', w.mean_temp_c::text))
             from days d
             left join daily_weather w on w.organization_id = $1 and w.site_id = d.site_id and w.day = d.day) as weather`;
-
-const ADD_SUMMED_PIECES = addPieces(SUMMED_PIECES);
-const ADD_PIECES = addPieces(`select * from ${PIECES}`);
 
 /** Creates or locks, in key order, the months a batch moves. */
 const LOCK_MONTHS = `insert into monthly_exergy (organization_id, meter_id, month)
@@ -188,7 +180,7 @@ export async function addReadingsExergy(
   const { rows } = await client.query<
     Omit<ReadingsExergy, "meterIds" | "from" | "to">
   >({
-    ...named(p.shared ? ADD_SUMMED_PIECES : ADD_PIECES),
+    ...named(ADD_PIECES),
     values: [
       organizationId,
       p.meterIds,
