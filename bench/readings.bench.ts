@@ -9,6 +9,10 @@
 //         equivalent rows (same payloads, hashes and energies, computed
 //         beforehand) into the same table: the floor no ingest can beat
 //
+// and then, in a second table, 5,000 readings of each other quantity (gas
+// volume, liquid fuel, hydrogen, a supplier's interval kWh) through the same
+// API, beside the same COPY. The BENCH line is the water-heat figure.
+//
 // aim: API ≥ 0.5 × COPY.
 //
 // Database: DATABASE_URL when set; otherwise the managed cluster that
@@ -32,7 +36,7 @@ import { gatewayKeyPrefix } from "../app/auth/gateway-keys.server";
 import { hashToken } from "../app/auth/tokens.server";
 import { hashPayload } from "../app/ingest/prepare-readings.server";
 import { evaluateItem } from "../app/physics/evaluate";
-import { printAim, printBenchLine } from "./aims";
+import { printAim, printBenchLine, verdict } from "./aims";
 
 // Issue #17: the batch path costs at most twice the COPY it is compared with.
 const API_TO_COPY_AIM = 0.5;
@@ -199,11 +203,18 @@ export async function startServer(
     GATEWAY_RATE_LIMIT_PER_MINUTE: "1000000",
   };
   delete env.VITEST;
-  const child = spawn(process.execPath, ["--import", "tsx", "server.ts"], {
-    cwd: ROOT,
-    env,
-    stdio: ["ignore", "ignore", "inherit"],
-  });
+  // e.g. JOULEBOOK_BENCH_SERVER_FLAGS="--cpu-prof --cpu-prof-dir=/tmp/prof"
+  // profiles the server (Node refuses --cpu-prof in NODE_OPTIONS).
+  const flags = process.env.JOULEBOOK_BENCH_SERVER_FLAGS?.split(" ") ?? [];
+  const child = spawn(
+    process.execPath,
+    [...flags.filter(Boolean), "--import", "tsx", "server.ts"],
+    {
+      cwd: ROOT,
+      env,
+      stdio: ["ignore", "ignore", "inherit"],
+    },
+  );
   const deadline = Date.now() + 60_000;
   while (Date.now() < deadline) {
     if (child.exitCode !== null || child.signalCode !== null)
@@ -240,7 +251,47 @@ interface Fixture {
   apiMeters: { id: string; code: string }[];
   copyMeters: { id: string; code: string }[];
   warmUpMeter: { id: string; code: string };
+  /** Per other quantity, its FUEL_METERS meters' codes. */
+  fuelMeters: Map<string, string[]>;
 }
+
+/**
+ * The other quantities readings arrive in (fuels, and a supplier's kWh per
+ * interval), each with a reading per hour: the second table, beside COPY.
+ */
+const FUELS = [
+  {
+    quantity: "gas_volume",
+    carrier: "natural_gas",
+    item: (n: number) => ({
+      volume_m3: 10 + (n % 50),
+      calorific_value_mj_m3: 39.2,
+    }),
+  },
+  {
+    quantity: "liquid_fuel",
+    carrier: "gas_oil",
+    item: (n: number) => ({
+      volume_l: 5 + (n % 20),
+      density_kg_l: 0.845,
+      calorific_value_mj_kg: 45.6,
+    }),
+  },
+  {
+    quantity: "hydrogen",
+    carrier: "hydrogen",
+    item: (n: number) => ({ mass_kg: 0.5 + (n % 7) / 10 }),
+  },
+  {
+    quantity: "interval_energy",
+    carrier: "electricity",
+    meterQuantity: "electric_work",
+    item: (n: number) => ({ energy_kwh: 20 + (n % 30) }),
+  },
+] as const;
+const FUEL_METERS = 2;
+const FUEL_HOURS_PER_METER = 2_500;
+const FUEL_TOTAL = FUEL_METERS * FUEL_HOURS_PER_METER;
 
 async function createFixture(pool: pg.Pool): Promise<Fixture> {
   const tag = randomUUID().slice(0, 8);
@@ -280,9 +331,30 @@ async function createFixture(pool: pg.Pool): Promise<Fixture> {
       gatewayKeyPrefix(gatewayKey),
     ],
   );
+  const fuelMeters = new Map<string, string[]>();
+  for (const fuel of FUELS) {
+    const fuelCodes = Array.from(
+      { length: FUEL_METERS },
+      (_, i) => `BF-${fuel.quantity}-${i + 1}-${tag}`,
+    );
+    await pool.query(
+      `insert into meters (organization_id, site_id, code, name, quantity, carrier, orientation, installed_at)
+       select $1, $2, c, 'Bench meter ' || c, $4, $5, 'import', '2020-01-01T00:00:00Z'
+         from unnest($3::text[]) as u(c)`,
+      [
+        org.id,
+        site.id,
+        fuelCodes,
+        "meterQuantity" in fuel ? fuel.meterQuantity : fuel.quantity,
+        fuel.carrier,
+      ],
+    );
+    fuelMeters.set(fuel.quantity, fuelCodes);
+  }
   return {
     organizationId: org.id,
     gatewayKey,
+    fuelMeters,
     apiMeters: codes.slice(0, METERS).map((c) => byCode.get(c)!),
     copyMeters: codes.slice(METERS, 2 * METERS).map((c) => byCode.get(c)!),
     warmUpMeter: byCode.get(`BW-${tag}`)!,
@@ -318,6 +390,30 @@ function apiBodies(
       }
     }
     bodies.push(JSON.stringify({ readings }));
+  }
+  return bodies;
+}
+
+/** One quantity's readings, hour by hour over its meters, in 1,000s. */
+function fuelBodies(fuel: (typeof FUELS)[number], codes: string[]): string[] {
+  const readings = [];
+  for (let h = 0; h < FUEL_HOURS_PER_METER; h++) {
+    for (const [m, code] of codes.entries()) {
+      const start = FIRST_HOUR + h * HOUR_MS;
+      readings.push({
+        meter: code,
+        quantity: fuel.quantity,
+        start: new Date(start).toISOString(),
+        end: new Date(start + HOUR_MS).toISOString(),
+        ...fuel.item(h * FUEL_METERS + m),
+      });
+    }
+  }
+  const bodies: string[] = [];
+  for (let i = 0; i < readings.length; i += READINGS_PER_BATCH) {
+    bodies.push(
+      JSON.stringify({ readings: readings.slice(i, i + READINGS_PER_BATCH) }),
+    );
   }
   return bodies;
 }
@@ -628,6 +724,24 @@ export async function benchReadings(): Promise<void> {
     if (accepted !== TOTAL)
       throw new Error(`API accepted ${accepted} readings, expected ${TOTAL}`);
 
+    const fuelRates: [string, number][] = [];
+    for (const fuel of FUELS) {
+      const t = performance.now();
+      const stored = await postBatches(
+        started.baseUrl,
+        gatewayKey,
+        fuelBodies(fuel, fixture.fuelMeters.get(fuel.quantity)!),
+      );
+      if (stored !== FUEL_TOTAL)
+        throw new Error(
+          `${fuel.quantity}: accepted ${stored} of ${FUEL_TOTAL}`,
+        );
+      fuelRates.push([
+        fuel.quantity,
+        (FUEL_TOTAL / (performance.now() - t)) * 1000,
+      ]);
+    }
+
     const apiRate = (TOTAL / apiMs) * 1000;
     const copyRate = (copy.rows / copy.ms) * 1000;
     const ratio = apiRate / copyRate;
@@ -656,6 +770,19 @@ export async function benchReadings(): Promise<void> {
           grouped(copyRate),
         ],
       ],
+    );
+    console.log("");
+    console.log(
+      `Other quantities: ${grouped(FUEL_TOTAL)} readings each (${FUEL_METERS} meters × ${grouped(FUEL_HOURS_PER_METER)} hours), the same API and clients, beside the COPY above\n`,
+    );
+    printTable(
+      ["quantity", "rows/s", "÷ COPY", "aim ≥ 0.5"],
+      fuelRates.map(([quantity, rate]) => [
+        quantity,
+        grouped(rate),
+        (rate / copyRate).toFixed(2),
+        verdict(rate / copyRate >= API_TO_COPY_AIM),
+      ]),
     );
     console.log("");
     printAim(

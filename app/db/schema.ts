@@ -1289,9 +1289,16 @@ export const monthlyExergy = pgTable(
     meterId: uuid("meter_id").notNull(),
     /** The first day of the site-local month. */
     month: date("month", { mode: "string" }).notNull(),
+    /** The exact sum rounded to the micro-kWh the ledger shows. */
     exergyKwh: numeric("exergy_kwh", { precision: 24, scale: 6 })
       .notNull()
       .default("0"),
+    /**
+     * The exact sum (scale 14: heat to 1e-9 less T₀ to 1e-2 times entropy
+     * to 1e-12), which ingest moves by exact differences; rounding each
+     * difference to 6 places would drift from a recompute.
+     */
+    exergyExactKwh: numeric("exergy_exact_kwh").notNull().default("0"),
     intervals: integer("intervals").notNull().default(0),
     updatedAt: timestamp("updated_at", { withTimezone: true })
       .notNull()

@@ -5,11 +5,13 @@
  * Q − T₀·S over its measured intervals whose site-local day has an outdoor
  * mean T₀ (monthly_exergy), with how many intervals that was.
  *
- * The month is recomputed, not added to, because the weather moves it too:
- * after a batch of readings (in the batch's transaction) and after weather
- * for a site arrives (in the weather's transaction). Its rows are locked
- * first, in key order, and summed in the next statement, whose snapshot then
- * holds whatever a concurrent writer of the same month committed.
+ * A batch of readings moves its months by exact differences (numeric):
+ * each interval it touches gives its month (new − old) contribution, so the
+ * month is never read back whole inside ingest. Weather and edits change
+ * what every interval of a day or month counts, so there the months are
+ * recomputed. Either way the months' rows are locked first, in key order,
+ * and read in a later statement, whose snapshot then holds whatever a
+ * concurrent writer of the same month (weather, another batch) committed.
  *
  * Raw SQL through drizzle's `sql`, like the rest of the write path, so that
  * a pg client (ingest) and a drizzle transaction (weather) can both run it.
@@ -18,6 +20,7 @@ import { sql, type SQL } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/node-postgres";
 import type { PoolClient } from "pg";
 import type { PreparedReading } from "~/ingest/prepare-readings.server";
+import { named } from "~/ingest/named-statement.server";
 import { exergyPieces } from "./exergy-pieces";
 
 /** Anything that runs a drizzle `sql` statement: db, a transaction. */
@@ -30,43 +33,205 @@ export function runnerOf(client: PoolClient): SqlRunner {
   return drizzle(client);
 }
 
-/** Adds the readings' pieces to interval_exergy; returns the meters and span touched. */
-async function addPieces(
-  runner: SqlRunner,
-  organizationId: string,
-  readings: readonly PreparedReading[],
-): Promise<{ meterIds: string[]; from: Date; to: Date } | null> {
-  const p = exergyPieces(readings);
-  if (p.meterIds.length === 0) return null;
-  // Arrays go as one parameter each (sql.param), not as drizzle's lists.
-  // Readings sharing an interval add, as their energies do in `intervals`;
-  // the limit on T₀ is the stricter of theirs, or none when they disagree
-  // on the direction (no exergy for a mixed interval).
-  await runner.execute(sql`
-    insert into interval_exergy as e
-      (organization_id, meter_id, interval_start, heat_kwh, entropy_kwh_per_k, flow_limit_c, heating)
-    select ${organizationId}::uuid, m, h, sum(q), sum(s),
+/**
+ * Each interval's exergy at its day's mean, when the dead state makes it
+ * useful, with its site-local month. $8 and $9 bound the intervals (the
+ * batch's first and last), so that only their partitions are probed.
+ */
+const CONTRIBUTION = `
+  select e.meter_id, date_trunc('month', e.interval_start at time zone s.time_zone)::date as month,
+         e.heat_kwh - (w.mean_temp_c + 273.15) * e.entropy_kwh_per_k as exergy
+    from %EXERGY% e
+    join meters m on m.organization_id = $1 and m.id = e.meter_id
+    join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+    -- Only what was measured: an estimate or a person's edit replaced
+    -- the readings' energy, and their exergy with it.
+    join intervals i
+      on i.organization_id = $1 and i.meter_id = e.meter_id
+     and i.interval_start = e.interval_start and i.quality = 'measured'
+     and i.interval_start >= $8 and i.interval_start <= $9
+    join daily_weather w
+      on w.organization_id = $1 and w.site_id = s.id
+     and w.day = (e.interval_start at time zone s.time_zone)::date
+   where case when e.heating then w.mean_temp_c < e.flow_limit_c
+              else w.mean_temp_c > e.flow_limit_c end`;
+
+/**
+ * Adds the pieces to interval_exergy and answers, per touched month, the
+ * difference its intervals make, in one statement: \`before\` reads the
+ * pieces' intervals as the statement's snapshot has them (before the
+ * upsert), \`after\` as the upsert leaves them. Their intervals' quality is
+ * read once: a batch never changes it for an interval that already has
+ * exergy (measured stays measured, an edit stands; only an estimate or a
+ * gap turns measured, and those have no exergy yet), so the difference is
+ * the pieces' alone. PostgreSQL numeric adds and multiplies exactly, so the
+ * months stay equal to a recompute digit for digit. It also answers the
+ * outdoor means it used, for applyReadingsExergy to check.
+ */
+const ADD_PIECES = `with u as (
+    select m, h, sum(q) as q, sum(s) as s,
            case when bool_and(w) = bool_or(w)
-                then case when bool_and(w) then min(f) else max(f) end end,
-           bool_and(w)
-      from unnest(${sql.param(p.meterIds)}::uuid[], ${sql.param(p.starts)}::timestamptz[], ${sql.param(p.heats)}::numeric[],
-                  ${sql.param(p.entropies)}::numeric[], ${sql.param(p.flowLimits)}::numeric[], ${sql.param(p.heating)}::boolean[])
+                then case when bool_and(w) then min(f) else max(f) end end as f,
+           bool_and(w) as w
+      from unnest($2::uuid[], $3::timestamptz[], $4::numeric[], $5::numeric[], $6::numeric[], $7::boolean[])
            as u(m, h, q, s, f, w)
      group by m, h
-     order by m, h
+  ), before as (
+    select e.* from interval_exergy e join u on e.meter_id = u.m and e.interval_start = u.h
+     where e.organization_id = $1
+  ), after as (
+    -- Readings sharing an interval add, as their energies do in \`intervals\`;
+    -- the limit on T₀ is the stricter of theirs, or none when they disagree
+    -- on the direction (no exergy for a mixed interval).
+    insert into interval_exergy as e
+      (organization_id, meter_id, interval_start, heat_kwh, entropy_kwh_per_k, flow_limit_c, heating)
+    select $1, m, h, q, s, f, w from u order by m, h
     on conflict (organization_id, meter_id, interval_start) do update set
       heat_kwh = e.heat_kwh + excluded.heat_kwh,
       entropy_kwh_per_k = e.entropy_kwh_per_k + excluded.entropy_kwh_per_k,
       flow_limit_c = case when e.heating = excluded.heating then
           case when e.heating then least(e.flow_limit_c, excluded.flow_limit_c)
                else greatest(e.flow_limit_c, excluded.flow_limit_c) end end,
-      heating = e.heating and excluded.heating`);
+      heating = e.heating and excluded.heating
+    returning e.*
+  ), diff as materialized (
+    select meter_id, month, exergy, 1 as n from (${CONTRIBUTION.replace("%EXERGY%", "after")}) a
+    union all
+    select meter_id, month, -exergy, -1 from (${CONTRIBUTION.replace("%EXERGY%", "before")}) b
+  ), sums as (
+    select meter_id, month, sum(exergy) as exergy, sum(n)::int as n from diff group by 1, 2
+  ), keys as materialized (
+    select u.m as meter_id, s.id as site_id,
+           date_trunc('month', u.h at time zone s.time_zone)::date as month,
+           (u.h at time zone s.time_zone)::date as day
+      from u
+      join meters m on m.organization_id = $1 and m.id = u.m
+      join sites s on s.organization_id = m.organization_id and s.id = m.site_id
+  ), months as (
+    select distinct meter_id, month from keys
+  ), days as (
+    select distinct site_id, day from keys
+  )
+  select (select json_agg(json_build_object(
+                  'meterId', mo.meter_id, 'month', mo.month,
+                  'exergyKwh', coalesce(s.exergy, 0)::text, 'intervals', coalesce(s.n, 0))
+                order by mo.meter_id, mo.month)
+            from months mo left join sums s using (meter_id, month)) as months,
+         (select json_agg(json_build_object('siteId', d.site_id, 'day', d.day, 'meanTempC', w.mean_temp_c::text))
+            from days d
+            left join daily_weather w on w.organization_id = $1 and w.site_id = d.site_id and w.day = d.day) as weather`;
+
+/** Creates or locks, in key order, the months a batch moves. */
+const LOCK_MONTHS = `insert into monthly_exergy (organization_id, meter_id, month)
+  select $1, m, mo from unnest($2::uuid[], $3::date[]) as u(m, mo) order by m, mo
+  on conflict (organization_id, meter_id, month) do update set updated_at = now()`;
+
+/**
+ * Adds the months' differences, unless an outdoor mean they were computed
+ * with has changed since (weather committed in between): then nothing, and
+ * the caller recomputes those months.
+ */
+const ADD_TO_MONTHS = `with changed as (
+    select 1 from unnest($5::uuid[], $6::date[], $7::numeric[]) as f(site_id, day, t)
+      left join daily_weather w on w.organization_id = $1 and w.site_id = f.site_id and w.day = f.day
+     where w.mean_temp_c is distinct from f.t
+     limit 1
+  ), added as (
+    update monthly_exergy me
+       set exergy_exact_kwh = me.exergy_exact_kwh + d.x,
+           exergy_kwh = round(me.exergy_exact_kwh + d.x, 6),
+           intervals = me.intervals + d.n, updated_at = now()
+      from unnest($2::uuid[], $3::date[], $4::numeric[], $8::int[]) as d(m, mo, x, n)
+     where me.organization_id = $1 and me.meter_id = d.m and me.month = d.mo
+       and (d.x <> 0 or d.n <> 0) and not exists (select 1 from changed)
+    returning 1
+  )
+  select exists (select 1 from changed) as weather_changed`;
+
+/** What a batch's exergy does to its months, and the outdoor means that says it with. */
+export interface ReadingsExergy {
+  months: {
+    meterId: string;
+    month: string;
+    exergyKwh: string;
+    intervals: number;
+  }[];
+  weather: { siteId: string; day: string; meanTempC: string | null }[];
+  meterIds: string[];
+  from: Date;
+  to: Date;
+}
+
+/**
+ * The batch's water_heat readings into interval_exergy, with what their
+ * months gain; takes no lock another batch waits for (the intervals are
+ * already this batch's), so it runs before the rollups.
+ */
+export async function addReadingsExergy(
+  client: PoolClient,
+  organizationId: string,
+  readings: readonly PreparedReading[],
+): Promise<ReadingsExergy | null> {
+  const p = exergyPieces(readings);
+  if (p.meterIds.length === 0) return null;
   const times = p.starts.map((s) => Date.parse(s));
-  return {
-    meterIds: [...new Set(p.meterIds)],
-    from: new Date(Math.min(...times)),
-    to: new Date(Math.max(...times)),
-  };
+  const from = new Date(Math.min(...times));
+  const to = new Date(Math.max(...times));
+  const { rows } = await client.query<
+    Omit<ReadingsExergy, "meterIds" | "from" | "to">
+  >({
+    ...named(ADD_PIECES),
+    values: [
+      organizationId,
+      p.meterIds,
+      p.starts,
+      p.heats,
+      p.entropies,
+      p.flowLimits,
+      p.heating,
+      from,
+      to,
+    ],
+  });
+  return { ...rows[0], meterIds: [...new Set(p.meterIds)], from, to };
+}
+
+/**
+ * After the rollups: locks the months (key order), then adds what they
+ * gained. Locking first means a weather write either committed before (its
+ * means are seen, and the differences no longer hold: the months are
+ * recomputed) or waits for this commit and recomputes after it.
+ */
+export async function applyReadingsExergy(
+  client: PoolClient,
+  organizationId: string,
+  exergy: ReadingsExergy | null,
+): Promise<void> {
+  if (!exergy) return;
+  const { months, weather } = exergy;
+  await client.query({
+    ...named(LOCK_MONTHS),
+    values: [
+      organizationId,
+      months.map((m) => m.meterId),
+      months.map((m) => m.month),
+    ],
+  });
+  const { rows } = await client.query<{ weather_changed: boolean }>({
+    ...named(ADD_TO_MONTHS),
+    values: [
+      organizationId,
+      months.map((m) => m.meterId),
+      months.map((m) => m.month),
+      months.map((m) => m.exergyKwh),
+      weather.map((w) => w.siteId),
+      weather.map((w) => w.day),
+      weather.map((w) => w.meanTempC),
+      months.map((m) => m.intervals),
+    ],
+  });
+  if (rows[0].weather_changed)
+    await recomputeMeters(runnerOf(client), organizationId, exergy);
 }
 
 /**
@@ -129,22 +294,11 @@ async function recompute(
        group by mo.meter_id, mo.month
     )
     update monthly_exergy me
-       set exergy_kwh = sums.exergy, intervals = sums.n, updated_at = now()
+       set exergy_exact_kwh = sums.exergy, exergy_kwh = round(sums.exergy, 6),
+         intervals = sums.n, updated_at = now()
       from sums
      where me.organization_id = ${organizationId}::uuid
        and me.meter_id = sums.meter_id and me.month = sums.month`);
-}
-
-/** After a batch's intervals are written: its water_heat readings' exergy. */
-export async function storeReadingsExergy(
-  client: PoolClient,
-  organizationId: string,
-  readings: readonly PreparedReading[],
-): Promise<void> {
-  const runner = runnerOf(client);
-  const touched = await addPieces(runner, organizationId, readings);
-  if (!touched) return;
-  await recomputeMeters(runner, organizationId, touched);
 }
 
 /** Only meters with any interval exergy get a month of it. */

@@ -16,7 +16,10 @@ import {
   type ChangeAttribution,
   type RollupDelta,
 } from "~/ledger/refresh-rollups.server";
-import { storeReadingsExergy } from "~/exergy/exergy-store.server";
+import {
+  addReadingsExergy,
+  applyReadingsExergy,
+} from "~/exergy/exergy-store.server";
 import { intervalPieces } from "./interval-pieces";
 import { named } from "./named-statement.server";
 import { ensurePartitions } from "./partitions.server";
@@ -309,10 +312,15 @@ export async function storeReadings(
   );
   await recordConflicts(client, organizationId, batchId, conflicts);
   const deltas = await deriveHours(client, organizationId, fresh, touched);
-  // The ledger's monthly rollups move in the same transaction as the hours.
+  // Exergy beside the energy, for water_heat readings (app/exergy): the
+  // intervals' part now, while this batch waits for no other…
+  const exergy = await addReadingsExergy(client, organizationId, fresh);
+  // …then the months, which concurrent batches share: from their first lock
+  // to the commit, batches on the same months go one at a time, so only
+  // small statements run there. The ledger's monthly rollups move in the
+  // same transaction as the hours.
   await applyRollupDeltas(client, organizationId, deltas, change);
-  // Exergy beside the energy, for water_heat readings (app/exergy).
-  await storeReadingsExergy(client, organizationId, fresh);
+  await applyReadingsExergy(client, organizationId, exergy);
   return {
     accepted: fresh.length,
     repeats: repeats.length,

@@ -7,9 +7,18 @@
  *
  * The expected figures are the evaluate API's own `details.exergy_kwh` for
  * each reading at its day's mean (water-exergy.ts, IF97 region 1), summed:
- * the ledger must give that sum to the micro-kWh it is stored in.
+ * the ledger must give that sum to the micro-kWh it is stored in. A batch
+ * whose day's mean changes while it runs must not keep a difference computed
+ * at the old mean.
  */
+import { drizzle } from "drizzle-orm/node-postgres";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import {
+  addReadingsExergy,
+  applyReadingsExergy,
+  recomputeMeters,
+} from "../../app/exergy/exergy-store.server";
+import type { PreparedReading } from "../../app/ingest/prepare-readings.server";
 import { evaluateItem } from "../../app/physics/evaluate";
 import { pool } from "../support/db";
 import { Client } from "../support/http";
@@ -172,5 +181,63 @@ describe("exergy beside energy in the ledger", () => {
       [org.org.id, org.meters.water.id],
     );
     expect(rows).toEqual([{ intervals: 6 }]);
+  });
+
+  it("a batch whose outdoor mean changes before it locks its month recomputes the month", async () => {
+    const heat = org.meters.water;
+    const hour = new Date("2025-01-15T22:00:00Z");
+    // More heat into a stored interval, as a batch's water_heat reading adds it.
+    const reading = {
+      meter: { id: heat.id, intervalMinutes: 60 },
+      readingTime: hour,
+      endTime: new Date(hour.getTime() + HOUR),
+      exergyBasis: {
+        heatKwh: 7.5,
+        entropyKwhPerK: 0.02,
+        flowLimitC: 70,
+        heating: true,
+      },
+    } as unknown as PreparedReading;
+    const batch = await pool.connect();
+    try {
+      await batch.query("begin");
+      const exergy = await addReadingsExergy(batch, org.org.id, [reading]);
+      // Weather for that day commits (and recomputes the month) in between:
+      // the batch's difference, computed at the old mean, no longer holds.
+      expect((await uploadWeather([["2025-01-15", 1.5]])).status).toBe(200);
+      await applyReadingsExergy(batch, org.org.id, exergy);
+      await batch.query("commit");
+    } finally {
+      batch.release();
+    }
+    const read = async () =>
+      (
+        await pool.query(
+          `select exergy_exact_kwh::text, exergy_kwh::text, intervals from monthly_exergy
+            where organization_id = $1 and meter_id = $2`,
+          [org.org.id, heat.id],
+        )
+      ).rows;
+    const stored = await read();
+    const check = await pool.connect();
+    try {
+      await check.query("begin");
+      await recomputeMeters(drizzle(check), org.org.id, {
+        meterIds: [heat.id],
+        from: hour,
+        to: hour,
+      });
+      const recomputed = (
+        await check.query(
+          `select exergy_exact_kwh::text, exergy_kwh::text, intervals from monthly_exergy
+            where organization_id = $1 and meter_id = $2`,
+          [org.org.id, heat.id],
+        )
+      ).rows;
+      expect(stored).toEqual(recomputed);
+    } finally {
+      await check.query("rollback");
+      check.release();
+    }
   });
 });

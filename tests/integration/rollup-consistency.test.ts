@@ -9,9 +9,13 @@
  *
  * Every rollup must equal the numeric sum of its hours to the last digit, in
  * every column, at any moment; and a closed month's adjusting entries must
- * add up exactly to what changed in it after the close.
+ * add up exactly to what changed in it after the close. The heat meter's
+ * monthly exergy, which ingest moves by differences, must equal its full
+ * recompute (app/exergy) to the last digit too.
  */
+import { drizzle } from "drizzle-orm/node-postgres";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { recomputeMeters } from "../../app/exergy/exergy-store.server";
 import { Client } from "../support/http";
 import { pool } from "../support/db";
 import { estimationSettled } from "../support/estimation";
@@ -205,6 +209,74 @@ async function mismatches(org: MeteredOrg) {
   return rows;
 }
 
+/**
+ * The site's outdoor means over the readings' days: mild, cold, and one
+ * day warmer than some heating flows, on which those hours give no exergy.
+ */
+const WEATHER: [string, string][] = [
+  ["2026-03-28", "8.25"],
+  ["2026-03-29", "3.50"],
+  ["2026-03-30", "67.00"],
+  ["2026-03-31", "11.75"],
+  ["2026-04-01", "-2.25"],
+  ["2026-04-02", "9.00"],
+  ["2026-04-03", "5.50"],
+];
+
+async function addWeather(org: MeteredOrg) {
+  await pool.query(
+    `insert into daily_weather (organization_id, site_id, day, mean_temp_c, source)
+     select $1, $2, d, t, 'upload' from unnest($3::date[], $4::numeric[]) as u(d, t)`,
+    [
+      org.org.id,
+      org.siteId,
+      WEATHER.map(([d]) => d),
+      WEATHER.map(([, t]) => t),
+    ],
+  );
+}
+
+type ExergyMonth = { month: string; exact: string; kwh: string; n: number };
+
+/**
+ * The heat meter's monthly exergy as stored, beside what a full recompute
+ * gives (in a transaction rolled back, so nothing changes): equal, or the
+ * difference-keeping in ingest has drifted.
+ */
+async function exergyAgainstRecompute(org: MeteredOrg) {
+  const client = await pool.connect();
+  const read = async () =>
+    (
+      await client.query<ExergyMonth>(
+        `select to_char(month, 'YYYY-MM') as month, exergy_exact_kwh::text as exact,
+                exergy_kwh::text as kwh, intervals as n
+           from monthly_exergy where organization_id = $1 and meter_id = $2 order by month`,
+        [org.org.id, org.meters.water.id],
+      )
+    ).rows;
+  try {
+    await client.query("begin");
+    const stored = await read();
+    await recomputeMeters(drizzle(client), org.org.id, {
+      meterIds: [org.meters.water.id],
+      from: new Date(T0),
+      to: new Date(T0 + HOURS * HOUR_MS),
+    });
+    return { stored, recomputed: await read() };
+  } finally {
+    await client.query("rollback");
+    client.release();
+  }
+}
+
+async function expectExergyExact(org: MeteredOrg) {
+  const { stored, recomputed } = await exergyAgainstRecompute(org);
+  expect(stored).toEqual(recomputed);
+  // Both months, each with intervals counted (not a trivial zero).
+  expect(stored.map((m) => m.month)).toEqual(["2026-03", "2026-04"]);
+  for (const m of stored) expect(m.n).toBeGreaterThan(0);
+}
+
 async function marchRollups(org: MeteredOrg) {
   const { rows } = await pool.query<{ meter_id: string; energy_kwh: string }>(
     `select meter_id, energy_kwh::text from monthly_rollups
@@ -272,6 +344,7 @@ describe.each(SEEDS)(
 
     beforeAll(async () => {
       org = await createMeteredOrg({ roles: ["energy_manager"] });
+      await addWeather(org);
       manager = new Client();
       await manager.signIn(
         org.org.members[0].email,
@@ -290,6 +363,7 @@ describe.each(SEEDS)(
         150,
       );
       expect(await mismatches(org)).toEqual([]);
+      await expectExergyExact(org);
       await estimationSettled(org.org.id);
       const { rows: estimated } = await pool.query(
         `select 1 from intervals where organization_id = $1 and meter_id = $2 and quality = 'estimated'`,
@@ -305,6 +379,7 @@ describe.each(SEEDS)(
       ]);
       answers.push(...more);
       expect(await mismatches(org)).toEqual([]);
+      await expectExergyExact(org);
       await estimationSettled(org.org.id);
 
       // March closes; then late data and an edit arrive in it (and in April).
@@ -321,6 +396,7 @@ describe.each(SEEDS)(
       ]);
       answers.push(...late);
       expect(await mismatches(org)).toEqual([]);
+      await expectExergyExact(org);
       await estimationSettled(org.org.id);
 
       expect(await mismatches(org)).toEqual([]);
