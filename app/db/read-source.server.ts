@@ -19,7 +19,7 @@ import type { NextFunction, Request, Response } from "express";
 import pg from "pg";
 import { env } from "~/env.server";
 import { isDatabaseUnavailable } from "./availability.server";
-import { db, pool, type Database } from "./client.server";
+import { db, pool, SESSION_OPTIONS, type Database } from "./client.server";
 import * as schema from "./schema";
 
 export interface ReadSource {
@@ -51,6 +51,7 @@ function createReadPool(): pg.Pool | null {
   if (!url) return null;
   const created = new pg.Pool({
     connectionString: url,
+    options: SESSION_OPTIONS,
     max: 10,
     // A standby that does not answer quickly is skipped, not waited for.
     connectionTimeoutMillis: 2_000,
