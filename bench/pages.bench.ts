@@ -9,9 +9,13 @@
 // there (the Overview's bars, the Ledger's totals row, a chart, or the main
 // heading), and two animation frames have passed so the browser has painted
 // it. The two frames are in every page's figure alike.
+//
+// The site page (with its energy-balance diagram) and its Plant page are of
+// the demo's Leisure Pool, the site with the most flows (a fuel-cell CHP).
 
 import { execSync } from "node:child_process";
 import { chromium, type Browser, type Page } from "playwright-core";
+import { SITE } from "../seeds/scenario/larchmere-estate";
 import { printAim, printBenchLine } from "./aims";
 
 const BASE_URL = process.env.JOULEBOOK_URL ?? "http://127.0.0.1:3000";
@@ -25,7 +29,7 @@ interface BenchPage {
   /** Key in the BENCH line: `<key>_ms`. */
   key: string;
   label: string;
-  /** Path below the organisation, e.g. "overview". */
+  /** Path below the organisation, e.g. "overview"; `{site}` is the benched site's id. */
   path: string;
   /** The element drawn last; the main heading when nothing draws late. */
   settledWhen: string;
@@ -67,7 +71,50 @@ const PAGES: BenchPage[] = [
   },
   { key: "members", label: "Members", path: "members", settledWhen: "main h1" },
   { key: "audit", label: "Audit trail", path: "audit", settledWhen: "main h1" },
+  {
+    key: "tariffs",
+    label: "Tariffs",
+    path: "tariffs",
+    settledWhen: ".ag-row",
+  },
+  { key: "carbon", label: "Carbon", path: "carbon", settledWhen: "main h1" },
+  {
+    key: "budgets",
+    label: "Budgets",
+    path: "budgets",
+    settledWhen: "main h1",
+  },
+  {
+    key: "supplier_bills",
+    label: "Supplier bills",
+    path: "supplier-bills",
+    settledWhen: "main h1",
+  },
+  {
+    key: "site",
+    label: "Site (energy balance)",
+    path: "sites/{site}",
+    settledWhen: ".recharts-sankey-nodes rect",
+  },
+  {
+    key: "plant",
+    label: "Plant",
+    path: "sites/{site}/plant",
+    settledWhen: ".recharts-line-curve",
+  },
 ];
+
+/** The id of the demo site the site and Plant pages are benched on. */
+async function benchedSiteId(page: Page, orgPath: string): Promise<string> {
+  await page.goto(`${BASE_URL}${orgPath}/sites`);
+  const href = await page
+    .locator("main a", { hasText: SITE.pool })
+    .first()
+    .getAttribute("href");
+  const id = href && /\/sites\/([^/?#]+)/.exec(href)?.[1];
+  if (!id) throw new Error(`no link to ${SITE.pool} on the Sites page`);
+  return id;
+}
 
 function launchChromium(): Promise<Browser> {
   const executablePath = execSync(
@@ -141,6 +188,7 @@ export async function benchPages(): Promise<void> {
       viewport: { width: 1366, height: 900 },
     });
     const orgPath = await signIn(page);
+    const siteId = await benchedSiteId(page, orgPath);
     const times = new Map<string, number[]>(PAGES.map((p) => [p.key, []]));
     const documents = new Map<string, number[]>(PAGES.map((p) => [p.key, []]));
     // Run 0 warms the server's and the browser's caches; it is not counted.
@@ -148,7 +196,7 @@ export async function benchPages(): Promise<void> {
       for (const p of PAGES) {
         const ms = await settleMs(
           page,
-          `${BASE_URL}${orgPath}/${p.path}`,
+          `${BASE_URL}${orgPath}/${p.path.replace("{site}", siteId)}`,
           p.settledWhen,
         );
         if (run === 0) continue;

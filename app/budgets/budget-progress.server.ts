@@ -16,7 +16,7 @@ import {
   listBudgets,
   type CarbonTarget,
 } from "./budgets.server";
-import { ledgerCostByMonth } from "./ledger-cost.server";
+import { ledgerCostsBySupply, supplyKey } from "./ledger-cost.server";
 import { budgetProgress, sumDecimals, type Progress } from "./progress";
 import type { Budget } from "./budget-schema";
 
@@ -64,8 +64,11 @@ function sumBy<R>(
   value: (r: R) => string | null,
 ) {
   const groups = new Map<string, (string | null)[]>();
-  for (const r of rows)
-    groups.set(key(r), [...(groups.get(key(r)) ?? []), value(r)]);
+  for (const r of rows) {
+    const values = groups.get(key(r));
+    if (values) values.push(value(r));
+    else groups.set(key(r), [value(r)]);
+  }
   return new Map([...groups].map(([k, v]) => [k, sumDecimals(v)]));
 }
 
@@ -85,54 +88,68 @@ export async function yearProgress(args: {
       ? Number(current.slice(0, 4))
       : Number(current.slice(0, 4)) - 1);
   const span = financialYear(year, startMonth);
-  const [budgets, ledger, target] = await Promise.all([
+  // Independent reads at once; the carbon target's base year is read as
+  // soon as the target is known.
+  const [budgets, ledger, carbon] = await Promise.all([
     listBudgets(args.organizationId, year),
     ledgerRows({
       organizationId: args.organizationId,
       from: span.from,
       to: span.to,
     }),
-    getCarbonTarget(args.organizationId),
+    getCarbonTarget(args.organizationId).then(async (target) =>
+      target
+        ? {
+            target,
+            baseLedger: await baseYearLedger(
+              args.organizationId,
+              target,
+              startMonth,
+            ),
+          }
+        : null,
+    ),
   ]);
   const energyByMonth = sumBy(
     ledger.rows,
     (r) => `${r.site_id}|${r.carrier}|${r.month}`,
     (r) => r.imports_kwh,
   );
-  const progress = await Promise.all(
-    budgets.map(async (budget): Promise<BudgetProgress> => {
-      const key = (m: string) => `${budget.site_id}|${budget.carrier}|${m}`;
-      const energy = budgetProgress(
-        budget.months.map((m) => ({
-          month: m.month,
-          budget: m.energy_kwh,
-          actual: energyByMonth.get(key(m.month)) ?? null,
-        })),
-        lastMonthToDate,
-        3,
-      );
-      if (budget.amount === null) return { budget, energy, money: null };
-      const cost = await ledgerCostByMonth({
+  // Every budget's money from one query, not one per budget.
+  const costs = budgets.some((b) => b.amount !== null)
+    ? await ledgerCostsBySupply({
         organizationId: args.organizationId,
-        siteId: budget.site_id,
-        carrier: budget.carrier,
         from: span.from,
         to: span.to,
-      });
-      const money = cost.covered
-        ? budgetProgress(
-            budget.months.map((m) => ({
-              month: m.month,
-              budget: m.amount ?? "0",
-              actual: cost.months.get(m.month) ?? null,
-            })),
-            lastMonthToDate,
-            2,
-          )
-        : null;
-      return { budget, energy, money };
-    }),
-  );
+      })
+    : new Map<string, { months: Map<string, string> }>();
+  const progress = budgets.map((budget): BudgetProgress => {
+    const key = (m: string) => `${budget.site_id}|${budget.carrier}|${m}`;
+    const energy = budgetProgress(
+      budget.months.map((m) => ({
+        month: m.month,
+        budget: m.energy_kwh,
+        actual: energyByMonth.get(key(m.month)) ?? null,
+      })),
+      lastMonthToDate,
+      3,
+    );
+    if (budget.amount === null) return { budget, energy, money: null };
+    // No tariff covers the supply: no money actual.
+    const cost = costs.get(supplyKey(budget.site_id, budget.carrier));
+    const money = cost
+      ? budgetProgress(
+          budget.months.map((m) => ({
+            month: m.month,
+            budget: m.amount ?? "0",
+            actual: cost.months.get(m.month) ?? null,
+          })),
+          lastMonthToDate,
+          2,
+        )
+      : null;
+    return { budget, energy, money };
+  });
   return {
     year,
     label: span.label,
@@ -140,17 +157,31 @@ export async function yearProgress(args: {
     lastMonthToDate,
     startMonth,
     budgets: progress,
-    carbon: target
-      ? await carbonProgress(
-          args.organizationId,
-          target,
+    carbon: carbon
+      ? carbonProgress(
+          carbon.target,
+          carbon.baseLedger,
           span.months,
           ledger.rows,
-          startMonth,
           lastMonthToDate,
         )
       : null,
   };
+}
+
+/** The ledger of the carbon target's base year, and that year's months. */
+async function baseYearLedger(
+  organizationId: string,
+  target: CarbonTarget,
+  startMonth: number,
+) {
+  const base = financialYear(target.base_year, startMonth);
+  const { rows } = await ledgerRows({
+    organizationId,
+    from: base.from,
+    to: base.to,
+  });
+  return { months: base.months, rows };
 }
 
 type Row = Awaited<ReturnType<typeof ledgerRows>>["rows"][number];
@@ -162,22 +193,15 @@ const carbonOf = (basis: CarbonTarget["basis"]) => (r: Row) =>
  * The target's path through the year: each month's allowance is the base
  * year's same month less the reduction, so a cold month is allowed more.
  */
-async function carbonProgress(
-  organizationId: string,
+function carbonProgress(
   target: CarbonTarget,
+  base: Awaited<ReturnType<typeof baseYearLedger>>,
   months: string[],
   rows: Row[],
-  startMonth: number,
   lastMonthToDate: string,
-): Promise<CarbonProgress> {
-  const base = financialYear(target.base_year, startMonth);
-  const baseLedger = await ledgerRows({
-    organizationId,
-    from: base.from,
-    to: base.to,
-  });
+): CarbonProgress {
   const baseByIndex = sumBy(
-    baseLedger.rows,
+    base.rows,
     (r) => String(base.months.indexOf(r.month)),
     carbonOf(target.basis),
   );
