@@ -315,10 +315,24 @@ export function formatPercentPoints(
 
 /** Money held in minor units (pence, cents): 12345, "gbp" → "£123.45". */
 export function formatMoney(minor: number, currency: string): string {
-  return new Intl.NumberFormat(LOCALE, {
-    style: "currency",
-    currency: currency.toUpperCase(),
-  }).format(minor / 100);
+  return currencyFormat(currency).format(minor / 100);
+}
+
+// Made once per currency: building an Intl.NumberFormat costs far more than
+// formatting with it, and a page may show hundreds of amounts.
+const currencyFormats = new Map<string, Intl.NumberFormat>();
+
+function currencyFormat(currency: string): Intl.NumberFormat {
+  const code = currency.toUpperCase();
+  let format = currencyFormats.get(code);
+  if (!format) {
+    format = new Intl.NumberFormat(LOCALE, {
+      style: "currency",
+      currency: code,
+    });
+    currencyFormats.set(code, format);
+  }
+  return format;
 }
 
 /** An exact decimal as a person would type it: "250000.000000" → "250000". No float. */
@@ -328,8 +342,5 @@ export function decimalAsTyped(decimal: string): string {
 
 /** An exact decimal amount in its currency, to the currency's places: "1234.5678", "GBP" → "£1,234.57". */
 export function formatCost(decimal: string, currency: string): string {
-  return new Intl.NumberFormat(LOCALE, {
-    style: "currency",
-    currency: currency.toUpperCase(),
-  }).format(Number(decimal));
+  return currencyFormat(currency).format(Number(decimal));
 }
