@@ -1,7 +1,7 @@
 /**
  * A financial year's budgets against the ledger: each budget's months with
  * the actual energy (the ledger's delivered kWh, `imports_kwh`, of the site
- * and carrier) and the actual cost (the tariffs' monthly cost, ledgerCost),
+ * and carrier) and the actual cost (the tariffs' monthly cost, ledgerCostsBySupply),
  * the forecast to year end, and the carbon target's progress. Months up to
  * the last complete month count as actual; the rest are forecast
  * (progress.ts says how).

@@ -17,38 +17,15 @@ export interface CostQuery {
   to: string;
 }
 
-/** Each month's cost (YYYY-MM → decimal text); empty when no tariff covers the supply. */
-export async function ledgerCostByMonth(
-  query: CostQuery,
-): Promise<{ covered: boolean; months: Map<string, string> }> {
-  // The same freshness as the Ledger: months whose energy moved are priced again first.
-  await refreshStaleCosts(query.organizationId, query.from, query.to);
-  const { rows } = await db.execute<{
-    month: string | null;
-    cost: string | null;
-  }>(sql`select to_char(c.month, 'YYYY-MM') as month, sum(c.cost)::text as cost
-       from tariffs t
-       left join monthly_costs c
-         on c.organization_id = t.organization_id and c.tariff_id = t.id
-        and c.month between to_date(${query.from}, 'YYYY-MM') and to_date(${query.to}, 'YYYY-MM')
-      where t.organization_id = ${query.organizationId}
-        and t.site_id = ${query.siteId}::uuid and t.carrier::text = ${query.carrier}
-      group by c.month order by c.month`);
-  const months = new Map<string, string>();
-  for (const row of rows)
-    if (row.month && row.cost !== null) months.set(row.month, row.cost);
-  return { covered: rows.length > 0, months };
-}
-
 /** A supply's key in `ledgerCostsBySupply`: site and carrier. */
 export const supplyKey = (siteId: string, carrier: string) =>
   `${siteId}|${carrier}`;
 
 /**
- * `ledgerCostByMonth` of every site and carrier a tariff covers, from one
- * query and one freshness check: a page showing many budgets asks once,
- * not once per budget. Keyed by `supplyKey`; a supply without a tariff is
- * absent (not covered).
+ * Each month's cost (YYYY-MM → decimal text) of every site and carrier a
+ * tariff covers, from one query and one freshness check: a page showing
+ * many budgets asks once, not once per budget. Keyed by `supplyKey`; a
+ * supply without a tariff is absent (not covered).
  */
 export async function ledgerCostsBySupply(query: {
   organizationId: string;
