@@ -9,9 +9,13 @@
 // there (the Overview's bars, the Ledger's totals row, a chart, or the main
 // heading), and two animation frames have passed so the browser has painted
 // it. The two frames are in every page's figure alike.
+//
+// The site page (with its energy-balance diagram) and its Plant page are of
+// the demo's Leisure Pool, the site with the most flows (a fuel-cell CHP).
 
 import { execSync } from "node:child_process";
 import { chromium, type Browser, type Page } from "playwright-core";
+import { SITE } from "../seeds/scenario/larchmere-estate";
 import { printAim, printBenchLine } from "./aims";
 
 const BASE_URL = process.env.JOULEBOOK_URL ?? "http://127.0.0.1:3000";
@@ -25,10 +29,10 @@ interface BenchPage {
   /** Key in the BENCH line: `<key>_ms`. */
   key: string;
   label: string;
-  /** Path below the organisation, e.g. "overview". */
+  /** Path below the organisation, e.g. "overview"; `{site}` is the benched site's id. */
   path: string;
-  /** The element drawn last; the main heading when nothing draws late. */
-  settledWhen: string;
+  /** The elements drawn last (each must be there); the main heading when nothing draws late. */
+  settledWhen: string | string[];
 }
 
 const PAGES: BenchPage[] = [
@@ -36,13 +40,20 @@ const PAGES: BenchPage[] = [
     key: "overview",
     label: "Overview",
     path: "overview",
-    settledWhen: ".recharts-bar-rectangle",
+    // The energy chart's bars and the budget charts in the first screen
+    // (the others are drawn as they are scrolled to).
+    settledWhen: [
+      ".recharts-bar-rectangle",
+      '[data-testid^="budget-"] .recharts-bar-rectangle',
+    ],
   },
   {
     key: "weather",
     label: "Weather & baselines",
     path: "weather",
-    settledWhen: "main h1",
+    // The degree-day chart; the scatter below the fold is drawn as it is
+    // scrolled to (app/components/when-in-view.tsx).
+    settledWhen: ".recharts-bar-rectangle",
   },
   {
     key: "ledger",
@@ -67,7 +78,50 @@ const PAGES: BenchPage[] = [
   },
   { key: "members", label: "Members", path: "members", settledWhen: "main h1" },
   { key: "audit", label: "Audit trail", path: "audit", settledWhen: "main h1" },
+  {
+    key: "tariffs",
+    label: "Tariffs",
+    path: "tariffs",
+    settledWhen: ".ag-row",
+  },
+  { key: "carbon", label: "Carbon", path: "carbon", settledWhen: "main h1" },
+  {
+    key: "budgets",
+    label: "Budgets",
+    path: "budgets",
+    settledWhen: "main h1",
+  },
+  {
+    key: "supplier_bills",
+    label: "Supplier bills",
+    path: "supplier-bills",
+    settledWhen: "main h1",
+  },
+  {
+    key: "site",
+    label: "Site (energy balance)",
+    path: "sites/{site}",
+    settledWhen: ".recharts-sankey-nodes rect",
+  },
+  {
+    key: "plant",
+    label: "Plant",
+    path: "sites/{site}/plant",
+    settledWhen: ".recharts-line-curve",
+  },
 ];
+
+/** The id of the demo site the site and Plant pages are benched on. */
+async function benchedSiteId(page: Page, orgPath: string): Promise<string> {
+  await page.goto(`${BASE_URL}${orgPath}/sites`);
+  const href = await page
+    .locator("main a", { hasText: SITE.pool })
+    .first()
+    .getAttribute("href");
+  const id = href && /\/sites\/([^/?#]+)/.exec(href)?.[1];
+  if (!id) throw new Error(`no link to ${SITE.pool} on the Sites page`);
+  return id;
+}
 
 function launchChromium(): Promise<Browser> {
   const executablePath = execSync(
@@ -101,9 +155,14 @@ async function signIn(page: Page): Promise<string> {
 }
 
 /** Milliseconds from the navigation's start until the page has settled. */
-async function settleMs(page: Page, url: string, settledWhen: string) {
+async function settleMs(
+  page: Page,
+  url: string,
+  settledWhen: string | string[],
+) {
   await page.goto(url, { waitUntil: "load" });
-  await page.locator(settledWhen).first().waitFor();
+  for (const selector of [settledWhen].flat())
+    await page.locator(selector).first().waitFor();
   return page.evaluate(
     () =>
       new Promise<{ settled: number; document: number }>((resolve) =>
@@ -141,6 +200,7 @@ export async function benchPages(): Promise<void> {
       viewport: { width: 1366, height: 900 },
     });
     const orgPath = await signIn(page);
+    const siteId = await benchedSiteId(page, orgPath);
     const times = new Map<string, number[]>(PAGES.map((p) => [p.key, []]));
     const documents = new Map<string, number[]>(PAGES.map((p) => [p.key, []]));
     // Run 0 warms the server's and the browser's caches; it is not counted.
@@ -148,7 +208,7 @@ export async function benchPages(): Promise<void> {
       for (const p of PAGES) {
         const ms = await settleMs(
           page,
-          `${BASE_URL}${orgPath}/${p.path}`,
+          `${BASE_URL}${orgPath}/${p.path.replace("{site}", siteId)}`,
           p.settledWhen,
         );
         if (run === 0) continue;

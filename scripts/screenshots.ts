@@ -3,7 +3,10 @@
  * as a new user would: `node --import tsx scripts/screenshots.ts [baseUrl]`.
  */
 import { mkdirSync } from "node:fs";
-import { launchBrowser } from "../tests/support/browser";
+import {
+  drawChartsBelowTheFold,
+  launchBrowser,
+} from "../tests/support/browser";
 
 const base = process.argv[2] ?? "http://127.0.0.1:3000";
 const out = "screenshots";
@@ -32,6 +35,8 @@ for (const [label, viewport] of [
   // The Overview's chart and the Ledger's grid draw in the browser: wait for them.
   await page.goto(`${base}${orgPath}/overview`);
   await page.locator(".recharts-bar-rectangle").first().waitFor();
+  // Charts below the fold are drawn as they are scrolled to.
+  await drawChartsBelowTheFold(page);
   await page.screenshot({
     path: `${out}/${label}-overview.png`,
     fullPage: true,
@@ -59,6 +64,7 @@ for (const [label, viewport] of [
     await page.goto(new URL(path, `${base}${orgPath}/`).href, {
       waitUntil: "networkidle",
     });
+    await drawChartsBelowTheFold(page);
     await page.screenshot({
       path: `${out}/${label}-${path.replaceAll("../", "")}.png`,
       fullPage: true,

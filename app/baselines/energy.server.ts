@@ -71,6 +71,65 @@ export async function siteMonthlyEnergy(args: {
     }));
 }
 
+/** `siteMonthlyEnergy` of a site and carrier, keyed by `siteCarrierKey`. */
+export const siteCarrierKey = (siteId: string, carrier: string) =>
+  `${siteId}|${carrier}`;
+
+/**
+ * `siteMonthlyEnergy` of every site and carrier of the organisation from one
+ * query (the same sums, grouped by site and carrier as well): for pages that
+ * need many sites' figures at once.
+ */
+export async function monthlyEnergyBySiteAndCarrier(args: {
+  organizationId: string;
+  /** YYYY-MM, inclusive. */
+  from: string;
+  to: string;
+}): Promise<Map<string, SiteMonthlyEnergy[]>> {
+  const delivered = (kwh: AnyPgColumn) => sql`${deliveredSignOfMeter} * ${kwh}`;
+  const rows = await db
+    .select({
+      site_id: meters.siteId,
+      carrier: sql<string>`${meters.carrier}::text`,
+      month: sql<string>`to_char(${monthlyRollups.month}, 'YYYY-MM')`,
+      imports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
+      exports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'export'), 0)::text`,
+      estimated_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.estimatedKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
+      import_meters: sql<number>`count(*) filter (where ${meters.orientation} = 'import')::int`,
+    })
+    .from(monthlyRollups)
+    .innerJoin(meters, meterOfRollup)
+    .where(
+      and(
+        eq(monthlyRollups.organizationId, args.organizationId),
+        isNull(meters.parentMeterId),
+        eq(meters.position, "boundary"),
+        between(
+          monthlyRollups.month,
+          firstDayOf(args.from),
+          firstDayOf(args.to),
+        ),
+      ),
+    )
+    .groupBy(meters.siteId, meters.carrier, monthlyRollups.month)
+    .orderBy(monthlyRollups.month);
+  const bySupply = new Map<string, SiteMonthlyEnergy[]>();
+  for (const r of rows) {
+    if (r.import_meters === 0) continue;
+    const key = siteCarrierKey(r.site_id, r.carrier);
+    const months = bySupply.get(key) ?? [];
+    months.push({
+      month: r.month,
+      kwh: Number(r.imports_kwh),
+      estimatedKwh: Number(r.estimated_kwh),
+      importsKwh: Number(r.imports_kwh),
+      exportsKwh: Number(r.exports_kwh),
+    });
+    bySupply.set(key, months);
+  }
+  return bySupply;
+}
+
 /** The carriers a site's boundary import meters measure, and their months. */
 export async function siteCarriers(args: {
   organizationId: string;

@@ -2,7 +2,7 @@
  * Daily weather per site: stored from uploads (all rows or none) and from
  * the demo seed, and summed into monthly degree days in the site's months.
  */
-import { and, between, count, eq, max, min, sql } from "drizzle-orm";
+import { and, between, count, eq, inArray, max, min, sql } from "drizzle-orm";
 import { recordAudit } from "~/audit/record-audit.server";
 import { db } from "~/db/client.server";
 import { dailyWeather } from "~/db/schema";
@@ -160,6 +160,40 @@ export async function dailyTemperatures(args: {
     )
     .orderBy(dailyWeather.day);
   return rows.map((r) => ({ day: r.day, meanTempC: Number(r.t) }));
+}
+
+/**
+ * `dailyTemperatures` of several sites from one query: each site's days in
+ * the same order, so degree days summed from them are the same to the bit.
+ */
+export async function dailyTemperaturesOfSites(args: {
+  organizationId: string;
+  siteIds: string[];
+  from: string;
+  to: string;
+}): Promise<Map<string, DailyTemperature[]>> {
+  const bySite = new Map<string, DailyTemperature[]>(
+    args.siteIds.map((id) => [id, []]),
+  );
+  if (args.siteIds.length === 0) return bySite;
+  const rows = await db
+    .select({
+      siteId: dailyWeather.siteId,
+      day: dailyWeather.day,
+      t: dailyWeather.meanTempC,
+    })
+    .from(dailyWeather)
+    .where(
+      and(
+        eq(dailyWeather.organizationId, args.organizationId),
+        inArray(dailyWeather.siteId, args.siteIds),
+        between(dailyWeather.day, `${args.from}-01`, lastDayOf(args.to)),
+      ),
+    )
+    .orderBy(dailyWeather.siteId, dailyWeather.day);
+  for (const r of rows)
+    bySite.get(r.siteId)!.push({ day: r.day, meanTempC: Number(r.t) });
+  return bySite;
 }
 
 /**

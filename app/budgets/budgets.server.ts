@@ -6,8 +6,18 @@
  */
 import { and, asc, eq } from "drizzle-orm";
 import { recordAudit } from "~/audit/record-audit.server";
-import { fitSiteBaseline } from "~/baselines/baselines.server";
-import { siteMonthlyDegreeDays } from "~/baselines/weather.server";
+import { joinMonths, pointsIn } from "~/baselines/analysis";
+import {
+  monthlyDegreeDays,
+  type DailyTemperature,
+} from "~/baselines/degree-days";
+import {
+  monthlyEnergyBySiteAndCarrier,
+  siteCarrierKey,
+  type SiteMonthlyEnergy,
+} from "~/baselines/energy.server";
+import { fitBaseline } from "~/baselines/regression";
+import { dailyTemperaturesOfSites } from "~/baselines/weather.server";
 import { db } from "~/db/client.server";
 import { budgets, carbonTargets, sites } from "~/db/schema";
 import { financialYear } from "~/financial-year/financial-year";
@@ -36,33 +46,25 @@ export type BudgetOutcome =
  * alone weigh the months, and without weather the spread is flat
  * (docs/budgets.md).
  */
-async function degreeDayWeights(
+function degreeDayWeights(
   row: BudgetRow,
   months: string[],
-): Promise<number[] | undefined> {
-  const yearEarlier = (m: string) =>
-    `${Number(m.slice(0, 4)) - 1}${m.slice(4)}`;
+  weather: SpreadWeather,
+): number[] | undefined {
   const from = yearEarlier(months[0]);
   const to = yearEarlier(months[months.length - 1]);
   const driver = row.carrier === "cooling" ? "cdd" : "hdd";
-  const { points, outcome } = await fitSiteBaseline({
-    organizationId: row.organizationId,
-    site: {
-      id: row.siteId,
-      degreeDayBaseC: row.degreeDayBaseC,
-    },
-    carrier: row.carrier,
-    driver,
-    from,
-    to,
-  });
-  const dd = await siteMonthlyDegreeDays({
-    organizationId: row.organizationId,
-    siteId: row.siteId,
-    baseC: Number(row.degreeDayBaseC),
-    from,
-    to,
-  });
+  // What fitSiteBaseline fits, from figures read once for all budgets.
+  const dd = monthlyDegreeDays(
+    weather.temperatures.get(row.siteId) ?? [],
+    Number(row.degreeDayBaseC),
+    { from, to },
+  );
+  const energy = (
+    weather.energy.get(siteCarrierKey(row.siteId, row.carrier)) ?? []
+  ).filter((e) => e.month >= from && e.month <= to);
+  const points = pointsIn(joinMonths(dd, energy, driver), { from, to });
+  const outcome = fitBaseline(points);
   const byMonth = new Map(dd.map((d) => [d.month, d[driver]]));
   const degreeDays = months.map((m) => byMonth.get(yearEarlier(m)) ?? 0);
   if (!outcome.ok || points.length < months.length) return degreeDays;
@@ -70,16 +72,60 @@ async function degreeDayWeights(
   return degreeDays.map((d) => Math.max(0, intercept + slope * d));
 }
 
+const yearEarlier = (m: string) => `${Number(m.slice(0, 4)) - 1}${m.slice(4)}`;
+
+/** The year-earlier weather and energy that degree-day spreads are fitted on. */
+interface SpreadWeather {
+  temperatures: Map<string, DailyTemperature[]>;
+  energy: Map<string, SiteMonthlyEnergy[]>;
+}
+
+/**
+ * Read once for a list of budgets (two queries, not three per budget): the
+ * daily temperatures of their sites and the energy of every site and
+ * carrier over the months a year before their financial years.
+ */
+async function spreadWeather(
+  organizationId: string,
+  rows: BudgetRow[],
+  startMonth: number,
+): Promise<SpreadWeather> {
+  const fitted = rows.filter((r) => r.spread === "degree_days");
+  if (fitted.length === 0)
+    return { temperatures: new Map(), energy: new Map() };
+  const years = fitted.map((r) => r.financialYear);
+  const from = yearEarlier(
+    financialYear(Math.min(...years), startMonth).months[0],
+  );
+  const to = yearEarlier(
+    financialYear(Math.max(...years), startMonth).months[11],
+  );
+  const [temperatures, energy] = await Promise.all([
+    dailyTemperaturesOfSites({
+      organizationId,
+      siteIds: [...new Set(fitted.map((r) => r.siteId))],
+      from,
+      to,
+    }),
+    monthlyEnergyBySiteAndCarrier({ organizationId, from, to }),
+  ]);
+  return { temperatures, energy };
+}
+
 type BudgetRow = typeof budgets.$inferSelect & {
   siteName: string;
   degreeDayBaseC: string;
 };
 
-async function withSpread(row: BudgetRow, startMonth: number): Promise<Budget> {
+function withSpread(
+  row: BudgetRow,
+  startMonth: number,
+  weather: SpreadWeather,
+): Budget {
   const { months } = financialYear(row.financialYear, startMonth);
   const weights =
     row.spread === "degree_days"
-      ? await degreeDayWeights(row, months)
+      ? degreeDayWeights(row, months, weather)
       : undefined;
   const energy = spreadBudget(row.energyKwh, 12, 6, weights);
   const money =
@@ -129,7 +175,8 @@ export async function listBudgets(
       ),
     )
     .orderBy(asc(budgets.financialYear), asc(sites.name), asc(budgets.carrier));
-  return Promise.all(rows.map((row) => withSpread(row, startMonth)));
+  const weather = await spreadWeather(organizationId, rows, startMonth);
+  return rows.map((row) => withSpread(row, startMonth, weather));
 }
 
 const budgetColumns = {

@@ -246,15 +246,21 @@ export async function completeness(
     ),
     lt(intervals.intervalStart, now),
   );
-  // Both counts from one pass over the window's intervals.
+  // Both counts from one pass over the window's intervals. A month of an
+  // estate's intervals is a few tens of thousands of rows, counted in a few
+  // milliseconds; PostgreSQL would plan parallel workers for it, whose
+  // start-up cost the page paid many times over (docs/performance.md, "Pages").
   const [[counts], [installed]] = await Promise.all([
-    db
-      .select({
-        measured: sql<number>`(count(*) filter (where ${inArray(intervals.quality, ["measured", "edited"])}))::int`,
-        estimated: sql<number>`(count(*) filter (where ${eq(intervals.quality, "estimated")}))::int`,
-      })
-      .from(intervals)
-      .where(inWindow),
+    db.transaction(async (tx) => {
+      await tx.execute(sql`set local max_parallel_workers_per_gather = 0`);
+      return tx
+        .select({
+          measured: sql<number>`(count(*) filter (where ${inArray(intervals.quality, ["measured", "edited"])}))::int`,
+          estimated: sql<number>`(count(*) filter (where ${eq(intervals.quality, "estimated")}))::int`,
+        })
+        .from(intervals)
+        .where(inWindow);
+    }),
     db
       .select({
         perDay: sql<number>`coalesce(sum(1440 / ${meters.intervalMinutes}), 0)::int`,

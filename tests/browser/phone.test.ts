@@ -4,7 +4,11 @@
  */
 import type { Browser, Locator, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, signInPage } from "../support/browser";
+import {
+  drawChartsBelowTheFold,
+  launchBrowser,
+  signInPage,
+} from "../support/browser";
 import { db, pool, schema } from "../support/db";
 import { Client } from "../support/http";
 import { createMeteredOrg, type MeteredOrg } from "../support/metered-org";
@@ -60,6 +64,7 @@ afterAll(async () => {
 
 async function open(path: string) {
   await page.goto(`${baseUrl}${path}`, { waitUntil: "networkidle" });
+  await drawChartsBelowTheFold(page);
 }
 
 /** Whether the element lies wholly inside the screen's width. */

@@ -8,7 +8,11 @@
  */
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { launchBrowser, signInPage } from "../support/browser";
+import {
+  drawChartsBelowTheFold,
+  launchBrowser,
+  signInPage,
+} from "../support/browser";
 import { db, pool, schema } from "../support/db";
 import { createYearOfData, type YearOfData } from "../support/year-of-data";
 
@@ -52,6 +56,7 @@ const FORBIDDEN: [RegExp, string][] = [
 async function wordsOn(path: string, ready?: string): Promise<string> {
   await page.goto(`${baseUrl}${org}${path}`);
   if (ready) await page.locator(ready).first().waitFor();
+  await drawChartsBelowTheFold(page);
   return page.evaluate(() => {
     const body = document.body.cloneNode(true) as HTMLElement;
     body

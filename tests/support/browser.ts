@@ -77,3 +77,22 @@ export async function signInPage(
 /** The shell's main navigation as shown (desktop sidebar or open menu). */
 export const mainNav = (page: Page) =>
   page.getByRole("navigation", { name: "Main" }).filter({ visible: true });
+
+/**
+ * Scrolls to each chart drawn only once in view (app/components/when-in-view.tsx)
+ * and waits until it is drawn, so a test reads the whole page as a reader
+ * who scrolled through it would see it.
+ */
+export async function drawChartsBelowTheFold(page: Page): Promise<void> {
+  const waiting = page.locator('[data-when-in-view="waiting"]');
+  for (let left = await waiting.count(); left > 0;) {
+    await waiting.first().scrollIntoViewIfNeeded();
+    await page.waitForFunction(
+      (before) =>
+        document.querySelectorAll('[data-when-in-view="waiting"]').length <
+        before,
+      left,
+    );
+    left = await waiting.count();
+  }
+}

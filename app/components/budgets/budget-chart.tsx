@@ -12,6 +12,8 @@ import {
 import { CHART } from "~/components/chart-colours";
 import { formatNumber, formatTick } from "~/lib/format";
 
+export const BUDGET_CHART_HEIGHT = 240;
+
 export interface BudgetChartMonth {
   label: string;
   budget: number;
@@ -37,7 +39,7 @@ export function BudgetChart({
 }) {
   return (
     <div
-      style={{ width: "100%", height: 240 }}
+      style={{ width: "100%", height: BUDGET_CHART_HEIGHT }}
       role="img"
       aria-label={`Actual against ${budgetName.toLowerCase()} by month, in ${unit}, with the forecast to year end dashed`}
     >

@@ -1,5 +1,8 @@
-import { BrowserOnly } from "~/components/browser-only";
-import { BudgetChart } from "~/components/budgets/budget-chart";
+import {
+  BUDGET_CHART_HEIGHT,
+  BudgetChart,
+} from "~/components/budgets/budget-chart";
+import { WhenInView } from "~/components/when-in-view";
 import { CHART } from "~/components/chart-colours";
 import { SectionCard } from "~/components/section-card";
 import { decimalAsTyped, formatCost, formatNumber } from "~/lib/format";
@@ -72,14 +75,16 @@ export function BudgetOverview({ budgets }: { budgets: OverviewBudgets }) {
                 </dd>
               </div>
             </dl>
-            <BrowserOnly fallback={<div style={{ height: 240 }} />}>
+            {/* Most of these charts are below the fold: each is drawn as it
+                comes into view, not all at once when the page loads. */}
+            <WhenInView height={BUDGET_CHART_HEIGHT}>
               <BudgetChart
                 months={s.months}
                 unit={s.unit}
                 colour={colourOf(s.key, s.title)}
                 budgetName={s.key === "carbon" ? "Target" : "Budget"}
               />
-            </BrowserOnly>
+            </WhenInView>
           </figure>
         ))}
       </div>

@@ -1,8 +1,11 @@
 import { driverLabels } from "~/baselines/degree-days";
-import { BrowserOnly } from "~/components/browser-only";
 import { SectionCard } from "~/components/section-card";
 import type { AnalysisCardProps } from "~/components/weather/degree-days-by-month";
-import { BaselineScatter } from "~/components/weather/weather-charts";
+import {
+  BaselineScatter,
+  SCATTER_HEIGHT,
+} from "~/components/weather/weather-charts";
+import { WhenInView } from "~/components/when-in-view";
 
 /** Each month's energy against its degree days, with the baseline model's line. */
 export function EnergyAgainstDegreeDays({
@@ -11,7 +14,8 @@ export function EnergyAgainstDegreeDays({
 }: AnalysisCardProps) {
   return (
     <SectionCard headingId="scatter-heading" title="Energy against degree days">
-      <BrowserOnly>
+      {/* Below the fold on a laptop's screen: drawn as it is scrolled to. */}
+      <WhenInView height={SCATTER_HEIGHT}>
         <BaselineScatter
           carrier={carrier}
           baseline={analysis.basePoints}
@@ -19,7 +23,7 @@ export function EnergyAgainstDegreeDays({
           line={analysis.model}
           ddLabel={driverLabels[analysis.driver]}
         />
-      </BrowserOnly>
+      </WhenInView>
     </SectionCard>
   );
 }

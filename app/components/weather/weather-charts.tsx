@@ -172,6 +172,8 @@ export function DegreeDayChart({
   );
 }
 
+export const SCATTER_HEIGHT = 340;
+
 export interface ScatterPoint {
   month: string;
   dd: number;
@@ -208,7 +210,7 @@ export function BaselineScatter({
     `${monthShort(p.month)}: ${degreeDays(p.dd)}, ${kwh(p.kwh)}`;
   return (
     <div
-      style={{ width: "100%", height: 340 }}
+      style={{ width: "100%", height: SCATTER_HEIGHT }}
       role="img"
       aria-label={`Monthly energy against ${ddLabel.toLowerCase()}: ${baseline.length} baseline months, ${reporting.length} reporting months${line ? ", with the fitted line" : ""}`}
     >
