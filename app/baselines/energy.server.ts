@@ -25,6 +25,41 @@ export interface SiteMonthlyEnergy extends MonthlyEnergy {
   exportsKwh: number;
 }
 
+// Delivered energy of the boundary meters' rollups, one row a month (and a
+// site and carrier when grouped so): the sums both reads below share.
+const delivered = (kwh: AnyPgColumn) => sql`${deliveredSignOfMeter} * ${kwh}`;
+const monthlySums = {
+  month: sql<string>`to_char(${monthlyRollups.month}, 'YYYY-MM')`,
+  imports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
+  exports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'export'), 0)::text`,
+  estimated_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.estimatedKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
+  import_meters: sql<number>`count(*) filter (where ${meters.orientation} = 'import')::int`,
+};
+
+function boundaryMonths(organizationId: string, from: string, to: string) {
+  return and(
+    eq(monthlyRollups.organizationId, organizationId),
+    isNull(meters.parentMeterId),
+    eq(meters.position, "boundary"),
+    between(monthlyRollups.month, firstDayOf(from), firstDayOf(to)),
+  );
+}
+
+function monthlyEnergyOf(r: {
+  month: string;
+  imports_kwh: string;
+  exports_kwh: string;
+  estimated_kwh: string;
+}): SiteMonthlyEnergy {
+  return {
+    month: r.month,
+    kwh: Number(r.imports_kwh),
+    estimatedKwh: Number(r.estimated_kwh),
+    importsKwh: Number(r.imports_kwh),
+    exportsKwh: Number(r.exports_kwh),
+  };
+}
+
 export async function siteMonthlyEnergy(args: {
   organizationId: string;
   siteId: string;
@@ -33,42 +68,20 @@ export async function siteMonthlyEnergy(args: {
   from: string;
   to: string;
 }): Promise<SiteMonthlyEnergy[]> {
-  const delivered = (kwh: AnyPgColumn) => sql`${deliveredSignOfMeter} * ${kwh}`;
   const rows = await db
-    .select({
-      month: sql<string>`to_char(${monthlyRollups.month}, 'YYYY-MM')`,
-      imports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
-      exports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'export'), 0)::text`,
-      estimated_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.estimatedKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
-      import_meters: sql<number>`count(*) filter (where ${meters.orientation} = 'import')::int`,
-    })
+    .select(monthlySums)
     .from(monthlyRollups)
     .innerJoin(meters, meterOfRollup)
     .where(
       and(
-        eq(monthlyRollups.organizationId, args.organizationId),
+        boundaryMonths(args.organizationId, args.from, args.to),
         eq(meters.siteId, args.siteId),
         eq(meters.carrier, args.carrier),
-        isNull(meters.parentMeterId),
-        eq(meters.position, "boundary"),
-        between(
-          monthlyRollups.month,
-          firstDayOf(args.from),
-          firstDayOf(args.to),
-        ),
       ),
     )
     .groupBy(monthlyRollups.month)
     .orderBy(monthlyRollups.month);
-  return rows
-    .filter((r) => r.import_meters > 0)
-    .map((r) => ({
-      month: r.month,
-      kwh: Number(r.imports_kwh),
-      estimatedKwh: Number(r.estimated_kwh),
-      importsKwh: Number(r.imports_kwh),
-      exportsKwh: Number(r.exports_kwh),
-    }));
+  return rows.filter((r) => r.import_meters > 0).map(monthlyEnergyOf);
 }
 
 /** `siteMonthlyEnergy` of a site and carrier, keyed by `siteCarrierKey`. */
@@ -86,31 +99,15 @@ export async function monthlyEnergyBySiteAndCarrier(args: {
   from: string;
   to: string;
 }): Promise<Map<string, SiteMonthlyEnergy[]>> {
-  const delivered = (kwh: AnyPgColumn) => sql`${deliveredSignOfMeter} * ${kwh}`;
   const rows = await db
     .select({
       site_id: meters.siteId,
       carrier: sql<string>`${meters.carrier}::text`,
-      month: sql<string>`to_char(${monthlyRollups.month}, 'YYYY-MM')`,
-      imports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
-      exports_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.energyKwh)}) filter (where ${meters.orientation} = 'export'), 0)::text`,
-      estimated_kwh: sql<string>`coalesce(sum(${delivered(monthlyRollups.estimatedKwh)}) filter (where ${meters.orientation} = 'import'), 0)::text`,
-      import_meters: sql<number>`count(*) filter (where ${meters.orientation} = 'import')::int`,
+      ...monthlySums,
     })
     .from(monthlyRollups)
     .innerJoin(meters, meterOfRollup)
-    .where(
-      and(
-        eq(monthlyRollups.organizationId, args.organizationId),
-        isNull(meters.parentMeterId),
-        eq(meters.position, "boundary"),
-        between(
-          monthlyRollups.month,
-          firstDayOf(args.from),
-          firstDayOf(args.to),
-        ),
-      ),
-    )
+    .where(boundaryMonths(args.organizationId, args.from, args.to))
     .groupBy(meters.siteId, meters.carrier, monthlyRollups.month)
     .orderBy(monthlyRollups.month);
   const bySupply = new Map<string, SiteMonthlyEnergy[]>();
@@ -118,13 +115,7 @@ export async function monthlyEnergyBySiteAndCarrier(args: {
     if (r.import_meters === 0) continue;
     const key = siteCarrierKey(r.site_id, r.carrier);
     const months = bySupply.get(key) ?? [];
-    months.push({
-      month: r.month,
-      kwh: Number(r.imports_kwh),
-      estimatedKwh: Number(r.estimated_kwh),
-      importsKwh: Number(r.imports_kwh),
-      exportsKwh: Number(r.exports_kwh),
-    });
+    months.push(monthlyEnergyOf(r));
     bySupply.set(key, months);
   }
   return bySupply;

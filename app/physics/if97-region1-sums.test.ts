@@ -8,23 +8,12 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import {
+  liquidPairRecord,
   region1LiquidPairInRange,
   region1Properties,
   saturationPressureMpa,
-  type LiquidPair,
 } from "./if97";
 import { liquidWater, liquidWaterPair } from "./water-properties";
-
-function emptyPair(): LiquidPair {
-  return {
-    firstDensityKgPerM3: 0,
-    firstEnthalpyKjPerKg: 0,
-    firstEntropyKjPerKgK: 0,
-    secondDensityKgPerM3: 0,
-    secondEnthalpyKjPerKg: 0,
-    secondEntropyKjPerKgK: 0,
-  };
-}
 
 // A liquid state anywhere in region 1: T, and p from p_s(T) to 100 MPa.
 const region1State = fc
@@ -56,7 +45,7 @@ describe("region 1 pair for heat meters", () => {
         ({ tK, pMpa }, otherK) => {
           // Both states at one pressure: the second only where it is liquid.
           fc.pre(pMpa >= saturationPressureMpa(otherK));
-          const pair = emptyPair();
+          const pair = liquidPairRecord();
           region1LiquidPairInRange(pMpa, tK, otherK, pair);
           const first = region1Properties(pMpa, tK);
           const second = region1Properties(pMpa, otherK);
@@ -87,7 +76,7 @@ describe("region 1 pair for heat meters", () => {
     );
     fc.assert(
       fc.property(pressure, temperature, temperature, (p, flow, ret) => {
-        const pair = emptyPair();
+        const pair = liquidPairRecord();
         const fields = { first: "flowTempC", second: "returnTempC" };
         const short = outcome(() =>
           liquidWaterPair(p, flow, ret, fields, pair),
@@ -113,7 +102,7 @@ describe("region 1 pair for heat meters", () => {
   it("checks the phase of both states at the saturation line", () => {
     // 2 bar a boils at 120.21 °C [IF97 Eq. 31; steam tables, memory]:
     // a cool flow and a return past boiling is refused for the return.
-    const pair = emptyPair();
+    const pair = liquidPairRecord();
     const fields = { first: "flowTempC", second: "returnTempC" };
     expect(() => liquidWaterPair(2, 60, 125, fields, pair)).toThrow(
       /returnTempC: 125 °C is not liquid at 2 bar a/,

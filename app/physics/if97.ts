@@ -345,6 +345,18 @@ export interface LiquidPair {
   secondEntropyKjPerKgK: number;
 }
 
+/** A LiquidPair to fill, all zero. */
+export function liquidPairRecord(): LiquidPair {
+  return {
+    firstDensityKgPerM3: 0,
+    firstEnthalpyKjPerKg: 0,
+    firstEntropyKjPerKgK: 0,
+    secondDensityKgPerM3: 0,
+    secondEnthalpyKjPerKg: 0,
+    secondEntropyKjPerKgK: 0,
+  };
+}
+
 // γ, γπ·a and γτ·b of region 1, unrolled (the generated module says why).
 const R1_SUMS = new Float64Array(3);
 // ρ, h and s of one liquid state: ρ needs γπ, h needs γτ and s needs γ and

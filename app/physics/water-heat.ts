@@ -6,8 +6,8 @@
 // chilled water (flow colder than return) comes out negative by itself.
 
 import { requireNonNegative } from "./errors";
+import { liquidPairRecord } from "./if97";
 import { liquidWaterPair } from "./water-properties";
-import type { LiquidPair } from "./water-properties";
 
 export type SensorPosition = "flow" | "return";
 
@@ -36,14 +36,7 @@ const KJ_PER_KWH = 3600;
 
 // Scratch for the two states: JavaScript runs one call at a time per thread,
 // and waterHeat copies what it needs out before it returns.
-const STATES: LiquidPair = {
-  firstDensityKgPerM3: 0,
-  firstEnthalpyKjPerKg: 0,
-  firstEntropyKjPerKgK: 0,
-  secondDensityKgPerM3: 0,
-  secondEnthalpyKjPerKg: 0,
-  secondEntropyKjPerKgK: 0,
-};
+const STATES = liquidPairRecord();
 
 // The inputs' names, for an error about either temperature.
 const FIELDS = { first: "flowTempC", second: "returnTempC" } as const;
