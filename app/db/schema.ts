@@ -1241,6 +1241,8 @@ export const tankDeliveries = pgTable(
  * with temperatures that made it: Ex = heat − T₀·entropy (T₀ in K, the day's
  * outdoor mean), both signed into the site. Kept apart from `intervals` so
  * that exergy can be recomputed when a day's weather arrives later.
+ * Range-partitioned by month on interval_start like `intervals`, by hand in
+ * 0024 (Drizzle cannot declare it).
  */
 export const intervalExergy = pgTable(
   "interval_exergy",
@@ -1415,6 +1417,8 @@ export const gasMeterSettings = pgTable(
  * series: the volume at reference conditions, the CV used (null: none was
  * in effect yet, the energy is pending) and the kWh it gave. The interval's
  * energy is recomputed from these when a CV of its day changes.
+ * Range-partitioned by month on interval_start like `intervals`, by hand in
+ * 0024 (Drizzle cannot declare it).
  */
 export const gasIntervalVolumes = pgTable(
   "gas_interval_volumes",

@@ -181,6 +181,15 @@ describe("exergy beside energy in the ledger", () => {
       [org.org.id, org.meters.water.id],
     );
     expect(rows).toEqual([{ intervals: 6 }]);
+
+    // The interval-side rows sit in their month's partition, as intervals do
+    // (migration 0024; docs/scaling.md).
+    const { rows: homes } = await pool.query<{ home: string }>(
+      `select distinct tableoid::regclass::text as home from interval_exergy
+        where organization_id = $1 and meter_id = $2`,
+      [org.org.id, org.meters.water.id],
+    );
+    expect(homes).toEqual([{ home: "interval_exergy_2025_01" }]);
   });
 
   it("a batch whose outdoor mean changes before it locks its month recomputes the month", async () => {
