@@ -15,7 +15,7 @@ import {
   meterOfRollup,
 } from "~/db/conditions.server";
 import { meters, monthlyRollups } from "~/db/schema";
-import type { Carrier } from "~/sites/meter-kinds";
+import { siteCarrierKey, type Carrier } from "~/sites/meter-kinds";
 import type { MonthlyEnergy } from "./analysis";
 
 export interface SiteMonthlyEnergy extends MonthlyEnergy {
@@ -83,10 +83,6 @@ export async function siteMonthlyEnergy(args: {
     .orderBy(monthlyRollups.month);
   return rows.filter((r) => r.import_meters > 0).map(monthlyEnergyOf);
 }
-
-/** `siteMonthlyEnergy` of a site and carrier, keyed by `siteCarrierKey`. */
-export const siteCarrierKey = (siteId: string, carrier: string) =>
-  `${siteId}|${carrier}`;
 
 /**
  * `siteMonthlyEnergy` of every site and carrier of the organisation from one

@@ -16,11 +16,8 @@ import {
   listBudgets,
   type CarbonTarget,
 } from "./budgets.server";
-import {
-  ledgerCostsByMonth,
-  supplyKey,
-  type SupplyCost,
-} from "./ledger-cost.server";
+import { siteCarrierKey } from "~/sites/meter-kinds";
+import { ledgerCostsByMonth, type MonthlyCost } from "./ledger-cost.server";
 import { budgetProgress, sumDecimals, type Progress } from "./progress";
 import type { Budget } from "./budget-schema";
 
@@ -115,7 +112,7 @@ export async function yearProgress(args: {
           from: span.from,
           to: span.to,
         })
-      : new Map<string, SupplyCost>(),
+      : new Map<string, MonthlyCost>(),
     target
       ? carbonProgress(
           args.organizationId,
@@ -141,13 +138,14 @@ export async function yearProgress(args: {
       3,
     );
     if (budget.amount === null) return { budget, energy, money: null };
-    const cost = costs.get(supplyKey(budget.site_id, budget.carrier));
-    const money = cost?.covered
+    // No tariff covers the supply: no money actual.
+    const cost = costs.get(siteCarrierKey(budget.site_id, budget.carrier));
+    const money = cost
       ? budgetProgress(
           budget.months.map((m) => ({
             month: m.month,
             budget: m.amount ?? "0",
-            actual: cost.months.get(m.month) ?? null,
+            actual: cost.get(m.month) ?? null,
           })),
           lastMonthToDate,
           2,

@@ -13,7 +13,6 @@ import {
 } from "~/baselines/degree-days";
 import {
   monthlyEnergyBySiteAndCarrier,
-  siteCarrierKey,
   type SiteMonthlyEnergy,
 } from "~/baselines/energy.server";
 import { fitBaseline } from "~/baselines/regression";
@@ -22,6 +21,7 @@ import { db } from "~/db/client.server";
 import { budgets, carbonTargets, sites } from "~/db/schema";
 import { financialYear } from "~/financial-year/financial-year";
 import { financialYearStart } from "~/financial-year/financial-year.server";
+import { siteCarrierKey } from "~/sites/meter-kinds";
 import type { Budget, BudgetInput, CarbonTargetInput } from "./budget-schema";
 import { spreadBudget } from "./spread";
 

@@ -6,6 +6,7 @@
  */
 import { sql } from "drizzle-orm";
 import { db } from "~/db/client.server";
+import { siteCarrierKey } from "~/sites/meter-kinds";
 import { refreshStaleCosts } from "~/tariffs/costs.server";
 
 export interface CostQuery {
@@ -17,25 +18,17 @@ export interface CostQuery {
   to: string;
 }
 
-export interface SupplyCost {
-  /** False when no tariff covers the site and carrier. */
-  covered: boolean;
-  /** Each month's cost, YYYY-MM → decimal text. */
-  months: Map<string, string>;
-}
-
-/** The key of a site and carrier in ledgerCostsByMonth's answer. */
-export const supplyKey = (siteId: string, carrier: string) =>
-  `${siteId}|${carrier}`;
+/** Each month's cost of a supply, YYYY-MM → decimal text. */
+export type MonthlyCost = Map<string, string>;
 
 /**
  * Each month's cost of every site and carrier a tariff covers, in one read
- * (a year's budgets ask for many supplies): supplyKey → cost. A site and
- * carrier without a tariff is absent.
+ * (a year's budgets ask for many supplies), keyed by `siteCarrierKey`. A
+ * site and carrier without a tariff is absent.
  */
 export async function ledgerCostsByMonth(
   query: Omit<CostQuery, "siteId" | "carrier">,
-): Promise<Map<string, SupplyCost>> {
+): Promise<Map<string, MonthlyCost>> {
   // The same freshness as the Ledger: months whose energy moved are priced again first.
   await refreshStaleCosts(query.organizationId, query.from, query.to);
   const { rows } = await db.execute<{
@@ -51,12 +44,12 @@ export async function ledgerCostsByMonth(
         and c.month between to_date(${query.from}, 'YYYY-MM') and to_date(${query.to}, 'YYYY-MM')
       where t.organization_id = ${query.organizationId} and t.site_id is not null
       group by t.site_id, t.carrier, c.month order by c.month`);
-  const costs = new Map<string, SupplyCost>();
+  const costs = new Map<string, MonthlyCost>();
   for (const row of rows) {
-    const key = supplyKey(row.site_id, row.carrier);
-    const cost = costs.get(key) ?? { covered: true, months: new Map() };
-    costs.set(key, cost);
-    if (row.month && row.cost !== null) cost.months.set(row.month, row.cost);
+    const key = siteCarrierKey(row.site_id, row.carrier);
+    const months = costs.get(key) ?? new Map<string, string>();
+    costs.set(key, months);
+    if (row.month && row.cost !== null) months.set(row.month, row.cost);
   }
   return costs;
 }

@@ -43,6 +43,10 @@ export const carriers = [
 ] as const;
 export type Carrier = (typeof carriers)[number];
 
+/** A supply (a site and one carrier) as a map key, for figures read for many at once. */
+export const siteCarrierKey = (siteId: string, carrier: string) =>
+  `${siteId}|${carrier}`;
+
 export const carrierLabels: Record<Carrier, string> = {
   heat: "Heat",
   cooling: "Cooling",

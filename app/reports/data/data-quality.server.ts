@@ -17,6 +17,7 @@
  * in [month start, next month start) in the site's zone, so DST months and
  * zones whose midnight falls between two hours count right.
  */
+import { addDays, subDays } from "date-fns";
 import type pg from "pg";
 import { pool } from "~/db/client.server";
 import type { ReportPeriod } from "../periods";
@@ -27,8 +28,6 @@ import type { Carrier } from "./types";
 // Raw SQL, on purpose: one of loadReportData's loads, measured by `npm run bench reports`.
 // Each query is typed at its edge by the row shape it names (docs/architecture.md, "Data access").
 
-const DAY_MS = 24 * 60 * 60 * 1000;
-
 /**
  * The period in UTC widened by a day each side (every site's zone lies
  * within ±14 h of UTC), as constants. The month bounds in the query are
@@ -38,8 +37,8 @@ const DAY_MS = 24 * 60 * 60 * 1000;
  */
 function partitionBounds(period: ReportPeriod): [Date, Date] {
   return [
-    new Date(Date.parse(`${period.start}T00:00:00Z`) - DAY_MS),
-    new Date(Date.parse(`${period.end}T00:00:00Z`) + DAY_MS),
+    subDays(new Date(`${period.start}T00:00:00Z`), 1),
+    addDays(new Date(`${period.end}T00:00:00Z`), 1),
   ];
 }
 
